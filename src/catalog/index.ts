@@ -1,0 +1,4 @@
+export * from "./schema";
+export * from "./issues";
+export * from "./validate";
+export * from "./load";

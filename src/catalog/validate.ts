@@ -1,0 +1,181 @@
+import type { $ZodIssue } from "zod/v4/core";
+import { ArmSpecSchema, type ArmSpec } from "./schema";
+import { type ArmIssue, describeValue, toPath } from "./issues";
+import { compileChain, type Chain } from "../core";
+
+export type ValidatedArm =
+  | { readonly ok: true; readonly spec: ArmSpec; readonly chain: Chain; readonly issues: readonly ArmIssue[] }
+  | { readonly ok: false; readonly issues: readonly ArmIssue[] };
+
+type Loose = Record<string, unknown>;
+const isObject = (v: unknown): v is Loose => typeof v === "object" && v !== null && !Array.isArray(v);
+const isNumber = (v: unknown): v is number => typeof v === "number" && Number.isFinite(v);
+
+function zodIssueMessage(issue: $ZodIssue): string {
+  const input = (issue as { input?: unknown }).input;
+  switch (issue.code) {
+    case "invalid_type":
+      return input === undefined
+        ? `missing required field: expected ${issue.expected}`
+        : `expected ${issue.expected}, found ${describeValue(input)}`;
+    case "unrecognized_keys":
+      return `unknown field${issue.keys.length > 1 ? "s" : ""} ${issue.keys.map((k) => JSON.stringify(k)).join(", ")}: not part of the arm format (check spelling and the unit in the name)`;
+    case "invalid_value":
+      return `expected one of ${issue.values.map((v) => JSON.stringify(v)).join(", ")}, found ${describeValue(input)}`;
+    case "too_small":
+    case "too_big": {
+      const what = issue.origin === "array" ? "items" : issue.origin === "string" ? "characters" : "value";
+      const bound = issue.code === "too_small" ? issue.minimum : issue.maximum;
+      const op = issue.code === "too_small" ? (issue.inclusive ? ">=" : ">") : issue.inclusive ? "<=" : "<";
+      const found = issue.origin === "array" && Array.isArray(input) ? `${input.length} items` : describeValue(input);
+      return `expected ${what} ${op} ${String(bound)}, found ${found}`;
+    }
+    default:
+      return `${issue.message.replace(/^Invalid input: /, "")}${input !== undefined ? `, found ${describeValue(input)}` : ""}`;
+  }
+}
+
+/**
+ * Validates one parsed arm file: the schema, then the cross-field rules, then compilation into a chain.
+ * Reports every issue found, not only the first. `fileId` is the file name without `.json`.
+ */
+export function validateArm(data: unknown, file: string, fileId: string): ValidatedArm {
+  const issues: ArmIssue[] = [];
+  const error = (path: string, message: string) => issues.push({ file, path, message, severity: "error" });
+  const parsed = ArmSpecSchema.safeParse(data, { reportInput: true });
+  if (!parsed.success) {
+    for (const issue of parsed.error.issues) error(toPath(issue.path), zodIssueMessage(issue));
+  }
+  for (const s of semanticIssues(data)) error(s.path, s.message);
+  if (isObject(data) && typeof data.id === "string" && data.id !== fileId) {
+    error("id", `expected the file name "${fileId}", found ${describeValue(data.id)} (the id is the file name and the URL)`);
+  }
+  if (issues.length > 0 || !parsed.success) return { ok: false, issues: dedupe(issues) };
+  let chain: Chain;
+  try {
+    chain = compileChain(parsed.data);
+  } catch (e) {
+    error("joints", `the chain cannot be built: ${e instanceof Error ? e.message : String(e)}`);
+    return { ok: false, issues };
+  }
+  return { ok: true, spec: parsed.data, chain, issues };
+}
+
+function dedupe(issues: ArmIssue[]): ArmIssue[] {
+  const seen = new Set<string>();
+  return issues.filter((i) => {
+    const key = `${i.path}\u0000${i.message}`;
+    if (seen.has(key)) return false;
+    seen.add(key);
+    return true;
+  });
+}
+
+interface PathMessage {
+  readonly path: string;
+  readonly message: string;
+}
+
+/**
+ * Rules a type cannot express, run defensively on the raw file so they are reported together with schema issues:
+ * the parameter block matches the convention, fields match the joint kind, driven joints have a range and a speed,
+ * passive joints have none, couplings name earlier joints of the same kind, at least one joint is driven,
+ * axes are unit vectors, and names used elsewhere exist.
+ */
+export function semanticIssues(data: unknown): PathMessage[] {
+  const out: PathMessage[] = [];
+  if (!isObject(data)) {
+    out.push({ path: "", message: `expected a JSON object describing one arm, found ${describeValue(data)}` });
+    return out;
+  }
+  const convention = data.convention;
+  const joints = Array.isArray(data.joints) ? data.joints : [];
+  const names = new Map<string, number>();
+  const kinds: (string | undefined)[] = [];
+  let driven = 0;
+  joints.forEach((j, i) => {
+    const at = (field?: string) => toPath(field ? ["joints", i, field] : ["joints", i]);
+    if (!isObject(j)) return;
+    const kind = typeof j.kind === "string" ? j.kind : undefined;
+    kinds.push(kind);
+    if (typeof j.name === "string") {
+      if (names.has(j.name)) out.push({ path: at("name"), message: `expected a unique joint name, found ${describeValue(j.name)} again (first at joints[${names.get(j.name)}])` });
+      else names.set(j.name, i);
+    }
+    // Parameter block must match the convention.
+    const blocks = { dh: "dh", mdh: "mdh", frames: "origin" } as const;
+    if (convention === "dh" || convention === "mdh" || convention === "frames") {
+      const want = blocks[convention];
+      if (j[want] === undefined) out.push({ path: at(want), message: `missing required field: convention "${convention}" needs "${want}" on every joint` });
+      if (convention === "frames" && j.axis === undefined) out.push({ path: at("axis"), message: `missing required field: convention "frames" needs a unit "axis" on every joint` });
+      for (const other of ["dh", "mdh", "origin", "axis"] as const) {
+        if (other === want || (convention === "frames" && other === "axis")) continue;
+        if (j[other] !== undefined) out.push({ path: at(other), message: `not used with convention "${convention}": expected ${convention === "frames" ? "origin and axis" : want}` });
+      }
+    }
+    if (Array.isArray(j.axis) && j.axis.length === 3 && j.axis.every(isNumber)) {
+      const len = Math.hypot(j.axis[0] as number, j.axis[1] as number, j.axis[2] as number);
+      if (!(Math.abs(len - 1) <= 1e-3)) out.push({ path: at("axis"), message: `expected a unit vector (length 1 ± 0.001), found length ${len.toPrecision(4)}` });
+    }
+    // Fields must match the kind.
+    const degFields = ["rangeDeg", "maxSpeedDegPerS", "maxAccelDegPerS2", "ratedTorqueNm"];
+    const mmFields = ["rangeMm", "maxSpeedMmPerS", "maxAccelMmPerS2", "ratedForceN"];
+    const wrong = kind === "revolute" ? mmFields : kind === "prismatic" ? degFields : [];
+    for (const f of wrong) {
+      if (j[f] !== undefined) out.push({ path: at(f), message: `not used on a ${kind} joint: expected ${kind === "revolute" ? degFields[mmFields.indexOf(f)] : mmFields[degFields.indexOf(f)]}` });
+    }
+    const rangeField = kind === "prismatic" ? "rangeMm" : "rangeDeg";
+    const speedField = kind === "prismatic" ? "maxSpeedMmPerS" : "maxSpeedDegPerS";
+    const coupling = j.coupling;
+    const passive = coupling !== undefined && j[rangeField] === undefined;
+    if (passive) {
+      for (const f of [speedField, kind === "prismatic" ? "maxAccelMmPerS2" : "maxAccelDegPerS2", kind === "prismatic" ? "ratedForceN" : "ratedTorqueNm"]) {
+        if (j[f] !== undefined) out.push({ path: at(f), message: `a passive joint (coupling and no ${rangeField}) has no ${f} of its own` });
+      }
+    } else if (kind === "revolute" || kind === "prismatic") {
+      driven++;
+      if (j[rangeField] === undefined) out.push({ path: at(rangeField), message: `missing required field: a driven ${kind} joint needs ${rangeField} [min, max]` });
+      if (j[speedField] === undefined) out.push({ path: at(speedField), message: `missing required field: a driven ${kind} joint needs ${speedField}` });
+    }
+    if (isObject(coupling) && Array.isArray(coupling.terms)) {
+      coupling.terms.forEach((t, k) => {
+        if (!isObject(t) || typeof t.joint !== "string") return;
+        const p = toPath(["joints", i, "coupling", "terms", k, "joint"]);
+        const target = names.get(t.joint);
+        if (t.joint === j.name) out.push({ path: p, message: `a joint cannot follow itself, found ${describeValue(t.joint)}` });
+        else if (target === undefined) {
+          const later = joints.findIndex((o, idx) => idx > i && isObject(o) && o.name === t.joint);
+          out.push({ path: p, message: later >= 0 ? `expected an earlier joint, found ${describeValue(t.joint)} which comes later (joints[${later}]); couplings follow the chain from base to flange` : `expected the name of an earlier joint, found ${describeValue(t.joint)} which is not a joint of this arm` });
+        } else if (kinds[target] !== kind) {
+          out.push({ path: p, message: `expected a ${kind} joint (gains are unitless), found ${describeValue(t.joint)} which is ${kinds[target]}` });
+        }
+      });
+      if (kind === "revolute" && coupling.offsetMm !== undefined) out.push({ path: toPath(["joints", i, "coupling", "offsetMm"]), message: "not used on a revolute joint: expected offsetDeg" });
+      if (kind === "prismatic" && coupling.offsetDeg !== undefined) out.push({ path: toPath(["joints", i, "coupling", "offsetDeg"]), message: "not used on a prismatic joint: expected offsetMm" });
+    }
+  });
+  if (joints.length > 0 && driven === 0) {
+    out.push({ path: "joints", message: "expected at least one driven joint (with a range and a speed): with every joint passive the flange cannot move" });
+  }
+  const known = (name: unknown) => typeof name === "string" && names.has(name);
+  if (isObject(data.wristCentre) && Array.isArray(data.wristCentre.joints)) {
+    data.wristCentre.joints.forEach((name, k) => {
+      if (!known(name)) out.push({ path: toPath(["wristCentre", "joints", k]), message: `expected a joint name of this arm, found ${describeValue(name)}` });
+    });
+  }
+  if (isObject(data.wrist)) {
+    for (const key of ["momentNm", "inertiaKgM2"] as const) {
+      const rec = data.wrist[key];
+      if (!isObject(rec)) continue;
+      for (const name of Object.keys(rec)) {
+        if (!known(name)) out.push({ path: toPath(["wrist", key, name]), message: `expected a joint name of this arm, found ${describeValue(name)}` });
+      }
+    }
+  }
+  if (Array.isArray(data.links)) {
+    data.links.forEach((l, k) => {
+      if (isObject(l) && l.after !== undefined && !known(l.after)) out.push({ path: toPath(["links", k, "after"]), message: `expected a joint name of this arm, found ${describeValue(l.after)}` });
+    });
+  }
+  return out;
+}

@@ -1,0 +1,110 @@
+/**
+ * armdex command line: thin entry points over the catalog and the core.
+ *   armdex check [paths…]                         validate arm files or folders (default: arms/)
+ *   armdex pose <arm.json> --joints q1,q2,… [--tool x,y,z] [--allow-outside]
+ *   armdex schema [out.json]                      write the JSON Schema of the arm format
+ * Exit codes: 0 success, 1 invalid arm data, 2 usage error.
+ */
+import { parseArgs } from "node:util";
+import { mkdir, rename, writeFile } from "node:fs/promises";
+import { dirname } from "node:path";
+import { armJsonSchema, formatIssue, loadArmFile, loadArms } from "../catalog";
+import { poseCommand } from "./pose";
+import { stringifyCompact } from "./json";
+
+export class UsageError extends Error {}
+
+const HELP = `armdex — arm catalog tools
+
+usage:
+  armdex check [paths…]          validate arm files or folders (default: arms/); exit 1 on any error
+  armdex pose <arm.json> --joints q1,q2,… [--tool x,y,z] [--allow-outside]
+                                 pose, Jacobian and singular values as JSON (joints in deg or mm; tool in mm)
+  armdex schema [out.json]       write the arm JSON Schema (default: public/schema/arm.schema.json)
+`;
+
+async function check(paths: string[], json: boolean): Promise<number> {
+  const { arms, issues } = await loadArms(paths.length ? paths : ["arms"]);
+  const errors = issues.filter((i) => i.severity === "error");
+  const warnings = issues.filter((i) => i.severity === "warning");
+  if (json) {
+    process.stdout.write(`${JSON.stringify({ valid: arms.map((a) => a.id), errors, warnings }, null, 2)}\n`);
+  } else {
+    for (const i of issues) (i.severity === "error" ? process.stderr : process.stdout).write(`${formatIssue(i)}\n`);
+    const files = new Set(issues.map((i) => i.file)).size;
+    process.stdout.write(
+      `${arms.length} arm${arms.length === 1 ? "" : "s"} valid; ${errors.length} error${errors.length === 1 ? "" : "s"}` +
+        `${errors.length ? ` in ${new Set(errors.map((e) => e.file)).size} file(s)` : ""}, ${warnings.length} warning${warnings.length === 1 ? "" : "s"}${files ? "" : ""}\n`,
+    );
+  }
+  return errors.length > 0 ? 1 : 0;
+}
+
+/** Writes a file atomically: a temporary file in the same folder, then rename. */
+export async function writeFileAtomic(path: string, content: string): Promise<void> {
+  await mkdir(dirname(path), { recursive: true });
+  const tmp = `${path}.${process.pid}.tmp`;
+  await writeFile(tmp, content);
+  await rename(tmp, path);
+}
+
+async function schema(out: string | undefined): Promise<number> {
+  const path = out ?? "public/schema/arm.schema.json";
+  await writeFileAtomic(path, `${JSON.stringify(armJsonSchema(), null, 2)}\n`);
+  process.stdout.write(`wrote ${path}\n`);
+  return 0;
+}
+
+export async function main(argv: string[]): Promise<number> {
+  const [command, ...rest] = argv;
+  if (!command || command === "help" || command === "--help" || command === "-h") {
+    process.stdout.write(HELP);
+    return command ? 0 : 2;
+  }
+  switch (command) {
+    case "check": {
+      const { values, positionals } = parseArgs({ args: rest, allowPositionals: true, options: { json: { type: "boolean" } } });
+      return check(positionals, values.json ?? false);
+    }
+    case "pose": {
+      const { values, positionals } = parseArgs({
+        args: rest,
+        allowPositionals: true,
+        options: { joints: { type: "string" }, tool: { type: "string" }, "allow-outside": { type: "boolean" } },
+      });
+      if (positionals.length !== 1) throw new UsageError("pose needs exactly one arm file");
+      if (!values.joints) throw new UsageError("pose needs --joints q1,q2,… (driven joints, deg or mm)");
+      const loaded = await loadArmFile(positionals[0]!);
+      if (!loaded.arm) {
+        for (const i of loaded.issues) process.stderr.write(`${formatIssue(i)}\n`);
+        return 1;
+      }
+      const result = poseCommand(loaded.arm, values.joints, values.tool, values["allow-outside"] ?? false);
+      if (!result.ok) {
+        process.stderr.write(`error: ${result.message}\n`);
+        return result.usage ? 2 : 1;
+      }
+      process.stdout.write(`${stringifyCompact(result.value)}\n`);
+      return 0;
+    }
+    case "schema":
+      return schema(rest[0]);
+    default:
+      throw new UsageError(`unknown command "${command}"`);
+  }
+}
+
+main(process.argv.slice(2)).then(
+  (code) => {
+    process.exitCode = code;
+  },
+  (e: unknown) => {
+    if (e instanceof UsageError || (e instanceof TypeError && (e as { code?: string }).code?.startsWith("ERR_PARSE_ARGS"))) {
+      process.stderr.write(`error: ${e.message}\n\n${HELP}`);
+      process.exitCode = 2;
+    } else {
+      process.stderr.write(`error: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}\n`);
+      process.exitCode = 1;
+    }
+  },
+);

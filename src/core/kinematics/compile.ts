@@ -1,0 +1,299 @@
+import type { Chain, WristCentre } from "./chain";
+import { fromXyzRpyInto, identity4Into, mul4Into, rotationAxisAngleInto, translationInto } from "../math/mat4";
+import { degToRad, mmToM } from "../units";
+import { createScratch, forwardInto } from "./forward";
+
+/** Denavit–Hartenberg parameters as they appear in an arm file (mm, deg). */
+export interface DhParamsInput {
+  readonly aMm: number;
+  readonly alphaDeg: number;
+  readonly dMm: number;
+  readonly thetaDeg: number;
+}
+
+export interface FrameInput {
+  readonly xyzMm: readonly [number, number, number] | readonly number[];
+  readonly rpyDeg: readonly [number, number, number] | readonly number[];
+}
+
+export interface CouplingInput {
+  readonly terms: readonly { readonly joint: string; readonly gain: number }[];
+  readonly offsetDeg?: number | undefined;
+  readonly offsetMm?: number | undefined;
+}
+
+/** One joint as an arm file describes it (file units). The catalog validates; compile trusts its input. */
+export interface JointInput {
+  readonly name: string;
+  readonly kind: "revolute" | "prismatic";
+  readonly dh?: DhParamsInput | undefined;
+  readonly mdh?: DhParamsInput | undefined;
+  readonly origin?: FrameInput | undefined;
+  readonly axis?: readonly number[] | undefined;
+  readonly rangeDeg?: readonly number[] | undefined;
+  readonly rangeMm?: readonly number[] | undefined;
+  readonly maxSpeedDegPerS?: number | undefined;
+  readonly maxSpeedMmPerS?: number | undefined;
+  readonly maxAccelDegPerS2?: number | undefined;
+  readonly maxAccelMmPerS2?: number | undefined;
+  readonly ratedTorqueNm?: number | undefined;
+  readonly ratedForceN?: number | undefined;
+  readonly coupling?: CouplingInput | undefined;
+}
+
+export interface ArmKinematicsInput {
+  readonly convention: "dh" | "mdh" | "frames";
+  readonly joints: readonly JointInput[];
+  readonly flange: FrameInput;
+  readonly wristCentre?: { readonly joints: readonly string[] } | undefined;
+}
+
+/** A joint is driven when it has its own range; a joint with a coupling and no range is passive. */
+export function isDrivenJoint(joint: JointInput): boolean {
+  return joint.rangeDeg !== undefined || joint.rangeMm !== undefined || joint.coupling === undefined;
+}
+
+function poseFromFrame(out: Float64Array, f: FrameInput): Float64Array {
+  return fromXyzRpyInto(
+    out,
+    mmToM(f.xyzMm[0]!), mmToM(f.xyzMm[1]!), mmToM(f.xyzMm[2]!),
+    degToRad(f.rpyDeg[0]!), degToRad(f.rpyDeg[1]!), degToRad(f.rpyDeg[2]!),
+  );
+}
+
+function mulNew(a: Float64Array, b: Float64Array): Float64Array {
+  return mul4Into(new Float64Array(16), a, b);
+}
+
+function rotX(rad: number): Float64Array {
+  return rotationAxisAngleInto(new Float64Array(16), 1, 0, 0, rad);
+}
+function rotZ(rad: number): Float64Array {
+  return rotationAxisAngleInto(new Float64Array(16), 0, 0, 1, rad);
+}
+function trans(x: number, y: number, z: number): Float64Array {
+  return translationInto(new Float64Array(16), x, y, z);
+}
+
+/**
+ * Compiles an arm description (standard DH, modified DH or explicit frames; file units) into the chain form
+ * F₀·M₁·F₁⋯Mₙ·Fₙ in SI, with the coupling matrix and the wrist centre.
+ *
+ * - Standard DH (Spong et al.): Aᵢ = Rz(θᵢ)·Tz(dᵢ)·Tx(aᵢ)·Rx(αᵢ); the joint variable adds to θᵢ or dᵢ.
+ * - Modified DH (Craig): Aᵢ = Rx(αᵢ₋₁)·Tx(aᵢ₋₁)·Rz(θᵢ)·Tz(dᵢ); the row of joint i holds aᵢ₋₁ and αᵢ₋₁.
+ * - Frames (as URDF): joint origin (xyz, rpy) in the previous joint's frame, then motion about/along `axis`.
+ * @throws RangeError when the input breaks a rule validation should have caught (programmer error)
+ */
+export function compileChain(input: ArmKinematicsInput): Chain {
+  const joints = input.joints;
+  const n = joints.length;
+  if (n === 0) throw new RangeError("invalid chain: no joints");
+  const names = joints.map((j) => j.name);
+  const indexOf = new Map(names.map((name, i) => [name, i] as const));
+  if (indexOf.size !== n) throw new RangeError("invalid chain: duplicate joint names");
+
+  const pre: Float64Array[] = [];
+  const post: Float64Array[] = [];
+  const axisLocal = new Float64Array(3 * n);
+  const isPrismatic = new Uint8Array(n);
+  joints.forEach((j, i) => {
+    isPrismatic[i] = j.kind === "prismatic" ? 1 : 0;
+    if (input.convention === "dh") {
+      const p = j.dh;
+      if (!p) throw new RangeError(`invalid joint ${j.name}: missing dh`);
+      pre.push(identity4Into(new Float64Array(16)));
+      axisLocal[3 * i + 2] = 1;
+      post.push(mulNew(mulNew(rotZ(degToRad(p.thetaDeg)), trans(0, 0, mmToM(p.dMm))), mulNew(trans(mmToM(p.aMm), 0, 0), rotX(degToRad(p.alphaDeg)))));
+    } else if (input.convention === "mdh") {
+      const p = j.mdh;
+      if (!p) throw new RangeError(`invalid joint ${j.name}: missing mdh`);
+      pre.push(mulNew(rotX(degToRad(p.alphaDeg)), trans(mmToM(p.aMm), 0, 0)));
+      axisLocal[3 * i + 2] = 1;
+      post.push(mulNew(rotZ(degToRad(p.thetaDeg)), trans(0, 0, mmToM(p.dMm))));
+    } else {
+      const o = j.origin, a = j.axis;
+      if (!o || !a) throw new RangeError(`invalid joint ${j.name}: missing origin or axis`);
+      const len = Math.hypot(a[0]!, a[1]!, a[2]!);
+      if (!(len > 0)) throw new RangeError(`invalid joint ${j.name}: zero axis`);
+      pre.push(poseFromFrame(new Float64Array(16), o));
+      axisLocal[3 * i] = a[0]! / len;
+      axisLocal[3 * i + 1] = a[1]! / len;
+      axisLocal[3 * i + 2] = a[2]! / len;
+      post.push(identity4Into(new Float64Array(16)));
+    }
+  });
+
+  const fixed = new Float64Array(16 * (n + 1));
+  const linkFromMotion = new Float64Array(16 * n);
+  fixed.set(pre[0]!, 0);
+  for (let i = 0; i < n; i++) {
+    linkFromMotion.set(post[i]!, 16 * i);
+    const next = i + 1 < n ? pre[i + 1]! : poseFromFrame(new Float64Array(16), input.flange);
+    fixed.set(mulNew(post[i]!, next), 16 * (i + 1));
+  }
+
+  // Driven joints and the coupling matrix G (n × m) with offsets.
+  const drivenList: number[] = [];
+  joints.forEach((j, i) => {
+    if (isDrivenJoint(j)) drivenList.push(i);
+  });
+  const m = drivenList.length;
+  if (m === 0) throw new RangeError("invalid chain: no driven joint");
+  const drivenColumn = new Map(drivenList.map((k, c) => [k, c] as const));
+  const g = new Float64Array(n * m);
+  const offset = new Float64Array(n);
+  joints.forEach((j, i) => {
+    const column = drivenColumn.get(i);
+    if (column !== undefined) g[i * m + column] = 1;
+    const c = j.coupling;
+    if (!c) return;
+    offset[i] = j.kind === "prismatic" ? mmToM(c.offsetMm ?? 0) : degToRad(c.offsetDeg ?? 0);
+    for (const term of c.terms) {
+      const k = indexOf.get(term.joint);
+      if (k === undefined || k >= i) throw new RangeError(`invalid coupling of ${j.name}: ${term.joint} is not an earlier joint`);
+      for (let col = 0; col < m; col++) g[i * m + col] = g[i * m + col]! + term.gain * g[k * m + col]!;
+      offset[i] = offset[i]! + term.gain * offset[k]!;
+    }
+  });
+
+  const lowerSi = new Float64Array(m), upperSi = new Float64Array(m), maxSpeedSi = new Float64Array(m);
+  const maxAccelSi = new Float64Array(m), ratedEffortSi = new Float64Array(m);
+  drivenList.forEach((k, c) => {
+    const j = joints[k]!;
+    if (j.kind === "prismatic") {
+      lowerSi[c] = j.rangeMm ? mmToM(j.rangeMm[0]!) : -Infinity;
+      upperSi[c] = j.rangeMm ? mmToM(j.rangeMm[1]!) : Infinity;
+      maxSpeedSi[c] = j.maxSpeedMmPerS !== undefined ? mmToM(j.maxSpeedMmPerS) : NaN;
+      maxAccelSi[c] = j.maxAccelMmPerS2 !== undefined ? mmToM(j.maxAccelMmPerS2) : NaN;
+      ratedEffortSi[c] = j.ratedForceN ?? NaN;
+    } else {
+      lowerSi[c] = j.rangeDeg ? degToRad(j.rangeDeg[0]!) : -Infinity;
+      upperSi[c] = j.rangeDeg ? degToRad(j.rangeDeg[1]!) : Infinity;
+      maxSpeedSi[c] = j.maxSpeedDegPerS !== undefined ? degToRad(j.maxSpeedDegPerS) : NaN;
+      maxAccelSi[c] = j.maxAccelDegPerS2 !== undefined ? degToRad(j.maxAccelDegPerS2) : NaN;
+      ratedEffortSi[c] = j.ratedTorqueNm ?? NaN;
+    }
+  });
+
+  const partial: Chain = {
+    jointCount: n,
+    drivenCount: m,
+    jointNames: names,
+    drivenJoint: Int32Array.from(drivenList),
+    isPrismatic,
+    axisLocal,
+    fixed,
+    linkFromMotion,
+    couplingGain: g,
+    couplingOffset: offset,
+    lowerSi,
+    upperSi,
+    maxSpeedSi,
+    maxAccelSi,
+    ratedEffortSi,
+    wrist: null,
+    characteristicLengthM: 0,
+  };
+  const declared = input.wristCentre?.joints.map((name) => {
+    const k = indexOf.get(name);
+    if (k === undefined) throw new RangeError(`invalid wristCentre: unknown joint ${name}`);
+    return k;
+  });
+  const wrist = findWristCentre(partial, declared);
+  return { ...partial, wrist, characteristicLengthM: characteristicLength(partial) };
+}
+
+/** Largest distance from the base origin of any joint-axis origin or the flange at q_driven = 0, m. */
+function characteristicLength(chain: Chain): number {
+  const s = createScratch(chain);
+  forwardInto(chain, new Float64Array(chain.drivenCount), s);
+  let best = Math.hypot(s.flange[3]!, s.flange[7]!, s.flange[11]!);
+  for (let i = 0; i < chain.jointCount; i++) {
+    const f = 16 * i;
+    best = Math.max(best, Math.hypot(s.motionFrames[f + 3]!, s.motionFrames[f + 7]!, s.motionFrames[f + 11]!));
+  }
+  return best > 0 ? best : 1;
+}
+
+/** Largest distance (m) at which axes still count as meeting in one point. */
+export const WRIST_AXES_TOLERANCE_M = 1e-6;
+
+/**
+ * The wrist centre point: the point where the last three revolute axes meet (a spherical wrist), or the point
+ * nearest to the declared axes. Null when the axes do not meet (offset wrists) and none are declared.
+ * Found at the home pose; three revolute axes that meet in one point keep meeting there in every pose.
+ */
+function findWristCentre(chain: Chain, declared: readonly number[] | undefined): WristCentre | null {
+  let axes: number[];
+  if (declared) {
+    axes = [...declared].sort((a, b) => a - b);
+  } else {
+    const revolute: number[] = [];
+    for (let i = 0; i < chain.jointCount; i++) if (!chain.isPrismatic[i]) revolute.push(i);
+    if (revolute.length < 3) return null;
+    axes = revolute.slice(-3);
+    for (let i = axes[0]!; i < chain.jointCount; i++) if (chain.isPrismatic[i]) return null;
+  }
+  if (axes.length === 0) return null;
+  const s = createScratch(chain);
+  forwardInto(chain, new Float64Array(chain.drivenCount), s);
+  // Least-squares point nearest to the lines (oᵢ, zᵢ): Σ (I − zzᵀ) x = Σ (I − zzᵀ) oᵢ.
+  const a = new Float64Array(9), b = new Float64Array(3);
+  const lines: number[][] = [];
+  for (const i of axes) {
+    const f = 16 * i, fr = s.motionFrames;
+    const ax = chain.axisLocal[3 * i]!, ay = chain.axisLocal[3 * i + 1]!, az = chain.axisLocal[3 * i + 2]!;
+    const z = [fr[f]! * ax + fr[f + 1]! * ay + fr[f + 2]! * az, fr[f + 4]! * ax + fr[f + 5]! * ay + fr[f + 6]! * az, fr[f + 8]! * ax + fr[f + 9]! * ay + fr[f + 10]! * az];
+    const o = [fr[f + 3]!, fr[f + 7]!, fr[f + 11]!];
+    lines.push([...o, ...z]);
+    for (let r = 0; r < 3; r++) {
+      for (let c = 0; c < 3; c++) {
+        const p = (r === c ? 1 : 0) - z[r]! * z[c]!;
+        a[r * 3 + c] = a[r * 3 + c]! + p;
+        b[r] = b[r]! + p * o[c]!;
+      }
+    }
+  }
+  const x = solve3(a, b);
+  if (!x) {
+    // Parallel axes: no single point. A declared single axis gives its origin.
+    if (!declared) return null;
+    const l = lines[lines.length - 1]!;
+    return toWrist(chain, s, axes, [l[0]!, l[1]!, l[2]!], "declared");
+  }
+  if (!declared) {
+    for (const l of lines) {
+      const rx = x[0]! - l[0]!, ry = x[1]! - l[1]!, rz = x[2]! - l[2]!;
+      const along = rx * l[3]! + ry * l[4]! + rz * l[5]!;
+      const dist = Math.hypot(rx - along * l[3]!, ry - along * l[4]!, rz - along * l[5]!);
+      if (dist > WRIST_AXES_TOLERANCE_M) return null;
+    }
+  }
+  return toWrist(chain, s, axes, [x[0]!, x[1]!, x[2]!], declared ? "declared" : "spherical");
+}
+
+function toWrist(chain: Chain, s: ReturnType<typeof createScratch>, axes: number[], pointInBase: number[], basis: WristCentre["basis"]): WristCentre {
+  // Fix the point in the link frame of the first wrist joint: baseFromLink⁻¹ · p.
+  const k = axes[0]!;
+  const link = mul4Into(new Float64Array(16), s.motionFrames.subarray(16 * k, 16 * k + 16), chain.linkFromMotion.subarray(16 * k, 16 * k + 16));
+  const dx = pointInBase[0]! - link[3]!, dy = pointInBase[1]! - link[7]!, dz = pointInBase[2]! - link[11]!;
+  const p = new Float64Array([
+    link[0]! * dx + link[4]! * dy + link[8]! * dz,
+    link[1]! * dx + link[5]! * dy + link[9]! * dz,
+    link[2]! * dx + link[6]! * dy + link[10]! * dz,
+  ]);
+  return { joint: k, pointInLinkM: p, axes, basis };
+}
+
+function solve3(a: Float64Array, b: Float64Array): Float64Array | null {
+  const det =
+    a[0]! * (a[4]! * a[8]! - a[5]! * a[7]!) - a[1]! * (a[3]! * a[8]! - a[5]! * a[6]!) + a[2]! * (a[3]! * a[7]! - a[4]! * a[6]!);
+  if (Math.abs(det) < 1e-9) return null;
+  const x = new Float64Array(3);
+  for (let c = 0; c < 3; c++) {
+    const m = Float64Array.from(a);
+    for (let r = 0; r < 3; r++) m[r * 3 + c] = b[r]!;
+    x[c] = (m[0]! * (m[4]! * m[8]! - m[5]! * m[7]!) - m[1]! * (m[3]! * m[8]! - m[5]! * m[6]!) + m[2]! * (m[3]! * m[7]! - m[4]! * m[6]!)) / det;
+  }
+  return x;
+}
