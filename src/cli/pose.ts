@@ -1,6 +1,8 @@
 /** `armdex pose`: one pose of one arm as JSON (file units outside, SI Jacobian as the contract says). Pure. */
 import type { Arm } from "../catalog";
 import { degToRad, mmToM, mToMm, poseReport, radToDeg, rpyOfInto } from "../core";
+import { createSpeedScratch, guaranteedLineSpeed, maxToolSpeed } from "../core/analysis/speed";
+import { SINGULAR_INVERSE_CONDITION, singularityReport } from "../core/analysis/singularity";
 
 export type CommandResult<T> = { ok: true; value: T } | { ok: false; message: string; usage?: boolean };
 
@@ -46,6 +48,7 @@ export function poseCommand(arm: Arm, jointsText: string, toolText: string | und
     return { name, positionMm: [f[3]!, f[7]!, f[11]!].map((v) => round(mToMm(v))), rotation: [0, 1, 2].map((row) => [0, 1, 2].map((c) => round(f[row * 4 + c]!, 1e-12))) };
   });
   const hasTool = toolMm.some((v) => v !== 0);
+  const sing = singularityReport(chain, r.jacobian);
   return {
     ok: true,
     value: {
@@ -68,6 +71,19 @@ export function poseCommand(arm: Arm, jointsText: string, toolText: string | und
       manipulability: roundSig(r.manipulability),
       manipulabilityNote: m >= 6 ? "Yoshikawa: sqrt(det(J·Jᵀ)) of the SI Jacobian" : `product of the ${m} singular values, sqrt(det(Jᵀ·J)), since the arm has fewer than 6 driven joints`,
       conditionNumber: Number.isFinite(r.conditionNumber) ? roundSig(r.conditionNumber) : null,
+      guaranteedLineSpeedMmPerS: round(mToMm(guaranteedLineSpeed(r.jacobian, m, chain.maxSpeedSi, createSpeedScratch(m))), 1e-6),
+      maxToolSpeedMmPerS: round(mToMm(maxToolSpeed(r.jacobian, m, chain.maxSpeedSi, createSpeedScratch(m))), 1e-6),
+      speedNote:
+        "guaranteed: the straight-line speed of the tool point reachable in every direction at constant orientation with every joint within its speed limit" +
+        (m > 6 ? " (minimum-norm joint rates, redundant arm)" : "") +
+        "; max: the largest tool-point speed with all joints at their limits, orientation free",
+      singularity: {
+        kind: sing.kind,
+        nullVector: sing.nullVector.map((v) => round(v, 1e-9)),
+        inverseCondition: roundSig(sing.inverseCondition),
+        lengthScaleMm: round(mToMm(sing.lengthScaleM), 1e-6),
+        note: `kind from the joint motion that moves the tool least; linear rows scaled by ${round(mToMm(sing.lengthScaleM), 1)} mm; "none" above inverse condition ${SINGULAR_INVERSE_CONDITION}`,
+      },
       jointFrames,
     },
   };

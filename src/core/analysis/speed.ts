@@ -1,0 +1,192 @@
+/**
+ * Per-pose tool-speed figures from the Jacobian and the joint-rate box |q̇ᵢ| ≤ q̇maxᵢ. Allocation-free kernels.
+ *
+ * Guaranteed straight-line speed at constant orientation: with q̇ = B·v the joint rates that move the tool point at
+ * linear velocity v with zero angular velocity (B: m × 3, the linear block of J⁻¹; of the minimum-norm
+ * pseudo-inverse Jᵀ(JJᵀ)⁻¹ for redundant arms; of (JᵀJ)⁻¹Jᵀ for arms with fewer than six joints when the
+ * constant-orientation motion is possible in every direction), every direction reaches
+ *   r = minᵢ q̇maxᵢ / ‖row i of B‖.
+ * Maximum tool speed: the largest ‖J_v q̇‖ over the box, attained at a vertex of the box (a convex function's
+ * maximum over a polytope), orientation free.
+ * @see Boyd & Vandenberghe, Convex Optimization, §8.5.1 (Chebyshev centre of a polyhedron) [from memory];
+ *   Kokkinis & Paden 1989 and Bicchi et al. 1995 (velocity polytopes) [from memory]
+ */
+
+export interface SpeedScratch {
+  readonly m: number;
+  /** System matrix, up to 6 × 6 (or m × m). */
+  readonly a: Float64Array;
+  /** Right-hand sides / solution, up to max(6, m) × 3. */
+  readonly x: Float64Array;
+  /** B, m × 3 row-major. */
+  readonly b: Float64Array;
+  /** Vertex sum. */
+  readonly sum: Float64Array;
+}
+
+export function createSpeedScratch(m: number): SpeedScratch {
+  const k = Math.max(6, m);
+  return { m, a: new Float64Array(k * k), x: new Float64Array(k * 3), b: new Float64Array(m * 3), sum: new Float64Array(3) };
+}
+
+/**
+ * Solves a·x = rhs in place (a: k × k row-major, x: k × 3 row-major) by Gaussian elimination with partial pivoting.
+ * Returns false when a pivot falls below `relTol` × the largest entry (numerically singular).
+ */
+export function solveInPlace3(a: Float64Array, x: Float64Array, k: number, relTol = 1e-13): boolean {
+  let scale = 0;
+  for (let i = 0; i < k * k; i++) scale = Math.max(scale, Math.abs(a[i]!));
+  if (!(scale > 0)) return false;
+  const tol = relTol * scale;
+  for (let c = 0; c < k; c++) {
+    let p = c, best = Math.abs(a[c * k + c]!);
+    for (let r = c + 1; r < k; r++) {
+      const v = Math.abs(a[r * k + c]!);
+      if (v > best) {
+        best = v;
+        p = r;
+      }
+    }
+    if (!(best > tol)) return false;
+    if (p !== c) {
+      for (let j = 0; j < k; j++) {
+        const t = a[c * k + j]!;
+        a[c * k + j] = a[p * k + j]!;
+        a[p * k + j] = t;
+      }
+      for (let j = 0; j < 3; j++) {
+        const t = x[c * 3 + j]!;
+        x[c * 3 + j] = x[p * 3 + j]!;
+        x[p * 3 + j] = t;
+      }
+    }
+    const piv = a[c * k + c]!;
+    for (let r = c + 1; r < k; r++) {
+      const f = a[r * k + c]! / piv;
+      if (f === 0) continue;
+      for (let j = c; j < k; j++) a[r * k + j] = a[r * k + j]! - f * a[c * k + j]!;
+      for (let j = 0; j < 3; j++) x[r * 3 + j] = x[r * 3 + j]! - f * x[c * 3 + j]!;
+    }
+  }
+  for (let c = k - 1; c >= 0; c--) {
+    const piv = a[c * k + c]!;
+    for (let j = 0; j < 3; j++) {
+      let v = x[c * 3 + j]!;
+      for (let r = c + 1; r < k; r++) v -= a[c * k + r]! * x[r * 3 + j]!;
+      x[c * 3 + j] = v / piv;
+    }
+  }
+  return true;
+}
+
+/**
+ * Writes B = the joint rates per unit linear tool velocity at zero angular velocity (m × 3, rad/s per m/s) into
+ * s.b. Returns false at a singular pose, or when constant-orientation motion is not possible in every direction.
+ * @param j 6 × m Jacobian, rows (vx, vy, vz, ωx, ωy, ωz), SI
+ */
+export function lineRatesInto(j: ArrayLike<number>, m: number, s: SpeedScratch): boolean {
+  const a = s.a, x = s.x, b = s.b;
+  if (m === 6) {
+    for (let i = 0; i < 36; i++) a[i] = j[i]!;
+    x.fill(0, 0, 18);
+    x[0] = 1;
+    x[4] = 1;
+    x[8] = 1;
+    if (!solveInPlace3(a, x, 6)) return false;
+    for (let i = 0; i < 18; i++) b[i] = x[i]!;
+    return true;
+  }
+  if (m > 6) {
+    // B = Jᵀ (J Jᵀ)⁻¹ E with E = [I₃; 0]: the minimum-norm joint rates.
+    for (let r = 0; r < 6; r++) {
+      for (let c = r; c < 6; c++) {
+        let v = 0;
+        for (let k = 0; k < m; k++) v += j[r * m + k]! * j[c * m + k]!;
+        a[r * 6 + c] = v;
+        a[c * 6 + r] = v;
+      }
+    }
+    x.fill(0, 0, 18);
+    x[0] = 1;
+    x[4] = 1;
+    x[8] = 1;
+    if (!solveInPlace3(a, x, 6)) return false;
+    for (let k = 0; k < m; k++) {
+      for (let c = 0; c < 3; c++) {
+        let v = 0;
+        for (let r = 0; r < 6; r++) v += j[r * m + k]! * x[r * 3 + c]!;
+        b[k * 3 + c] = v;
+      }
+    }
+    return true;
+  }
+  // m < 6: least squares (JᵀJ) B = Jᵀ E, then check that J·B = E (the motion is possible at all).
+  for (let r = 0; r < m; r++) {
+    for (let c = r; c < m; c++) {
+      let v = 0;
+      for (let k = 0; k < 6; k++) v += j[k * m + r]! * j[k * m + c]!;
+      a[r * m + c] = v;
+      a[c * m + r] = v;
+    }
+    for (let c = 0; c < 3; c++) x[r * 3 + c] = j[c * m + r]!;
+  }
+  if (!solveInPlace3(a, x, m)) return false;
+  for (let i = 0; i < m * 3; i++) b[i] = x[i]!;
+  for (let r = 0; r < 6; r++) {
+    for (let c = 0; c < 3; c++) {
+      let v = 0;
+      for (let k = 0; k < m; k++) v += j[r * m + k]! * b[k * 3 + c]!;
+      if (Math.abs(v - (r === c ? 1 : 0)) > 1e-7) return false;
+    }
+  }
+  return true;
+}
+
+/**
+ * Guaranteed straight-line speed at constant orientation, m/s: minᵢ q̇maxᵢ / ‖Bᵢ‖ (0 at a singular pose).
+ * @param maxRate joint-rate limits of the driven joints, rad/s or m/s
+ * @example 2R planar (1 m, 1 m) at q = (0, 90°) with limits (1, 1) rad/s has r = 1/√2 m/s in the plane (CHECKS C12)
+ */
+export function guaranteedLineSpeed(j: ArrayLike<number>, m: number, maxRate: ArrayLike<number>, s: SpeedScratch): number {
+  if (!lineRatesInto(j, m, s)) return 0;
+  const b = s.b;
+  let best = Infinity;
+  for (let i = 0; i < m; i++) {
+    const n = Math.hypot(b[i * 3]!, b[i * 3 + 1]!, b[i * 3 + 2]!);
+    if (n > 0) best = Math.min(best, maxRate[i]! / n);
+  }
+  return Number.isFinite(best) ? best : 0;
+}
+
+/**
+ * Maximum tool-point speed over the joint-rate box, m/s: max over sign vectors s of ‖Σ sᵢ q̇maxᵢ J_v,i‖, enumerated
+ * in Gray-code order (one column update per vertex; half the vertices by central symmetry).
+ */
+export function maxToolSpeed(j: ArrayLike<number>, m: number, maxRate: ArrayLike<number>, s: SpeedScratch): number {
+  const sum = s.sum;
+  sum[0] = 0;
+  sum[1] = 0;
+  sum[2] = 0;
+  for (let i = 0; i < m; i++) {
+    const w = maxRate[i]!;
+    sum[0] = sum[0]! + w * j[i]!;
+    sum[1] = sum[1]! + w * j[m + i]!;
+    sum[2] = sum[2]! + w * j[2 * m + i]!;
+  }
+  let best = sum[0]! * sum[0]! + sum[1]! * sum[1]! + sum[2]! * sum[2]!;
+  let signs = 0; // bit i set = column i negative
+  const count = m > 0 ? 1 << (m - 1) : 0;
+  for (let k = 1; k < count; k++) {
+    let bit = 0;
+    while (((k >> bit) & 1) === 0) bit++;
+    const negative = (signs >> bit) & 1;
+    const f = (negative ? 2 : -2) * maxRate[bit]!;
+    sum[0] = sum[0]! + f * j[bit]!;
+    sum[1] = sum[1]! + f * j[m + bit]!;
+    sum[2] = sum[2]! + f * j[2 * m + bit]!;
+    signs ^= 1 << bit;
+    const v = sum[0]! * sum[0]! + sum[1]! * sum[1]! + sum[2]! * sum[2]!;
+    if (v > best) best = v;
+  }
+  return Math.sqrt(best);
+}
