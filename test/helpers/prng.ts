@@ -1,9 +1,9 @@
 /**
- * mulberry32: a small seeded 32-bit PRNG (public-domain algorithm by Tommy Ettinger, as commonly reproduced
+ * mulberry32: a small deterministic 32-bit PRNG (public-domain algorithm by Tommy Ettinger, as commonly reproduced
  * [from memory]). Tests use it instead of Math.random so every random pose is reproducible (STYLE.md C15).
  */
-export function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
+export function mulberry32(initialState: number): () => number {
+  let a = initialState >>> 0;
   return () => {
     a = (a + 0x6d2b79f5) >>> 0;
     let t = a;

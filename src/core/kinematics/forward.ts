@@ -1,5 +1,5 @@
 import type { Chain } from "./chain";
-import { identity4Into, mul4Into, rotationAxisAngleInto, translationInto, transformPointInto } from "../math/mat4";
+import { identity4Into, mul4AtInto, mul4Into, rotationAxisAngleInto, translationInto, transformPointInto } from "../math/mat4";
 
 /** Preallocated buffers for one chain. Made once per analysis; the hot kernels allocate nothing. */
 export interface KinematicsScratch {
@@ -56,14 +56,14 @@ export function forwardInto(chain: Chain, qDriven: ArrayLike<number>, s: Kinemat
   const n = chain.jointCount;
   const q = kinematicJointsInto(s.qKin, chain, qDriven);
   const fixed = chain.fixed, axes = chain.axisLocal, frames = s.motionFrames;
-  s.acc.set(fixed.subarray(0, 16));
+  const acc = s.acc, step = s.step;
+  for (let k = 0; k < 16; k++) acc[k] = fixed[k]!;
   for (let i = 0; i < n; i++) {
     const ax = axes[3 * i]!, ay = axes[3 * i + 1]!, az = axes[3 * i + 2]!, qi = q[i]!;
-    if (chain.isPrismatic[i]) translationInto(s.step, ax * qi, ay * qi, az * qi);
-    else rotationAxisAngleInto(s.step, ax, ay, az, qi);
-    const frame = frames.subarray(16 * i, 16 * i + 16);
-    mul4Into(frame, s.acc, s.step);
-    mul4Into(s.acc, frame, fixed.subarray(16 * (i + 1), 16 * (i + 2)));
+    if (chain.isPrismatic[i]) translationInto(step, ax * qi, ay * qi, az * qi);
+    else rotationAxisAngleInto(step, ax, ay, az, qi);
+    mul4AtInto(frames, 16 * i, acc, 0, step, 0);
+    mul4AtInto(acc, 0, frames, 16 * i, fixed, 16 * (i + 1));
   }
   s.flange.set(s.acc);
   return s.flange;
@@ -71,7 +71,7 @@ export function forwardInto(chain: Chain, qDriven: ArrayLike<number>, s: Kinemat
 
 /** Base-frame pose of link frame i (after forwardInto): motionFrames[i] · linkFromMotion[i]. */
 export function linkFrameInto(out: Float64Array, chain: Chain, s: KinematicsScratch, i: number): Float64Array {
-  return mul4Into(out, s.motionFrames.subarray(16 * i, 16 * i + 16), chain.linkFromMotion.subarray(16 * i, 16 * i + 16));
+  return mul4AtInto(out, 0, s.motionFrames, 16 * i, chain.linkFromMotion, 16 * i);
 }
 
 /** Writes the tool point p = baseFromFlange · pInFlangeM into out[0..2] (after forwardInto). */

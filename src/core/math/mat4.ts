@@ -132,3 +132,27 @@ export function transformPointInto(out: Float64Array, offset: number, t: Float64
   out[offset + 2] = t[8]! * x + t[9]! * y + t[10]! * z + t[11]!;
   return out;
 }
+
+/**
+ * out[o..o+15] = a[ao..ao+15] · b[bo..bo+15] for rigid transforms (bottom row 0 0 0 1), with offsets so callers
+ * can address matrices packed in one array without creating views. `out` must not overlap the inputs' ranges.
+ */
+export function mul4AtInto(out: Float64Array, o: number, a: Float64Array, ao: number, b: Float64Array, bo: number): Float64Array {
+  const b0 = b[bo]!, b1 = b[bo + 1]!, b2 = b[bo + 2]!, b3 = b[bo + 3]!;
+  const b4 = b[bo + 4]!, b5 = b[bo + 5]!, b6 = b[bo + 6]!, b7 = b[bo + 7]!;
+  const b8 = b[bo + 8]!, b9 = b[bo + 9]!, b10 = b[bo + 10]!, b11 = b[bo + 11]!;
+  for (let r = 0; r < 3; r++) {
+    const i = ao + r * 4;
+    const a0 = a[i]!, a1 = a[i + 1]!, a2 = a[i + 2]!, a3 = a[i + 3]!;
+    const k = o + r * 4;
+    out[k] = a0 * b0 + a1 * b4 + a2 * b8;
+    out[k + 1] = a0 * b1 + a1 * b5 + a2 * b9;
+    out[k + 2] = a0 * b2 + a1 * b6 + a2 * b10;
+    out[k + 3] = a0 * b3 + a1 * b7 + a2 * b11 + a3;
+  }
+  out[o + 12] = 0;
+  out[o + 13] = 0;
+  out[o + 14] = 0;
+  out[o + 15] = 1;
+  return out;
+}

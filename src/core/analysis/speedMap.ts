@@ -1,0 +1,405 @@
+/**
+ * Tool-speed maps on a side-view grid: for each cell of the vertical plane through axis 1 (distance from axis 1
+ * against height, mm), the arm is put at that flange position with a reference tool orientation by inverse
+ * kinematics, on every branch found; the best branch per cell (highest guaranteed straight-line speed) is kept
+ * and named. Per cell: guaranteed straight-line speed at constant orientation, maximum tool speed, scaled inverse
+ * condition, the sign of det J (square Jacobians) and the branch.
+ *
+ * Symmetry: a rotation about a vertical axis 1 turns every figure with it, so the maps are drawn against the
+ * distance from axis 1 (r ≥ 0) and hold at every J1 heading. The TCP is the flange centre (no tool).
+ * Reference orientations: "down" = flange z along gravity of the primary mounting, flange x pointing away from
+ * axis 1; "outward" = flange z pointing away from axis 1, flange x down. Arms with fewer than six driven joints
+ * get "down" only, with the rotation about the tool axis left free.
+ */
+import type { Chain } from "../kinematics/chain";
+import { createScratch, forwardInto, jacobianInto, wristCentreInto } from "../kinematics/forward";
+import { createIkScratch, solveIkInto, type IkOptions } from "../kinematics/inverse";
+import { createSpeedScratch, guaranteedLineSpeed, maxToolSpeed } from "./speed";
+import { createSingularityScratch, scaledSingularValues } from "./singularity";
+import { branchCode, branchFrame, branchName, type BranchFrame } from "./branches";
+import { mulberry32 } from "./random";
+
+export type ReferenceOrientation = "down" | "outward";
+
+/** Regular grid in the side-view plane; value(ix, iy) = values[ix + iy * nx] at r = rMinMm + ix·step, z = zMinMm + iy·step. */
+export interface Grid2 {
+  readonly nx: number;
+  readonly ny: number;
+  readonly rMinMm: number;
+  readonly zMinMm: number;
+  readonly stepMm: number;
+}
+
+export interface ToolSpeedMap {
+  readonly orientation: ReferenceOrientation;
+  readonly grid: Grid2;
+  /** Guaranteed straight-line speed, mm/s; NaN where the pose cannot be reached. */
+  readonly guaranteedMmPerS: Float64Array;
+  /** Maximum tool speed, mm/s; NaN where unreachable. */
+  readonly maxMmPerS: Float64Array;
+  /** σ_min/σ_max of the Jacobian with linear rows divided by the length scale; NaN where unreachable. */
+  readonly inverseCondition: Float64Array;
+  /** Sign of det J of the best branch (square Jacobians; 0 otherwise or unreachable). */
+  readonly detSign: Int8Array;
+  /** Index into `branchNames` of the kept branch; −1 where unreachable. */
+  readonly branch: Int8Array;
+  readonly branchNames: readonly string[];
+  /** Driven joint values of the kept branch, rad or m, m per cell (NaN where unreachable). */
+  readonly joints: Float64Array;
+  readonly reachableCells: number;
+}
+
+export interface SpeedMapOptions {
+  readonly stepMm: number;
+  /** Plane bounds, mm; computed from sampled poses when absent. */
+  readonly boundsMm?: { readonly rMax: number; readonly zMin: number; readonly zMax: number } | undefined;
+  /** Gravity direction in the base frame (primary mounting). */
+  readonly gravity: readonly [number, number, number];
+  /** Cells between discovery points (where IK is started from many seeds). */
+  readonly discoveryEveryCells: number;
+  readonly discoverySeeds: number;
+  /** Solutions kept per cell. */
+  readonly maxBranches: number;
+  readonly seed: number;
+}
+
+export const DEFAULT_SPEED_MAP: SpeedMapOptions = {
+  stepMm: 10,
+  gravity: [0, 0, -1],
+  discoveryEveryCells: 20,
+  discoverySeeds: 24,
+  maxBranches: 8,
+  seed: 20261202,
+};
+
+const CONTINUATION_IK: IkOptions = { maxIterations: 12, toleranceM: 1e-7, toleranceRad: 1e-6 };
+const DISCOVERY_IK: IkOptions = { maxIterations: 60, toleranceM: 1e-7, toleranceRad: 1e-6 };
+
+/** The plane: origin on axis 1, radial and up unit vectors in the base frame. */
+interface Plane {
+  readonly o: readonly number[];
+  readonly radial: readonly number[];
+  readonly up: readonly number[];
+}
+
+function sidePlane(chain: Chain, gravity: readonly number[]): Plane {
+  const s = createScratch(chain);
+  forwardInto(chain, new Float64Array(chain.drivenCount), s);
+  const k = chain.drivenJoint[0]!;
+  const up = [-gravity[0]!, -gravity[1]!, -gravity[2]!];
+  if (!chain.isPrismatic[k]) {
+    const f = 16 * k, fr = s.motionFrames, a = chain.axisLocal;
+    let zx = fr[f]! * a[3 * k]! + fr[f + 1]! * a[3 * k + 1]! + fr[f + 2]! * a[3 * k + 2]!;
+    let zy = fr[f + 4]! * a[3 * k]! + fr[f + 5]! * a[3 * k + 1]! + fr[f + 6]! * a[3 * k + 2]!;
+    let zz = fr[f + 8]! * a[3 * k]! + fr[f + 9]! * a[3 * k + 1]! + fr[f + 10]! * a[3 * k + 2]!;
+    // Axis 1 oriented along base +z (or +x if horizontal), so "height" grows upward on a floor arm.
+    const sign = Math.abs(zz) > 1e-9 ? Math.sign(zz) : Math.sign(zx) || 1;
+    zx *= sign;
+    zy *= sign;
+    zz *= sign;
+    // Radial: base x made perpendicular to axis 1 (or base y when x is along the axis).
+    let rx = 1 - zx * zx, ry = -zx * zy, rz = -zx * zz;
+    if (Math.hypot(rx, ry, rz) < 1e-6) {
+      rx = -zy * zx;
+      ry = 1 - zy * zy;
+      rz = -zy * zz;
+    }
+    const rn = Math.hypot(rx, ry, rz);
+    const ox = fr[f + 3]!, oy = fr[f + 7]!, oz = fr[f + 11]!;
+    // Point of axis 1 nearest the base origin.
+    const t = -(ox * zx + oy * zy + oz * zz);
+    return { o: [ox + t * zx, oy + t * zy, oz + t * zz], radial: [rx / rn, ry / rn, rz / rn], up: [zx, zy, zz] };
+  }
+  // First axis prismatic (gantry): the base x–z plane.
+  return { o: [0, 0, 0], radial: [1, 0, 0], up: [0, 0, 1] };
+}
+
+/** Rough plane bounds (mm) from seeded random poses within the joint limits, with a margin. */
+function sampledBounds(chain: Chain, plane: Plane, seed: number): { rMax: number; zMin: number; zMax: number } {
+  const rnd = mulberry32(seed);
+  const s = createScratch(chain), q = new Float64Array(chain.drivenCount);
+  let rMax = 0, zMin = Infinity, zMax = -Infinity;
+  for (let n = 0; n < 6000; n++) {
+    for (let i = 0; i < q.length; i++) {
+      const lo = Math.max(chain.lowerSi[i]!, -Math.PI), hi = Math.min(chain.upperSi[i]!, Math.PI);
+      q[i] = lo + (hi - lo) * rnd();
+    }
+    const t = forwardInto(chain, q, s);
+    const dx = t[3]! - plane.o[0]!, dy = t[7]! - plane.o[1]!, dz = t[11]! - plane.o[2]!;
+    const h = dx * plane.up[0]! + dy * plane.up[1]! + dz * plane.up[2]!;
+    const r = Math.hypot(dx - h * plane.up[0]!, dy - h * plane.up[1]!, dz - h * plane.up[2]!);
+    const z = t[3]! * plane.up[0]! + t[7]! * plane.up[1]! + t[11]! * plane.up[2]!;
+    rMax = Math.max(rMax, r);
+    zMin = Math.min(zMin, z);
+    zMax = Math.max(zMax, z);
+  }
+  const margin = 0.06 * Math.max(rMax, zMax - zMin);
+  return { rMax: (rMax + margin) * 1000, zMin: (zMin - margin) * 1000, zMax: (zMax + margin) * 1000 };
+}
+
+/** Target flange pose (row-major 4×4, m) for a cell. */
+function targetInto(out: Float64Array, plane: Plane, rM: number, zM: number, orientation: ReferenceOrientation, gravity: readonly number[], outwardSign: number): Float64Array {
+  const up = plane.up, rad = plane.radial;
+  // Position: axis-1 point + r·radial, then height measured along `up` from the base origin.
+  const px0 = plane.o[0]! + rM * rad[0]!, py0 = plane.o[1]! + rM * rad[1]!, pz0 = plane.o[2]! + rM * rad[2]!;
+  const h0 = px0 * up[0]! + py0 * up[1]! + pz0 * up[2]!;
+  const px = px0 + (zM - h0) * up[0]!, py = py0 + (zM - h0) * up[1]!, pz = pz0 + (zM - h0) * up[2]!;
+  let xx: number, xy: number, xz: number, zx: number, zy: number, zz: number;
+  const ox = rad[0]! * outwardSign, oy = rad[1]! * outwardSign, oz = rad[2]! * outwardSign;
+  if (orientation === "down") {
+    zx = gravity[0]!;
+    zy = gravity[1]!;
+    zz = gravity[2]!;
+    // x: outward made perpendicular to z.
+    const d = ox * zx + oy * zy + oz * zz;
+    xx = ox - d * zx;
+    xy = oy - d * zy;
+    xz = oz - d * zz;
+    let n = Math.hypot(xx, xy, xz);
+    if (n < 1e-9) {
+      xx = up[0]!;
+      xy = up[1]!;
+      xz = up[2]!;
+      n = 1;
+    }
+    xx /= n;
+    xy /= n;
+    xz /= n;
+  } else {
+    zx = ox;
+    zy = oy;
+    zz = oz;
+    const d = gravity[0]! * zx + gravity[1]! * zy + gravity[2]! * zz;
+    xx = gravity[0]! - d * zx;
+    xy = gravity[1]! - d * zy;
+    xz = gravity[2]! - d * zz;
+    let n = Math.hypot(xx, xy, xz);
+    if (n < 1e-9) {
+      xx = -up[0]!;
+      xy = -up[1]!;
+      xz = -up[2]!;
+      n = 1;
+    }
+    xx /= n;
+    xy /= n;
+    xz /= n;
+  }
+  const yx = zy * xz - zz * xy, yy = zz * xx - zx * xz, yz = zx * xy - zy * xx;
+  out[0] = xx; out[1] = yx; out[2] = zx; out[3] = px;
+  out[4] = xy; out[5] = yy; out[6] = zy; out[7] = py;
+  out[8] = xz; out[9] = yz; out[10] = zz; out[11] = pz;
+  out[12] = 0; out[13] = 0; out[14] = 0; out[15] = 1;
+  return out;
+}
+
+/** Orientations an arm gets maps for. */
+export function referenceOrientations(chain: Chain): ReferenceOrientation[] {
+  return chain.drivenCount >= 6 ? ["down", "outward"] : ["down"];
+}
+
+/**
+ * Computes the tool-speed map of one reference orientation.
+ * @see module comment for definitions; DOMAIN: guaranteed straight-line speed and maximum tool speed
+ */
+export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, options: SpeedMapOptions = DEFAULT_SPEED_MAP): ToolSpeedMap {
+  const m = chain.drivenCount;
+  const plane = sidePlane(chain, options.gravity);
+  const bounds = options.boundsMm ?? sampledBounds(chain, plane, options.seed);
+  const step = options.stepMm;
+  if (!(step > 0)) throw new RangeError(`invalid stepMm: ${step}`);
+  const zMinMm = Math.floor(bounds.zMin / step) * step;
+  const nx = Math.max(1, Math.ceil(bounds.rMax / step) + 1);
+  const ny = Math.max(1, Math.ceil((bounds.zMax - zMinMm) / step) + 1);
+  const cells = nx * ny, K = options.maxBranches;
+  const grid: Grid2 = { nx, ny, rMinMm: 0, zMinMm, stepMm: step };
+
+  const sol = new Float64Array(cells * K * m);
+  const count = new Uint8Array(cells);
+  // Continuation thread that found each solution: a thread does not revisit a cell it already holds.
+  const threadOf = new Int32Array(cells * K);
+  let thread = 0;
+  const target = new Float64Array(16);
+  const ik = createIkScratch(chain);
+  const qTry = new Float64Array(m);
+  const qSeed = new Float64Array(m);
+  const kin = createScratch(chain);
+
+  // Branch naming frame from the zero pose.
+  forwardInto(chain, new Float64Array(m), kin);
+  const c0 = new Float64Array(3);
+  if (!wristCentreInto(c0, chain, kin)) c0.set([kin.flange[3]!, kin.flange[7]!, kin.flange[11]!]);
+  const up: [number, number, number] = [plane.up[0]!, plane.up[1]!, plane.up[2]!];
+  const frame: BranchFrame | null = branchFrame(chain, kin, Array.from(c0), up);
+
+  const setTarget = (cell: number) => {
+    const ix = cell % nx, iy = (cell - ix) / nx;
+    targetInto(target, plane, (grid.rMinMm + ix * step) / 1000, (zMinMm + iy * step) / 1000, orientation, options.gravity, 1);
+  };
+  /** Stores qTry at `cell` unless an equal solution is there; returns the slot or −1. */
+  const store = (cell: number): number => {
+    const base = cell * K * m, n = count[cell]!;
+    for (let k = 0; k < n; k++) {
+      let same = true;
+      for (let i = 0; i < m; i++) {
+        if (Math.abs(sol[base + k * m + i]! - qTry[i]!) > 1e-4) {
+          same = false;
+          break;
+        }
+      }
+      if (same) return -1;
+    }
+    if (n >= K) return -1;
+    sol.set(qTry, base + n * m);
+    threadOf[cell * K + n] = thread;
+    count[cell] = n + 1;
+    return n;
+  };
+
+  // Flood fill: queue of (cell, slot).
+  const queue = new Int32Array(cells * K * 2);
+  let head = 0, tail = 0;
+  const push = (cell: number, slot: number) => {
+    queue[tail++] = cell;
+    queue[tail++] = slot;
+  };
+  const flood = () => {
+    while (head < tail) {
+      const cell = queue[head++]!, slot = queue[head++]!;
+      const ix = cell % nx, iy = (cell - ix) / nx;
+      const from = (cell * K + slot) * m;
+      thread = threadOf[cell * K + slot]!;
+      for (let d = 0; d < 4; d++) {
+        const jx = ix + (d === 0 ? 1 : d === 1 ? -1 : 0), jy = iy + (d === 2 ? 1 : d === 3 ? -1 : 0);
+        if (jx < 0 || jy < 0 || jx >= nx || jy >= ny) continue;
+        const next = jx + jy * nx;
+        const held = count[next]!;
+        if (held >= K) continue;
+        let mine = false;
+        for (let k = 0; k < held; k++) if (threadOf[next * K + k] === thread) mine = true;
+        if (mine) continue;
+        setTarget(next);
+        for (let i = 0; i < m; i++) qSeed[i] = sol[from + i]!;
+        if (!solveIkInto(qTry, chain, target, qSeed, ik, CONTINUATION_IK)) continue;
+        const s2 = store(next);
+        if (s2 >= 0) push(next, s2);
+      }
+    }
+  };
+
+  // Discovery at spaced cells, from seeded random joint values; each new solution floods the grid.
+  const rnd = mulberry32(options.seed ^ (orientation === "down" ? 0x9e37 : 0x7f4a));
+  const every = Math.max(1, options.discoveryEveryCells);
+  for (let iy = Math.floor(every / 2); iy < ny; iy += every) {
+    for (let ix = Math.floor(every / 2); ix < nx; ix += every) {
+      const cell = ix + iy * nx;
+      setTarget(cell);
+      for (let t = 0; t < options.discoverySeeds; t++) {
+        for (let i = 0; i < m; i++) {
+          const lo = Math.max(chain.lowerSi[i]!, -Math.PI), hi = Math.min(chain.upperSi[i]!, Math.PI);
+          qTry[i] = lo + (hi - lo) * rnd();
+        }
+        if (!solveIkInto(qTry, chain, target, qTry, ik, DISCOVERY_IK)) continue;
+        thread++;
+        const slot = store(cell);
+        if (slot >= 0) {
+          push(cell, slot);
+          flood();
+        }
+      }
+    }
+  }
+
+  // Figures per cell: best branch by guaranteed speed.
+  const guaranteed = new Float64Array(cells).fill(NaN);
+  const maxSpeed = new Float64Array(cells).fill(NaN);
+  const invCond = new Float64Array(cells).fill(NaN);
+  const detSign = new Int8Array(cells);
+  const branch = new Int8Array(cells).fill(-1);
+  const joints = new Float64Array(cells * m).fill(NaN);
+  const j = new Float64Array(6 * m);
+  const sp = createSpeedScratch(m);
+  const sg = createSingularityScratch(m);
+  const codes: number[] = [];
+  const c = new Float64Array(3);
+  let reachable = 0;
+  for (let cell = 0; cell < cells; cell++) {
+    const n = count[cell]!;
+    if (n === 0) continue;
+    reachable++;
+    let best = -1, bestG = -1, bestMax = 0;
+    for (let k = 0; k < n; k++) {
+      const off = (cell * K + k) * m;
+      const q = sol.subarray(off, off + m);
+      const t = forwardInto(chain, q, kin);
+      jacobianInto(j, chain, kin, t[3]!, t[7]!, t[11]!);
+      const g = guaranteedLineSpeed(j, m, chain.maxSpeedSi, sp);
+      const vmax = maxToolSpeed(j, m, chain.maxSpeedSi, sp);
+      if (g > bestG + 1e-12 || (Math.abs(g - bestG) <= 1e-12 && vmax > bestMax)) {
+        best = k;
+        bestG = g;
+        bestMax = vmax;
+      }
+    }
+    const off = (cell * K + best) * m;
+    const q = sol.subarray(off, off + m);
+    const t = forwardInto(chain, q, kin);
+    jacobianInto(j, chain, kin, t[3]!, t[7]!, t[11]!);
+    guaranteed[cell] = bestG * 1000;
+    maxSpeed[cell] = bestMax * 1000;
+    invCond[cell] = scaledSingularValues(j, m, chain.characteristicLengthM, sg);
+    if (m === 6) detSign[cell] = det6Sign(j, sp.a);
+    joints.set(q, cell * m);
+    if (!wristCentreInto(c, chain, kin)) c.set([t[3]!, t[7]!, t[11]!]);
+    const code = frame ? branchCode(chain, kin, frame, c[0]!, c[1]!, c[2]!) : 0;
+    let idx = codes.indexOf(code);
+    if (idx < 0) {
+      codes.push(code);
+      idx = codes.length - 1;
+    }
+    branch[cell] = idx;
+  }
+  return {
+    orientation,
+    grid,
+    guaranteedMmPerS: guaranteed,
+    maxMmPerS: maxSpeed,
+    inverseCondition: invCond,
+    detSign,
+    branch,
+    branchNames: codes.map((code) => branchName(frame, code)),
+    joints,
+    reachableCells: reachable,
+  };
+}
+
+/** Sign of the determinant of a 6 × 6 row-major matrix by LU with partial pivoting (uses `work`, 36). */
+export function det6Sign(j: ArrayLike<number>, work: Float64Array): -1 | 0 | 1 {
+  for (let i = 0; i < 36; i++) work[i] = j[i]!;
+  let sign = 1;
+  for (let c = 0; c < 6; c++) {
+    let p = c, best = Math.abs(work[c * 6 + c]!);
+    for (let r = c + 1; r < 6; r++) {
+      const v = Math.abs(work[r * 6 + c]!);
+      if (v > best) {
+        best = v;
+        p = r;
+      }
+    }
+    if (best === 0) return 0;
+    if (p !== c) {
+      sign = -sign;
+      for (let k = 0; k < 6; k++) {
+        const t = work[c * 6 + k]!;
+        work[c * 6 + k] = work[p * 6 + k]!;
+        work[p * 6 + k] = t;
+      }
+    }
+    const piv = work[c * 6 + c]!;
+    if (piv < 0) sign = -sign;
+    for (let r = c + 1; r < 6; r++) {
+      const f = work[r * 6 + c]! / piv;
+      for (let k = c; k < 6; k++) work[r * 6 + k] = work[r * 6 + k]! - f * work[c * 6 + k]!;
+    }
+  }
+  return sign > 0 ? 1 : -1;
+}

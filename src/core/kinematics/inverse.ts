@@ -1,0 +1,220 @@
+/**
+ * Numerical inverse kinematics by damped least squares (Levenberg–Marquardt), for any chain.
+ * Task: the flange pose (position + full orientation) for arms with six or more driven joints; position + tool
+ * axis (flange z) for arms with fewer, whose rotation about the tool axis is left free.
+ * Orientation error rows are multiplied by the chain's characteristic length so both blocks are in metres.
+ * Damping λ² = ‖e‖² + 1e-12 shrinks to zero at the solution (quadratic convergence) and keeps steps bounded
+ * near singularities.
+ * @see Nakamura & Hanafusa 1986; Wampler 1986 (damped least squares) [from memory];
+ *   Siciliano et al., Robotics: Modelling, Planning and Control, §3.7 (inverse kinematics algorithms) [from memory]
+ */
+import type { Chain } from "./chain";
+import { createScratch, forwardInto, jacobianInto, type KinematicsScratch } from "./forward";
+
+export interface IkScratch {
+  readonly kin: KinematicsScratch;
+  readonly j: Float64Array;
+  readonly task: Float64Array;
+  readonly e: Float64Array;
+  readonly a: Float64Array;
+  readonly x: Float64Array;
+  readonly q: Float64Array;
+  readonly y: Float64Array;
+}
+
+export function createIkScratch(chain: Chain): IkScratch {
+  const m = chain.drivenCount;
+  return {
+    kin: createScratch(chain),
+    j: new Float64Array(6 * m),
+    task: new Float64Array(6 * m),
+    e: new Float64Array(6),
+    a: new Float64Array(Math.max(36, m * m)),
+    x: new Float64Array(m),
+    q: new Float64Array(m),
+    y: new Float64Array(6),
+  };
+}
+
+export interface IkOptions {
+  readonly maxIterations: number;
+  /** Position tolerance, m. */
+  readonly toleranceM: number;
+  /** Orientation tolerance, rad. */
+  readonly toleranceRad: number;
+}
+
+export const DEFAULT_IK: IkOptions = { maxIterations: 40, toleranceM: 1e-7, toleranceRad: 1e-6 };
+
+/** Axis-angle vector ω (rad) with exp([ω]) = R_target · Rᵀ, from two row-major 4×4 poses. Writes e[3..5]. */
+function orientationErrorInto(e: Float64Array, t: Float64Array, target: ArrayLike<number>): void {
+  // R_err = Rt · Rᵀ; element (r, c) = Σ_k Rt[r,k] R[c,k]
+  const re = (r: number, c: number) => target[r * 4]! * t[c * 4]! + target[r * 4 + 1]! * t[c * 4 + 1]! + target[r * 4 + 2]! * t[c * 4 + 2]!;
+  const r00 = re(0, 0), r11 = re(1, 1), r22 = re(2, 2);
+  const vx = (re(2, 1) - re(1, 2)) / 2, vy = (re(0, 2) - re(2, 0)) / 2, vz = (re(1, 0) - re(0, 1)) / 2;
+  const sinA = Math.hypot(vx, vy, vz);
+  const cosA = (r00 + r11 + r22 - 1) / 2;
+  const angle = Math.atan2(sinA, cosA);
+  if (sinA > 1e-9) {
+    const f = angle / sinA;
+    e[3] = vx * f;
+    e[4] = vy * f;
+    e[5] = vz * f;
+  } else if (cosA > 0) {
+    e[3] = vx;
+    e[4] = vy;
+    e[5] = vz;
+  } else {
+    // Half-turn: axis from the diagonal of (R_err + I) / 2 = k kᵀ.
+    const kx = Math.sqrt(Math.max(0, (r00 + 1) / 2)), ky = Math.sqrt(Math.max(0, (r11 + 1) / 2)), kz = Math.sqrt(Math.max(0, (r22 + 1) / 2));
+    let ax = kx, ay = ky, az = kz;
+    if (kx >= ky && kx >= kz) {
+      ay = Math.sign(re(0, 1) + re(1, 0)) * ky;
+      az = Math.sign(re(0, 2) + re(2, 0)) * kz;
+    } else if (ky >= kz) {
+      ax = Math.sign(re(0, 1) + re(1, 0)) * kx;
+      az = Math.sign(re(1, 2) + re(2, 1)) * kz;
+    } else {
+      ax = Math.sign(re(0, 2) + re(2, 0)) * kx;
+      ay = Math.sign(re(1, 2) + re(2, 1)) * ky;
+    }
+    e[3] = Math.PI * ax;
+    e[4] = Math.PI * ay;
+    e[5] = Math.PI * az;
+  }
+}
+
+/** Solves a·x = b in place (k × k, one right-hand side) with partial pivoting; false when singular. */
+function solve1(a: Float64Array, x: Float64Array, k: number): boolean {
+  for (let c = 0; c < k; c++) {
+    let p = c, best = Math.abs(a[c * k + c]!);
+    for (let r = c + 1; r < k; r++) {
+      const v = Math.abs(a[r * k + c]!);
+      if (v > best) {
+        best = v;
+        p = r;
+      }
+    }
+    if (!(best > 1e-300)) return false;
+    if (p !== c) {
+      for (let j = 0; j < k; j++) {
+        const t = a[c * k + j]!;
+        a[c * k + j] = a[p * k + j]!;
+        a[p * k + j] = t;
+      }
+      const t = x[c]!;
+      x[c] = x[p]!;
+      x[p] = t;
+    }
+    const piv = a[c * k + c]!;
+    for (let r = c + 1; r < k; r++) {
+      const f = a[r * k + c]! / piv;
+      if (f === 0) continue;
+      for (let j = c; j < k; j++) a[r * k + j] = a[r * k + j]! - f * a[c * k + j]!;
+      x[r] = x[r]! - f * x[c]!;
+    }
+  }
+  for (let c = k - 1; c >= 0; c--) {
+    let v = x[c]!;
+    for (let r = c + 1; r < k; r++) v -= a[c * k + r]! * x[r]!;
+    x[c] = v / a[c * k + c]!;
+  }
+  return true;
+}
+
+/**
+ * Solves for driven joints that put the flange at `baseFromFlangeTarget` (row-major 4×4, m), starting from `seed`,
+ * keeping every joint inside its range. Writes the solution into `qOut` (may alias `seed`) and returns whether it
+ * converged. Allocates nothing.
+ */
+export function solveIkInto(
+  qOut: Float64Array,
+  chain: Chain,
+  baseFromFlangeTarget: ArrayLike<number>,
+  seed: ArrayLike<number>,
+  s: IkScratch,
+  options: IkOptions = DEFAULT_IK,
+): boolean {
+  const m = chain.drivenCount, q = s.q, e = s.e, j = s.j, task = s.task, a = s.a, x = s.x;
+  const lengthM = chain.characteristicLengthM;
+  const axisOnly = m < 6;
+  for (let i = 0; i < m; i++) q[i] = Math.min(chain.upperSi[i]!, Math.max(chain.lowerSi[i]!, seed[i]!));
+  const tol2p = options.toleranceM * options.toleranceM, tol2r = options.toleranceRad * options.toleranceRad;
+  let converged = false;
+  let previous = Infinity;
+  for (let it = 0; it <= options.maxIterations; it++) {
+    const t = forwardInto(chain, q, s.kin);
+    e[0] = baseFromFlangeTarget[3]! - t[3]!;
+    e[1] = baseFromFlangeTarget[7]! - t[7]!;
+    e[2] = baseFromFlangeTarget[11]! - t[11]!;
+    if (axisOnly) {
+      // ω that turns the current tool axis onto the target axis: z × z_t (small-angle form, exact direction).
+      const zx = t[2]!, zy = t[6]!, zz = t[10]!;
+      const tx = baseFromFlangeTarget[2]!, ty = baseFromFlangeTarget[6]!, tz = baseFromFlangeTarget[10]!;
+      e[3] = zy * tz - zz * ty;
+      e[4] = zz * tx - zx * tz;
+      e[5] = zx * ty - zy * tx;
+      if (zx * tx + zy * ty + zz * tz < 0) {
+        // More than 90° away: push along any perpendicular.
+        const n = Math.hypot(e[3]!, e[4]!, e[5]!) || 1;
+        e[3] = e[3]! / n;
+        e[4] = e[4]! / n;
+        e[5] = e[5]! / n;
+      }
+    } else {
+      orientationErrorInto(e, t, baseFromFlangeTarget);
+    }
+    const ep2 = e[0]! * e[0]! + e[1]! * e[1]! + e[2]! * e[2]!;
+    const er2 = e[3]! * e[3]! + e[4]! * e[4]! + e[5]! * e[5]!;
+    if (ep2 <= tol2p && er2 <= tol2r) {
+      converged = true;
+      break;
+    }
+    if (it === options.maxIterations) break;
+    // Stalled (a joint limit or out of reach): the error no longer shrinks by a useful factor.
+    const err = ep2 + er2 * lengthM * lengthM;
+    if (it >= 4 && err > 0.25 * previous) break;
+    previous = err;
+    jacobianInto(j, chain, s.kin, t[3]!, t[7]!, t[11]!);
+    for (let i = 0; i < 3 * m; i++) task[i] = j[i]!;
+    for (let i = 3 * m; i < 6 * m; i++) task[i] = j[i]! * lengthM;
+    const lambda2 = ep2 + er2 * lengthM * lengthM + 1e-12;
+    if (m > 6) {
+      // Redundant: Δq = Tᵀ (T Tᵀ + λ²I)⁻¹ e_scaled, the damped minimum-norm step (6 × 6 system).
+      const y = s.y;
+      for (let r = 0; r < 6; r++) {
+        for (let c = r; c < 6; c++) {
+          let v = 0;
+          for (let k = 0; k < m; k++) v += task[r * m + k]! * task[c * m + k]!;
+          a[r * 6 + c] = v + (r === c ? lambda2 : 0);
+          a[c * 6 + r] = v + (r === c ? lambda2 : 0);
+        }
+        y[r] = r < 3 ? e[r]! : e[r]! * lengthM;
+      }
+      if (!solve1(a, y, 6)) break;
+      for (let i = 0; i < m; i++) {
+        let v = 0;
+        for (let k = 0; k < 6; k++) v += task[k * m + i]! * y[k]!;
+        q[i] = Math.min(chain.upperSi[i]!, Math.max(chain.lowerSi[i]!, q[i]! + v));
+      }
+      continue;
+    }
+    // (TᵀT + λ²I) Δq = Tᵀ e_scaled
+    for (let r = 0; r < m; r++) {
+      for (let c = r; c < m; c++) {
+        let v = 0;
+        for (let k = 0; k < 6; k++) v += task[k * m + r]! * task[k * m + c]!;
+        a[r * m + c] = v + (r === c ? lambda2 : 0);
+        a[c * m + r] = v + (r === c ? lambda2 : 0);
+      }
+      let rhs = 0;
+      for (let k = 0; k < 3; k++) rhs += task[k * m + r]! * e[k]!;
+      for (let k = 3; k < 6; k++) rhs += task[k * m + r]! * e[k]! * lengthM;
+      x[r] = rhs;
+    }
+    if (!solve1(a, x, m)) break;
+    for (let i = 0; i < m; i++) q[i] = Math.min(chain.upperSi[i]!, Math.max(chain.lowerSi[i]!, q[i]! + x[i]!));
+  }
+  for (let i = 0; i < m; i++) qOut[i] = q[i]!;
+  return converged;
+}

@@ -1,0 +1,39 @@
+/** Props of the shared layout: site name, navigation and footer. */
+import { CAUTIONS } from "./cautions";
+import { siteHref } from "./links";
+
+export const SITE_NAME = "Armdex";
+export const SITE_TAGLINE = "Industrial robot arms, compared from their declared parameters";
+
+export type NavKey = "catalog" | "methods";
+
+export interface NavItem {
+  readonly key: NavKey;
+  readonly label: string;
+  readonly href: string;
+}
+
+export interface SiteModel {
+  readonly name: string;
+  readonly tagline: string;
+  readonly homeHref: string;
+  readonly nav: readonly NavItem[];
+  readonly cautionsSummary: string;
+  readonly cautionsHref: string;
+  readonly faviconHref: string;
+}
+
+export function siteModel(baseUrl: string): SiteModel {
+  return {
+    name: SITE_NAME,
+    tagline: SITE_TAGLINE,
+    homeHref: siteHref(baseUrl, ""),
+    nav: [
+      { key: "catalog", label: "Catalog", href: siteHref(baseUrl, "") },
+      { key: "methods", label: "Methods", href: siteHref(baseUrl, "methods/") },
+    ],
+    cautionsSummary: CAUTIONS.summary,
+    cautionsHref: siteHref(baseUrl, "methods/#cautions"),
+    faviconHref: siteHref(baseUrl, "favicon.svg"),
+  };
+}
