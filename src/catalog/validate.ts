@@ -44,7 +44,14 @@ export function validateArm(data: unknown, file: string, fileId: string): Valida
   const error = (path: string, message: string) => issues.push({ file, path, message, severity: "error" });
   const parsed = ArmSpecSchema.safeParse(data, { reportInput: true });
   if (!parsed.success) {
-    for (const issue of parsed.error.issues) error(toPath(issue.path), zodIssueMessage(issue));
+    for (const issue of parsed.error.issues) {
+      if (issue.code === "unrecognized_keys") {
+        // One issue per unknown key, at the key's own path.
+        for (const key of issue.keys) error(toPath([...issue.path, key]), "unknown field: not part of the arm format (check the spelling and the unit in the name)");
+      } else {
+        error(toPath(issue.path), zodIssueMessage(issue));
+      }
+    }
   }
   for (const s of semanticIssues(data)) error(s.path, s.message);
   if (isObject(data) && typeof data.id === "string" && data.id !== fileId) {

@@ -20,6 +20,8 @@ usage:
   armdex check [paths…]          validate arm files or folders (default: arms/); exit 1 on any error
   armdex pose <arm.json> --joints q1,q2,… [--tool x,y,z] [--allow-outside]
                                  pose, Jacobian and singular values as JSON (joints in deg or mm; tool in mm)
+  armdex analyze <arm.json>      the arm's full analysis as JSON (envelope, speed maps, singularities, payload, cycle)
+  armdex analyze --all [folder]  analyse every arm of a folder (default: arms/) into the cache, in parallel
   armdex schema [out.json]       write the arm JSON Schema (default: public/schema/arm.schema.json)
 `;
 
@@ -85,6 +87,31 @@ export async function main(argv: string[]): Promise<number> {
         return result.usage ? 2 : 1;
       }
       process.stdout.write(`${stringifyCompact(result.value)}\n`);
+      return 0;
+    }
+    case "analyze":
+    case "analyse": {
+      const { values, positionals } = parseArgs({ args: rest, allowPositionals: true, options: { all: { type: "boolean" }, workers: { type: "string" } } });
+      const { analyseCatalog, getAnalysis } = await import("../catalog/analysis");
+      if (values.all) {
+        const { arms, issues } = await loadArms(positionals.length ? positionals : ["arms"]);
+        const errors = issues.filter((i) => i.severity === "error");
+        if (errors.length) {
+          for (const i of errors) process.stderr.write(`${formatIssue(i)}\n`);
+          return 1;
+        }
+        const t0 = performance.now();
+        const report = await analyseCatalog(arms, { workers: values.workers ? Number(values.workers) : undefined, log: (l) => process.stdout.write(`${l}\n`) });
+        process.stdout.write(`${report.analysed.length} analysed, ${report.cached.length} from the cache, in ${((performance.now() - t0) / 1000).toFixed(1)} s\n`);
+        return 0;
+      }
+      if (positionals.length !== 1) throw new UsageError("analyze needs one arm file, or --all");
+      const loaded = await loadArmFile(positionals[0]!);
+      if (!loaded.arm) {
+        for (const i of loaded.issues) process.stderr.write(`${formatIssue(i)}\n`);
+        return 1;
+      }
+      process.stdout.write(`${JSON.stringify(await getAnalysis(loaded.arm))}\n`);
       return 0;
     }
     case "schema":

@@ -1,0 +1,76 @@
+/**
+ * npm run bench: speed is measured here, never in unit tests. Reports medians (and ratios against a baseline
+ * measured in the same run):
+ * 1. the per-pose kernel (FK + Jacobian + singular values + both speed figures), ours vs ml-matrix objects;
+ * 2. per-stage analysis times for every arm of the catalog, single-threaded.
+ * Options: --arms <folder> (default arms/), --quick (fewer repetitions).
+ */
+import { parseArgs } from "node:util";
+import { loadArms } from "../../src/catalog";
+import { fastKernel, baselineKernel } from "./kernel";
+import { mulberry32 } from "../../src/core/analysis/random";
+import { workspaceEnvelope } from "../../src/core/analysis/envelope";
+import { referenceOrientations, toolSpeedMap, DEFAULT_SPEED_MAP } from "../../src/core/analysis/speedMap";
+import { payloadAtReach, payloadInputOf, loadDiagram } from "../../src/core/analysis/payload";
+import { analyseArm } from "../../src/core/analysis/analyseArm";
+import { gravityDirectionInBase } from "../../src/core/analysis/mounting";
+import { armFacts } from "../../src/catalog/analysis";
+
+const { values } = parseArgs({ options: { arms: { type: "string" }, quick: { type: "boolean" }, only: { type: "string" } } });
+const reps = values.quick ? 3 : 7;
+
+function median(xs: number[]): number {
+  const s = [...xs].sort((a, b) => a - b);
+  const mid = s.length >> 1;
+  return s.length % 2 ? s[mid]! : (s[mid - 1]! + s[mid]!) / 2;
+}
+
+function timeMs(f: () => unknown): number {
+  const t0 = performance.now();
+  f();
+  return performance.now() - t0;
+}
+
+const { arms, issues } = await loadArms([values.arms ?? "arms"]);
+if (issues.some((i) => i.severity === "error")) throw new Error("invalid catalog; run armdex check");
+const chosen = values.only ? arms.filter((a) => values.only!.split(",").includes(a.id)) : arms;
+console.log(`node ${process.version}, ${chosen.length} arms, medians of ${reps} runs\n`);
+
+// 1. Kernel throughput.
+console.log("kernel: FK + Jacobian + singular values + guaranteed line speed + maximum tool speed, one pose");
+console.log("arm                          ours poses/s   ml-matrix poses/s   ratio");
+const ratios: number[] = [];
+for (const arm of chosen) {
+  const c = arm.chain, m = c.drivenCount;
+  const rnd = mulberry32(7);
+  const poses = Array.from({ length: 2000 }, () => Float64Array.from({ length: m }, (_, i) => Math.max(c.lowerSi[i]!, -3) + (Math.min(c.upperSi[i]!, 3) - Math.max(c.lowerSi[i]!, -3)) * rnd()));
+  const fast = fastKernel(c), base = baselineKernel(c);
+  let sink = 0;
+  const run = (k: (q: Float64Array) => number, count: number) => () => {
+    for (let i = 0; i < count; i++) sink += k(poses[i % poses.length]!);
+  };
+  run(fast, 20000)();
+  run(base, 500)();
+  const fastRate = median(Array.from({ length: reps }, () => 50000 / (timeMs(run(fast, 50000)) / 1000)));
+  const baseRate = median(Array.from({ length: reps }, () => 2000 / (timeMs(run(base, 2000)) / 1000)));
+  ratios.push(fastRate / baseRate);
+  console.log(`${arm.id.padEnd(28)} ${fastRate.toFixed(0).padStart(12)} ${baseRate.toFixed(0).padStart(19)} ${(fastRate / baseRate).toFixed(1).padStart(7)}×${sink === 0 ? "" : ""}`);
+}
+console.log(`median ratio ${median(ratios).toFixed(1)}×\n`);
+
+// 2. Per-stage analysis times, single-threaded.
+console.log("analysis stages, ms (single thread):");
+console.log("arm                          envelope  speed maps  payload  full analysis");
+for (const arm of chosen) {
+  const c = arm.chain, facts = armFacts(arm);
+  const gravity = gravityDirectionInBase(facts.mountings[0] ?? "floor");
+  const env = median(Array.from({ length: Math.min(reps, 3) }, () => timeMs(() => workspaceEnvelope(c))));
+  const maps = median(Array.from({ length: Math.min(reps, 3) }, () => timeMs(() => referenceOrientations(c).map((o) => toolSpeedMap(c, o, { ...DEFAULT_SPEED_MAP, gravity })))));
+  const pay = median(Array.from({ length: Math.min(reps, 3) }, () => timeMs(() => {
+    const input = payloadInputOf(facts, c);
+    payloadAtReach(c, input);
+    loadDiagram(input);
+  })));
+  const full = median(Array.from({ length: Math.min(reps, 3) }, () => timeMs(() => analyseArm(c, facts))));
+  console.log(`${arm.id.padEnd(28)} ${env.toFixed(0).padStart(8)} ${maps.toFixed(0).padStart(11)} ${pay.toFixed(0).padStart(8)} ${full.toFixed(0).padStart(14)}`);
+}
