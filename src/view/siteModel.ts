@@ -21,6 +21,8 @@ export interface SiteModel {
   readonly cautionsSummary: string;
   readonly cautionsHref: string;
   readonly faviconHref: string;
+  /** The arm file format (written to public/schema/ by `armdex schema` in the build script). */
+  readonly schemaHref: string;
 }
 
 export function siteModel(baseUrl: string): SiteModel {
@@ -35,5 +37,6 @@ export function siteModel(baseUrl: string): SiteModel {
     cautionsSummary: CAUTIONS.summary,
     cautionsHref: siteHref(baseUrl, "methods/#cautions"),
     faviconHref: siteHref(baseUrl, "favicon.svg"),
+    schemaHref: siteHref(baseUrl, "schema/arm.schema.json"),
   };
 }

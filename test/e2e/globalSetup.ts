@@ -18,6 +18,20 @@ declare module "vitest" {
   }
 }
 
+/**
+ * The environment for the build: ours, minus what vitest adds for its own tests. Vitest sets BASE_URL, MODE, DEV,
+ * PROD, SSR and NODE_ENV=test in process.env; Astro reads process.env into import.meta.env, so a leaked BASE_URL
+ * would override the configured base path of every link.
+ */
+function buildEnv(): NodeJS.ProcessEnv {
+  const env: NodeJS.ProcessEnv = { ...process.env, ASTRO_TELEMETRY_DISABLED: "1" };
+  for (const key of ["BASE_URL", "MODE", "DEV", "PROD", "SSR", "TEST", "VITEST", "VITEST_MODE", "VITEST_POOL_ID", "VITEST_WORKER_ID"]) {
+    delete env[key];
+  }
+  if (env.NODE_ENV === "test") delete env.NODE_ENV;
+  return env;
+}
+
 export default async function setup(project: TestProject): Promise<() => Promise<void>> {
   const root = project.config.root;
   const distDir = join(root, "dist");
@@ -26,7 +40,7 @@ export default async function setup(project: TestProject): Promise<() => Promise
     const result = spawnSync("npm", ["run", "build"], {
       cwd: root,
       encoding: "utf8",
-      env: { ...process.env, ASTRO_TELEMETRY_DISABLED: "1" },
+      env: buildEnv(),
       maxBuffer: 64 * 1024 * 1024,
     });
     if (result.status !== 0) {

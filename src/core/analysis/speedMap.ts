@@ -18,6 +18,8 @@ import { createSpeedScratch, guaranteedLineSpeed, maxToolSpeed } from "./speed";
 import { createSingularityScratch, scaledSingularValues } from "./singularity";
 import { branchCode, branchFrame, branchName, type BranchFrame } from "./branches";
 import { mulberry32 } from "./random";
+import { classifyNullVector, jointRoles } from "./singularity";
+import { traceSingularityLoci, type SingularityLocus } from "./loci";
 
 export type ReferenceOrientation = "down" | "outward";
 
@@ -47,6 +49,8 @@ export interface ToolSpeedMap {
   /** Driven joint values of the kept branch, rad or m, m per cell (NaN where unreachable). */
   readonly joints: Float64Array;
   readonly reachableCells: number;
+  /** Zero crossings of det J along continuous solution sheets, by kind (square task Jacobians only). */
+  readonly loci: readonly SingularityLocus[];
 }
 
 export interface SpeedMapOptions {
@@ -72,6 +76,8 @@ export const DEFAULT_SPEED_MAP: SpeedMapOptions = {
   seed: 20261202,
 };
 
+/** Largest joint change between neighbouring cells still taken as one continuous solution, rad (or m). */
+const MAX_CONTINUATION_JUMP_RAD = 0.3;
 const CONTINUATION_IK: IkOptions = { maxIterations: 12, toleranceM: 1e-7, toleranceRad: 1e-6 };
 const DISCOVERY_IK: IkOptions = { maxIterations: 60, toleranceM: 1e-7, toleranceRad: 1e-6 };
 
@@ -208,16 +214,31 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
   const step = options.stepMm;
   if (!(step > 0)) throw new RangeError(`invalid stepMm: ${step}`);
   const zMinMm = Math.floor(bounds.zMin / step) * step;
-  const nx = Math.max(1, Math.ceil(bounds.rMax / step) + 1);
+  // Two columns behind axis 1 so a locus on the axis (shoulder singularity) is crossed, not touched.
+  const rMinMm = -2 * step;
+  const nx = Math.max(1, Math.ceil((bounds.rMax - rMinMm) / step) + 1);
   const ny = Math.max(1, Math.ceil((bounds.zMax - zMinMm) / step) + 1);
   const cells = nx * ny, K = options.maxBranches;
-  const grid: Grid2 = { nx, ny, rMinMm: 0, zMinMm, stepMm: step };
+  const grid: Grid2 = { nx, ny, rMinMm, zMinMm, stepMm: step };
 
   const sol = new Float64Array(cells * K * m);
   const count = new Uint8Array(cells);
   // Continuation thread that found each solution: a thread does not revisit a cell it already holds.
-  const threadOf = new Int32Array(cells * K);
-  let thread = 0;
+  // Sheets: solutions joined by continuation (union-find over cell·K + slot). Within a sheet the solution varies
+  // continuously from cell to cell, so a sign change of det J between neighbours is a singular crossing.
+  const parent = new Int32Array(cells * K).map((_, i) => i);
+  const find = (i: number): number => {
+    while (parent[i] !== i) {
+      parent[i] = parent[parent[i]!]!;
+      i = parent[i]!;
+    }
+    return i;
+  };
+  const union = (a: number, b: number) => {
+    const ra = find(a), rb = find(b);
+    if (ra !== rb) parent[Math.max(ra, rb)] = Math.min(ra, rb);
+  };
+  let lastEqual = -1;
   const target = new Float64Array(16);
   const ik = createIkScratch(chain);
   const qTry = new Float64Array(m);
@@ -238,6 +259,7 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
   /** Stores qTry at `cell` unless an equal solution is there; returns the slot or −1. */
   const store = (cell: number): number => {
     const base = cell * K * m, n = count[cell]!;
+    lastEqual = -1;
     for (let k = 0; k < n; k++) {
       let same = true;
       for (let i = 0; i < m; i++) {
@@ -246,11 +268,13 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
           break;
         }
       }
-      if (same) return -1;
+      if (same) {
+        lastEqual = k;
+        return -1;
+      }
     }
     if (n >= K) return -1;
     sol.set(qTry, base + n * m);
-    threadOf[cell * K + n] = thread;
     count[cell] = n + 1;
     return n;
   };
@@ -267,21 +291,32 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
       const cell = queue[head++]!, slot = queue[head++]!;
       const ix = cell % nx, iy = (cell - ix) / nx;
       const from = (cell * K + slot) * m;
-      thread = threadOf[cell * K + slot]!;
+      const fromIdx = cell * K + slot;
       for (let d = 0; d < 4; d++) {
         const jx = ix + (d === 0 ? 1 : d === 1 ? -1 : 0), jy = iy + (d === 2 ? 1 : d === 3 ? -1 : 0);
         if (jx < 0 || jy < 0 || jx >= nx || jy >= ny) continue;
         const next = jx + jy * nx;
         const held = count[next]!;
         if (held >= K) continue;
+        const root = find(fromIdx);
         let mine = false;
-        for (let k = 0; k < held; k++) if (threadOf[next * K + k] === thread) mine = true;
+        for (let k = 0; k < held; k++) if (find(next * K + k) === root) mine = true;
         if (mine) continue;
         setTarget(next);
         for (let i = 0; i < m; i++) qSeed[i] = sol[from + i]!;
         if (!solveIkInto(qTry, chain, target, qSeed, ik, CONTINUATION_IK)) continue;
+        // A large joint jump means the solver left the sheet (it landed on another branch near a singularity):
+        // keep the solution, but do not join the sheets.
+        let jump = 0;
+        for (let i = 0; i < m; i++) jump = Math.max(jump, Math.abs(qTry[i]! - qSeed[i]!));
+        const continuous = jump < MAX_CONTINUATION_JUMP_RAD;
         const s2 = store(next);
-        if (s2 >= 0) push(next, s2);
+        if (s2 >= 0) {
+          if (continuous) union(fromIdx, next * K + s2);
+          push(next, s2);
+        } else if (lastEqual >= 0 && continuous) {
+          union(fromIdx, next * K + lastEqual);
+        }
       }
     }
   };
@@ -299,7 +334,6 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
           qTry[i] = lo + (hi - lo) * rnd();
         }
         if (!solveIkInto(qTry, chain, target, qTry, ik, DISCOVERY_IK)) continue;
-        thread++;
         const slot = store(cell);
         if (slot >= 0) {
           push(cell, slot);
@@ -321,6 +355,8 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
   const sg = createSingularityScratch(m);
   const codes: number[] = [];
   const c = new Float64Array(3);
+  const detVal = new Float64Array(cells * K).fill(NaN);
+  const detWork = new Float64Array(36);
   let reachable = 0;
   for (let cell = 0; cell < cells; cell++) {
     const n = count[cell]!;
@@ -332,6 +368,7 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
       const q = sol.subarray(off, off + m);
       const t = forwardInto(chain, q, kin);
       jacobianInto(j, chain, kin, t[3]!, t[7]!, t[11]!);
+      detVal[cell * K + k] = taskDeterminant(j, m, chain.characteristicLengthM, t, detWork);
       const g = guaranteedLineSpeed(j, m, chain.maxSpeedSi, sp);
       const vmax = maxToolSpeed(j, m, chain.maxSpeedSi, sp);
       if (g > bestG + 1e-12 || (Math.abs(g - bestG) <= 1e-12 && vmax > bestMax)) {
@@ -347,9 +384,14 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     guaranteed[cell] = bestG * 1000;
     maxSpeed[cell] = bestMax * 1000;
     invCond[cell] = scaledSingularValues(j, m, chain.characteristicLengthM, sg);
-    if (m === 6) detSign[cell] = det6Sign(j, sp.a);
+    const dBest = detVal[cell * K + best]!;
+    detSign[cell] = Number.isFinite(dBest) ? (dBest > 0 ? 1 : dBest < 0 ? -1 : 0) : 0;
     joints.set(q, cell * m);
-    if (!wristCentreInto(c, chain, kin)) c.set([t[3]!, t[7]!, t[11]!]);
+    if (!wristCentreInto(c, chain, kin)) {
+      c[0] = t[3]!;
+      c[1] = t[7]!;
+      c[2] = t[11]!;
+    }
     const code = frame ? branchCode(chain, kin, frame, c[0]!, c[1]!, c[2]!) : 0;
     let idx = codes.indexOf(code);
     if (idx < 0) {
@@ -358,9 +400,27 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     }
     branch[cell] = idx;
   }
+  const sheet = new Int32Array(cells * K);
+  for (let i = 0; i < cells * K; i++) sheet[i] = find(i);
+  const roles = jointRoles(chain);
+  const loci = traceSingularityLoci({
+    grid,
+    slots: K,
+    count,
+    sheet,
+    det: detVal,
+    kindAt: (cell, slot) => {
+      const off = (cell * K + slot) * m;
+      const t = forwardInto(chain, sol.subarray(off, off + m), kin);
+      jacobianInto(j, chain, kin, t[3]!, t[7]!, t[11]!);
+      scaledSingularValues(j, m, chain.characteristicLengthM, sg);
+      return classifyNullVector(sg.v, m, Math.min(6, m) - 1, roles);
+    },
+  });
   return {
     orientation,
     grid,
+    loci,
     guaranteedMmPerS: guaranteed,
     maxMmPerS: maxSpeed,
     inverseCondition: invCond,
@@ -372,14 +432,13 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
   };
 }
 
-/** Sign of the determinant of a 6 × 6 row-major matrix by LU with partial pivoting (uses `work`, 36). */
-export function det6Sign(j: ArrayLike<number>, work: Float64Array): -1 | 0 | 1 {
-  for (let i = 0; i < 36; i++) work[i] = j[i]!;
-  let sign = 1;
-  for (let c = 0; c < 6; c++) {
-    let p = c, best = Math.abs(work[c * 6 + c]!);
-    for (let r = c + 1; r < 6; r++) {
-      const v = Math.abs(work[r * 6 + c]!);
+/** Determinant of a k × k row-major matrix in `work` (overwritten) by LU with partial pivoting. */
+export function determinantInPlace(work: Float64Array, k: number): number {
+  let det = 1;
+  for (let c = 0; c < k; c++) {
+    let p = c, best = Math.abs(work[c * k + c]!);
+    for (let r = c + 1; r < k; r++) {
+      const v = Math.abs(work[r * k + c]!);
       if (v > best) {
         best = v;
         p = r;
@@ -387,19 +446,38 @@ export function det6Sign(j: ArrayLike<number>, work: Float64Array): -1 | 0 | 1 {
     }
     if (best === 0) return 0;
     if (p !== c) {
-      sign = -sign;
-      for (let k = 0; k < 6; k++) {
-        const t = work[c * 6 + k]!;
-        work[c * 6 + k] = work[p * 6 + k]!;
-        work[p * 6 + k] = t;
+      det = -det;
+      for (let i = 0; i < k; i++) {
+        const t = work[c * k + i]!;
+        work[c * k + i] = work[p * k + i]!;
+        work[p * k + i] = t;
       }
     }
-    const piv = work[c * 6 + c]!;
-    if (piv < 0) sign = -sign;
-    for (let r = c + 1; r < 6; r++) {
-      const f = work[r * 6 + c]! / piv;
-      for (let k = c; k < 6; k++) work[r * 6 + k] = work[r * 6 + k]! - f * work[c * 6 + k]!;
+    const piv = work[c * k + c]!;
+    det *= piv;
+    for (let r = c + 1; r < k; r++) {
+      const f = work[r * k + c]! / piv;
+      for (let i = c; i < k; i++) work[r * k + i] = work[r * k + i]! - f * work[c * k + i]!;
     }
   }
-  return sign > 0 ? 1 : -1;
+  return det;
+}
+
+/**
+ * Determinant of the square task Jacobian with linear rows divided by `lengthM` (dimensionless): the 6 × 6 J for
+ * six driven joints; for four, the rows (vx, vy, vz, ω·z_tool) (the tool keeps its axis). NaN otherwise.
+ */
+export function taskDeterminant(j: ArrayLike<number>, m: number, lengthM: number, baseFromFlange: Float64Array, work: Float64Array): number {
+  if (m === 6) {
+    for (let i = 0; i < 18; i++) work[i] = j[i]! / lengthM;
+    for (let i = 18; i < 36; i++) work[i] = j[i]!;
+    return determinantInPlace(work, 6);
+  }
+  if (m === 4) {
+    for (let i = 0; i < 12; i++) work[i] = j[i]! / lengthM;
+    const tx = baseFromFlange[2]!, ty = baseFromFlange[6]!, tz = baseFromFlange[10]!;
+    for (let c = 0; c < 4; c++) work[12 + c] = j[12 + c]! * tx + j[16 + c]! * ty + j[20 + c]! * tz;
+    return determinantInPlace(work, 4);
+  }
+  return NaN;
 }

@@ -60,10 +60,36 @@ export function forwardInto(chain: Chain, qDriven: ArrayLike<number>, s: Kinemat
   for (let k = 0; k < 16; k++) acc[k] = fixed[k]!;
   for (let i = 0; i < n; i++) {
     const ax = axes[3 * i]!, ay = axes[3 * i + 1]!, az = axes[3 * i + 2]!, qi = q[i]!;
-    if (chain.isPrismatic[i]) translationInto(step, ax * qi, ay * qi, az * qi);
-    else rotationAxisAngleInto(step, ax, ay, az, qi);
-    mul4AtInto(frames, 16 * i, acc, 0, step, 0);
-    mul4AtInto(acc, 0, frames, 16 * i, fixed, 16 * (i + 1));
+    const o = 16 * i;
+    if (ax === 0 && ay === 0 && az === 1) {
+      // Motion about/along local z (every DH joint): only columns 0, 1 (rotation) or 3 (translation) change.
+      if (chain.isPrismatic[i]) {
+        for (let r = 0; r < 3; r++) {
+          frames[o + r * 4] = acc[r * 4]!;
+          frames[o + r * 4 + 1] = acc[r * 4 + 1]!;
+          frames[o + r * 4 + 2] = acc[r * 4 + 2]!;
+          frames[o + r * 4 + 3] = acc[r * 4 + 3]! + qi * acc[r * 4 + 2]!;
+        }
+      } else {
+        const c = Math.cos(qi), sn = Math.sin(qi);
+        for (let r = 0; r < 3; r++) {
+          const c0 = acc[r * 4]!, c1 = acc[r * 4 + 1]!;
+          frames[o + r * 4] = c * c0 + sn * c1;
+          frames[o + r * 4 + 1] = c * c1 - sn * c0;
+          frames[o + r * 4 + 2] = acc[r * 4 + 2]!;
+          frames[o + r * 4 + 3] = acc[r * 4 + 3]!;
+        }
+      }
+      frames[o + 12] = 0;
+      frames[o + 13] = 0;
+      frames[o + 14] = 0;
+      frames[o + 15] = 1;
+    } else {
+      if (chain.isPrismatic[i]) translationInto(step, ax * qi, ay * qi, az * qi);
+      else rotationAxisAngleInto(step, ax, ay, az, qi);
+      mul4AtInto(frames, o, acc, 0, step, 0);
+    }
+    mul4AtInto(acc, 0, frames, o, fixed, 16 * (i + 1));
   }
   s.flange.set(s.acc);
   return s.flange;

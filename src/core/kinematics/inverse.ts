@@ -48,10 +48,13 @@ export const DEFAULT_IK: IkOptions = { maxIterations: 40, toleranceM: 1e-7, tole
 
 /** Axis-angle vector ω (rad) with exp([ω]) = R_target · Rᵀ, from two row-major 4×4 poses. Writes e[3..5]. */
 function orientationErrorInto(e: Float64Array, t: Float64Array, target: ArrayLike<number>): void {
-  // R_err = Rt · Rᵀ; element (r, c) = Σ_k Rt[r,k] R[c,k]
-  const re = (r: number, c: number) => target[r * 4]! * t[c * 4]! + target[r * 4 + 1]! * t[c * 4 + 1]! + target[r * 4 + 2]! * t[c * 4 + 2]!;
-  const r00 = re(0, 0), r11 = re(1, 1), r22 = re(2, 2);
-  const vx = (re(2, 1) - re(1, 2)) / 2, vy = (re(0, 2) - re(2, 0)) / 2, vz = (re(1, 0) - re(0, 1)) / 2;
+  // R_err = Rt · Rᵀ; element (r, c) = Σ_k Rt[r,k] R[c,k] (written out: no closure in the hot path).
+  const t0 = target[0]!, t1 = target[1]!, t2 = target[2]!, t4 = target[4]!, t5 = target[5]!, t6 = target[6]!;
+  const t8 = target[8]!, t9 = target[9]!, t10 = target[10]!;
+  const r00 = t0 * t[0]! + t1 * t[1]! + t2 * t[2]!, r01 = t0 * t[4]! + t1 * t[5]! + t2 * t[6]!, r02 = t0 * t[8]! + t1 * t[9]! + t2 * t[10]!;
+  const r10 = t4 * t[0]! + t5 * t[1]! + t6 * t[2]!, r11 = t4 * t[4]! + t5 * t[5]! + t6 * t[6]!, r12 = t4 * t[8]! + t5 * t[9]! + t6 * t[10]!;
+  const r20 = t8 * t[0]! + t9 * t[1]! + t10 * t[2]!, r21 = t8 * t[4]! + t9 * t[5]! + t10 * t[6]!, r22 = t8 * t[8]! + t9 * t[9]! + t10 * t[10]!;
+  const vx = (r21 - r12) / 2, vy = (r02 - r20) / 2, vz = (r10 - r01) / 2;
   const sinA = Math.hypot(vx, vy, vz);
   const cosA = (r00 + r11 + r22 - 1) / 2;
   const angle = Math.atan2(sinA, cosA);
@@ -69,14 +72,14 @@ function orientationErrorInto(e: Float64Array, t: Float64Array, target: ArrayLik
     const kx = Math.sqrt(Math.max(0, (r00 + 1) / 2)), ky = Math.sqrt(Math.max(0, (r11 + 1) / 2)), kz = Math.sqrt(Math.max(0, (r22 + 1) / 2));
     let ax = kx, ay = ky, az = kz;
     if (kx >= ky && kx >= kz) {
-      ay = Math.sign(re(0, 1) + re(1, 0)) * ky;
-      az = Math.sign(re(0, 2) + re(2, 0)) * kz;
+      ay = Math.sign(r01 + r10) * ky;
+      az = Math.sign(r02 + r20) * kz;
     } else if (ky >= kz) {
-      ax = Math.sign(re(0, 1) + re(1, 0)) * kx;
-      az = Math.sign(re(1, 2) + re(2, 1)) * kz;
+      ax = Math.sign(r01 + r10) * kx;
+      az = Math.sign(r12 + r21) * kz;
     } else {
-      ax = Math.sign(re(0, 2) + re(2, 0)) * kx;
-      ay = Math.sign(re(1, 2) + re(2, 1)) * ky;
+      ax = Math.sign(r02 + r20) * kx;
+      ay = Math.sign(r12 + r21) * ky;
     }
     e[3] = Math.PI * ax;
     e[4] = Math.PI * ay;

@@ -1,0 +1,163 @@
+/**
+ * A run-length raster: for each row (a horizontal line y = y0 + j·dy) the union of x-intervals covered by a region,
+ * with exact floating-point endpoints. Sampling along x is therefore exact; along y the resolution is dy.
+ * Rows are created on demand. Used by the workspace envelope to accumulate unions of many polygons cheaply:
+ * inserting an interval costs a binary search and a splice, independent of its length.
+ */
+export class RowCover {
+  /** y of row 0 (mm). */
+  readonly y0: number;
+  /** Row spacing (mm). */
+  readonly dy: number;
+  private firstRow = 0;
+  private data: Float64Array[] = [];
+  private size: number[] = [];
+
+  constructor(y0: number, dy: number) {
+    if (!(dy > 0)) throw new RangeError(`invalid dy: ${dy}`);
+    this.y0 = y0;
+    this.dy = dy;
+  }
+
+  /** Index of the lowest existing row (meaningless when empty). */
+  get jMin(): number {
+    return this.firstRow;
+  }
+  /** Index of the highest existing row; jMax < jMin when empty. */
+  get jMax(): number {
+    return this.firstRow + this.data.length - 1;
+  }
+
+  /** Row index whose line is nearest to y. */
+  rowOf(y: number): number {
+    return Math.round((y - this.y0) / this.dy);
+  }
+  /** y of row j. */
+  yOf(j: number): number {
+    return this.y0 + j * this.dy;
+  }
+
+  /** Interval endpoints of row j as [s0, e0, s1, e1, …] (sorted, disjoint) and their count of numbers. */
+  row(j: number): { readonly values: Float64Array; readonly length: number } {
+    const k = j - this.firstRow;
+    if (k < 0 || k >= this.data.length) return EMPTY;
+    return { values: this.data[k]!, length: this.size[k]! };
+  }
+
+  /** Number of values (2 per interval) in row j; 0 when the row does not exist. */
+  lengthOf(j: number): number {
+    const k = j - this.firstRow;
+    return k < 0 || k >= this.data.length ? 0 : this.size[k]!;
+  }
+
+  /** Values array of row j (valid up to lengthOf(j)). */
+  valuesOf(j: number): Float64Array {
+    const k = j - this.firstRow;
+    return k < 0 || k >= this.data.length ? EMPTY_VALUES : this.data[k]!;
+  }
+
+  private ensureRow(j: number): number {
+    if (this.data.length === 0) {
+      this.firstRow = j;
+      this.data.push(new Float64Array(8));
+      this.size.push(0);
+      return 0;
+    }
+    if (j < this.firstRow) {
+      const add = this.firstRow - j;
+      const fresh: Float64Array[] = [];
+      for (let i = 0; i < add; i++) fresh.push(new Float64Array(8));
+      this.data = fresh.concat(this.data);
+      this.size = new Array<number>(add).fill(0).concat(this.size);
+      this.firstRow = j;
+    } else {
+      while (j - this.firstRow >= this.data.length) {
+        this.data.push(new Float64Array(8));
+        this.size.push(0);
+      }
+    }
+    return j - this.firstRow;
+  }
+
+  /** True when [a, b] lies inside one interval of row j. */
+  covers(j: number, a: number, b: number): boolean {
+    const k = j - this.firstRow;
+    if (k < 0 || k >= this.data.length) return false;
+    const v = this.data[k]!, n = this.size[k]! >> 1;
+    // first interval whose end ≥ a
+    let lo = 0, hi = n;
+    while (lo < hi) {
+      const mid = (lo + hi) >> 1;
+      if (v[2 * mid + 1]! < a) lo = mid + 1;
+      else hi = mid;
+    }
+    return lo < n && v[2 * lo]! <= a && v[2 * lo + 1]! >= b;
+  }
+
+  /** Adds [a, b] (a ≤ b) to row j, merging with the intervals it touches. */
+  add(j: number, a: number, b: number): void {
+    if (!(a <= b)) return;
+    const k = this.ensureRow(j);
+    let v = this.data[k]!;
+    const len = this.size[k]!;
+    const n = len >> 1;
+    let lo = 0, hi = n;
+    while (lo < hi) {
+      const mid = (lo + hi) >> 1;
+      if (v[2 * mid + 1]! < a) lo = mid + 1;
+      else hi = mid;
+    }
+    // intervals lo … last-1 overlap [a, b]
+    let last = lo;
+    let s = a, e = b;
+    while (last < n && v[2 * last]! <= b) {
+      if (v[2 * last]! < s) s = v[2 * last]!;
+      if (v[2 * last + 1]! > e) e = v[2 * last + 1]!;
+      last++;
+    }
+    const removed = last - lo;
+    if (removed === 1) {
+      v[2 * lo] = s;
+      v[2 * lo + 1] = e;
+      return;
+    }
+    const newLen = len + 2 - 2 * removed;
+    if (newLen > v.length) {
+      const grown = new Float64Array(Math.max(8, v.length * 2));
+      grown.set(v.subarray(0, len));
+      v = grown;
+      this.data[k] = v;
+    }
+    // shift the tail (from interval `last`) to its new place after the merged interval
+    v.copyWithin(2 * lo + 2, 2 * last, len);
+    v[2 * lo] = s;
+    v[2 * lo + 1] = e;
+    this.size[k] = newLen;
+  }
+
+  /** Smallest and largest x over all rows; [Infinity, -Infinity] when empty. */
+  xExtent(): [number, number] {
+    let lo = Infinity, hi = -Infinity;
+    for (let k = 0; k < this.data.length; k++) {
+      const n = this.size[k]!;
+      if (n === 0) continue;
+      const v = this.data[k]!;
+      if (v[0]! < lo) lo = v[0]!;
+      if (v[n - 1]! > hi) hi = v[n - 1]!;
+    }
+    return [lo, hi];
+  }
+
+  /** Σ over rows of the covered length × dy: the area by the midpoint rule in y (mm²). */
+  area(): number {
+    let sum = 0;
+    for (let k = 0; k < this.data.length; k++) {
+      const v = this.data[k]!, n = this.size[k]!;
+      for (let i = 0; i < n; i += 2) sum += v[i + 1]! - v[i]!;
+    }
+    return sum * this.dy;
+  }
+}
+
+const EMPTY_VALUES = new Float64Array(0);
+const EMPTY = { values: EMPTY_VALUES, length: 0 } as const;
