@@ -4,7 +4,9 @@
  * Entries are written atomically (temporary file + rename): an interrupted build leaves no half-written entry.
  */
 import { createHash } from "node:crypto";
+import { readdirSync, readFileSync } from "node:fs";
 import { mkdir, readFile, rename, writeFile } from "node:fs/promises";
+import { fileURLToPath } from "node:url";
 import { join, resolve } from "node:path";
 import { Worker } from "node:worker_threads";
 import { availableParallelism } from "node:os";
@@ -29,8 +31,24 @@ export function armFacts(arm: Arm): ArmFacts {
   };
 }
 
+let coreHash: string | null = null;
+
+/**
+ * sha256 over the sources of the computation core (src/core), so a changed algorithm never reuses a cached result
+ * even when ANALYSIS_VERSION was not bumped.
+ */
+export function coreFingerprint(): string {
+  if (coreHash) return coreHash;
+  const root = fileURLToPath(new URL("../core/", import.meta.url));
+  const files = readdirSync(root, { recursive: true, encoding: "utf8" }).filter((f) => f.endsWith(".ts")).sort();
+  const h = createHash("sha256");
+  for (const f of files) h.update(`${f}\n`).update(readFileSync(join(root, f)));
+  coreHash = h.digest("hex");
+  return coreHash;
+}
+
 export function analysisKey(arm: Pick<Arm, "specHash">, options: AnalysisOptions = DEFAULT_ANALYSIS): string {
-  return createHash("sha256").update(`${arm.specHash}\n${ANALYSIS_VERSION}\n${JSON.stringify(options)}`).digest("hex").slice(0, 32);
+  return createHash("sha256").update(`${arm.specHash}\n${ANALYSIS_VERSION}\n${coreFingerprint()}\n${JSON.stringify(options)}`).digest("hex").slice(0, 32);
 }
 
 export async function readCachedAnalysis(arm: Arm, options: AnalysisOptions = DEFAULT_ANALYSIS): Promise<ArmAnalysis | null> {
@@ -82,7 +100,7 @@ export async function analyseCatalog(arms: readonly Arm[], options: { workers?: 
   let next = 0;
   const runWorker = async () => {
     if (next >= missing.length) return;
-    const worker = new Worker(new URL("./analysisWorker.ts", import.meta.url), { execArgv: ["--import", "tsx"] });
+    const worker = new Worker(new URL("./analysisWorker.mjs", import.meta.url));
     try {
       while (next < missing.length) {
         const arm = missing[next++]!;

@@ -14,6 +14,11 @@ import { stringifyCompact } from "./json";
 
 export class UsageError extends Error {}
 
+/** The catalog folder: ARMDEX_ARMS_DIR or arms/. */
+function defaultArmsDir(): string {
+  return process.env.ARMDEX_ARMS_DIR ?? "arms";
+}
+
 const HELP = `armdex — arm catalog tools
 
 usage:
@@ -26,7 +31,7 @@ usage:
 `;
 
 async function check(paths: string[], json: boolean): Promise<number> {
-  const { arms, issues } = await loadArms(paths.length ? paths : ["arms"]);
+  const { arms, issues } = await loadArms(paths.length ? paths : [defaultArmsDir()]);
   const errors = issues.filter((i) => i.severity === "error");
   const warnings = issues.filter((i) => i.severity === "warning");
   if (json) {
@@ -94,7 +99,7 @@ export async function main(argv: string[]): Promise<number> {
       const { values, positionals } = parseArgs({ args: rest, allowPositionals: true, options: { all: { type: "boolean" }, workers: { type: "string" } } });
       const { analyseCatalog, getAnalysis } = await import("../catalog/analysis");
       if (values.all) {
-        const { arms, issues } = await loadArms(positionals.length ? positionals : ["arms"]);
+        const { arms, issues } = await loadArms(positionals.length ? positionals : [defaultArmsDir()]);
         const errors = issues.filter((i) => i.severity === "error");
         if (errors.length) {
           for (const i of errors) process.stderr.write(`${formatIssue(i)}\n`);

@@ -71,6 +71,6 @@ for (const arm of chosen) {
     payloadAtReach(c, input);
     loadDiagram(input);
   })));
-  const full = median(Array.from({ length: Math.min(reps, 3) }, () => timeMs(() => analyseArm(c, facts))));
+  const full = median(Array.from({ length: 1 }, () => timeMs(() => analyseArm(c, facts))));
   console.log(`${arm.id.padEnd(28)} ${env.toFixed(0).padStart(8)} ${maps.toFixed(0).padStart(11)} ${pay.toFixed(0).padStart(8)} ${full.toFixed(0).padStart(14)}`);
 }

@@ -1,17 +1,32 @@
 /**
- * Marching squares for the zero level of a field sampled on a regular grid, streamed one row at a time, with
- * linear interpolation on the cell edges (Lorensen & Cline's cube cases in 2-D; the case table and the stitching
- * of fragments follow the usual contour-tracing practice, as d3-contour does). Nodes with value > 0 are inside.
+ * Marching squares for the zero level of a field on a regular grid, with linear interpolation on the cell edges
+ * (the 2-D case table of Lorensen & Cline's marching cubes, SIGGRAPH 1987 [from memory]; fragments are stitched by
+ * shared edge points, as contour tracers such as d3-contour do). Nodes with value > 0 are inside.
  *
- * Rings come back as flat arrays [x0, y0, x1, y1, …] in grid coordinates (x = column index + fraction, y = row
- * index + fraction), open (the first point is not repeated), oriented with the inside on the left (counter-
- * clockwise for an outer boundary when y points up). Saddles are resolved by the mean of the four corners.
- * The grid is padded with "outside" beyond its rows and, unless periodic in x, beyond its columns, so every ring
- * closes. With `periodicX` the column after the last is column 0 (a polar grid in angle).
+ * The source says which cells of each row pair may carry the contour (all of them, or only those near the
+ * boundary), and gives node values on demand, so the cost follows the length of the boundary, not the grid area.
+ *
+ * Rings come back as flat arrays [x0, y0, x1, y1, …] in grid coordinates (x = column + fraction, y = row + fraction),
+ * open (the first point is not repeated), with the inside on the left (counter-clockwise for an outer boundary when
+ * y points up). Saddles are resolved by the mean of the four corners. Nodes outside rows jMin … jMax and, unless
+ * periodic in x, outside columns 0 … nx − 1 count as outside, so every ring closes. With `periodicX` the column after
+ * the last is column 0.
  */
 
-/** Writes the field values of row j (nx numbers) into out. */
-export type RowFiller = (j: number, out: Float64Array) => void;
+export interface IsolineSource {
+  /** Number of node columns. */
+  readonly nx: number;
+  readonly jMin: number;
+  readonly jMax: number;
+  readonly periodicX: boolean;
+  /**
+   * Appends inclusive ranges [i0, i1] of the cells between rows j and j + 1 that may be crossed (cell i spans
+   * columns i and i + 1; i from −1 to nx − 1, or 0 to nx − 1 when periodic). Ranges may overlap and be unsorted.
+   */
+  cells(j: number, out: number[]): void;
+  /** Value of node (i, j), 0 ≤ i < nx, jMin ≤ j ≤ jMax. */
+  value(i: number, j: number): number;
+}
 
 interface Fragment {
   start: number;
@@ -22,20 +37,62 @@ interface Fragment {
   tail: number[];
 }
 
+/** A source over a stored grid (for small grids): values from a callback per row, cells where a sign changes. */
+export function denseSource(nx: number, jMin: number, jMax: number, periodicX: boolean, fillRow: (j: number, out: Float64Array) => void): IsolineSource {
+  const values = new Float64Array(nx * (jMax - jMin + 1));
+  const row = new Float64Array(nx);
+  for (let j = jMin; j <= jMax; j++) {
+    fillRow(j, row);
+    values.set(row, (j - jMin) * nx);
+  }
+  const inside = (i: number, j: number) => j >= jMin && j <= jMax && values[(j - jMin) * nx + i]! > 0;
+  return {
+    nx,
+    jMin,
+    jMax,
+    periodicX,
+    cells: (j, out) => {
+      // cells whose four corners do not all agree
+      let open = -2;
+      const first = periodicX ? 0 : -1;
+      for (let i = first; i < nx; i++) {
+        const i0 = i < 0 ? -1 : i, i1 = i + 1 < nx ? i + 1 : periodicX ? 0 : -1;
+        const a = i0 >= 0 && inside(i0, j), b = i1 >= 0 && inside(i1, j);
+        const c = i1 >= 0 && inside(i1, j + 1), d = i0 >= 0 && inside(i0, j + 1);
+        const mixed = a !== b || b !== c || c !== d;
+        if (mixed && open === -2) open = i;
+        else if (!mixed && open !== -2) {
+          out.push(open, i - 1);
+          open = -2;
+        }
+      }
+      if (open !== -2) out.push(open, nx - 1);
+    },
+    value: (i, j) => values[(j - jMin) * nx + i]!,
+  };
+}
+
 /**
- * Traces the zero isolines of the field on rows jMin … jMax and columns 0 … nx − 1.
+ * Traces the zero isolines of the source's field.
  * @returns rings in grid coordinates, inside on the left
  */
-export function isolineRings(nx: number, jMin: number, jMax: number, periodicX: boolean, fillRow: RowFiller): Float64Array[] {
+export function isolineRings(src: IsolineSource): Float64Array[] {
+  const { nx, jMin, jMax, periodicX } = src;
   if (!(nx >= 1) || !Number.isInteger(nx)) throw new RangeError(`invalid nx: ${nx}`);
   const rings: Float64Array[] = [];
   if (jMax < jMin) return rings;
   const stride = nx + 2;
-  let lower = new Float64Array(nx).fill(-1);
-  let upper = new Float64Array(nx);
   const byStart = new Map<number, Fragment>();
   const byEnd = new Map<number, Fragment>();
-
+  const node = (i: number, j: number): number => {
+    if (j < jMin || j > jMax) return -1;
+    if (i >= nx) {
+      if (!periodicX) return -1;
+      i -= nx;
+    }
+    if (i < 0) return -1;
+    return src.value(i, j);
+  };
   // Edge-point ids: horizontal edge on row j between columns i and i+1 → even; vertical edge on column i between
   // rows j and j+1 → odd.
   const hId = (i: number, j: number) => ((j - jMin + 1) * stride + (i + 1)) * 2;
@@ -48,15 +105,25 @@ export function isolineRings(nx: number, jMin: number, jMax: number, periodicX: 
       byEnd.delete(sId);
       byStart.delete(eId);
       if (f === g) {
-        rings.push(closeFragment(f));
+        // the closing segment runs from f.end back to f.start, whose point is already first
+        rings.push(Float64Array.from(orderedPoints(f)));
         return;
       }
-      // f … (s → e) … g
-      const gPts = orderedPoints(g);
-      for (let k = 0; k < gPts.length; k++) f.tail.push(gPts[k]!);
-      byEnd.delete(g.end);
-      f.end = g.end;
-      byEnd.set(f.end, f);
+      // f … (s → e) … g: move the smaller fragment's points into the larger one
+      if (f.head.length + f.tail.length >= g.head.length + g.tail.length) {
+        for (let k = g.head.length - 2; k >= 0; k -= 2) f.tail.push(g.head[k + 1]!, g.head[k]!);
+        for (let k = 0; k < g.tail.length; k++) f.tail.push(g.tail[k]!);
+        byEnd.delete(g.end);
+        f.end = g.end;
+        byEnd.set(f.end, f);
+      } else {
+        // prepend f's points (last first) to g's head, which is stored reversed
+        for (let k = f.tail.length - 2; k >= 0; k -= 2) g.head.push(f.tail[k + 1]!, f.tail[k]!);
+        for (let k = 0; k < f.head.length; k++) g.head.push(f.head[k]!);
+        byStart.delete(f.start);
+        g.start = f.start;
+        byStart.set(g.start, g);
+      }
     } else if (f) {
       byEnd.delete(sId);
       f.tail.push(ex, ey);
@@ -74,74 +141,69 @@ export function isolineRings(nx: number, jMin: number, jMax: number, periodicX: 
     }
   };
 
-  const lastCol = nx - 1;
-  const firstCol = periodicX ? 0 : -1;
+  const ranges: number[] = [];
+  const lo = periodicX ? 0 : -1;
   for (let j = jMin - 1; j <= jMax; j++) {
-    // cells between row j (lower) and row j + 1 (upper)
-    if (j + 1 <= jMax) fillRow(j + 1, upper);
-    else upper.fill(-1);
-    for (let i = firstCol; i <= lastCol; i++) {
-      const i1 = i + 1;
-      const a = i >= 0 ? lower[i]! : -1;
-      const d = i >= 0 ? upper[i]! : -1;
-      let b: number, c: number;
-      if (i1 < nx) {
-        b = lower[i1]!;
-        c = upper[i1]!;
-      } else if (periodicX) {
-        b = lower[0]!;
-        c = upper[0]!;
-      } else {
-        b = -1;
-        c = -1;
-      }
-      const code = (a > 0 ? 1 : 0) | (b > 0 ? 2 : 0) | (c > 0 ? 4 : 0) | (d > 0 ? 8 : 0);
-      if (code === 0 || code === 15) continue;
-      // crossing points on the edges whose end nodes differ (bottom a–b, right b–c, top d–c, left a–d)
-      const inA = code & 1, inB = (code >> 1) & 1, inC = (code >> 2) & 1, inD = (code >> 3) & 1;
-      const bId = hId(i, j), bx = inA !== inB ? i + a / (a - b) : 0;
-      const tId = hId(i, j + 1), tx = inD !== inC ? i + d / (d - c) : 0;
-      const lId = vId(i, j), ly = inA !== inD ? j + a / (a - d) : 0;
-      const rId = vId(i1 === nx && periodicX ? 0 : i1, j), ry = inB !== inC ? j + b / (b - c) : 0;
-      const y1 = j + 1, x1 = i + 1;
-      switch (code) {
-        case 1: emit(bId, bx, j, lId, i, ly); break;
-        case 2: emit(rId, x1, ry, bId, bx, j); break;
-        case 3: emit(rId, x1, ry, lId, i, ly); break;
-        case 4: emit(tId, tx, y1, rId, x1, ry); break;
-        case 6: emit(tId, tx, y1, bId, bx, j); break;
-        case 7: emit(tId, tx, y1, lId, i, ly); break;
-        case 8: emit(lId, i, ly, tId, tx, y1); break;
-        case 9: emit(bId, bx, j, tId, tx, y1); break;
-        case 11: emit(rId, x1, ry, tId, tx, y1); break;
-        case 12: emit(lId, i, ly, rId, x1, ry); break;
-        case 13: emit(bId, bx, j, rId, x1, ry); break;
-        case 14: emit(lId, i, ly, bId, bx, j); break;
-        case 5:
-          if (a + b + c + d > 0) {
-            emit(bId, bx, j, rId, x1, ry);
-            emit(tId, tx, y1, lId, i, ly);
-          } else {
-            emit(bId, bx, j, lId, i, ly);
-            emit(tId, tx, y1, rId, x1, ry);
-          }
-          break;
-        case 10:
-          if (a + b + c + d > 0) {
-            emit(lId, i, ly, bId, bx, j);
-            emit(rId, x1, ry, tId, tx, y1);
-          } else {
-            emit(rId, x1, ry, bId, bx, j);
-            emit(lId, i, ly, tId, tx, y1);
-          }
-          break;
-      }
+    ranges.length = 0;
+    src.cells(j, ranges);
+    // sort ranges by start and visit each cell once
+    const order: number[] = [];
+    for (let r = 0; r < ranges.length; r += 2) order.push(r);
+    order.sort((p, q) => ranges[p]! - ranges[q]!);
+    let next = lo;
+    for (const r of order) {
+      const i0 = Math.max(next, ranges[r]!, lo), i1 = Math.min(ranges[r + 1]!, nx - 1);
+      for (let i = i0; i <= i1; i++) cell(i, j);
+      if (i1 + 1 > next) next = i1 + 1;
     }
-    const t = lower;
-    lower = upper;
-    upper = t;
   }
+  if (byStart.size > 0) throw new Error("isolineRings: unclosed contour (internal error)");
   return rings;
+
+  function cell(i: number, j: number): void {
+    const i1 = i + 1, j1 = j + 1;
+    const a = node(i, j), b = node(i1, j), c = node(i1, j1), d = node(i, j1);
+    const code = (a > 0 ? 1 : 0) | (b > 0 ? 2 : 0) | (c > 0 ? 4 : 0) | (d > 0 ? 8 : 0);
+    if (code === 0 || code === 15) return;
+    // crossing points on the edges whose end nodes differ (bottom a–b, right b–c, top d–c, left a–d)
+    const inA = code & 1, inB = (code >> 1) & 1, inC = (code >> 2) & 1, inD = (code >> 3) & 1;
+    const bId = hId(i, j), bx = inA !== inB ? i + a / (a - b) : 0;
+    const tId = hId(i, j1), tx = inD !== inC ? i + d / (d - c) : 0;
+    const lId = vId(i, j), ly = inA !== inD ? j + a / (a - d) : 0;
+    const rId = vId(i1 === nx && periodicX ? 0 : i1, j), ry = inB !== inC ? j + b / (b - c) : 0;
+    switch (code) {
+      case 1: emit(bId, bx, j, lId, i, ly); break;
+      case 2: emit(rId, i1, ry, bId, bx, j); break;
+      case 3: emit(rId, i1, ry, lId, i, ly); break;
+      case 4: emit(tId, tx, j1, rId, i1, ry); break;
+      case 6: emit(tId, tx, j1, bId, bx, j); break;
+      case 7: emit(tId, tx, j1, lId, i, ly); break;
+      case 8: emit(lId, i, ly, tId, tx, j1); break;
+      case 9: emit(bId, bx, j, tId, tx, j1); break;
+      case 11: emit(rId, i1, ry, tId, tx, j1); break;
+      case 12: emit(lId, i, ly, rId, i1, ry); break;
+      case 13: emit(bId, bx, j, rId, i1, ry); break;
+      case 14: emit(lId, i, ly, bId, bx, j); break;
+      case 5:
+        if (a + b + c + d > 0) {
+          emit(bId, bx, j, rId, i1, ry);
+          emit(tId, tx, j1, lId, i, ly);
+        } else {
+          emit(bId, bx, j, lId, i, ly);
+          emit(tId, tx, j1, rId, i1, ry);
+        }
+        break;
+      case 10:
+        if (a + b + c + d > 0) {
+          emit(lId, i, ly, bId, bx, j);
+          emit(rId, i1, ry, tId, tx, j1);
+        } else {
+          emit(rId, i1, ry, bId, bx, j);
+          emit(lId, i, ly, tId, tx, j1);
+        }
+        break;
+    }
+  }
 }
 
 function orderedPoints(f: Fragment): number[] {
@@ -149,9 +211,4 @@ function orderedPoints(f: Fragment): number[] {
   for (let k = f.head.length - 2; k >= 0; k -= 2) out.push(f.head[k + 1]!, f.head[k]!);
   for (let k = 0; k < f.tail.length; k++) out.push(f.tail[k]!);
   return out;
-}
-
-function closeFragment(f: Fragment): Float64Array {
-  // the closing segment runs from f.end back to f.start, whose point is already first
-  return Float64Array.from(orderedPoints(f));
 }

@@ -21,8 +21,21 @@ export interface SheetData {
   readonly sheet: Int32Array;
   /** Scaled det J per cell·slots + slot (NaN when not defined). */
   readonly det: Float64Array;
-  /** Kind of the singularity nearest to a solution, computed on demand. */
-  readonly kindAt: (cell: number, slot: number) => Exclude<SingularityKind, "none">;
+  /** Driven joint values per cell·slots + slot, m each (rad or m). */
+  readonly joints: Float64Array;
+  readonly m: number;
+  /**
+   * Largest joint change (rad or m) between the solution at a square's first corner and the one taken at another
+   * corner. A sheet joined by continuation can come back to a cell on another branch (it winds around a point where
+   * branches meet), so "same sheet" alone does not pick one solution per corner; the nearest one within this bound
+   * does, and a square without one is skipped.
+   */
+  readonly maxCornerJump: number;
+  /**
+   * Kind of the singularity crossed inside a square, from its four corner solutions (cells and slots in the order
+   * (0,0), (1,0), (1,1), (0,1)) and the index of the corner nearest to singular (smallest |det|).
+   */
+  readonly kindAt: (cells: readonly number[], slots: readonly number[], near: number) => Exclude<SingularityKind, "none">;
 }
 
 type Pt = [number, number];
@@ -66,7 +79,7 @@ function joinSegments(segments: [Pt, Pt][]): Pt[][] {
 
 /** Traces det J = 0 within each sheet; groups the polylines by kind. */
 export function traceSingularityLoci(d: SheetData): SingularityLocus[] {
-  const { grid, slots: K, count, sheet, det } = d;
+  const { grid, slots: K, count, sheet, det, joints, m } = d;
   const { nx, ny, stepMm } = grid;
   const byKind = new Map<Exclude<SingularityKind, "none">, [Pt, Pt][]>();
   const corner = [0, 0, 0, 0];
@@ -86,10 +99,21 @@ export function traceSingularityLoci(d: SheetData): SingularityLocus[] {
         corner[0] = v0;
         slotAt[0] = k0;
         let complete = true;
+        const q0 = (c00 * K + k0) * m;
         for (let c = 1; c < 4; c++) {
           const cell = cellOf[c]!;
-          let found = -1;
-          for (let k = 0; k < count[cell]!; k++) if (sheet[cell * K + k] === root) found = k;
+          // The solution of the same sheet nearest to corner 0 in joint space, if within maxCornerJump.
+          let found = -1, bestJump = d.maxCornerJump;
+          for (let k = 0; k < count[cell]!; k++) {
+            if (sheet[cell * K + k] !== root) continue;
+            const qk = (cell * K + k) * m;
+            let jump = 0;
+            for (let i = 0; i < m; i++) jump = Math.max(jump, Math.abs(joints[qk + i]! - joints[q0 + i]!));
+            if (jump <= bestJump) {
+              bestJump = jump;
+              found = k;
+            }
+          }
           if (found < 0 || !Number.isFinite(det[cell * K + found]!)) {
             complete = false;
             break;
@@ -124,10 +148,10 @@ export function traceSingularityLoci(d: SheetData): SingularityLocus[] {
           if ((centre > 0) === zeroPositive) pairs.push([0, 1], [2, 3]);
           else pairs.push([3, 0], [1, 2]);
         }
-        // Label from the corner nearest to singular.
+        // Label from the four corners (the labeller may use the one nearest to singular).
         let near = 0;
         for (let c = 1; c < 4; c++) if (Math.abs(corner[c]!) < Math.abs(corner[near]!)) near = c;
-        const kind = d.kindAt(cellOf[near]!, slotAt[near]!);
+        const kind = d.kindAt(cellOf, slotAt, near);
         let list = byKind.get(kind);
         if (!list) byKind.set(kind, (list = []));
         for (const [ea, eb] of pairs) list.push([crossing(ea), crossing(eb)]);

@@ -711,7 +711,7 @@ export const DEFAULT_PAYLOAD_AT_REACH: PayloadAtReachOptions = {
   offsetsMm: [0, 100, 200],
   mountings: null,
   angledTiltDeg: 45,
-  searchNodesByDims: [1, 2000, 1600, 800],
+  searchNodesByDims: [1, 2000, 1600, 6000],
   reachToleranceMm: 0.5,
   gravityMPerS2: STANDARD_GRAVITY_M_PER_S2,
 };
@@ -771,11 +771,13 @@ export interface PayloadAtReach {
 }
 
 const AT_REACH_CONVENTION =
-  "Rows every step of the flange centre's radial distance from axis 1 (the base z axis). The tool points along " +
-  "gravity where the wrist allows; CG offsets lie along the tool axis. Each row is the worst posture found for that " +
-  "reach over heights and joint branches (grid search), from τ = Jᵀ·F for the payload plus the links' own weight " +
-  "against each joint's rated torque (|τ| ≤ rating in both directions), capped at the rated payload. " +
-  "Gravity in the base frame: floor −z, ceiling +z, wall +x (base turned 90° about y), angled tilted about y.";
+  "Rows every step of the flange centre's radial distance from axis 1 (the base z axis; horizontal for floor and " +
+  "ceiling mountings). The tool points along gravity where the wrist can orient it; the CG offsets lie along the tool " +
+  "axis. Each row is the worst posture found for that reach over heights and joint branches (grid search with local " +
+  "refinement; a 7-axis arm keeps its redundant joint at zero), from τ = Jᵀ·F for the payload plus the links' own " +
+  "weight against each joint's rated torque (|τ| ≤ rating in either direction), capped at the rated payload. " +
+  "Gravity in the base frame: floor −z; ceiling +z; wall +x (base turned 90° about its y axis, +x pointing down); " +
+  "angled: tilted about y by the stated angle (default 45°).";
 
 /** Roles of the driven joints for one mounting. */
 interface SearchPlan {
@@ -871,14 +873,22 @@ function planFor(chain: Chain, facts: ChainFacts, gDir: readonly number[]): Sear
   const held: SearchPlan["held"] = [];
   const mode: SearchPlan["mode"] = facts.structureFixedAxis ? "fixed-by-structure" : facts.orientingCandidates.length > 0 ? "along-gravity" : "follows-posture";
   const orienting = mode === "along-gravity" ? [...facts.orientingCandidates] : [];
+  // Positioning joints: neither the flange spin nor orienting.
   const positioning: number[] = [];
   for (let j = 0; j < m; j++) {
+    if (facts.spins.has(chain.drivenJoint[j]!)) held.push({ j, value: holdValue(chain, j), reason: "turns the tool about its own axis" });
+    else if (!orienting.includes(j)) positioning.push(j);
+  }
+  // Redundant arms (more than three positioning joints, e.g. a 7-axis arm): the middle ones are held at zero in every
+  // mounting, so the arm stays in its plane like a 6-axis arm.
+  const redundant = new Set(mode === "along-gravity" && positioning.length > 3 ? positioning.slice(2, -1) : []);
+  const searched: number[] = [];
+  for (const j of positioning) {
     const k = chain.drivenJoint[j]!;
-    if (facts.spins.has(k)) {
-      held.push({ j, value: holdValue(chain, j), reason: "turns the tool about its own axis" });
+    if (redundant.has(j)) {
+      held.push({ j, value: holdValue(chain, j), reason: "redundant joint held at zero (the arm in its plane)" });
       continue;
     }
-    if (orienting.includes(j)) continue;
     if (isUncoupled(chain, j)) {
       const { o, w } = axisInBase(chain, s, k);
       const alongGravity = norm3(cross3(w, gDir)) < PARALLEL_SIN;
@@ -894,17 +904,7 @@ function planFor(chain: Chain, facts: ChainFacts, gDir: readonly number[]): Sear
         continue;
       }
     }
-    positioning.push(j);
-  }
-  // Redundant arms: more than three positioning joints; the middle ones are held (the arm stays in its plane).
-  const searched = [...positioning];
-  if (mode === "along-gravity" && positioning.length > 3) {
-    const keep = new Set([positioning[0]!, positioning[1]!, positioning[positioning.length - 1]!]);
-    searched.length = 0;
-    for (const j of positioning) {
-      if (keep.has(j)) searched.push(j);
-      else held.push({ j, value: holdValue(chain, j), reason: "redundant joint held at zero (the arm in its plane)" });
-    }
+    searched.push(j);
   }
   held.sort((a, b) => a.j - b.j);
   return { searched, orienting, held, mode, wcpFlangeDistanceM: mode === "along-gravity" ? facts.wcpFlangeDistanceM : null };
@@ -1110,9 +1110,11 @@ function solveSmallInPlace(A: Float64Array, B: Float64Array, n: number): boolean
  * the rated payload.
  *
  * Search: the joints that place the wrist are swept on a grid (a joint that turns the whole arm about a vertical
- * axis 1 is held, since it changes neither reach nor torque); along every grid edge that crosses a row's reach the
- * crossing is found by the Illinois method, and the wrist is solved so the tool points along gravity. The worst
- * crossing of each row is kept.
+ * axis 1 is held, since it changes neither reach nor torque; a redundant arm keeps its extra joint at zero), and the
+ * wrist is solved so the tool points along gravity. With one or two searched joints, every grid edge that crosses a
+ * row's reach gives a posture on it (Illinois method). With three (wall and angled mountings, where axis 1 matters),
+ * every node is evaluated and each row's worst nodes are moved onto the row's reach along a grid edge. Each row's
+ * worst posture is then refined by golden-section search over the other searched joints, the reach re-solved.
  *
  * Basis: "as-rated" when no joint has a rated torque (rows carry the rated payload over the reach range);
  * "upper-bound-no-link-masses" without link masses; "upper-bound-missing-torques" when a joint that carries load has
@@ -1126,320 +1128,30 @@ export function payloadAtReach(chain: Chain, input: PayloadInput, options: Parti
   if (!(o.reachStepMm > 0)) throw new RangeError(`invalid reachStepMm: ${o.reachStepMm}`);
   if (!(o.searchNodesByDims.length >= 2 && o.searchNodesByDims.every((v) => v >= 1))) throw new RangeError(`invalid searchNodesByDims: ${o.searchNodesByDims.join(",")}`);
   if (!(o.reachToleranceMm > 0)) throw new RangeError(`invalid reachToleranceMm: ${o.reachToleranceMm}`);
+  if (!(o.gravityMPerS2 > 0)) throw new RangeError(`invalid gravityMPerS2: ${o.gravityMPerS2}`);
   for (const off of o.offsetsMm) if (!Number.isFinite(off)) throw new RangeError(`invalid offsetMm: ${off}`);
-  const mountings = o.mountings ?? input.mountings;
-  const rated = input.ratedPayloadKg;
-  const m = chain.drivenCount;
-  const bodies = bodySetOf(input.links);
-  const anyRating = Array.from(chain.ratedEffortSi).some((t) => t > 0);
-  const facts = chainFacts(chain);
+  const ctx: SearchContext = {
+    chain,
+    input,
+    o,
+    bodies: bodySetOf(input.links),
+    facts: chainFacts(chain),
+    anyRating: Array.from(chain.ratedEffortSi).some((t) => t > 0),
+  };
   const rows: PayloadAtReachRow[] = [];
   const reports: PayloadMountingReport[] = [];
-  const notes: string[] = [...input.notes];
   const loadedUnrated = new Set<string>();
-
-  for (const mounting of mountings) {
-    const gVec = gravityInBase(mounting, o.angledTiltDeg, o.gravityMPerS2);
-    const gNorm = norm3(gVec);
-    const gDir = [gVec[0] / gNorm, gVec[1] / gNorm, gVec[2] / gNorm];
-    const plan = planFor(chain, facts, gDir);
-    const tool = plan.mode === "fixed-by-structure" ? facts.structureFixedAxis! : gDir;
-    const search = new Search(chain, plan, tool);
-    const mNotes: string[] = [];
-    if (plan.mode === "fixed-by-structure" && dot3(tool, gDir) < 1 - 1e-9) mNotes.push("the flange axis is fixed by the arm's structure and does not point along gravity in this mounting");
-    if (plan.mode === "follows-posture") mNotes.push("the arm has no wrist joints to orient the tool: the flange axis follows the posture");
-
-    // Grid over the searched joints, nodes spread by range (prismatic ranges counted per characteristic length).
-    const D = plan.searched.length;
-    const lo: number[] = [], hi: number[] = [], count: number[] = [];
-    const weights = plan.searched.map((j) => {
-      const [a, b] = searchRange(chain, j);
-      lo.push(a);
-      hi.push(b);
-      return (b - a) / (chain.isPrismatic[chain.drivenJoint[j]!] ? Math.max(chain.characteristicLengthM, 1e-3) : 1);
-    });
-    const prodW = weights.reduce((p, w) => p * Math.max(w, 1e-9), 1);
-    const budget = o.searchNodesByDims[Math.min(D, o.searchNodesByDims.length - 1)]!;
-    const k = D > 0 ? Math.pow(budget / prodW, 1 / D) : 0;
-    for (let d = 0; d < D; d++) count.push(Math.max(3, Math.round(Math.max(weights[d]!, 1e-9) * k) + 1));
-    const strides: number[] = [];
-    let total = 1;
-    for (let d = D - 1; d >= 0; d--) {
-      strides[d] = total;
-      total *= count[d]!;
-    }
-
-    // Stage 1: reach at every node (NaN where the tool cannot point along gravity within the limits).
-    for (let j = 0; j < m; j++) search.q[j] = holdValue(chain, j);
-    for (const hj of plan.held) search.q[hj.j] = hj.value;
-    const nodeReach = new Float64Array(total);
-    const nw = plan.orienting.length;
-    const nodeWrist = new Float64Array(total * nw);
-    const idx = new Int32Array(D);
-    const setNode = (node: number): void => {
-      let rem = node;
-      for (let d = 0; d < D; d++) {
-        idx[d] = Math.floor(rem / strides[d]!);
-        rem -= idx[d]! * strides[d]!;
-        search.q[plan.searched[d]!] = lo[d]! + ((hi[d]! - lo[d]!) * idx[d]!) / (count[d]! - 1);
-      }
-    };
-    let minReach = Infinity, maxReach = -Infinity;
-    for (let node = 0; node < total; node++) {
-      setNode(node);
-      // Warm start of the wrist from the neighbour that precedes this node along the innermost moved axis.
-      if (nw > 0 && plan.wcpFlangeDistanceM === null && node > 0) {
-        let prev = node - 1;
-        for (let d = D - 1; d >= 0; d--) {
-          if (idx[d]! > 0) {
-            prev = node - strides[d]!;
-            break;
-          }
-        }
-        for (let c = 0; c < nw; c++) search.q[plan.orienting[c]!] = nodeWrist[prev * nw + c]!;
-      }
-      const r = search.reach();
-      nodeReach[node] = r;
-      for (let c = 0; c < nw; c++) nodeWrist[node * nw + c] = search.q[plan.orienting[c]!]!;
-      if (r === r) {
-        if (r < minReach) minReach = r;
-        if (r > maxReach) maxReach = r;
-      }
-    }
-
-    const stepM = mmToM(o.reachStepMm);
-    const report = (postures: number): PayloadMountingReport => ({
-      mounting,
-      gravityDirectionInBase: [gDir[0]!, gDir[1]!, gDir[2]!],
-      toolDirection: plan.mode,
-      minReachMm: Number.isFinite(minReach) ? mToMm(minReach) : null,
-      maxReachMm: Number.isFinite(maxReach) ? mToMm(maxReach) : null,
-      searched: plan.searched.map((j, d) => ({ joint: chain.jointNames[chain.drivenJoint[j]!]!, stepDegOrMm: jointOut(chain, j, (hi[d]! - lo[d]!) / (count[d]! - 1)) })),
-      orienting: plan.orienting.map((j) => chain.jointNames[chain.drivenJoint[j]!]!),
-      held: plan.held.map((hj) => ({ joint: chain.jointNames[chain.drivenJoint[hj.j]!]!, valueDegOrMm: jointOut(chain, hj.j, hj.value), reason: hj.reason })),
-      postures,
-      notes: mNotes,
-    });
-    if (!Number.isFinite(minReach)) {
-      mNotes.push("no posture found with the tool along gravity within the joint limits");
-      reports.push(report(0));
-      continue;
-    }
-    const kFirst = Math.ceil(minReach / stepM - 1e-9), kLast = Math.floor(maxReach / stepM + 1e-9);
-    const nRows = Math.max(0, kLast - kFirst + 1);
-    const nOff = o.offsetsMm.length;
-
-    if (!anyRating) {
-      for (let r = 0; r < nRows; r++) {
-        for (const off of o.offsetsMm) {
-          rows.push({ mounting, reachMm: (kFirst + r) * o.reachStepMm, offsetMm: off, payloadKg: rated, limitingJoint: null, limitedBy: "as-rated", torqueLimitKg: null, torqueLimitJoint: null, flangeHeightMm: null, jointsDegOrMm: null });
-        }
-      }
-      reports.push(report(0));
-      continue;
-    }
-
-    // Stage 2: crossings of each row's reach along every grid edge; stage 3: torques at the crossing.
-    const best = new Float64Array(nRows * nOff).fill(Infinity);
-    const bestLimit = new Int32Array(nRows * nOff).fill(-2);
-    const bestOwn = new Uint8Array(nRows * nOff);
-    const bestQ = new Float64Array(nRows * nOff * m);
-    const bestHeight = new Float64Array(nRows * nOff);
-    const bestDim = new Int8Array(nRows * nOff);
-    const lastAllowed = new Float64Array(nOff);
-    const qStar = new Float64Array(m);
-    const qa = new Float64Array(m), qb = new Float64Array(m);
-    const offsetsM = o.offsetsMm.map(mmToM);
-    const tolM = mmToM(o.reachToleranceMm);
-    let postures = 0;
-    const g = gVec;
-    const maxUnit = new Float64Array(m);
-    // Payload torque per kg below this is rounding (a load hanging on the joint's axis): 1e-9 · g · arm size.
-    const unitFloor = 1e-9 * o.gravityMPerS2 * Math.max(1, chain.characteristicLengthM);
-    const idxA = new Int32Array(D);
-    // Last wrist solution, the warm start of the next one (spherical shortcut: the nodes carry none).
-    const lastWrist = Float64Array.from(plan.orienting, (j) => holdValue(chain, j));
-
-    // Uncapped allowed payload at the solved posture in the scratch, per offset (lastAllowed); keeps each row's worst.
-    const evaluateRow = (row: number, dim: number): void => {
-      // Scratch holds forwardInto at search.q with the tool solved.
-      const s = search.s;
-      holdingTorqueInto(search.tauLinks, chain, s, bodies, g, search.h);
-      const zx = s.flange[2]!, zy = s.flange[6]!, zz = s.flange[10]!;
-      for (let oi = 0; oi < nOff; oi++) {
-        const off = offsetsM[oi]!;
-        pointHoldingTorqueInto(search.tauUnit, chain, s, s.flange[3]! + off * zx, s.flange[7]! + off * zy, s.flange[11]! + off * zz, 1, g, search.h);
-        let allowed = Infinity, limit = -1, own = 0;
-        for (let j = 0; j < m; j++) {
-          const u = Math.abs(search.tauUnit[j]!);
-          if (u > maxUnit[j]!) maxUnit[j] = u;
-        }
-        for (let j = 0; j < m; j++) {
-          const T = chain.ratedEffortSi[j]!;
-          if (!(T > 0)) continue;
-          const a = search.tauLinks[j]!, u = search.tauUnit[j]!;
-          if (Math.abs(a) > T) {
-            // The arm cannot hold its own weight here.
-            allowed = 0;
-            limit = j;
-            own = 1;
-            break;
-          }
-          let cap = Infinity;
-          if (u > unitFloor) cap = (T - a) / u;
-          else if (u < -unitFloor) cap = (T + a) / -u;
-          if (cap < allowed) {
-            allowed = cap;
-            limit = j;
-          }
-        }
-        const slot = row * nOff + oi;
-        lastAllowed[oi] = allowed;
-        if (allowed < best[slot]! || bestLimit[slot] === -2) {
-          best[slot] = allowed;
-          bestLimit[slot] = limit;
-          bestOwn[slot] = own;
-          bestQ.set(search.q, slot * m);
-          bestHeight[slot] = s.flange[11]!;
-          bestDim[slot] = dim;
-        }
-      }
-      postures++;
-    };
-
-    for (let node = 0; node < total; node++) {
-      const ra = nodeReach[node]!;
-      if (ra !== ra) continue;
-      setNode(node);
-      idxA.set(idx);
-      for (let d = 0; d < D; d++) {
-        if (idxA[d]! + 1 >= count[d]!) continue;
-        const nb = node + strides[d]!;
-        const rb = nodeReach[nb]!;
-        if (rb !== rb) continue;
-        const rLo = Math.min(ra, rb), rHi = Math.max(ra, rb);
-        const k0 = Math.max(kFirst, Math.ceil(rLo / stepM - 1e-12)), k1 = Math.min(kLast, Math.floor(rHi / stepM + 1e-12));
-        if (k1 < k0) continue;
-        // Endpoints of the edge (held and searched joints; wrist from the nodes).
-        setNode(node);
-        for (let c = 0; c < nw; c++) search.q[plan.orienting[c]!] = nodeWrist[node * nw + c]!;
-        qa.set(search.q);
-        qb.set(search.q);
-        qb[plan.searched[d]!] = lo[d]! + ((hi[d]! - lo[d]!) * (idxA[d]! + 1)) / (count[d]! - 1);
-        for (let c = 0; c < nw; c++) qb[plan.orienting[c]!] = nodeWrist[nb * nw + c]!;
-        for (let kk = k0; kk <= k1; kk++) {
-          const target = kk * stepM;
-          if (!crossing(search, qa, qb, ra - target, rb - target, target, tolM, nw, plan.orienting)) continue;
-          // With the spherical shortcut the wrist is still unsolved here.
-          if (plan.wcpFlangeDistanceM !== null) {
-            for (let c = 0; c < nw; c++) search.q[plan.orienting[c]!] = lastWrist[c]!;
-            if (!search.solveTool()) continue;
-            for (let c = 0; c < nw; c++) lastWrist[c] = search.q[plan.orienting[c]!]!;
-          }
-          evaluateRow(kk - kFirst, d);
-        }
-      }
-    }
-
-    // Local refinement of each row's worst posture: golden-section search over each other searched joint within
-    // ± one grid step, the row's reach re-solved along the joint the crossing was found on (two passes when three or
-    // more joints are searched: their grid is coarse).
-    const stepOf = (d: number): number => (hi[d]! - lo[d]!) / (count[d]! - 1);
-    const onLevel = (row: number, oi: number, dStar: number, e: number, x: number): number => {
-      const target = (kFirst + row) * stepM;
-      const je = plan.searched[e]!, jd = plan.searched[dStar]!;
-      qa.set(qStar);
-      qa[je] = x;
-      qb.set(qa);
-      qa[jd] = Math.max(lo[dStar]!, qStar[jd]! - stepOf(dStar));
-      qb[jd] = Math.min(hi[dStar]!, qStar[jd]! + stepOf(dStar));
-      search.q.set(qa);
-      const fa = search.reach() - target;
-      qa.set(search.q);
-      search.q.set(qb);
-      const fb = search.reach() - target;
-      qb.set(search.q);
-      if (!(fa * fb <= 0)) return Infinity;
-      if (!crossing(search, qa, qb, fa, fb, target, tolM, nw, plan.orienting)) return Infinity;
-      if (plan.wcpFlangeDistanceM !== null) {
-        for (let c = 0; c < nw; c++) search.q[plan.orienting[c]!] = qStar[plan.orienting[c]!]!;
-        if (!search.solveTool()) return Infinity;
-      }
-      evaluateRow(row, dStar);
-      return lastAllowed[oi]!;
-    };
-    const passes = D >= 3 ? 2 : 1;
-    for (let slot = 0; D >= 2 && slot < nRows * nOff; slot++) {
-      if (bestLimit[slot] === -2 || !Number.isFinite(best[slot]!)) continue;
-      const row = Math.floor(slot / nOff), oi = slot % nOff, dStar = bestDim[slot]!;
-      for (let pass = 0; pass < passes; pass++) {
-        for (let e = 0; e < D; e++) {
-          if (e === dStar) continue;
-          qStar.set(bestQ.subarray(slot * m, slot * m + m));
-          const center = qStar[plan.searched[e]!]!;
-          let a = Math.max(lo[e]!, center - stepOf(e)), b = Math.min(hi[e]!, center + stepOf(e));
-          let x1 = b - GOLDEN * (b - a), x2 = a + GOLDEN * (b - a);
-          let f1 = onLevel(row, oi, dStar, e, x1), f2 = onLevel(row, oi, dStar, e, x2);
-          for (let it = 0; it < REFINE_STEPS; it++) {
-            if (f1 < f2) {
-              b = x2;
-              x2 = x1;
-              f2 = f1;
-              x1 = b - GOLDEN * (b - a);
-              f1 = onLevel(row, oi, dStar, e, x1);
-            } else {
-              a = x1;
-              x1 = x2;
-              f1 = f2;
-              x2 = a + GOLDEN * (b - a);
-              f2 = onLevel(row, oi, dStar, e, x2);
-            }
-          }
-        }
-      }
-    }
-
-    for (let j = 0; j < m; j++) {
-      if (maxUnit[j]! > unitFloor && !(chain.ratedEffortSi[j]! > 0)) loadedUnrated.add(chain.jointNames[chain.drivenJoint[j]!]!);
-    }
-    // Rows at the ends of the range where no posture holds the tool along gravity are dropped (the reach range of
-    // the spherical shortcut does not check the wrist limits); gaps inside the range stay, as "unreachable".
-    let rFirst = 0, rLast = nRows - 1;
-    const rowReached = (r: number): boolean => {
-      for (let oi = 0; oi < nOff; oi++) if (bestLimit[r * nOff + oi] !== -2) return true;
-      return false;
-    };
-    while (rFirst <= rLast && !rowReached(rFirst)) rFirst++;
-    while (rLast >= rFirst && !rowReached(rLast)) rLast--;
-    for (let r = rFirst; r <= rLast; r++) {
-      for (let oi = 0; oi < nOff; oi++) {
-        const slot = r * nOff + oi;
-        const reachMm = (kFirst + r) * o.reachStepMm, offsetMm = o.offsetsMm[oi]!;
-        if (bestLimit[slot] === -2) {
-          rows.push({ mounting, reachMm, offsetMm, payloadKg: 0, limitingJoint: null, limitedBy: "unreachable", torqueLimitKg: null, torqueLimitJoint: null, flangeHeightMm: null, jointsDegOrMm: null });
-          continue;
-        }
-        const torqueKg = Math.max(0, best[slot]!), capped = !(torqueKg < rated), lim = bestLimit[slot]!;
-        const q = Array.from(bestQ.subarray(slot * m, slot * m + m), (v, j) => jointOut(chain, j, v));
-        rows.push({
-          mounting,
-          reachMm,
-          offsetMm,
-          payloadKg: Math.min(rated, torqueKg),
-          limitingJoint: !capped && lim >= 0 ? chain.jointNames[chain.drivenJoint[lim]!]! : null,
-          limitedBy: capped ? "rated-payload" : bestOwn[slot] ? "own-weight" : "joint-rating",
-          torqueLimitKg: Number.isFinite(torqueKg) ? torqueKg : null,
-          torqueLimitJoint: lim >= 0 ? chain.jointNames[chain.drivenJoint[lim]!]! : null,
-          flangeHeightMm: mToMm(bestHeight[slot]!),
-          jointsDegOrMm: q,
-        });
-      }
-    }
-    reports.push(report(postures));
+  for (const mounting of o.mountings ?? input.mountings) {
+    const search = new MountingSearch(ctx, mounting);
+    search.run();
+    rows.push(...search.rows());
+    reports.push(search.report());
+    for (const name of search.loadedUnrated()) loadedUnrated.add(name);
   }
 
+  const notes: string[] = [...input.notes];
   let basis: PayloadBasis;
-  if (!anyRating) {
+  if (!ctx.anyRating) {
     basis = "as-rated";
     notes.push("no joint torque ratings: the rated payload is given over the reach range, as rated by the maker");
   } else if (loadedUnrated.size > 0) {
@@ -1456,12 +1168,542 @@ export function payloadAtReach(chain: Chain, input: PayloadInput, options: Parti
     basis,
     statement: PAYLOAD_STATEMENT,
     convention: AT_REACH_CONVENTION,
-    ratedPayloadKg: rated,
+    ratedPayloadKg: input.ratedPayloadKg,
     linkMassTotalKg: input.links.reduce((a, l) => a + l.massKg, 0),
     rows,
     mountings: reports,
     notes,
   };
+}
+
+interface SearchContext {
+  readonly chain: Chain;
+  readonly input: PayloadInput;
+  readonly o: PayloadAtReachOptions;
+  readonly bodies: BodySet;
+  readonly facts: ChainFacts;
+  readonly anyRating: boolean;
+}
+
+/** Grid edges solved exactly per row and offset when three or more joints are searched (the lowest screened). */
+const SEEDS_PER_ROW = 4;
+
+/** The posture search of one mounting: grid, crossings, refinement and the rows. */
+class MountingSearch {
+  private readonly chain: Chain;
+  private readonly plan: SearchPlan;
+  private readonly search: Search;
+  private readonly gVec: [number, number, number];
+  private readonly gDir: [number, number, number];
+  private readonly notes: string[] = [];
+  // Grid over the searched joints.
+  private readonly D: number;
+  private readonly lo: number[] = [];
+  private readonly hi: number[] = [];
+  private readonly count: number[] = [];
+  private readonly strides: number[] = [];
+  /** A searched revolute joint whose window is a full turn: its grid wraps (the last node repeats the first). */
+  private readonly periodic: boolean[] = [];
+  private readonly total: number;
+  private readonly idx: Int32Array;
+  private readonly nw: number;
+  private nodeReach = new Float64Array(0);
+  private nodeWrist = new Float64Array(0);
+  private nodeAllowed = new Float64Array(0);
+  private minReach = Infinity;
+  private maxReach = -Infinity;
+  // Rows.
+  private readonly stepM: number;
+  private readonly nOff: number;
+  private readonly offsetsM: number[];
+  private kFirst = 0;
+  private nRows = 0;
+  private best = new Float64Array(0);
+  private bestLimit = new Int32Array(0);
+  private bestOwn = new Uint8Array(0);
+  private bestQ = new Float64Array(0);
+  private bestHeight = new Float64Array(0);
+  private bestDim = new Int8Array(0);
+  // Last evaluation, per offset.
+  private readonly lastAllowed: Float64Array;
+  private readonly lastLimit: Int32Array;
+  private readonly lastOwn: Uint8Array;
+  private readonly maxUnit: Float64Array;
+  private readonly unitFloor: number;
+  private postures = 0;
+  // Work buffers.
+  private readonly qa: Float64Array;
+  private readonly qb: Float64Array;
+  private readonly qStar: Float64Array;
+  private readonly lastWrist: Float64Array;
+
+  constructor(private readonly ctx: SearchContext, private readonly mounting: Mounting) {
+    const chain = (this.chain = ctx.chain), o = ctx.o, m = chain.drivenCount;
+    this.gVec = gravityInBase(mounting, o.angledTiltDeg, o.gravityMPerS2);
+    const gNorm = norm3(this.gVec);
+    this.gDir = [this.gVec[0] / gNorm, this.gVec[1] / gNorm, this.gVec[2] / gNorm];
+    this.plan = planFor(chain, ctx.facts, this.gDir);
+    const tool = this.plan.mode === "fixed-by-structure" ? ctx.facts.structureFixedAxis! : this.gDir;
+    this.search = new Search(chain, this.plan, tool);
+    if (this.plan.mode === "fixed-by-structure" && dot3(tool, this.gDir) < 1 - 1e-9) this.notes.push("the flange axis is fixed by the arm's structure and does not point along gravity in this mounting");
+    if (this.plan.mode === "follows-posture") this.notes.push("the arm has no wrist joints to orient the tool: the flange axis follows the posture");
+
+    // Grid: nodes spread by range (prismatic ranges counted per characteristic length).
+    const D = (this.D = this.plan.searched.length);
+    const weights = this.plan.searched.map((j) => {
+      const [a, b] = searchRange(chain, j);
+      this.lo.push(a);
+      this.hi.push(b);
+      this.periodic.push(!chain.isPrismatic[chain.drivenJoint[j]!] && b - a >= 2 * Math.PI - 1e-12);
+      return Math.max((b - a) / (chain.isPrismatic[chain.drivenJoint[j]!] ? Math.max(chain.characteristicLengthM, 1e-3) : 1), 1e-9);
+    });
+    const budget = o.searchNodesByDims[Math.min(D, o.searchNodesByDims.length - 1)]!;
+    const k = D > 0 ? Math.pow(budget / weights.reduce((p, w) => p * w, 1), 1 / D) : 0;
+    for (let d = 0; d < D; d++) this.count.push(Math.max(3, Math.round(weights[d]! * k) + 1));
+    let total = 1;
+    for (let d = D - 1; d >= 0; d--) {
+      this.strides[d] = total;
+      total *= this.count[d]!;
+    }
+    this.total = total;
+    this.idx = new Int32Array(D);
+    this.nw = this.plan.orienting.length;
+
+    this.stepM = mmToM(o.reachStepMm);
+    this.nOff = o.offsetsMm.length;
+    this.offsetsM = o.offsetsMm.map(mmToM);
+    this.lastAllowed = new Float64Array(this.nOff);
+    this.lastLimit = new Int32Array(this.nOff);
+    this.lastOwn = new Uint8Array(this.nOff);
+    this.maxUnit = new Float64Array(m);
+    // Payload torque per kg below this is rounding (a load hanging on the joint's axis): 1e-9 · g · arm size.
+    this.unitFloor = 1e-9 * o.gravityMPerS2 * Math.max(1, chain.characteristicLengthM);
+    this.qa = new Float64Array(m);
+    this.qb = new Float64Array(m);
+    this.qStar = new Float64Array(m);
+    this.lastWrist = Float64Array.from(this.plan.orienting, (j) => holdValue(chain, j));
+  }
+
+  run(): void {
+    const screen = this.ctx.anyRating && this.D >= 3;
+    this.sweepNodes(screen);
+    if (!Number.isFinite(this.minReach)) {
+      this.notes.push("no posture found with the tool along gravity within the joint limits");
+      return;
+    }
+    this.kFirst = Math.ceil(this.minReach / this.stepM - 1e-9);
+    this.nRows = Math.max(0, Math.floor(this.maxReach / this.stepM + 1e-9) - this.kFirst + 1);
+    if (!this.ctx.anyRating) return;
+    const slots = this.nRows * this.nOff, m = this.chain.drivenCount;
+    this.best = new Float64Array(slots).fill(Infinity);
+    this.bestLimit = new Int32Array(slots).fill(-2);
+    this.bestOwn = new Uint8Array(slots);
+    this.bestQ = new Float64Array(slots * m);
+    this.bestHeight = new Float64Array(slots);
+    this.bestDim = new Int8Array(slots);
+    if (screen) this.seededCrossings();
+    else this.edgeCrossings();
+    this.continueAcrossRows();
+    this.refine();
+  }
+
+  /** Sets the searched joints of search.q (and idx) to grid node `node`. */
+  private setNode(node: number): void {
+    let rem = node;
+    for (let d = 0; d < this.D; d++) {
+      const i = Math.floor(rem / this.strides[d]!);
+      this.idx[d] = i;
+      rem -= i * this.strides[d]!;
+      this.search.q[this.plan.searched[d]!] = this.gridValue(d, i);
+    }
+  }
+
+  private gridValue(d: number, i: number): number {
+    return this.lo[d]! + ((this.hi[d]! - this.lo[d]!) * i) / (this.count[d]! - 1);
+  }
+
+  /** Node posture (searched joints, held joints, wrist as stored) into `out`. */
+  private nodePosture(out: Float64Array, node: number): void {
+    this.setNode(node);
+    for (let c = 0; c < this.nw; c++) this.search.q[this.plan.orienting[c]!] = this.nodeWrist[node * this.nw + c]!;
+    out.set(this.search.q);
+  }
+
+  /** Reach at every node (NaN where the tool cannot point along gravity within the limits); with `screen`, also the
+   * allowed payload at every node. */
+  private sweepNodes(screen: boolean): void {
+    const chain = this.chain, q = this.search.q, nw = this.nw, plan = this.plan;
+    for (let j = 0; j < chain.drivenCount; j++) q[j] = holdValue(chain, j);
+    for (const hj of plan.held) q[hj.j] = hj.value;
+    this.nodeReach = new Float64Array(this.total);
+    this.nodeWrist = new Float64Array(this.total * nw);
+    if (screen) this.nodeAllowed = new Float64Array(this.total * this.nOff).fill(NaN);
+    const solveAlways = screen || plan.wcpFlangeDistanceM === null;
+    for (let node = 0; node < this.total; node++) {
+      this.setNode(node);
+      // Warm start of the wrist from the neighbour that precedes this node along the innermost moved axis.
+      if (nw > 0 && solveAlways && node > 0) {
+        let prev = node - 1;
+        for (let d = this.D - 1; d >= 0; d--) {
+          if (this.idx[d]! > 0) {
+            prev = node - this.strides[d]!;
+            break;
+          }
+        }
+        for (let c = 0; c < nw; c++) q[plan.orienting[c]!] = this.nodeWrist[prev * nw + c]!;
+      }
+      let r = this.search.reach();
+      if (screen && r === r && plan.wcpFlangeDistanceM !== null && !this.search.solveTool()) r = NaN;
+      this.nodeReach[node] = r;
+      for (let c = 0; c < nw; c++) this.nodeWrist[node * nw + c] = q[plan.orienting[c]!]!;
+      if (r !== r) continue;
+      if (r < this.minReach) this.minReach = r;
+      if (r > this.maxReach) this.maxReach = r;
+      if (screen) {
+        this.evaluate();
+        for (let oi = 0; oi < this.nOff; oi++) this.nodeAllowed[node * this.nOff + oi] = this.lastAllowed[oi]!;
+      }
+    }
+  }
+
+  /** Uncapped allowed payload per offset at the solved posture in the scratch (lastAllowed, lastLimit, lastOwn). */
+  private evaluate(): void {
+    const chain = this.chain, s = this.search.s, m = chain.drivenCount, tauL = this.search.tauLinks, u = this.search.tauUnit;
+    holdingTorqueInto(tauL, chain, s, this.ctx.bodies, this.gVec, this.search.h);
+    const zx = s.flange[2]!, zy = s.flange[6]!, zz = s.flange[10]!;
+    for (let oi = 0; oi < this.nOff; oi++) {
+      const off = this.offsetsM[oi]!;
+      pointHoldingTorqueInto(u, chain, s, s.flange[3]! + off * zx, s.flange[7]! + off * zy, s.flange[11]! + off * zz, 1, this.gVec, this.search.h);
+      for (let j = 0; j < m; j++) if (Math.abs(u[j]!) > this.maxUnit[j]!) this.maxUnit[j] = Math.abs(u[j]!);
+      let allowed = Infinity, limit = -1, own = 0;
+      for (let j = 0; j < m; j++) {
+        const T = chain.ratedEffortSi[j]!;
+        if (!(T > 0)) continue;
+        const a = tauL[j]!, uj = u[j]!;
+        if (Math.abs(a) > T) {
+          // The arm cannot hold its own weight here.
+          allowed = 0;
+          limit = j;
+          own = 1;
+          break;
+        }
+        let cap = Infinity;
+        if (uj > this.unitFloor) cap = (T - a) / uj;
+        else if (uj < -this.unitFloor) cap = (T + a) / -uj;
+        if (cap < allowed) {
+          allowed = cap;
+          limit = j;
+        }
+      }
+      this.lastAllowed[oi] = allowed;
+      this.lastLimit[oi] = limit;
+      this.lastOwn[oi] = own;
+    }
+    this.postures++;
+  }
+
+  /** Keeps the last evaluation as the worst of row `row` where it is. */
+  private record(row: number, dim: number): void {
+    const m = this.chain.drivenCount;
+    for (let oi = 0; oi < this.nOff; oi++) {
+      const slot = row * this.nOff + oi, allowed = this.lastAllowed[oi]!;
+      if (allowed < this.best[slot]! || this.bestLimit[slot] === -2) {
+        this.best[slot] = allowed;
+        this.bestLimit[slot] = this.lastLimit[oi]!;
+        this.bestOwn[slot] = this.lastOwn[oi]!;
+        this.bestQ.set(this.search.q, slot * m);
+        for (let d = 0; d < this.D; d++) {
+          if (!this.periodic[d]) continue;
+          const at = slot * m + this.plan.searched[d]!, v = this.bestQ[at]!, lo = this.lo[d]!;
+          this.bestQ[at] = v - 2 * Math.PI * Math.floor((v - lo) / (2 * Math.PI));
+        }
+        this.bestHeight[slot] = this.search.s.flange[11]!;
+        this.bestDim[slot] = dim;
+      }
+    }
+  }
+
+  /** After `crossing`: solves the wrist where the spherical shortcut left it unsolved. */
+  private finishCrossing(warm: Float64Array): boolean {
+    if (this.plan.wcpFlangeDistanceM === null) return true;
+    for (let c = 0; c < this.nw; c++) this.search.q[this.plan.orienting[c]!] = warm[c]!;
+    if (!this.search.solveTool()) return false;
+    for (let c = 0; c < this.nw; c++) this.lastWrist[c] = this.search.q[this.plan.orienting[c]!]!;
+    return true;
+  }
+
+  /** One or two searched joints: every grid edge that crosses a row's reach gives a posture on it. */
+  private edgeCrossings(): void {
+    const D = this.D, stepM = this.stepM, tolM = mmToM(this.ctx.o.reachToleranceMm), kLast = this.kFirst + this.nRows - 1;
+    const idxA = new Int32Array(D);
+    for (let node = 0; node < this.total; node++) {
+      const ra = this.nodeReach[node]!;
+      if (ra !== ra) continue;
+      this.setNode(node);
+      idxA.set(this.idx);
+      for (let d = 0; d < D; d++) {
+        if (idxA[d]! + 1 >= this.count[d]!) continue;
+        const nb = node + this.strides[d]!, rb = this.nodeReach[nb]!;
+        if (rb !== rb) continue;
+        const k0 = Math.max(this.kFirst, Math.ceil(Math.min(ra, rb) / stepM - 1e-12));
+        const k1 = Math.min(kLast, Math.floor(Math.max(ra, rb) / stepM + 1e-12));
+        if (k1 < k0) continue;
+        this.nodePosture(this.qa, node);
+        this.nodePosture(this.qb, nb);
+        for (let kk = k0; kk <= k1; kk++) {
+          const target = kk * stepM;
+          if (!crossing(this.search, this.qa, this.qb, ra - target, rb - target, target, tolM, this.nw, this.plan.orienting)) continue;
+          if (!this.finishCrossing(this.lastWrist)) continue;
+          this.evaluate();
+          this.record(kk - this.kFirst, d);
+        }
+      }
+    }
+  }
+
+  /**
+   * Three or more searched joints: every grid edge that crosses a row's reach is screened with the allowed payload
+   * interpolated between its two nodes at the crossing; the SEEDS_PER_ROW lowest edges of each row (and offset) are
+   * solved exactly (Illinois) and evaluated.
+   */
+  private seededCrossings(): void {
+    const nOff = this.nOff, slots = this.nRows * nOff, K = SEEDS_PER_ROW, D = this.D, stepM = this.stepM;
+    const tolM = mmToM(this.ctx.o.reachToleranceMm), kLast = this.kFirst + this.nRows - 1;
+    const seedEdge = new Int32Array(slots * K).fill(-1), seedVal = new Float64Array(slots * K).fill(Infinity);
+    for (let node = 0; node < this.total; node++) {
+      const ra = this.nodeReach[node]!;
+      if (ra !== ra) continue;
+      this.setNode(node);
+      for (let d = 0; d < D; d++) {
+        if (this.idx[d]! + 1 >= this.count[d]!) continue;
+        const nb = node + this.strides[d]!, rb = this.nodeReach[nb]!;
+        if (rb !== rb || ra === rb) continue;
+        const k0 = Math.max(this.kFirst, Math.ceil(Math.min(ra, rb) / stepM - 1e-12));
+        const k1 = Math.min(kLast, Math.floor(Math.max(ra, rb) / stepM + 1e-12));
+        for (let kk = k0; kk <= k1; kk++) {
+          const t = (kk * stepM - ra) / (rb - ra), row = kk - this.kFirst;
+          for (let oi = 0; oi < nOff; oi++) {
+            const va = this.nodeAllowed[node * nOff + oi]!, vb = this.nodeAllowed[nb * nOff + oi]!;
+            const v = Number.isFinite(va) && Number.isFinite(vb) ? va + t * (vb - va) : Math.min(va, vb);
+            const base = (row * nOff + oi) * K;
+            if (!(v < seedVal[base + K - 1]!)) continue;
+            let at = K - 1;
+            while (at > 0 && v < seedVal[base + at - 1]!) {
+              seedVal[base + at] = seedVal[base + at - 1]!;
+              seedEdge[base + at] = seedEdge[base + at - 1]!;
+              at--;
+            }
+            seedVal[base + at] = v;
+            seedEdge[base + at] = node * D + d;
+          }
+        }
+      }
+    }
+    const wrist = new Float64Array(Math.max(1, this.nw));
+    for (let slot = 0; slot < slots; slot++) {
+      const row = Math.floor(slot / nOff), target = (this.kFirst + row) * stepM;
+      for (let sd = 0; sd < K; sd++) {
+        const edge = seedEdge[slot * K + sd]!;
+        if (edge < 0) continue;
+        // The same edge may seed several offsets of a row: solve it once (the evaluation records every offset).
+        let seen = false;
+        for (let other = Math.floor(slot / nOff) * nOff; other < slot && !seen; other++) {
+          for (let t = 0; t < K; t++) if (seedEdge[other * K + t] === edge) seen = true;
+        }
+        if (seen) continue;
+        const node = Math.floor(edge / D), d = edge % D, nb = node + this.strides[d]!;
+        this.nodePosture(this.qa, node);
+        this.nodePosture(this.qb, nb);
+        for (let c = 0; c < this.nw; c++) wrist[c] = this.nodeWrist[node * this.nw + c]!;
+        if (!crossing(this.search, this.qa, this.qb, this.nodeReach[node]! - target, this.nodeReach[nb]! - target, target, tolM, this.nw, this.plan.orienting)) continue;
+        if (!this.finishCrossing(wrist)) continue;
+        this.evaluate();
+        this.record(row, d);
+      }
+    }
+  }
+
+  /**
+   * Continuation: the worst postures of neighbouring rows lie on one smooth family, so each row's worst posture is
+   * moved onto the next row's reach (along the joint its crossing was found on, within ± two grid steps) and
+   * evaluated there; one sweep up the rows, one down. A row the grid sampled poorly inherits its neighbours' find.
+   */
+  private continueAcrossRows(): void {
+    if (this.D < 2) return;
+    const m = this.chain.drivenCount, nOff = this.nOff;
+    for (const dir of [1, -1]) {
+      for (let k = 0; k < this.nRows - 1; k++) {
+        const from = dir > 0 ? k : this.nRows - 1 - k, to = from + dir;
+        for (let oi = 0; oi < nOff; oi++) {
+          const src = from * nOff + oi;
+          if (this.bestLimit[src] === -2 || !Number.isFinite(this.best[src]!)) continue;
+          this.qStar.set(this.bestQ.subarray(src * m, src * m + m));
+          this.project(to, this.bestDim[src]!, 2);
+        }
+      }
+    }
+  }
+
+  /**
+   * Moves qStar onto row `row`'s reach along searched joint dStar (within ± `steps` grid steps), solves the wrist,
+   * evaluates and records. Returns the allowed payload of every offset in lastAllowed; false where no such posture.
+   */
+  private project(row: number, dStar: number, steps: number): boolean {
+    const plan = this.plan, search = this.search, qa = this.qa, qb = this.qb, qStar = this.qStar;
+    const target = (this.kFirst + row) * this.stepM;
+    const jd = plan.searched[dStar]!, step = steps * this.gridStep(dStar);
+    qa.set(qStar);
+    qb.set(qStar);
+    qa[jd] = this.clampTo(dStar, qStar[jd]! - step);
+    qb[jd] = this.clampTo(dStar, qStar[jd]! + step);
+    search.q.set(qa);
+    const fa = search.reach() - target;
+    qa.set(search.q);
+    search.q.set(qb);
+    const fb = search.reach() - target;
+    qb.set(search.q);
+    if (!(fa * fb <= 0)) return false;
+    if (!crossing(search, qa, qb, fa, fb, target, mmToM(this.ctx.o.reachToleranceMm), this.nw, plan.orienting)) return false;
+    if (plan.wcpFlangeDistanceM !== null) {
+      for (let c = 0; c < this.nw; c++) search.q[plan.orienting[c]!] = qStar[plan.orienting[c]!]!;
+      if (!search.solveTool()) return false;
+    }
+    this.evaluate();
+    this.record(row, dStar);
+    return true;
+  }
+
+  /** Allowed payload (offset oi) at the posture on row `row`'s reach with searched joint e at x, the reach solved
+   * along searched joint dStar within ± one grid step of the slot's best posture qStar; Infinity where none. */
+  private onLevel(row: number, oi: number, dStar: number, e: number, x: number): number {
+    const saved = this.qStar[this.plan.searched[e]!]!;
+    this.qStar[this.plan.searched[e]!] = x;
+    const ok = this.project(row, dStar, 1);
+    this.qStar[this.plan.searched[e]!] = saved;
+    return ok ? this.lastAllowed[oi]! : Infinity;
+  }
+
+  /** Into the search window of searched joint d; a periodic joint is left as is (it may pass the seam). */
+  private clampTo(d: number, v: number): number {
+    return this.periodic[d] ? v : Math.min(this.hi[d]!, Math.max(this.lo[d]!, v));
+  }
+
+  private gridStep(d: number): number {
+    return (this.hi[d]! - this.lo[d]!) / (this.count[d]! - 1);
+  }
+
+  /**
+   * Local refinement of each row's worst posture: golden-section search over each other searched joint within ± one
+   * grid step, the row's reach re-solved along the joint the crossing was found on (two passes when three or more
+   * joints are searched).
+   */
+  private refine(): void {
+    const D = this.D, m = this.chain.drivenCount, passes = D >= 3 ? 2 : 1;
+    if (D < 2) return;
+    for (let slot = 0; slot < this.nRows * this.nOff; slot++) {
+      if (this.bestLimit[slot] === -2 || !Number.isFinite(this.best[slot]!)) continue;
+      const row = Math.floor(slot / this.nOff), oi = slot % this.nOff, dStar = this.bestDim[slot]!;
+      for (let pass = 0; pass < passes; pass++) {
+        for (let e = 0; e < D; e++) {
+          if (e === dStar) continue;
+          this.qStar.set(this.bestQ.subarray(slot * m, slot * m + m));
+          const center = this.qStar[this.plan.searched[e]!]!, step = this.gridStep(e);
+          let a = this.clampTo(e, center - step), b = this.clampTo(e, center + step);
+          let x1 = b - GOLDEN * (b - a), x2 = a + GOLDEN * (b - a);
+          let f1 = this.onLevel(row, oi, dStar, e, x1), f2 = this.onLevel(row, oi, dStar, e, x2);
+          for (let it = 0; it < REFINE_STEPS; it++) {
+            if (f1 < f2) {
+              b = x2;
+              x2 = x1;
+              f2 = f1;
+              x1 = b - GOLDEN * (b - a);
+              f1 = this.onLevel(row, oi, dStar, e, x1);
+            } else {
+              a = x1;
+              x1 = x2;
+              f1 = f2;
+              x2 = a + GOLDEN * (b - a);
+              f2 = this.onLevel(row, oi, dStar, e, x2);
+            }
+          }
+        }
+      }
+    }
+  }
+
+  /** Rows of this mounting. Rows at the ends of the range where no posture holds the tool along gravity are dropped
+   * (the reach range of the spherical shortcut does not check the wrist limits); gaps inside stay, "unreachable". */
+  rows(): PayloadAtReachRow[] {
+    const chain = this.chain, m = chain.drivenCount, nOff = this.nOff, o = this.ctx.o, rated = this.ctx.input.ratedPayloadKg;
+    const out: PayloadAtReachRow[] = [];
+    const mounting = this.mounting;
+    if (!this.ctx.anyRating) {
+      for (let r = 0; r < this.nRows; r++) {
+        for (const offsetMm of o.offsetsMm) {
+          out.push({ mounting, reachMm: (this.kFirst + r) * o.reachStepMm, offsetMm, payloadKg: rated, limitingJoint: null, limitedBy: "as-rated", torqueLimitKg: null, torqueLimitJoint: null, flangeHeightMm: null, jointsDegOrMm: null });
+        }
+      }
+      return out;
+    }
+    const reached = (r: number): boolean => {
+      for (let oi = 0; oi < nOff; oi++) if (this.bestLimit[r * nOff + oi] !== -2) return true;
+      return false;
+    };
+    let rFirst = 0, rLast = this.nRows - 1;
+    while (rFirst <= rLast && !reached(rFirst)) rFirst++;
+    while (rLast >= rFirst && !reached(rLast)) rLast--;
+    const name = (j: number): string => chain.jointNames[chain.drivenJoint[j]!]!;
+    for (let r = rFirst; r <= rLast; r++) {
+      for (let oi = 0; oi < nOff; oi++) {
+        const slot = r * nOff + oi;
+        const reachMm = (this.kFirst + r) * o.reachStepMm, offsetMm = o.offsetsMm[oi]!;
+        if (this.bestLimit[slot] === -2) {
+          out.push({ mounting, reachMm, offsetMm, payloadKg: 0, limitingJoint: null, limitedBy: "unreachable", torqueLimitKg: null, torqueLimitJoint: null, flangeHeightMm: null, jointsDegOrMm: null });
+          continue;
+        }
+        const torqueKg = Math.max(0, this.best[slot]!), capped = !(torqueKg < rated), lim = this.bestLimit[slot]!;
+        out.push({
+          mounting,
+          reachMm,
+          offsetMm,
+          payloadKg: Math.min(rated, torqueKg),
+          limitingJoint: !capped && lim >= 0 ? name(lim) : null,
+          limitedBy: capped ? "rated-payload" : this.bestOwn[slot] ? "own-weight" : "joint-rating",
+          torqueLimitKg: Number.isFinite(torqueKg) ? torqueKg : null,
+          torqueLimitJoint: lim >= 0 ? name(lim) : null,
+          flangeHeightMm: mToMm(this.bestHeight[slot]!),
+          jointsDegOrMm: Array.from(this.bestQ.subarray(slot * m, slot * m + m), (v, j) => jointOut(chain, j, v)),
+        });
+      }
+    }
+    return out;
+  }
+
+  report(): PayloadMountingReport {
+    const chain = this.chain, plan = this.plan;
+    const name = (j: number): string => chain.jointNames[chain.drivenJoint[j]!]!;
+    return {
+      mounting: this.mounting,
+      gravityDirectionInBase: this.gDir,
+      toolDirection: plan.mode,
+      minReachMm: Number.isFinite(this.minReach) ? mToMm(this.minReach) : null,
+      maxReachMm: Number.isFinite(this.maxReach) ? mToMm(this.maxReach) : null,
+      searched: plan.searched.map((j, d) => ({ joint: name(j), stepDegOrMm: jointOut(chain, j, this.gridStep(d)) })),
+      orienting: plan.orienting.map(name),
+      held: plan.held.map((h) => ({ joint: name(h.j), valueDegOrMm: jointOut(chain, h.j, h.value), reason: h.reason })),
+      postures: this.postures,
+      notes: this.notes,
+    };
+  }
+
+  /** Names of driven joints that carried payload torque somewhere but have no rating. */
+  loadedUnrated(): string[] {
+    const chain = this.chain, out: string[] = [];
+    for (let j = 0; j < chain.drivenCount; j++) {
+      if (this.maxUnit[j]! > this.unitFloor && !(chain.ratedEffortSi[j]! > 0)) out.push(chain.jointNames[chain.drivenJoint[j]!]!);
+    }
+    return out;
+  }
 }
 
 /** Joint value for output: deg for revolute, mm for prismatic. */

@@ -22,22 +22,26 @@ export interface SpeedScratch {
   readonly b: Float64Array;
   /** Vertex sum. */
   readonly sum: Float64Array;
+  /** det J of the last square (m = 6) solve by lineRatesInto, a by-product of its LU; NaN otherwise. */
+  lastDet: number;
 }
 
 export function createSpeedScratch(m: number): SpeedScratch {
   const k = Math.max(6, m);
-  return { m, a: new Float64Array(k * k), x: new Float64Array(k * 3), b: new Float64Array(m * 3), sum: new Float64Array(3) };
+  return { m, a: new Float64Array(k * k), x: new Float64Array(k * 3), b: new Float64Array(m * 3), sum: new Float64Array(3), lastDet: NaN };
 }
 
 /**
  * Solves a·x = rhs in place (a: k × k row-major, x: k × 3 row-major) by Gaussian elimination with partial pivoting.
  * Returns false when a pivot falls below `relTol` × the largest entry (numerically singular).
  */
-export function solveInPlace3(a: Float64Array, x: Float64Array, k: number, relTol = 1e-13): boolean {
+export function solveInPlace3(a: Float64Array, x: Float64Array, k: number, relTol = 1e-13, det?: { value: number }): boolean {
   let scale = 0;
   for (let i = 0; i < k * k; i++) scale = Math.max(scale, Math.abs(a[i]!));
+  if (det) det.value = 0;
   if (!(scale > 0)) return false;
   const tol = relTol * scale;
+  let product = 1;
   for (let c = 0; c < k; c++) {
     let p = c, best = Math.abs(a[c * k + c]!);
     for (let r = c + 1; r < k; r++) {
@@ -61,6 +65,7 @@ export function solveInPlace3(a: Float64Array, x: Float64Array, k: number, relTo
       }
     }
     const piv = a[c * k + c]!;
+    product *= p !== c ? -piv : piv;
     for (let r = c + 1; r < k; r++) {
       const f = a[r * k + c]! / piv;
       if (f === 0) continue;
@@ -68,6 +73,7 @@ export function solveInPlace3(a: Float64Array, x: Float64Array, k: number, relTo
       for (let j = 0; j < 3; j++) x[r * 3 + j] = x[r * 3 + j]! - f * x[c * 3 + j]!;
     }
   }
+  if (det) det.value = product;
   for (let c = k - 1; c >= 0; c--) {
     const piv = a[c * k + c]!;
     for (let j = 0; j < 3; j++) {
@@ -84,15 +90,20 @@ export function solveInPlace3(a: Float64Array, x: Float64Array, k: number, relTo
  * s.b. Returns false at a singular pose, or when constant-orientation motion is not possible in every direction.
  * @param j 6 × m Jacobian, rows (vx, vy, vz, ωx, ωy, ωz), SI
  */
+const detHolder = { value: 0 };
+
 export function lineRatesInto(j: ArrayLike<number>, m: number, s: SpeedScratch): boolean {
   const a = s.a, x = s.x, b = s.b;
+  s.lastDet = NaN;
   if (m === 6) {
     for (let i = 0; i < 36; i++) a[i] = j[i]!;
     x.fill(0, 0, 18);
     x[0] = 1;
     x[4] = 1;
     x[8] = 1;
-    if (!solveInPlace3(a, x, 6)) return false;
+    const ok = solveInPlace3(a, x, 6, 1e-13, detHolder);
+    s.lastDet = detHolder.value;
+    if (!ok) return false;
     for (let i = 0; i < 18; i++) b[i] = x[i]!;
     return true;
   }

@@ -16,6 +16,7 @@ import { createScratch, forwardInto, jacobianInto, wristCentreInto } from "../ki
 import { createIkScratch, solveIkInto, type IkOptions } from "../kinematics/inverse";
 import { createSpeedScratch, guaranteedLineSpeed, maxToolSpeed } from "./speed";
 import { createSingularityScratch, scaledSingularValues } from "./singularity";
+import { createSvdScratch, svdInto } from "../math/svd";
 import { branchCode, branchFrame, branchName, type BranchFrame } from "./branches";
 import { mulberry32 } from "./random";
 import { classifyNullVector, jointRoles } from "./singularity";
@@ -78,7 +79,7 @@ export const DEFAULT_SPEED_MAP: SpeedMapOptions = {
 
 /** Largest joint change between neighbouring cells still taken as one continuous solution, rad (or m). */
 const MAX_CONTINUATION_JUMP_RAD = 0.3;
-const CONTINUATION_IK: IkOptions = { maxIterations: 12, toleranceM: 1e-7, toleranceRad: 1e-6 };
+const CONTINUATION_IK: IkOptions = { maxIterations: 12, toleranceM: 1e-6, toleranceRad: 1e-5 };
 const DISCOVERY_IK: IkOptions = { maxIterations: 60, toleranceM: 1e-7, toleranceRad: 1e-6 };
 
 /** The plane: origin on axis 1, radial and up unit vectors in the base frame. */
@@ -256,14 +257,19 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     const ix = cell % nx, iy = (cell - ix) / nx;
     targetInto(target, plane, (grid.rMinMm + ix * step) / 1000, (zMinMm + iy * step) / 1000, orientation, options.gravity, 1);
   };
-  /** Stores qTry at `cell` unless an equal solution is there; returns the slot or −1. */
+  // Revolute driven joints: values 2π apart are the same arm posture (e.g. q1 = ±180° on the back side of an arm
+  // whose J1 range is ±180°); they must not take two of the K slots, or real branches find no room.
+  const wraps = Uint8Array.from(chain.drivenJoint, (k) => (chain.isPrismatic[k] ? 0 : 1));
+  /** Stores qTry at `cell` unless an equal solution (revolute joints compared modulo 2π) is there; returns the slot or −1. */
   const store = (cell: number): number => {
     const base = cell * K * m, n = count[cell]!;
     lastEqual = -1;
     for (let k = 0; k < n; k++) {
       let same = true;
       for (let i = 0; i < m; i++) {
-        if (Math.abs(sol[base + k * m + i]! - qTry[i]!) > 1e-4) {
+        let d = Math.abs(sol[base + k * m + i]! - qTry[i]!);
+        if (wraps[i]) d = Math.abs(d - 2 * Math.PI * Math.round(d / (2 * Math.PI)));
+        if (d > 1e-4) {
           same = false;
           break;
         }
@@ -357,6 +363,8 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
   const c = new Float64Array(3);
   const detVal = new Float64Array(cells * K).fill(NaN);
   const detWork = new Float64Array(36);
+  const bestJ = new Float64Array(6 * m), bestT = new Float64Array(16);
+  const lengthCubed = chain.characteristicLengthM ** 3;
   let reachable = 0;
   for (let cell = 0; cell < cells; cell++) {
     const n = count[cell]!;
@@ -365,22 +373,33 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     let best = -1, bestG = -1, bestMax = 0;
     for (let k = 0; k < n; k++) {
       const off = (cell * K + k) * m;
-      const q = sol.subarray(off, off + m);
-      const t = forwardInto(chain, q, kin);
+      for (let i = 0; i < m; i++) qSeed[i] = sol[off + i]!;
+      const t = forwardInto(chain, qSeed, kin);
       jacobianInto(j, chain, kin, t[3]!, t[7]!, t[11]!);
-      detVal[cell * K + k] = taskDeterminant(j, m, chain.characteristicLengthM, t, detWork);
       const g = guaranteedLineSpeed(j, m, chain.maxSpeedSi, sp);
-      const vmax = maxToolSpeed(j, m, chain.maxSpeedSi, sp);
-      if (g > bestG + 1e-12 || (Math.abs(g - bestG) <= 1e-12 && vmax > bestMax)) {
+      // det J from the LU the speed figure just made (m = 6); the 4-row task determinant otherwise.
+      detVal[cell * K + k] = m === 6 ? sp.lastDet / lengthCubed : taskDeterminant(j, m, chain.characteristicLengthM, t, detWork);
+      if (g > bestG + 1e-12 || best < 0) {
         best = k;
         bestG = g;
-        bestMax = vmax;
+        bestJ.set(j);
+        bestT.set(t);
+      } else if (Math.abs(g - bestG) <= 1e-12) {
+        // Tie (both singular, or equal): prefer the larger maximum speed.
+        const vNew = maxToolSpeed(j, m, chain.maxSpeedSi, sp), vOld = maxToolSpeed(bestJ, m, chain.maxSpeedSi, sp);
+        if (vNew > vOld) {
+          best = k;
+          bestJ.set(j);
+          bestT.set(t);
+        }
       }
     }
+    bestMax = maxToolSpeed(bestJ, m, chain.maxSpeedSi, sp);
     const off = (cell * K + best) * m;
     const q = sol.subarray(off, off + m);
-    const t = forwardInto(chain, q, kin);
-    jacobianInto(j, chain, kin, t[3]!, t[7]!, t[11]!);
+    forwardInto(chain, q, kin);
+    j.set(bestJ);
+    const t = bestT;
     guaranteed[cell] = bestG * 1000;
     maxSpeed[cell] = bestMax * 1000;
     invCond[cell] = scaledSingularValues(j, m, chain.characteristicLengthM, sg);
@@ -403,14 +422,20 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
   const sheet = new Int32Array(cells * K);
   for (let i = 0; i < cells * K; i++) sheet[i] = find(i);
   const roles = jointRoles(chain);
+  const decoupled = decoupledWristColumns(chain);
+  const labeller = decoupled ? createDecoupledLabeller(chain, decoupled) : null;
   const loci = traceSingularityLoci({
     grid,
     slots: K,
     count,
     sheet,
     det: detVal,
-    kindAt: (cell, slot) => {
-      const off = (cell * K + slot) * m;
+    joints: sol,
+    m,
+    maxCornerJump: 2 * MAX_CONTINUATION_JUMP_RAD,
+    kindAt: (cellsAt, slotsAt, near) => {
+      if (labeller) return labeller((c) => sol.subarray((cellsAt[c]! * K + slotsAt[c]!) * m, (cellsAt[c]! * K + slotsAt[c]!) * m + m));
+      const off = (cellsAt[near]! * K + slotsAt[near]!) * m;
       const t = forwardInto(chain, sol.subarray(off, off + m), kin);
       jacobianInto(j, chain, kin, t[3]!, t[7]!, t[11]!);
       scaledSingularValues(j, m, chain.characteristicLengthM, sg);
@@ -429,6 +454,71 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     branchNames: codes.map((code) => branchName(frame, code)),
     joints,
     reachableCells: reachable,
+  };
+}
+
+/**
+ * Driven columns (arm, wrist) of a six-joint arm whose Jacobian at the wrist centre is block lower-triangular
+ * [[J11, 0], [J21, J22]]: a spherical wrist centre, three wrist columns, and no arm joint driven by a wrist column.
+ * Null otherwise.
+ */
+function decoupledWristColumns(chain: Chain): { arm: number[]; wrist: number[] } | null {
+  const m = chain.drivenCount, w = chain.wrist;
+  if (m !== 6 || !w || w.basis !== "spherical" || w.axes.length !== 3) return null;
+  const wrist: number[] = [];
+  for (const k of w.axes) {
+    const c = chain.drivenJoint.indexOf(k);
+    if (c < 0) return null;
+    wrist.push(c);
+  }
+  const arm = [0, 1, 2, 3, 4, 5].filter((c) => !wrist.includes(c));
+  for (let i = 0; i < chain.jointCount; i++) {
+    if (w.axes.includes(i)) continue;
+    for (const c of wrist) if (chain.couplingGain[i * m + c] !== 0) return null;
+  }
+  return { arm, wrist };
+}
+
+/**
+ * Labels a det J sign change inside a grid square for a decoupled arm (CHECKS C4: det J = det J11 · det J22 with J
+ * taken at the wrist centre, J11 = linear rows × arm columns, J22 = angular rows × wrist columns). The factor whose
+ * sign differs between the corners is the one crossing zero: J22 → wrist (axes 4 and 6 in line); J11 → shoulder
+ * when the null vector of J11 at the corner nearest to singular is mostly joint 1 (the wrist centre on axis 1),
+ * elbow otherwise (joints 2 and 3). Labelling by the σ_min vector of the full J instead mislabels crossings near a
+ * second, uncrossed singularity (that σ belongs to the other one) and shoulder crossings whose wrist compensation
+ * is large.
+ */
+function createDecoupledLabeller(chain: Chain, cols: { arm: number[]; wrist: number[] }): (cornerJoints: (corner: number) => Float64Array) => "wrist" | "shoulder" | "elbow" {
+  const kin = createScratch(chain);
+  const j = new Float64Array(36), w = new Float64Array(3), block = new Float64Array(9);
+  const sv = new Float64Array(3), v = new Float64Array(9), svd = createSvdScratch(3, 3);
+  const det11 = [0, 0, 0, 0], det22 = [0, 0, 0, 0];
+  const det3 = (b: Float64Array) => b[0]! * (b[4]! * b[8]! - b[5]! * b[7]!) - b[1]! * (b[3]! * b[8]! - b[5]! * b[6]!) + b[2]! * (b[3]! * b[7]! - b[4]! * b[6]!);
+  const fill = (rowOffset: number, columns: number[], scale: number) => {
+    for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) block[r * 3 + c] = j[(rowOffset + r) * 6 + columns[c]!]! * scale;
+  };
+  return (cornerJoints) => {
+    let near = 0;
+    for (let c = 0; c < 4; c++) {
+      forwardInto(chain, cornerJoints(c), kin);
+      wristCentreInto(w, chain, kin);
+      jacobianInto(j, chain, kin, w[0]!, w[1]!, w[2]!);
+      fill(3, cols.wrist, 1);
+      det22[c] = det3(block);
+      fill(0, cols.arm, 1 / chain.characteristicLengthM);
+      det11[c] = det3(block);
+      if (Math.abs(det11[c]!) < Math.abs(det11[near]!)) near = c;
+    }
+    const changes = (d: number[]) => d.some((x) => x > 0) && d.some((x) => x < 0);
+    if (changes(det22) || !changes(det11)) return "wrist";
+    forwardInto(chain, cornerJoints(near), kin);
+    wristCentreInto(w, chain, kin);
+    jacobianInto(j, chain, kin, w[0]!, w[1]!, w[2]!);
+    fill(0, cols.arm, 1 / chain.characteristicLengthM);
+    svdInto(sv, v, block, 3, 3, svd);
+    // Null vector of J11 = column 2 of V; share of joint 1 (the first arm column).
+    const a = v[2]! * v[2]!;
+    return a > 0.5 ? "shoulder" : "elbow";
   };
 }
 

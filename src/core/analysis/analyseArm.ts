@@ -1,0 +1,222 @@
+/**
+ * The whole build-time analysis of one arm: (chain, arm facts, options) → plain JSON-ready data.
+ * Bump ANALYSIS_VERSION with every change under src/core/analysis or src/core/kinematics: cache entries are keyed
+ * by it.
+ */
+import type { Chain } from "../kinematics/chain";
+import { mToMm } from "../units";
+import { DEFAULT_SPEED_MAP, referenceOrientations, toolSpeedMap, type ReferenceOrientation, type SpeedMapOptions, type ToolSpeedMap } from "./speedMap";
+import { gravityDirectionInBase, type Mounting } from "./mounting";
+import { analysePayload, payloadInputOf, type PayloadSpec } from "./payload";
+import { standardCycle } from "./cycle";
+import { workspaceEnvelope, type WorkspaceEnvelope } from "./envelope";
+
+export const ANALYSIS_VERSION = "2";
+
+/** Arm facts the analysis needs besides the chain (plain types; the catalog fills them from the arm file). */
+export interface ArmFacts extends PayloadSpec {
+  readonly id: string;
+  readonly specHash: string;
+  readonly reachMm?: number | undefined;
+  readonly repeatabilityMm: number;
+  readonly mountings: readonly Mounting[];
+}
+
+export interface AnalysisOptions {
+  readonly mapStepMm: number;
+  readonly seed: number;
+}
+
+export const DEFAULT_ANALYSIS: AnalysisOptions = { mapStepMm: 10, seed: 20261202 };
+
+/** Share thresholds of the guaranteed straight-line speed, m/s (the JSON keys). */
+export const SPEED_SHARE_THRESHOLDS_M_PER_S = ["0.5", "1", "2"] as const;
+
+export interface AnalysisWarning {
+  readonly code: string;
+  readonly message: string;
+}
+
+const round = (x: number, decimals: number) => (Number.isFinite(x) ? Number(x.toFixed(decimals)) + 0 : null);
+
+function shareAtLeast(map: ToolSpeedMap): Record<string, number> {
+  const out: Record<string, number> = {};
+  for (const key of SPEED_SHARE_THRESHOLDS_M_PER_S) {
+    const limitMmPerS = Number(key) * 1000;
+    let hit = 0;
+    for (const g of map.guaranteedMmPerS) if (g >= limitMmPerS) hit++;
+    out[key] = map.reachableCells > 0 ? (round(hit / map.reachableCells, 4) ?? 0) : 0;
+  }
+  return out;
+}
+
+/** Largest number of columns a map keeps in the JSON output (the figures use the full grid). */
+export const MAX_OUTPUT_COLUMNS = 160;
+
+function mapJson(map: ToolSpeedMap) {
+  let maxG = 0, maxV = 0;
+  for (let i = 0; i < map.guaranteedMmPerS.length; i++) {
+    if (map.guaranteedMmPerS[i]! > maxG) maxG = map.guaranteedMmPerS[i]!;
+    if (map.maxMmPerS[i]! > maxV) maxV = map.maxMmPerS[i]!;
+  }
+  // Output grid: every k-th node of the computation grid (values at those nodes, not averages).
+  const g = map.grid;
+  const k = Math.max(1, Math.ceil(g.nx / MAX_OUTPUT_COLUMNS));
+  const nx = Math.ceil(g.nx / k), ny = Math.ceil(g.ny / k);
+  const pick = <T>(values: ArrayLike<number>, f: (v: number) => T): T[] => {
+    const out: T[] = [];
+    for (let iy = 0; iy < ny; iy++) for (let ix = 0; ix < nx; ix++) out.push(f(values[ix * k + iy * k * g.nx]!));
+    return out;
+  };
+  return {
+    orientation: map.orientation,
+    computedGrid: g,
+    grid: { nx, ny, rMinMm: g.rMinMm, zMinMm: g.zMinMm, stepMm: g.stepMm * k },
+    reachableCells: map.reachableCells,
+    maxGuaranteedMmPerS: round(maxG, 1),
+    maxToolSpeedMmPerS: round(maxV, 1),
+    shareAtLeast: shareAtLeast(map),
+    branchNames: map.branchNames,
+    /** Row-major over `grid` (value(ix, iy) at ix + iy·nx); null where the pose cannot be reached. */
+    guaranteedMmPerS: pick(map.guaranteedMmPerS, (v) => round(v, 0)),
+    maxMmPerS: pick(map.maxMmPerS, (v) => round(v, 0)),
+    inverseCondition: pick(map.inverseCondition, (v) => round(v, 3)),
+    detSign: pick(map.detSign, (v) => v),
+    branch: pick(map.branch, (v) => v),
+  };
+}
+
+/**
+ * Runs every analysis of one arm.
+ * @returns plain data, serialisable as it stands; numbers rounded to the resolution the figures carry
+ */
+export function analyseArm(chain: Chain, facts: ArmFacts, options: AnalysisOptions = DEFAULT_ANALYSIS) {
+  const warnings: AnalysisWarning[] = [];
+  const primary: Mounting = facts.mountings[0] ?? "floor";
+  const gravity = gravityDirectionInBase(primary);
+
+  // 1. Envelope.
+  const envelope: WorkspaceEnvelope = workspaceEnvelope(chain);
+  const wcp = envelope.wcp;
+  const flange = envelope.flange;
+  if (!flange) throw new RangeError("invalid envelope: the flange envelope is required");
+
+  // 2–3. Speed maps and singularity loci, per reference orientation.
+  const mapOptions: SpeedMapOptions = {
+    ...DEFAULT_SPEED_MAP,
+    stepMm: options.mapStepMm,
+    gravity,
+    seed: options.seed,
+    boundsMm: { rMax: flange.maxReachMm + 2 * options.mapStepMm, zMin: flange.minHeightMm - 2 * options.mapStepMm, zMax: flange.maxHeightMm + 2 * options.mapStepMm },
+  };
+  const maps = referenceOrientations(chain).map((o: ReferenceOrientation) => toolSpeedMap(chain, o, mapOptions));
+  const down = maps[0]!;
+  let maxTool = 0;
+  for (const map of maps) for (const v of map.maxMmPerS) if (v > maxTool) maxTool = v;
+  const loci = maps.flatMap((map) => map.loci.map((l) => ({ kind: l.kind, orientation: map.orientation, polylinesMm: l.polylinesMm.map((p) => p.map(([r, z]) => [round(r, 1), round(z, 1)])) })));
+
+  // 4. Payload.
+  const payload = analysePayload(chain, payloadInputOf(facts, chain));
+  for (const w of payload.warnings) warnings.push({ code: "payload-above-wrist-rating", message: w.message });
+
+  // 5. Cycle: at 60 % of the flange reach, at the height of the best guaranteed speed in the "down" map there.
+  const cycle = cycleAt(chain, down, facts, gravity);
+
+  // 6. Warnings.
+  const computedReachMm = wcp ? wcp.maxReachMm : flange.maxReachMm;
+  if (facts.reachMm !== undefined && computedReachMm > 0) {
+    const deviation = facts.reachMm / computedReachMm - 1;
+    if (Math.abs(deviation) > 0.02) {
+      warnings.push({
+        code: "stated-reach-mismatch",
+        message: `stated reach ${facts.reachMm} mm differs from the computed ${wcp ? "wrist-centre" : "flange"} reach ${Math.round(computedReachMm)} mm by ${(deviation * 100).toFixed(1)} % (more than 2 %)${Math.abs(facts.reachMm / computedReachMm - 1000) < 100 || Math.abs(facts.reachMm * 1000 / computedReachMm - 1) < 0.1 ? "; check the units (metres typed as millimetres?)" : ""}`,
+      });
+    }
+  }
+  if (facts.repeatabilityMm < 0.005 || facts.repeatabilityMm > 2) {
+    warnings.push({ code: "repeatability-implausible", message: `declared repeatability ${facts.repeatabilityMm} mm is outside the usual 0.005–2 mm (common practice, no source)` });
+  }
+  if (cycle.reason) warnings.push({ code: "cycle-not-computed", message: cycle.reason });
+
+  return {
+    id: facts.id,
+    specHash: facts.specHash,
+    analysisVersion: ANALYSIS_VERSION,
+    options,
+    reach: {
+      wcpMaxMm: wcp ? round(wcp.maxReachMm, 1) : null,
+      wcpMinMm: wcp ? round(wcp.minReachMm, 1) : null,
+      flangeMaxMm: round(flange.maxReachMm, 1),
+      flangeMinMm: round(flange.minReachMm, 1),
+      maxHeightMm: round((wcp ?? flange).maxHeightMm, 1),
+      minHeightMm: round((wcp ?? flange).minHeightMm, 1),
+      statedMm: facts.reachMm ?? null,
+      basis: wcp ? "wrist centre point" : "flange centre (the arm has no wrist centre point)",
+    },
+    envelope: { layout: envelope.layout, sideAxes: envelope.sideAxes, topAxes: envelope.topAxes, axis1: envelope.axis1, wcp: wcp ?? null, flange, notes: envelope.notes },
+    speed: {
+      maxToolSpeedMmPerS: round(maxTool, 0),
+      shareAtLeast: shareAtLeast(down),
+      shareBasis: `share of the side-view cells (${options.mapStepMm} mm grid) the flange reaches with the tool pointing down`,
+      redundancy: chain.drivenCount > 6 ? "minimum-norm joint rates (redundant arm)" : null,
+      tcp: "flange centre, no tool",
+      maps: maps.map(mapJson),
+    },
+    singularities: {
+      lengthScaleMm: round(mToMm(chain.characteristicLengthM), 1),
+      proximity: "inverse condition σ_min/σ_max of the Jacobian with linear rows divided by the length scale",
+      loci,
+      notes:
+        chain.drivenCount === 6 || chain.drivenCount === 4
+          ? ["Loci are the zero crossings of det J followed along continuous inverse-kinematics solutions; singular sets on the edge of the reachable region (arm fully stretched) bound the maps instead."]
+          : ["No det J for this number of driven joints: see the inverse-condition map."],
+    },
+    payload,
+    cycle,
+    warnings,
+  };
+}
+
+export type ArmAnalysis = ReturnType<typeof analyseArm>;
+
+function cycleAt(chain: Chain, down: ToolSpeedMap, facts: ArmFacts, gravity: readonly number[]) {
+  const g = down.grid, m = chain.drivenCount;
+  const names = Array.from(chain.drivenJoint, (k) => chain.jointNames[k]!);
+  // Column at 60 % of the largest reached distance from axis 1.
+  let rMaxCell = 0;
+  for (let i = 0; i < down.branch.length; i++) if (down.branch[i]! >= 0) rMaxCell = Math.max(rMaxCell, i % g.nx);
+  const ix = Math.round(0.6 * rMaxCell + 0.4 * (-g.rMinMm / g.stepMm));
+  let bestCell = -1, best = -1;
+  const upCells = Math.ceil(25 / g.stepMm);
+  for (let iy = 0; iy + upCells < g.ny; iy++) {
+    const cell = ix + iy * g.nx, above = ix + (iy + upCells) * g.nx;
+    const v = down.guaranteedMmPerS[cell]!;
+    if (Number.isFinite(v) && Number.isFinite(down.guaranteedMmPerS[above]!) && v > best) {
+      best = v;
+      bestCell = cell;
+    }
+  }
+  if (bestCell < 0) {
+    return { standardCycleS: null, limitingJoint: null, location: null, moves: [], assumptions: [], reason: "no location with the tool pointing down was found for the cycle" };
+  }
+  const rMm = g.rMinMm + ix * g.stepMm, zMm = g.zMinMm + Math.floor(bestCell / g.nx) * g.stepMm;
+  const seed = down.joints.subarray(bestCell * m, bestCell * m + m);
+  // Target: flange down (along gravity), flange x pointing away from axis 1; lateral offset along base y.
+  const pose = (lateralMm: number, r: number, z: number, upMm: number, out: Float64Array) => {
+    const gx = gravity[0]!, gy = gravity[1]!, gz = gravity[2]!;
+    // Side-plane point (base x–z), moved sideways along base y and up against gravity.
+    out.fill(0);
+    const px = (r - gx * upMm) / 1000, py = (lateralMm - gy * upMm) / 1000, pz = (z - gz * upMm) / 1000;
+    let xx = 1 - gx * gx, xy = -gx * gy, xz = -gx * gz;
+    const n = Math.hypot(xx, xy, xz) || 1;
+    xx /= n; xy /= n; xz /= n;
+    const yx = gy * xz - gz * xy, yy = gz * xx - gx * xz, yz = gx * xy - gy * xx;
+    out[0] = xx; out[1] = yx; out[2] = gx; out[3] = px;
+    out[4] = xy; out[5] = yy; out[6] = gy; out[7] = py;
+    out[8] = xz; out[9] = yz; out[10] = gz; out[11] = pz;
+    out[15] = 1;
+    return out;
+  };
+  void facts;
+  return standardCycle(chain, { rMm, zMm }, seed, pose, { upMm: 25, acrossMm: 300, jointNames: names });
+}

@@ -1,0 +1,514 @@
+/**
+ * Joint-space sampling for the workspace envelope: which driven joints move a point, how finely each must be
+ * sampled for a given boundary error, and a fast evaluator of the point over a grid of two "primary" joints for
+ * each combination ("slice") of the remaining "secondary" joints.
+ *
+ * Step sizes come from the sagitta of a chord: a point swept by a joint whose second derivative is bounded by L
+ * (for a revolute joint, the point's distance from the axis) departs from the straight chord between two samples Δ
+ * apart by at most L·Δ²/8. The same second-order bound governs how far the envelope of a family of regions lies
+ * beyond the regions at sampled members of the family. With k sampled joints, each gets an equal share σ/k of the
+ * sampling budget σ: Δⱼ = √(8σ / (k·Lⱼ)). A prismatic joint bends nothing by itself; its step is bounded through the
+ * mixed second derivative M with each revolute joint (error of a bilinear patch ≤ M·Δⱼ·Δᵢ/4). Lⱼ and M are
+ * estimated by central differences at quasi-random poses (Halton sequence) and enlarged by a safety factor.
+ */
+import type { Chain } from "../kinematics/chain";
+import { createScratch, forwardInto, type KinematicsScratch } from "../kinematics/forward";
+import { mul4AtInto, mul4Into, rotationAxisAngleInto, translationInto } from "../math/mat4";
+
+/** The point whose envelope is traced: p = F₀·M₀·F₁·M₁ ⋯ F_last·M_last · local. */
+export interface ChainPoint {
+  /** Last kinematic joint whose motion moves the point. */
+  readonly lastJoint: number;
+  /** The point in the frame just after motion M_last, m. */
+  readonly localM: Float64Array;
+}
+
+/** The wrist centre point (null when the chain has none) or the flange origin as a ChainPoint. */
+export function chainPoint(chain: Chain, kind: "wcp" | "flange"): ChainPoint | null {
+  if (kind === "flange") {
+    const f = 16 * chain.jointCount;
+    return { lastJoint: chain.jointCount - 1, localM: Float64Array.of(chain.fixed[f + 3]!, chain.fixed[f + 7]!, chain.fixed[f + 11]!) };
+  }
+  const w = chain.wrist;
+  if (!w) return null;
+  const t = chain.linkFromMotion, o = 16 * w.joint, p = w.pointInLinkM;
+  const local = new Float64Array(3);
+  for (let r = 0; r < 3; r++) local[r] = t[o + 4 * r]! * p[0]! + t[o + 4 * r + 1]! * p[1]! + t[o + 4 * r + 2]! * p[2]! + t[o + 4 * r + 3]!;
+  return { lastJoint: w.joint, localM: local };
+}
+
+/** Writes the point (base frame, m) for the current scratch (after forwardInto). */
+function pointAfterForwardInto(out: Float64Array, s: KinematicsScratch, pt: ChainPoint): void {
+  const f = s.motionFrames, o = 16 * pt.lastJoint, l = pt.localM;
+  for (let r = 0; r < 3; r++) out[r] = f[o + 4 * r]! * l[0]! + f[o + 4 * r + 1]! * l[1]! + f[o + 4 * r + 2]! * l[2]! + f[o + 4 * r + 3]!;
+}
+
+/** Sampled values of one driven joint. `driven` is −1 for a placeholder dimension with no effect. */
+export interface JointGrid {
+  readonly driven: number;
+  readonly values: Float64Array;
+}
+
+export interface SamplingPlan {
+  readonly chain: Chain;
+  readonly point: ChainPoint;
+  /** View transform, 3 × 4 row-major, base metres → view coordinates in mm. */
+  readonly view: Float64Array;
+  /** Driven-joint values for joints that are not sampled (rad or m). */
+  readonly qRef: Float64Array;
+  /** First primary joint (grid rows) and second (grid columns). */
+  readonly a: JointGrid;
+  readonly b: JointGrid;
+  readonly secondaries: readonly JointGrid[];
+  /** Driven joints that move the point (sampled), in driven order. */
+  readonly relevant: readonly number[];
+  /** Sampling error budget actually used (mm); larger than requested when the sample budget forced it. */
+  readonly samplingSigmaMm: number;
+  /** Grid points over all slices. */
+  readonly pointCount: number;
+  /** Largest view-space radius and extremes seen at the estimation poses (mm), for scale only. */
+  readonly estimate: { readonly radiusMm: number };
+  /** True when the factorised evaluator applies (see forEachSlice). */
+  readonly staged: boolean;
+}
+
+export interface PlanRequest {
+  readonly chain: Chain;
+  readonly point: ChainPoint;
+  /** 3 × 4 row-major view transform (base m → mm). */
+  readonly view: Float64Array;
+  /** Driven joints never sampled, with the value they take (e.g. joint 1 held where its kinematic angle is 0). */
+  readonly fixed: ReadonlyMap<number, number>;
+  /** Which view rows define "moving the point": 3 = all three rows, 2 = the first two only. */
+  readonly relevantRows: 2 | 3;
+  /** Primary pair scoring: "radial" uses (√(c₀² + c₁²), c₂), "plane" uses (c₀, c₁). */
+  readonly scoring: "radial" | "plane";
+  /** Boundary tolerance (mm) from the reach; the sampling budget is a share of it. */
+  readonly toleranceMm: (radiusMm: number) => number;
+  readonly samplingShare: number;
+  readonly maxSamples: number;
+}
+
+const TWO_PI = 2 * Math.PI;
+const ESTIMATION_POSES = 256;
+const SAFETY = 1.25;
+const HALTON_BASES = [2, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31, 37];
+
+function radicalInverse(i: number, base: number): number {
+  let f = 1, r = 0;
+  while (i > 0) {
+    f /= base;
+    r += f * (i % base);
+    i = Math.floor(i / base);
+  }
+  return r;
+}
+
+/** Sampled range of driven joint j: its limits, a revolute joint with integer gains capped to one turn. */
+export function samplingRange(chain: Chain, j: number): [number, number] {
+  const m = chain.drivenCount;
+  const k = chain.drivenJoint[j]!;
+  let lo = chain.lowerSi[j]!, hi = chain.upperSi[j]!;
+  if (chain.isPrismatic[k]) {
+    if (!Number.isFinite(lo) || !Number.isFinite(hi)) throw new RangeError(`invalid range of prismatic joint ${chain.jointNames[k]}: unbounded`);
+    return [lo, hi];
+  }
+  if (!Number.isFinite(lo)) lo = -Math.PI;
+  if (!Number.isFinite(hi)) hi = lo + TWO_PI;
+  let integerGains = true;
+  for (let i = 0; i < chain.jointCount; i++) {
+    const g = chain.couplingGain[i * m + j]!;
+    if (g !== 0 && (!Number.isInteger(g) || chain.isPrismatic[i])) integerGains = false;
+  }
+  if (integerGains && hi - lo > TWO_PI) hi = lo + TWO_PI;
+  return [lo, hi];
+}
+
+/** Evaluates the point in view coordinates (mm) for driven values q. */
+class PointProbe {
+  private readonly s: KinematicsScratch;
+  private readonly p = new Float64Array(3);
+  constructor(private readonly chain: Chain, private readonly pt: ChainPoint, private readonly view: Float64Array) {
+    this.s = createScratch(chain);
+  }
+  into(out: Float64Array, o: number, q: Float64Array): void {
+    forwardInto(this.chain, q, this.s);
+    pointAfterForwardInto(this.p, this.s, this.pt);
+    const v = this.view, p = this.p;
+    for (let r = 0; r < 3; r++) out[o + r] = v[4 * r]! * p[0]! + v[4 * r + 1]! * p[1]! + v[4 * r + 2]! * p[2]! + v[4 * r + 3]!;
+  }
+}
+
+/**
+ * Chooses the sampled joints, their steps and the primary pair.
+ * @throws RangeError for an unbounded prismatic joint
+ */
+export function planSampling(req: PlanRequest): SamplingPlan {
+  const { chain, point, view } = req;
+  const m = chain.drivenCount;
+  const probe = new PointProbe(chain, point, view);
+  const qRef = new Float64Array(m);
+  const ranges: [number, number][] = [];
+  for (let j = 0; j < m; j++) {
+    const fixed = req.fixed.get(j);
+    const r: [number, number] = fixed !== undefined ? [fixed, fixed] : samplingRange(chain, j);
+    ranges.push(r);
+    qRef[j] = fixed !== undefined ? fixed : Math.min(r[1], Math.max(r[0], 0));
+  }
+  // Candidate joints: those with a kinematic effect up to the point's last joint.
+  const candidates: number[] = [];
+  for (let j = 0; j < m; j++) {
+    if (req.fixed.has(j)) continue;
+    let touches = false;
+    for (let i = 0; i <= point.lastJoint; i++) if (chain.couplingGain[i * m + j] !== 0) touches = true;
+    if (touches && ranges[j]![1] > ranges[j]![0]) candidates.push(j);
+  }
+  const nc = candidates.length;
+  // Estimation poses: first and second central differences per candidate joint.
+  const q = new Float64Array(m), qq = new Float64Array(m);
+  const c0 = new Float64Array(3), cp = new Float64Array(3), cm = new Float64Array(3);
+  const firstMax = new Float64Array(nc), secondMax = new Float64Array(nc);
+  const mixed = new Float64Array(nc * nc);
+  const cols = new Float64Array(ESTIMATION_POSES * nc * 2);
+  let radiusMm = 0;
+  const tmp = new Float64Array(12);
+  for (let e = 0; e < ESTIMATION_POSES; e++) {
+    q.set(qRef);
+    for (let c = 0; c < nc; c++) {
+      const j = candidates[c]!, [lo, hi] = ranges[j]!;
+      q[j] = lo + (hi - lo) * radicalInverse(e + 1, HALTON_BASES[c % HALTON_BASES.length]!);
+    }
+    probe.into(c0, 0, q);
+    radiusMm = Math.max(radiusMm, req.scoring === "radial" ? Math.hypot(c0[0]!, c0[1]!) : Math.hypot(c0[0]!, c0[1]!, c0[2]!));
+    for (let c = 0; c < nc; c++) {
+      const j = candidates[c]!;
+      const h = chain.isPrismatic[chain.drivenJoint[j]!] ? 1e-4 : 1e-3;
+      qq.set(q);
+      qq[j] = q[j]! + h;
+      probe.into(cp, 0, qq);
+      qq[j] = q[j]! - h;
+      probe.into(cm, 0, qq);
+      let d1 = 0, d2 = 0;
+      for (let r = 0; r < req.relevantRows; r++) {
+        d1 += ((cp[r]! - cm[r]!) / (2 * h)) ** 2;
+        d2 += ((cp[r]! - 2 * c0[r]! + cm[r]!) / (h * h)) ** 2;
+      }
+      firstMax[c] = Math.max(firstMax[c]!, Math.sqrt(d1));
+      secondMax[c] = Math.max(secondMax[c]!, Math.sqrt(d2));
+      // view-plane derivative for the primary-pair score
+      let du: number, dv: number;
+      if (req.scoring === "radial") {
+        const rho = Math.hypot(c0[0]!, c0[1]!) || 1;
+        du = (c0[0]! * (cp[0]! - cm[0]!) + c0[1]! * (cp[1]! - cm[1]!)) / (2 * h * rho);
+        dv = (cp[2]! - cm[2]!) / (2 * h);
+      } else {
+        du = (cp[0]! - cm[0]!) / (2 * h);
+        dv = (cp[1]! - cm[1]!) / (2 * h);
+      }
+      cols[(e * nc + c) * 2] = du;
+      cols[(e * nc + c) * 2 + 1] = dv;
+    }
+    // mixed derivatives of prismatic joints with every other candidate
+    for (let c = 0; c < nc; c++) {
+      const j = candidates[c]!;
+      if (!chain.isPrismatic[chain.drivenJoint[j]!]) continue;
+      for (let d = 0; d < nc; d++) {
+        if (d === c) continue;
+        const k = candidates[d]!;
+        const hj = 1e-4, hk = chain.isPrismatic[chain.drivenJoint[k]!] ? 1e-4 : 1e-3;
+        let acc0 = 0, acc1 = 0, acc2 = 0;
+        for (const [sj, sk, w] of MIXED_STENCIL) {
+          qq.set(q);
+          qq[j] = q[j]! + sj * hj;
+          qq[k] = q[k]! + sk * hk;
+          probe.into(tmp, 0, qq);
+          acc0 += w * tmp[0]!;
+          acc1 += w * tmp[1]!;
+          acc2 += w * tmp[2]!;
+        }
+        const norm = Math.hypot(acc0, acc1, req.relevantRows === 3 ? acc2 : 0) / (4 * hj * hk);
+        mixed[c * nc + d] = Math.max(mixed[c * nc + d]!, norm);
+      }
+    }
+  }
+  // Relevant joints: those that move the point at some estimation pose.
+  const relevantIdx: number[] = [];
+  for (let c = 0; c < nc; c++) if (firstMax[c]! > 1e-6) relevantIdx.push(c);
+  const relevant = relevantIdx.map((c) => candidates[c]!);
+  const k = relevant.length;
+  const tol = req.toleranceMm(radiusMm);
+  let sigma = req.samplingShare * tol;
+
+  const counts = new Int32Array(k);
+  const computeCounts = (sig: number): number => {
+    const share = sig / Math.max(1, k);
+    const steps = new Float64Array(k);
+    for (let r = 0; r < k; r++) {
+      const c = relevantIdx[r]!, j = candidates[c]!;
+      if (chain.isPrismatic[chain.drivenJoint[j]!]) continue;
+      steps[r] = Math.sqrt((8 * share) / Math.max(1e-9, SAFETY * secondMax[c]!));
+    }
+    let total = 1;
+    for (let r = 0; r < k; r++) {
+      const c = relevantIdx[r]!, j = candidates[c]!;
+      const span = ranges[j]![1] - ranges[j]![0];
+      let n: number;
+      if (chain.isPrismatic[chain.drivenJoint[j]!]) {
+        let step = span;
+        for (let s = 0; s < k; s++) {
+          if (s === r) continue;
+          const mij = SAFETY * mixed[c * nc + relevantIdx[s]!]!;
+          const other = steps[s]! > 0 ? steps[s]! : span;
+          if (mij > 0) step = Math.min(step, (4 * share) / (mij * other));
+        }
+        n = Math.max(1, Math.ceil(span / step - 1e-9));
+      } else {
+        n = Math.max(span > Math.PI / 2 ? 2 : 1, Math.ceil(span / steps[r]! - 1e-9));
+      }
+      counts[r] = n;
+      total *= n + 1;
+    }
+    return total;
+  };
+  let total = computeCounts(sigma);
+  for (let iter = 0; iter < 20 && total > req.maxSamples && k > 0; iter++) {
+    sigma *= Math.max(1.05, (total / req.maxSamples) ** (2 / k));
+    total = computeCounts(sigma);
+  }
+
+  // Primary pair: the largest mean |det| of the view-plane Jacobian, preferring a pair the factorised evaluator
+  // can handle (see stagedOrder).
+  let bestA = -1, bestB = -1, bestScore = -1, bestStagedA = -1, bestStagedB = -1, bestStagedScore = -1;
+  for (let r = 0; r < k; r++) {
+    for (let s = r + 1; s < k; s++) {
+      const cr = relevantIdx[r]!, cs = relevantIdx[s]!;
+      let score = 0;
+      for (let e = 0; e < ESTIMATION_POSES; e++) {
+        const ur = cols[(e * nc + cr) * 2]!, vr = cols[(e * nc + cr) * 2 + 1]!;
+        const us = cols[(e * nc + cs) * 2]!, vs = cols[(e * nc + cs) * 2 + 1]!;
+        score += Math.abs(ur * vs - vr * us);
+      }
+      if (score > bestScore) {
+        bestScore = score;
+        bestA = r;
+        bestB = s;
+      }
+      const order = stagedOrder(chain, point, relevant[r]!, relevant[s]!);
+      if (order && score > bestStagedScore) {
+        bestStagedScore = score;
+        bestStagedA = order[0] === relevant[r] ? r : s;
+        bestStagedB = order[0] === relevant[r] ? s : r;
+      }
+    }
+  }
+  let staged = false;
+  if (bestStagedA >= 0 && bestStagedScore >= 0.3 * bestScore) {
+    bestA = bestStagedA;
+    bestB = bestStagedB;
+    staged = true;
+  }
+  const grid = (r: number): JointGrid => {
+    const j = relevant[r]!, [lo, hi] = ranges[j]!, n = counts[r]!;
+    const values = new Float64Array(n + 1);
+    for (let i = 0; i <= n; i++) values[i] = lo + ((hi - lo) * i) / n;
+    return { driven: j, values };
+  };
+  const placeholder: JointGrid = { driven: -1, values: new Float64Array(2) };
+  let a: JointGrid, b: JointGrid;
+  if (k >= 2) {
+    a = grid(bestA);
+    b = grid(bestB);
+  } else if (k === 1) {
+    a = grid(0);
+    b = placeholder;
+    staged = stagedOrder(chain, point, relevant[0]!, -1) !== null;
+  } else {
+    a = placeholder;
+    b = placeholder;
+    staged = false;
+  }
+  const secondaries: JointGrid[] = [];
+  for (let r = 0; r < k; r++) if (k >= 2 && r !== bestA && r !== bestB) secondaries.push(grid(r));
+  let pointCount = a.values.length * b.values.length;
+  for (const g of secondaries) pointCount *= g.values.length;
+  return { chain, point, view, qRef, a, b, secondaries, relevant, samplingSigmaMm: sigma, pointCount, estimate: { radiusMm }, staged };
+}
+
+const MIXED_STENCIL: readonly (readonly [number, number, number])[] = [
+  [1, 1, 1],
+  [1, -1, -1],
+  [-1, 1, -1],
+  [-1, -1, 1],
+];
+
+/** Smallest and largest kinematic joint (≤ last) that driven joint j moves; null when none. */
+function kinematicSpan(chain: Chain, point: ChainPoint, j: number): [number, number] | null {
+  if (j < 0) return null;
+  const m = chain.drivenCount;
+  let lo = -1, hi = -1;
+  for (let i = 0; i <= point.lastJoint; i++) {
+    if (chain.couplingGain[i * m + j] === 0) continue;
+    if (lo < 0) lo = i;
+    hi = i;
+  }
+  return lo < 0 ? null : [lo, hi];
+}
+
+/**
+ * The order [first, second] in which two primary joints can be factorised, p = Left(q_first) · Right(q_second):
+ * every kinematic joint moved by `first` must come no later in the chain than every one moved by `second`.
+ */
+function stagedOrder(chain: Chain, point: ChainPoint, j: number, k: number): [number, number] | null {
+  const sj = kinematicSpan(chain, point, j);
+  if (!sj) return null;
+  if (k < 0) return [j, k];
+  const sk = kinematicSpan(chain, point, k);
+  if (!sk) return null;
+  if (sj[1] <= sk[0]) return [j, k];
+  if (sk[1] <= sj[0]) return [k, j];
+  return null;
+}
+
+/** Buffers for one slice: view coordinates of the a × b grid, index ia·nb + ib. */
+export interface SliceBuffers {
+  readonly c0: Float64Array;
+  readonly c1: Float64Array;
+  readonly c2: Float64Array;
+}
+
+/**
+ * Calls `visit` once per combination of the secondary joints with the view coordinates (mm) of the point over the
+ * primary grid. Staged plans evaluate p = Left(q_a) · Right(q_b): per slice, Left is a 3 × 4 matrix per sample of
+ * q_a (view transform folded in) and Right a vector per sample of q_b, so each grid point costs one 3 × 4 product.
+ * Otherwise every grid point runs the full forward kinematics. The buffers are reused between calls.
+ */
+export function forEachSlice(plan: SamplingPlan, visit: (buffers: SliceBuffers, sliceIndex: number) => void): void {
+  const { chain, point, view, a, b, secondaries } = plan;
+  const m = chain.drivenCount, n = point.lastJoint + 1;
+  const na = a.values.length, nb = b.values.length;
+  const buffers: SliceBuffers = { c0: new Float64Array(na * nb), c1: new Float64Array(na * nb), c2: new Float64Array(na * nb) };
+  const q = Float64Array.from(plan.qRef);
+  const ns = secondaries.length;
+  const counter = new Int32Array(ns);
+  const g = chain.couplingGain, off = chain.couplingOffset, axes = chain.axisLocal, fixed = chain.fixed;
+
+  // scratch
+  const thetaBase = new Float64Array(n);
+  const gA = new Float64Array(n), gB = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    gA[i] = a.driven >= 0 ? g[i * m + a.driven]! : 0;
+    gB[i] = b.driven >= 0 ? g[i * m + b.driven]! : 0;
+  }
+  const spanA = a.driven >= 0 ? kinematicSpan(chain, point, a.driven) : null;
+  const spanB = b.driven >= 0 ? kinematicSpan(chain, point, b.driven) : null;
+  const cut = spanB ? spanB[0] : n - 1;
+  const firstA = spanA ? spanA[0] : cut;
+  const motion = new Float64Array(16), accA = new Float64Array(16), accB = new Float64Array(16), pre = new Float64Array(16);
+  const viewM = new Float64Array(16);
+  viewM.set(view.subarray(0, 12));
+  viewM[15] = 1;
+  const left = new Float64Array(12 * na);
+  const right = new Float64Array(3 * nb);
+  const probe = plan.staged ? null : new PointProbe(chain, point, view);
+  const out3 = new Float64Array(3);
+
+  const motionInto = (out: Float64Array, i: number, theta: number): Float64Array =>
+    chain.isPrismatic[i]
+      ? translationInto(out, axes[3 * i]! * theta, axes[3 * i + 1]! * theta, axes[3 * i + 2]! * theta)
+      : rotationAxisAngleInto(out, axes[3 * i]!, axes[3 * i + 1]!, axes[3 * i + 2]!, theta);
+  // acc ← acc · F_i · M_i(θ)
+  const pre4 = new Float64Array(16);
+  const stepInto = (acc: Float64Array, i: number, theta: number): void => {
+    mul4AtInto(pre4, 0, acc, 0, fixed, 16 * i);
+    motionInto(motion, i, theta);
+    mul4Into(acc, pre4, motion);
+  };
+
+  for (let slice = 0; ; slice++) {
+    for (let s = 0; s < ns; s++) q[secondaries[s]!.driven] = secondaries[s]!.values[counter[s]!]!;
+    if (plan.staged) {
+      // θ of every kinematic joint with both primaries at zero
+      for (let i = 0; i < n; i++) {
+        let t = off[i]!;
+        for (let j = 0; j < m; j++) {
+          if (j === a.driven || j === b.driven) continue;
+          const gij = g[i * m + j]!;
+          if (gij !== 0) t += gij * q[j]!;
+        }
+        thetaBase[i] = t;
+      }
+      // prefix F₀M₀ ⋯ up to the first joint moved by a (exclusive)
+      pre.fill(0);
+      pre[0] = pre[5] = pre[10] = pre[15] = 1;
+      for (let i = 0; i < firstA && i < cut; i++) stepInto(pre, i, thetaBase[i]!);
+      for (let ia = 0; ia < na; ia++) {
+        const qa = a.values[ia]!;
+        accA.set(pre);
+        for (let i = Math.min(firstA, cut); i < cut; i++) stepInto(accA, i, thetaBase[i]! + gA[i]! * qa);
+        stepInto(accA, cut, thetaBase[cut]! + gA[cut]! * qa);
+        mul4Into(accB, viewM, accA);
+        for (let r = 0; r < 12; r++) left[12 * ia + r] = accB[r]!;
+      }
+      for (let ib = 0; ib < nb; ib++) {
+        const qb = b.values[ib]!;
+        let x = point.localM[0]!, y = point.localM[1]!, z = point.localM[2]!;
+        for (let i = n - 1; i >= cut; i--) {
+          const theta = i === cut ? gB[i]! * qb : thetaBase[i]! + gB[i]! * qb;
+          motionInto(motion, i, theta);
+          const nx = motion[0]! * x + motion[1]! * y + motion[2]! * z + motion[3]!;
+          const ny = motion[4]! * x + motion[5]! * y + motion[6]! * z + motion[7]!;
+          const nz = motion[8]! * x + motion[9]! * y + motion[10]! * z + motion[11]!;
+          if (i > cut) {
+            const f = 16 * i;
+            x = fixed[f]! * nx + fixed[f + 1]! * ny + fixed[f + 2]! * nz + fixed[f + 3]!;
+            y = fixed[f + 4]! * nx + fixed[f + 5]! * ny + fixed[f + 6]! * nz + fixed[f + 7]!;
+            z = fixed[f + 8]! * nx + fixed[f + 9]! * ny + fixed[f + 10]! * nz + fixed[f + 11]!;
+          } else {
+            x = nx;
+            y = ny;
+            z = nz;
+          }
+        }
+        right[3 * ib] = x;
+        right[3 * ib + 1] = y;
+        right[3 * ib + 2] = z;
+      }
+      const { c0, c1, c2 } = buffers;
+      for (let ia = 0; ia < na; ia++) {
+        const L = 12 * ia;
+        const l0 = left[L]!, l1 = left[L + 1]!, l2 = left[L + 2]!, l3 = left[L + 3]!;
+        const l4 = left[L + 4]!, l5 = left[L + 5]!, l6 = left[L + 6]!, l7 = left[L + 7]!;
+        const l8 = left[L + 8]!, l9 = left[L + 9]!, l10 = left[L + 10]!, l11 = left[L + 11]!;
+        const row = ia * nb;
+        for (let ib = 0; ib < nb; ib++) {
+          const x = right[3 * ib]!, y = right[3 * ib + 1]!, z = right[3 * ib + 2]!;
+          c0[row + ib] = l0 * x + l1 * y + l2 * z + l3;
+          c1[row + ib] = l4 * x + l5 * y + l6 * z + l7;
+          c2[row + ib] = l8 * x + l9 * y + l10 * z + l11;
+        }
+      }
+    } else {
+      const { c0, c1, c2 } = buffers;
+      for (let ia = 0; ia < na; ia++) {
+        if (a.driven >= 0) q[a.driven] = a.values[ia]!;
+        for (let ib = 0; ib < nb; ib++) {
+          if (b.driven >= 0) q[b.driven] = b.values[ib]!;
+          probe!.into(out3, 0, q);
+          c0[ia * nb + ib] = out3[0]!;
+          c1[ia * nb + ib] = out3[1]!;
+          c2[ia * nb + ib] = out3[2]!;
+        }
+      }
+    }
+    visit(buffers, slice);
+    // next combination of secondaries
+    let s = 0;
+    while (s < ns) {
+      counter[s] = counter[s]! + 1;
+      if (counter[s]! < secondaries[s]!.values.length) break;
+      counter[s] = 0;
+      s++;
+    }
+    if (s === ns) break;
+  }
+}

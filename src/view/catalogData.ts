@@ -1,0 +1,39 @@
+/** The catalog summary written to data/catalog.json: one row per arm with its key declared and computed figures. */
+import type { Arm } from "../catalog/load";
+import type { ArmAnalysis } from "../core/analysis/analyseArm";
+
+export function catalogSummaryRow(arm: Arm, analysis: ArmAnalysis) {
+  const s = arm.spec;
+  const computedReach = analysis.reach.wcpMaxMm ?? analysis.reach.flangeMaxMm;
+  const deviation = s.reachMm !== undefined && computedReach ? s.reachMm / computedReach - 1 : null;
+  const down = analysis.speed.maps[0];
+  return {
+    id: arm.id,
+    maker: s.maker,
+    model: s.model,
+    class: s.class,
+    drivenAxes: arm.chain.drivenCount,
+    ratedPayloadKg: s.ratedPayloadKg,
+    reach: {
+      computedMm: computedReach,
+      basis: analysis.reach.basis,
+      statedMm: s.reachMm ?? null,
+      deviation: deviation === null ? null : Number(deviation.toFixed(4)),
+      mismatch: deviation !== null && Math.abs(deviation) > 0.02,
+    },
+    maxHeightMm: analysis.reach.maxHeightMm,
+    minHeightMm: analysis.reach.minHeightMm,
+    repeatabilityMm: s.repeatabilityMm,
+    massKg: s.massKg,
+    maxToolSpeedMmPerS: analysis.speed.maxToolSpeedMmPerS,
+    shareGuaranteedAtLeast1MPerS: analysis.speed.shareAtLeast["1"] ?? null,
+    shareOrientation: down?.orientation ?? null,
+    standardCycleS: analysis.cycle.standardCycleS === null ? null : Number(analysis.cycle.standardCycleS.toFixed(3)),
+    mountings: s.mountings,
+    protection: s.protection,
+    commercial: s.commercial ?? null,
+    specHash: arm.specHash,
+    analysisVersion: analysis.analysisVersion,
+    warnings: analysis.warnings.length + arm.warnings.length,
+  };
+}
