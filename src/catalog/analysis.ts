@@ -4,7 +4,7 @@
  * Entries are written atomically (temporary file + rename): an interrupted build leaves no half-written entry.
  */
 import { createHash } from "node:crypto";
-import { readdirSync, readFileSync } from "node:fs";
+import { existsSync, readdirSync, readFileSync } from "node:fs";
 import { mkdir, readFile, rename, writeFile } from "node:fs/promises";
 import { fileURLToPath } from "node:url";
 import { join, resolve } from "node:path";
@@ -39,7 +39,9 @@ let coreHash: string | null = null;
  */
 export function coreFingerprint(): string {
   if (coreHash) return coreHash;
-  const root = fileURLToPath(new URL("../core/", import.meta.url));
+  // Next to this module when run from source (CLI, tests); the project's src/core when bundled (the site build).
+  const beside = fileURLToPath(new URL("../core/", import.meta.url));
+  const root = existsSync(join(beside, "index.ts")) ? beside : resolve("src/core");
   const files = readdirSync(root, { recursive: true, encoding: "utf8" }).filter((f) => f.endsWith(".ts")).sort();
   const h = createHash("sha256");
   for (const f of files) h.update(`${f}\n`).update(readFileSync(join(root, f)));

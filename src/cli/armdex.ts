@@ -108,6 +108,9 @@ export async function main(argv: string[]): Promise<number> {
         const t0 = performance.now();
         const report = await analyseCatalog(arms, { workers: values.workers ? Number(values.workers) : undefined, log: (l) => process.stdout.write(`${l}\n`) });
         process.stdout.write(`${report.analysed.length} analysed, ${report.cached.length} from the cache, in ${((performance.now() - t0) / 1000).toFixed(1)} s\n`);
+        for (const arm of arms) {
+          for (const w of (await getAnalysis(arm)).warnings) process.stdout.write(`warning: ${arm.file}: ${w.message}\n`);
+        }
         return 0;
       }
       if (positionals.length !== 1) throw new UsageError("analyze needs one arm file, or --all");
