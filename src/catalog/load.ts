@@ -5,7 +5,7 @@ import { basename, dirname, join, relative, resolve } from "node:path";
 import type { Chain } from "../core";
 import type { ArmSpec } from "./schema";
 import { type ArmIssue, formatIssue } from "./issues";
-import { validateArm } from "./validate";
+import { plausibilityWarnings, validateArm } from "./validate";
 
 export interface Arm {
   readonly id: string;
@@ -48,10 +48,30 @@ function lineColumn(text: string, position: number): string {
   return `line ${line}, column ${column}`;
 }
 
+/** The first word outside string literals that is not true, false, null or a number (NaN, Infinity, undefined…). */
+function firstBareWord(text: string): { index: number; word: string } | null {
+  const token = /"(?:[^"\\]|\\.)*"?|[A-Za-z_$][\w$]*|-?\d[\d.eE+-]*/g;
+  for (let m = token.exec(text); m; m = token.exec(text)) {
+    const w = m[0];
+    if (w.startsWith('"') || /^[-\d]/.test(w) || w === "true" || w === "false" || w === "null") continue;
+    return { index: m.index, word: w };
+  }
+  return null;
+}
+
+export interface LoadedFile {
+  readonly arm: Arm | null;
+  readonly issues: ArmIssue[];
+  /** The `id` the file declares, valid or not (for duplicate checks across files); null when it has none. */
+  readonly declaredId?: string | null;
+  /** Whether the declared id equals the file name. */
+  readonly idMatchesFile?: boolean;
+}
+
 /** Reads and validates one arm file. Never throws for bad data: problems come back as issues. */
-export async function loadArmFile(path: string): Promise<{ arm: Arm | null; issues: ArmIssue[] }> {
+export async function loadArmFile(path: string): Promise<LoadedFile> {
   const file = relative(process.cwd(), path) || path;
-  const err = (p: string, message: string): { arm: null; issues: ArmIssue[] } => ({ arm: null, issues: [{ file, path: p, message, severity: "error" }] });
+  const err = (p: string, message: string): LoadedFile => ({ arm: null, issues: [{ file, path: p, message, severity: "error" }] });
   let bytes: Buffer;
   try {
     const info = await stat(path);
@@ -72,22 +92,35 @@ export async function loadArmFile(path: string): Promise<{ arm: Arm | null; issu
   try {
     data = JSON.parse(text);
   } catch (e) {
-    const msg = e instanceof Error ? e.message : String(e);
+    // V8 names an unexpected letter without its position and quotes a multi-line excerpt: locate the bare word.
+    const msg = (e instanceof Error ? e.message : String(e)).replace(/, (?:\.\.\.)?"[\s\S]*is not valid JSON$/, "");
     const pos = /position (\d+)/.exec(msg);
-    const where = pos ? ` at ${lineColumn(text, Number(pos[1]))}` : "";
+    const at = pos ? Number(pos[1]) : /^Unexpected token/.test(msg) ? firstBareWord(text)?.index : undefined;
+    const word = at === undefined ? undefined : /^[A-Za-z_$][\w$]*/.exec(text.slice(at))?.[0];
+    const where = at !== undefined ? ` at ${lineColumn(text, at)}` : "";
     const truncated = /end of JSON input|Unterminated/.test(msg) ? " (the file looks truncated)" : "";
-    return err("", `expected valid JSON, found a syntax error${where}${truncated}: ${msg}`);
+    const reason =
+      word === "NaN" || word === "Infinity"
+        ? `${msg}: ${word} is not a JSON number (JSON has no NaN or Infinity: write a finite number, or leave an optional field out)`
+        : word && !pos
+          ? `${msg}: found the bare word ${word} (text must be in double quotes)`
+          : msg;
+    return err("", `expected valid JSON, found a syntax error${where}${truncated}: ${reason}`);
   }
   const fileId = basename(path).replace(/\.json$/i, "");
   const result = validateArm(data, file, fileId);
-  const issues: ArmIssue[] = [...result.issues];
+  const issues: ArmIssue[] = [...result.issues, ...(result.ok ? plausibilityWarnings(result.spec, file) : [])];
   const schemaRef = (data as { $schema?: unknown } | null)?.$schema;
   if (typeof schemaRef === "string") {
     const problem = await checkSchemaRef(schemaRef, dirname(path));
     if (problem) issues.push({ file, path: "$schema", message: problem, severity: "error" });
   }
-  if (!result.ok || issues.some((i) => i.severity === "error")) return { arm: null, issues };
+  const declared = (data as { id?: unknown } | null)?.id;
+  const declaredId = typeof declared === "string" ? declared : null;
+  if (!result.ok || issues.some((i) => i.severity === "error")) return { arm: null, issues, declaredId, idMatchesFile: declaredId === fileId };
   return {
+    declaredId,
+    idMatchesFile: true,
     arm: { id: result.spec.id, file, spec: result.spec, chain: result.chain, specHash: specHashOf(data), warnings: issues.filter((i) => i.severity === "warning") },
     issues,
   };
@@ -128,23 +161,31 @@ async function expandPaths(paths: readonly string[]): Promise<{ files: string[];
   return { files, issues };
 }
 
-/** Loads arm files and folders; reports every problem of every file, plus duplicate ids across files. */
+/**
+ * Loads arm files and folders; reports every problem of every file, plus duplicate ids across files (invalid files
+ * included: a copied file that kept its original's id is named as such). A file whose id is its own file name keeps
+ * the id; the other claimant gets the error.
+ */
 export async function loadArms(paths: readonly string[]): Promise<LoadResult> {
   const { files, issues } = await expandPaths(paths);
   const results = await Promise.all(files.map((f) => loadArmFile(f)));
-  const arms: Arm[] = [];
-  const byId = new Map<string, string>();
-  for (const r of results) {
-    issues.push(...r.issues);
-    if (!r.arm) continue;
-    const first = byId.get(r.arm.id);
-    if (first) {
-      issues.push({ file: r.arm.file, path: "id", message: `expected a unique id, found "${r.arm.id}" which ${first} already uses`, severity: "error" });
-      continue;
-    }
-    byId.set(r.arm.id, r.arm.file);
-    arms.push(r.arm);
+  const owner = new Map<string, string>();
+  const duplicate = new Map<number, string>();
+  const claims = results.flatMap((r, k) => (r.declaredId ? [{ k, id: r.declaredId, mine: r.idMatchesFile === true }] : []));
+  for (const c of claims.sort((a, b) => Number(b.mine) - Number(a.mine) || a.k - b.k)) {
+    const first = owner.get(c.id);
+    if (first === undefined) owner.set(c.id, files[c.k]!);
+    else duplicate.set(c.k, first);
   }
+  const arms: Arm[] = [];
+  results.forEach((r, k) => {
+    issues.push(...r.issues);
+    const first = duplicate.get(k);
+    if (first !== undefined) {
+      const rel = (p: string) => relative(process.cwd(), p) || p;
+      issues.push({ file: rel(files[k]!), path: "id", message: `expected a unique id, found "${r.declaredId}" which ${rel(first)} already uses`, severity: "error" });
+    } else if (r.arm) arms.push(r.arm);
+  });
   arms.sort((a, b) => (a.id < b.id ? -1 : a.id > b.id ? 1 : 0));
   return { arms, issues };
 }

@@ -14,10 +14,19 @@ const isNumber = (v: unknown): v is number => typeof v === "number" && Number.is
 function zodIssueMessage(issue: $ZodIssue): string {
   const input = (issue as { input?: unknown }).input;
   switch (issue.code) {
-    case "invalid_type":
+    case "invalid_type": {
+      // zod reports a non-finite number as received "Infinity" or "NaN" with input null.
+      const received = (issue as { received?: unknown }).received;
+      if (received === "Infinity" || received === "NaN") {
+        return `expected ${issue.expected}, found ${received}${received === "Infinity" ? " (a number too large for a double, such as 1e400, reads as Infinity)" : ""}`;
+      }
       return input === undefined
         ? `missing required field: expected ${issue.expected}`
         : `expected ${issue.expected}, found ${describeValue(input)}`;
+    }
+    case "invalid_format":
+      if (issue.format === "date") return `expected a calendar date as YYYY-MM-DD, found ${describeValue(input)}`;
+      return `${issue.message}, found ${describeValue(input)}`;
     case "unrecognized_keys":
       return `unknown field${issue.keys.length > 1 ? "s" : ""} ${issue.keys.map((k) => JSON.stringify(k)).join(", ")}: not part of the arm format (check spelling and the unit in the name)`;
     case "invalid_value":
@@ -44,7 +53,12 @@ export function validateArm(data: unknown, file: string, fileId: string): Valida
   const error = (path: string, message: string) => issues.push({ file, path, message, severity: "error" });
   const parsed = ArmSpecSchema.safeParse(data, { reportInput: true });
   if (!parsed.success) {
+    // A value of the wrong type gets one message: not also its size checks, nor (at the root) the schema's own.
+    const wrongType = new Set(parsed.error.issues.filter((i) => i.code === "invalid_type").map((i) => toPath(i.path)));
     for (const issue of parsed.error.issues) {
+      const at = toPath(issue.path);
+      if (issue.code !== "invalid_type" && wrongType.has(at)) continue;
+      if (at === "" && !isObject(data)) continue;
       if (issue.code === "unrecognized_keys") {
         // One issue per unknown key, at the key's own path.
         for (const key of issue.keys) error(toPath([...issue.path, key]), "unknown field: not part of the arm format (check the spelling and the unit in the name)");
@@ -164,6 +178,8 @@ export function semanticIssues(data: unknown): PathMessage[] {
   if (joints.length > 0 && driven === 0) {
     out.push({ path: "joints", message: "expected at least one driven joint (with a range and a speed): with every joint passive the flange cannot move" });
   }
+  // Without a joints array the names used elsewhere cannot be checked (the joints error says enough).
+  if (!Array.isArray(data.joints)) return out;
   const known = (name: unknown) => typeof name === "string" && names.has(name);
   if (isObject(data.wristCentre) && Array.isArray(data.wristCentre.joints)) {
     data.wristCentre.joints.forEach((name, k) => {
@@ -183,6 +199,90 @@ export function semanticIssues(data: unknown): PathMessage[] {
     data.links.forEach((l, k) => {
       if (isObject(l) && l.after !== undefined && !known(l.after)) out.push({ path: toPath(["links", k, "after"]), message: `expected a joint name of this arm, found ${describeValue(l.after)}` });
     });
+  }
+  return out;
+}
+
+/**
+ * Bounds of the plausibility warnings: common practice, no source. Numbers outside them are legal but usually a
+ * typo or a wrong unit, so `armdex check` warns and does not fail.
+ */
+export const PLAUSIBILITY = {
+  /** Pose repeatability RP (ISO 9283) of an industrial arm, mm. */
+  repeatabilityMm: [0.005, 2],
+  /** Maximum speed of a driven revolute joint, deg/s: below is a crawl (rad/s or rev/s typed?), above a motor speed. */
+  revoluteSpeedDegPerS: [10, 1000],
+  /** Rated payload per kg of arm mass. Serial arms carry well under their own mass; 3 leaves room for odd classes
+   * and still catches a mass typed in tonnes. */
+  payloadPerMass: 3,
+  /** A stated reach below this is almost surely metres typed into a mm field, mm. */
+  minReachMm: 50,
+  /** A stated reach above this multiple of the summed link lengths is unreachable in any pose (5 % for rounding). */
+  reachOverLinkSum: 1.05,
+} as const;
+
+const fmt = (x: number) => String(Number(x.toPrecision(4)));
+
+/**
+ * Sum of the lengths of every fixed offset of the chain (DH/MDH rows, joint origins, the flange) plus the largest
+ * stroke of each prismatic joint, mm. By the triangle inequality no point of the arm is farther than this from the
+ * base origin or from the J1 axis, so it bounds any stated reach. Null when a prismatic joint follows others (its
+ * stroke has no simple bound).
+ */
+export function linkLengthSumMm(spec: ArmSpec): number | null {
+  let sum = Math.hypot(...spec.flange.xyzMm);
+  for (const j of spec.joints) {
+    const row = spec.convention === "dh" ? j.dh : spec.convention === "mdh" ? j.mdh : undefined;
+    if (row) sum += Math.hypot(row.aMm, row.dMm);
+    else if (j.origin) sum += Math.hypot(...j.origin.xyzMm);
+    if (j.kind === "prismatic") {
+      if (j.coupling || !j.rangeMm) return null;
+      sum += Math.max(Math.abs(j.rangeMm[0]), Math.abs(j.rangeMm[1]));
+    }
+  }
+  return sum;
+}
+
+/**
+ * Implausible but valid data: warnings (severity "warning") that `armdex check` prints without failing, and that the
+ * arm page lists. Pure: reads only the validated spec. Thresholds in `PLAUSIBILITY` (common practice, no source).
+ */
+export function plausibilityWarnings(spec: ArmSpec, file = ""): ArmIssue[] {
+  const out: ArmIssue[] = [];
+  const warn = (path: string, message: string) => out.push({ file, path, message, severity: "warning" });
+  const [repLo, repHi] = PLAUSIBILITY.repeatabilityMm;
+  if (spec.repeatabilityMm < repLo || spec.repeatabilityMm > repHi) {
+    const r = spec.repeatabilityMm;
+    const hint = r < repLo ? `typed in metres? ${fmt(r)} m = ${fmt(r * 1000)} mm` : `typed in µm? ${fmt(r)} µm = ${fmt(r / 1000)} mm`;
+    warn("repeatabilityMm", `expected a repeatability between ${repLo} and ${repHi} mm, found ${fmt(r)} (${hint})`);
+  }
+  const [speedLo, speedHi] = PLAUSIBILITY.revoluteSpeedDegPerS;
+  spec.joints.forEach((j, i) => {
+    const v = j.maxSpeedDegPerS;
+    if (j.kind !== "revolute" || v === undefined) return;
+    if (v < speedLo) {
+      warn(toPath(["joints", i, "maxSpeedDegPerS"]), `expected a revolute joint speed between ${speedLo} and ${speedHi} deg/s, found ${fmt(v)} (if it was typed in rad/s it is ${fmt((v * 180) / Math.PI)} deg/s; in rev/s, ${fmt(v * 360)} deg/s)`);
+    } else if (v > speedHi) {
+      warn(toPath(["joints", i, "maxSpeedDegPerS"]), `expected a revolute joint speed between ${speedLo} and ${speedHi} deg/s, found ${fmt(v)} (a motor speed before the gearbox, or rpm?)`);
+    }
+  });
+  if (spec.links && spec.links.length > 0) {
+    const total = spec.links.reduce((s, l) => s + l.massKg, 0);
+    if (total > spec.massKg * (1 + 1e-9)) {
+      warn("links", `expected the link masses to add up to at most massKg (${fmt(spec.massKg)} kg), found ${fmt(total)} kg`);
+    }
+  }
+  const maxPayload = spec.massKg * PLAUSIBILITY.payloadPerMass;
+  if (spec.ratedPayloadKg > maxPayload) {
+    warn("ratedPayloadKg", `expected at most ${PLAUSIBILITY.payloadPerMass} × massKg (${fmt(maxPayload)} kg), found ${fmt(spec.ratedPayloadKg)} kg (check the units of ratedPayloadKg and massKg)`);
+  }
+  if (spec.reachMm !== undefined) {
+    const bound = linkLengthSumMm(spec);
+    if (spec.reachMm < PLAUSIBILITY.minReachMm) {
+      warn("reachMm", `expected a reach of at least ${PLAUSIBILITY.minReachMm} mm, found ${fmt(spec.reachMm)}: was it typed in metres? (${fmt(spec.reachMm)} m = ${fmt(spec.reachMm * 1000)} mm)`);
+    } else if (bound !== null && spec.reachMm > bound * PLAUSIBILITY.reachOverLinkSum) {
+      warn("reachMm", `expected at most ${fmt(bound)} mm (the sum of the arm's link lengths: no pose reaches farther), found ${fmt(spec.reachMm)} (check the unit, mm, and the link dimensions)`);
+    }
   }
   return out;
 }

@@ -2,6 +2,7 @@
  * armdex command line: thin entry points over the catalog and the core.
  *   armdex check [paths…]                         validate arm files or folders (default: arms/)
  *   armdex pose <arm.json> --joints q1,q2,… [--tool x,y,z] [--allow-outside]
+ *   armdex line <arm.json> --from x,y,z --to x,y,z --orientation down|outward|r,p,y --speed mm/s [--start-joints q1,…] [--tool x,y,z] [--samples N]
  *   armdex schema [out.json]                      write the JSON Schema of the arm format
  * Exit codes: 0 success, 1 invalid arm data, 2 usage error.
  */
@@ -10,6 +11,7 @@ import { mkdir, rename, writeFile } from "node:fs/promises";
 import { dirname } from "node:path";
 import { armJsonSchema, formatIssue, loadArmFile, loadArms } from "../catalog";
 import { poseCommand } from "./pose";
+import { lineCommand } from "./line";
 import { stringifyCompact } from "./json";
 
 export class UsageError extends Error {}
@@ -27,6 +29,11 @@ usage:
                                  pose, Jacobian and singular values as JSON (joints in deg or mm; tool in mm)
   armdex analyze <arm.json>      the arm's full analysis as JSON (envelope, speed maps, singularities, payload, cycle)
   armdex analyze --all [folder]  analyse every arm of a folder (default: arms/) into the cache, in parallel
+  armdex line <arm.json> --from x,y,z --to x,y,z --orientation down|outward|r,p,y --speed mm/s
+             [--start-joints q1,…] [--tool x,y,z] [--samples N]
+                                 straight-line check as JSON: joint rates along the TCP line at constant
+                                 orientation, feasible constant speed, bottleneck, singularities, branch changes
+                                 (mm, deg, mm/s; r,p,y in deg, URDF fixed axes; start joints in deg or mm)
   armdex schema [out.json]       write the arm JSON Schema (default: public/schema/arm.schema.json)
 `;
 
@@ -120,6 +127,29 @@ export async function main(argv: string[]): Promise<number> {
         return 1;
       }
       process.stdout.write(`${JSON.stringify(await getAnalysis(loaded.arm))}\n`);
+      return 0;
+    }
+    case "line": {
+      const { values, positionals } = parseArgs({
+        args: rest,
+        allowPositionals: true,
+        options: {
+          from: { type: "string" }, to: { type: "string" }, orientation: { type: "string" }, speed: { type: "string" },
+          "start-joints": { type: "string" }, tool: { type: "string" }, samples: { type: "string" },
+        },
+      });
+      if (positionals.length !== 1) throw new UsageError("line needs exactly one arm file");
+      const loaded = await loadArmFile(positionals[0]!);
+      if (!loaded.arm) {
+        for (const i of loaded.issues) process.stderr.write(`${formatIssue(i)}\n`);
+        return 1;
+      }
+      const result = lineCommand(loaded.arm, { ...values, startJoints: values["start-joints"] });
+      if (!result.ok) {
+        process.stderr.write(`error: ${result.message}\n`);
+        return result.usage ? 2 : 1;
+      }
+      process.stdout.write(`${stringifyCompact(result.value)}\n`);
       return 0;
     }
     case "schema":

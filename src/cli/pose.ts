@@ -48,7 +48,7 @@ export function poseCommand(arm: Arm, jointsText: string, toolText: string | und
     return { name, positionMm: [f[3]!, f[7]!, f[11]!].map((v) => round(mToMm(v))), rotation: [0, 1, 2].map((row) => [0, 1, 2].map((c) => round(f[row * 4 + c]!, 1e-12))) };
   });
   const hasTool = toolMm.some((v) => v !== 0);
-  const sing = singularityReport(chain, r.jacobian);
+  const sing = singularityReport(chain, r.jacobian, SINGULAR_INVERSE_CONDITION, r.wcpM ? Array.from(r.wcpM, (v, i) => v - r.tcpM[i]!) : undefined);
   return {
     ok: true,
     value: {

@@ -1,5 +1,7 @@
 /** Props of an arm sheet, `/arms/<id>/`: every value formatted, every link joined with the base path. */
 import type { Arm } from "../catalog";
+import type { ArmAnalysis } from "../core/analysis/analyseArm";
+import { armAnalysisModel, type ArmAnalysisModel } from "./armAnalysisModel";
 import { CAUTIONS, type Cautions } from "./cautions";
 import type { ViewOptions } from "./catalogPageModel";
 import { formatList, formatNumber, formatOptionalQuantity, formatPrice, formatQuantity, formatVector, NOT_STATED } from "./format";
@@ -53,6 +55,8 @@ export interface ArmPageModel {
   readonly canonicalUrl: string | null;
   readonly catalogHref: string;
   readonly methodsHref: string;
+  /** The computed sections (envelope, speed, singularities, payload, cycle, downloads); null without an analysis. */
+  readonly analysis: ArmAnalysisModel | null;
 }
 
 export interface ArmViewOptions extends ViewOptions {
@@ -173,15 +177,31 @@ function linkTable(arm: Arm): TableModel | null {
   };
 }
 
-/** Everything an arm sheet shows, ready to print. */
-export function armPageModel(arm: Arm, options: ArmViewOptions): ArmPageModel {
+/** Section anchors and titles of the computed part of the sheet, in page order. */
+export const ANALYSIS_SECTIONS: readonly PageSection[] = [
+  { id: "envelope", title: "Envelope" },
+  { id: "speed", title: "Speed" },
+  { id: "singularities", title: "Singularities" },
+  { id: "payload", title: "Payload" },
+  { id: "cycle", title: "Cycle" },
+];
+
+/**
+ * Everything an arm sheet shows, ready to print. With the arm's analysis the sheet gains the key figures, the
+ * computed sections and the downloads; without it, the declared part alone.
+ */
+export function armPageModel(arm: Arm, options: ArmViewOptions, analysis?: ArmAnalysis | null): ArmPageModel {
   const s = arm.spec;
   const href = siteHref(options.baseUrl, armPath(arm.id));
   const checks = arm.warnings.map((w) => (w.path ? `${w.path}: ${w.message}` : w.message));
+  const computed = analysis ? armAnalysisModel(arm, analysis, options) : null;
   const sections: PageSection[] = [
+    ...(computed ? [{ id: "summary", title: "Key figures" }] : []),
     { id: "specs", title: "Specifications" },
+    ...(computed ? ANALYSIS_SECTIONS : []),
     { id: "parameters", title: "Kinematic parameters" },
     { id: "joints", title: "Joints" },
+    ...(computed ? [{ id: "downloads", title: "Downloads" }] : []),
     { id: "source", title: "Source" },
     ...(checks.length > 0 ? [{ id: "checks", title: "Checks on this file" }] : []),
     { id: "cautions", title: "Cautions" },
@@ -221,5 +241,6 @@ export function armPageModel(arm: Arm, options: ArmViewOptions): ArmPageModel {
     canonicalUrl: absoluteUrl(options.site, href),
     catalogHref: siteHref(options.baseUrl, ""),
     methodsHref: siteHref(options.baseUrl, "methods/"),
+    analysis: computed,
   };
 }

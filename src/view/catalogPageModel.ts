@@ -1,9 +1,11 @@
-/** Props of the catalog page: one row per arm with its key declared figures. */
+/** Props of the catalog page: one row per arm with its key declared figures and, given the analyses, computed ones. */
 import type { Arm } from "../catalog";
+import type { ArmAnalysis } from "../core/analysis/analyseArm";
+import { formatSignedPercent, reachCheck } from "./armAnalysisModel";
 import { formatList, formatNumber, formatPrice, NOT_STATED } from "./format";
 import { CLASS_LABEL, MOUNTING_LABEL } from "./labels";
 import { armPath, siteHref } from "./links";
-import type { TableColumn, TableModel, TableRow } from "./table";
+import type { TableCell, TableColumn, TableModel, TableRow } from "./table";
 
 export interface CatalogPageModel {
   readonly title: string;
@@ -30,18 +32,65 @@ const COLUMNS: readonly TableColumn[] = [
   { key: "protection", label: "Protection", numeric: false },
 ];
 
+/** Computed columns, shown when the analyses are given: after the stated reach, and after the mass. */
+const COMPUTED_REACH_COLUMN: TableColumn = { key: "computed-reach", label: "Computed reach", unit: "mm", numeric: true };
+const COMPUTED_COLUMNS: readonly TableColumn[] = [
+  { key: "max-tool-speed", label: "Max tool speed", unit: "m/s", numeric: true },
+  { key: "share-1", label: "Line speed \u2265 1 m/s, tool down", unit: "% of side view", numeric: true },
+  { key: "cycle", label: "Standard cycle", unit: "s", numeric: true },
+];
+
+function computedCells(analysis: ArmAnalysis | undefined): { reach: TableCell; stated: TableCell | null; rest: TableCell[] } {
+  if (!analysis) {
+    const none = { text: "not computed" };
+    return { reach: none, stated: null, rest: [none, none, none] };
+  }
+  const rc = reachCheck(analysis);
+  const reach: TableCell = { text: formatNumber(rc.computedMm), note: rc.basis === "wcp" ? "wrist centre point" : "flange centre", sortValue: rc.computedMm };
+  const stated: TableCell | null =
+    rc.statedMm === null || rc.deviation === null
+      ? null
+      : {
+          text: formatNumber(rc.statedMm),
+          note: rc.mismatch ? `check: ${formatSignedPercent(rc.deviation)} from computed` : `${formatSignedPercent(rc.deviation)} from computed`,
+          sortValue: rc.statedMm,
+        };
+  const down = analysis.speed.maps.find((m) => m.orientation === "down");
+  const share = down?.shareAtLeast["1"];
+  const v = analysis.speed.maxToolSpeedMmPerS;
+  const c = analysis.cycle.standardCycleS;
+  const cycleCell: TableCell =
+    c === null ? (analysis.cycle.reason ? { text: "not computed", note: analysis.cycle.reason } : { text: "not computed" }) : { text: formatNumber(c, 2), sortValue: c };
+  return {
+    reach,
+    stated,
+    rest: [
+      v === null ? { text: "not computed" } : { text: formatNumber(v / 1000, 2), sortValue: v / 1000 },
+      share === undefined ? { text: "\u2014" } : { text: formatNumber(share * 100, 1), sortValue: share * 100 },
+      cycleCell,
+    ],
+  };
+}
+
 const PRICE_COLUMN: TableColumn = { key: "price", label: "List price", numeric: true };
 
 function plural(n: number, word: string): string {
   return `${formatNumber(n)} ${word}${n === 1 ? "" : "s"}`;
 }
 
-/** The catalog table. The price column appears only when at least one arm file carries commercial data. */
-export function catalogPageModel(arms: readonly Arm[], options: ViewOptions): CatalogPageModel {
+/**
+ * The catalog table. The price column appears only when at least one arm file carries commercial data; the computed
+ * columns (reach, maximum tool speed, share of guaranteed line speed ≥ 1 m/s with the tool down, standard cycle) only
+ * when `analyses` (by arm id) is given.
+ */
+export function catalogPageModel(arms: readonly Arm[], options: ViewOptions, analyses?: ReadonlyMap<string, ArmAnalysis>): CatalogPageModel {
   const withPrice = arms.some((a) => a.spec.commercial !== undefined);
+  const withComputed = analyses !== undefined;
   const rows: TableRow[] = arms.map((arm) => {
     const s = arm.spec;
     const c = s.commercial;
+    const computed = withComputed ? computedCells(analyses.get(arm.id)) : null;
+    const statedCell: TableCell = s.reachMm === undefined ? { text: NOT_STATED } : (computed?.stated ?? { text: formatNumber(s.reachMm), sortValue: s.reachMm });
     return {
       key: arm.id,
       cells: [
@@ -50,9 +99,11 @@ export function catalogPageModel(arms: readonly Arm[], options: ViewOptions): Ca
         { text: CLASS_LABEL[s.class], sortValue: s.class },
         { text: formatNumber(arm.chain.drivenCount), sortValue: arm.chain.drivenCount },
         { text: formatNumber(s.ratedPayloadKg, 1), sortValue: s.ratedPayloadKg },
-        s.reachMm === undefined ? { text: NOT_STATED } : { text: formatNumber(s.reachMm), sortValue: s.reachMm },
+        ...(computed ? [computed.reach] : []),
+        statedCell,
         { text: formatNumber(s.repeatabilityMm, 3), sortValue: s.repeatabilityMm },
         { text: formatNumber(s.massKg, 1), sortValue: s.massKg },
+        ...(computed ? computed.rest : []),
         { text: formatList(s.mountings.map((m) => MOUNTING_LABEL[m])), sortValue: s.mountings.join(" ") },
         { text: s.protection, sortValue: s.protection },
         ...(withPrice ? [c ? { text: formatPrice(c.listPrice, c.currency), sortValue: c.listPrice } : { text: NOT_STATED }] : []),
@@ -60,15 +111,26 @@ export function catalogPageModel(arms: readonly Arm[], options: ViewOptions): Ca
     };
   });
   const makers = new Set(arms.map((a) => a.spec.maker)).size;
+  const columns: TableColumn[] = withComputed
+    ? [...COLUMNS.slice(0, 5), COMPUTED_REACH_COLUMN, ...COLUMNS.slice(5, 8), ...COMPUTED_COLUMNS, ...COLUMNS.slice(8)]
+    : [...COLUMNS];
+  if (withPrice) columns.push(PRICE_COLUMN);
   return {
     title: "Catalog",
     countText: `${plural(arms.length, "arm")} from ${plural(makers, "maker")}`,
     table: {
       id: "catalog",
-      caption: "Every arm in the catalog, with figures as declared in its source document",
+      caption: withComputed
+        ? "Every arm in the catalog: figures as declared in its source document, and computed reach, tool speed, line-speed share and cycle estimate"
+        : "Every arm in the catalog, with figures as declared in its source document",
       rowHeaders: false,
-      columns: withPrice ? [...COLUMNS, PRICE_COLUMN] : COLUMNS,
+      columns,
       rows,
+      ...(withComputed && {
+        footnote:
+          "Computed reach: wrist centre point (flange centre where the arm has none); the stated reach is marked \u201ccheck\u201d when it differs from it by more than 2\u00a0%. " +
+          "Speeds and the cycle are for the flange centre with no tool, from joint speed limits only. Computed figures are for early comparison, not maker figures.",
+      }),
     },
   };
 }

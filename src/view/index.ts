@@ -8,4 +8,7 @@ export * from "./table";
 export * from "./jointTables";
 export * from "./catalogPageModel";
 export * from "./armPageModel";
+export * from "./armAnalysisModel";
+export * from "./armCsv";
+export * from "./csv";
 export * from "./siteModel";

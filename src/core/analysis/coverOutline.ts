@@ -82,7 +82,7 @@ export function coverRings(cover: RowCover, dxMm: number): Float64Array[] {
 /** Smallest |x| over the cover (0 when an interval contains x = 0); Infinity when empty. */
 export function coverMinAbsX(cover: RowCover): number {
   let best = Infinity;
-  for (let j = cover.jMin; j <= cover.jMax; j++) {
+  for (let j = cover.jMin, jEnd = cover.jMax; j <= jEnd; j++) {
     const v = cover.valuesOf(j), len = cover.lengthOf(j);
     for (let k = 0; k < len; k += 2) {
       const s = v[k]!, e = v[k + 1]!;

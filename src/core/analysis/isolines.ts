@@ -37,41 +37,6 @@ interface Fragment {
   tail: number[];
 }
 
-/** A source over a stored grid (for small grids): values from a callback per row, cells where a sign changes. */
-export function denseSource(nx: number, jMin: number, jMax: number, periodicX: boolean, fillRow: (j: number, out: Float64Array) => void): IsolineSource {
-  const values = new Float64Array(nx * (jMax - jMin + 1));
-  const row = new Float64Array(nx);
-  for (let j = jMin; j <= jMax; j++) {
-    fillRow(j, row);
-    values.set(row, (j - jMin) * nx);
-  }
-  const inside = (i: number, j: number) => j >= jMin && j <= jMax && values[(j - jMin) * nx + i]! > 0;
-  return {
-    nx,
-    jMin,
-    jMax,
-    periodicX,
-    cells: (j, out) => {
-      // cells whose four corners do not all agree
-      let open = -2;
-      const first = periodicX ? 0 : -1;
-      for (let i = first; i < nx; i++) {
-        const i0 = i < 0 ? -1 : i, i1 = i + 1 < nx ? i + 1 : periodicX ? 0 : -1;
-        const a = i0 >= 0 && inside(i0, j), b = i1 >= 0 && inside(i1, j);
-        const c = i1 >= 0 && inside(i1, j + 1), d = i0 >= 0 && inside(i0, j + 1);
-        const mixed = a !== b || b !== c || c !== d;
-        if (mixed && open === -2) open = i;
-        else if (!mixed && open !== -2) {
-          out.push(open, i - 1);
-          open = -2;
-        }
-      }
-      if (open !== -2) out.push(open, nx - 1);
-    },
-    value: (i, j) => values[(j - jMin) * nx + i]!,
-  };
-}
-
 /**
  * Traces the zero isolines of the source's field.
  * @returns rings in grid coordinates, inside on the left

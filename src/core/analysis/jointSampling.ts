@@ -47,6 +47,8 @@ function pointAfterForwardInto(out: Float64Array, s: KinematicsScratch, pt: Chai
 export interface JointGrid {
   readonly driven: number;
   readonly values: Float64Array;
+  /** The samples span exactly one turn of a joint whose motion repeats every turn: first and last coincide. */
+  readonly periodic: boolean;
 }
 
 export interface SamplingPlan {
@@ -60,8 +62,13 @@ export interface SamplingPlan {
   readonly a: JointGrid;
   readonly b: JointGrid;
   readonly secondaries: readonly JointGrid[];
+  /** Sampled range of every driven joint (fixed joints: [v, v]). */
+  readonly ranges: readonly (readonly [number, number])[];
   /** Driven joints that move the point (sampled), in driven order. */
   readonly relevant: readonly number[];
+  /** Bound on the size of a face of the product grid (one step of two joints): the two largest one-step motions,
+   * lever × step, added (mm). */
+  readonly stepReachMm: number;
   /** Sampling error budget actually used (mm); larger than requested when the sample budget forced it. */
   readonly samplingSigmaMm: number;
   /** Grid points over all slices. */
@@ -86,12 +93,17 @@ export interface PlanRequest {
   /** Boundary tolerance (mm) from the reach; the sampling budget is a share of it. */
   readonly toleranceMm: (radiusMm: number) => number;
   readonly samplingShare: number;
-  readonly maxSamples: number;
+  /** Row spacing as a share of the tolerance (for the work estimate). */
+  readonly rowShare: number;
+  /** Largest work (grid points + estimated outline crossings, over all slices). */
+  readonly maxWork: number;
 }
 
 const TWO_PI = 2 * Math.PI;
 const ESTIMATION_POSES = 256;
 const SAFETY = 1.25;
+/** Candidate shares of the sampling budget of each primary joint (secondaries: 1), with three or more joints. */
+const PRIMARY_WEIGHTS = [1, 0.5, 0.25, 0.12];
 const HALTON_BASES = [2, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31, 37];
 
 function radicalInverse(i: number, base: number): number {
@@ -106,12 +118,16 @@ function radicalInverse(i: number, base: number): number {
 
 /** Sampled range of driven joint j: its limits, a revolute joint with integer gains capped to one turn. */
 export function samplingRange(chain: Chain, j: number): [number, number] {
+  return samplingRangeOf(chain, j).range;
+}
+
+function samplingRangeOf(chain: Chain, j: number): { range: [number, number]; periodic: boolean } {
   const m = chain.drivenCount;
   const k = chain.drivenJoint[j]!;
   let lo = chain.lowerSi[j]!, hi = chain.upperSi[j]!;
   if (chain.isPrismatic[k]) {
     if (!Number.isFinite(lo) || !Number.isFinite(hi)) throw new RangeError(`invalid range of prismatic joint ${chain.jointNames[k]}: unbounded`);
-    return [lo, hi];
+    return { range: [lo, hi], periodic: false };
   }
   if (!Number.isFinite(lo)) lo = -Math.PI;
   if (!Number.isFinite(hi)) hi = lo + TWO_PI;
@@ -120,12 +136,12 @@ export function samplingRange(chain: Chain, j: number): [number, number] {
     const g = chain.couplingGain[i * m + j]!;
     if (g !== 0 && (!Number.isInteger(g) || chain.isPrismatic[i])) integerGains = false;
   }
-  if (integerGains && hi - lo > TWO_PI) hi = lo + TWO_PI;
-  return [lo, hi];
+  if (integerGains && hi - lo >= TWO_PI) return { range: [lo, lo + TWO_PI], periodic: true };
+  return { range: [lo, hi], periodic: false };
 }
 
 /** Evaluates the point in view coordinates (mm) for driven values q. */
-class PointProbe {
+export class PointProbe {
   private readonly s: KinematicsScratch;
   private readonly p = new Float64Array(3);
   constructor(private readonly chain: Chain, private readonly pt: ChainPoint, private readonly view: Float64Array) {
@@ -149,10 +165,13 @@ export function planSampling(req: PlanRequest): SamplingPlan {
   const probe = new PointProbe(chain, point, view);
   const qRef = new Float64Array(m);
   const ranges: [number, number][] = [];
+  const periodic: boolean[] = [];
   for (let j = 0; j < m; j++) {
     const fixed = req.fixed.get(j);
-    const r: [number, number] = fixed !== undefined ? [fixed, fixed] : samplingRange(chain, j);
+    const sr = fixed !== undefined ? { range: [fixed, fixed] as [number, number], periodic: false } : samplingRangeOf(chain, j);
+    const r = sr.range;
     ranges.push(r);
+    periodic.push(sr.periodic);
     qRef[j] = fixed !== undefined ? fixed : Math.min(r[1], Math.max(r[0], 0));
   }
   // Candidate joints: those with a kinematic effect up to the point's last joint.
@@ -239,43 +258,6 @@ export function planSampling(req: PlanRequest): SamplingPlan {
   const tol = req.toleranceMm(radiusMm);
   let sigma = req.samplingShare * tol;
 
-  const counts = new Int32Array(k);
-  const computeCounts = (sig: number): number => {
-    const share = sig / Math.max(1, k);
-    const steps = new Float64Array(k);
-    for (let r = 0; r < k; r++) {
-      const c = relevantIdx[r]!, j = candidates[c]!;
-      if (chain.isPrismatic[chain.drivenJoint[j]!]) continue;
-      steps[r] = Math.sqrt((8 * share) / Math.max(1e-9, SAFETY * secondMax[c]!));
-    }
-    let total = 1;
-    for (let r = 0; r < k; r++) {
-      const c = relevantIdx[r]!, j = candidates[c]!;
-      const span = ranges[j]![1] - ranges[j]![0];
-      let n: number;
-      if (chain.isPrismatic[chain.drivenJoint[j]!]) {
-        let step = span;
-        for (let s = 0; s < k; s++) {
-          if (s === r) continue;
-          const mij = SAFETY * mixed[c * nc + relevantIdx[s]!]!;
-          const other = steps[s]! > 0 ? steps[s]! : span;
-          if (mij > 0) step = Math.min(step, (4 * share) / (mij * other));
-        }
-        n = Math.max(1, Math.ceil(span / step - 1e-9));
-      } else {
-        n = Math.max(span > Math.PI / 2 ? 2 : 1, Math.ceil(span / steps[r]! - 1e-9));
-      }
-      counts[r] = n;
-      total *= n + 1;
-    }
-    return total;
-  };
-  let total = computeCounts(sigma);
-  for (let iter = 0; iter < 20 && total > req.maxSamples && k > 0; iter++) {
-    sigma *= Math.max(1.05, (total / req.maxSamples) ** (2 / k));
-    total = computeCounts(sigma);
-  }
-
   // Primary pair: the largest mean |det| of the view-plane Jacobian, preferring a pair the factorised evaluator
   // can handle (see stagedOrder).
   let bestA = -1, bestB = -1, bestScore = -1, bestStagedA = -1, bestStagedB = -1, bestStagedScore = -1;
@@ -307,13 +289,69 @@ export function planSampling(req: PlanRequest): SamplingPlan {
     bestB = bestStagedB;
     staged = true;
   }
+  // Work of a plan ≈ Σ over slices of (grid points + outline crossings); the outline of a slice is taken as twice
+  // 4π·radius / row (an annulus with folds; calibrated on the demo arms), whatever the density of its primary grid.
+  // So finer primaries are cheap and fewer slices save the most: the split of the sampling budget between primaries
+  // and secondaries is chosen to minimise the work.
+  const outline = (8 * Math.PI * Math.max(radiusMm, 1)) / Math.max(1e-9, req.rowShare * tol);
+  const isPrimary = (r: number) => r === bestA || r === bestB;
+  const countsFor = (sig: number, primaryWeight: number, out: Int32Array): number => {
+    let weightSum = 0;
+    for (let r = 0; r < k; r++) weightSum += k >= 3 && isPrimary(r) ? primaryWeight : 1;
+    const shareOf = (r: number) => (sig * (k >= 3 && isPrimary(r) ? primaryWeight : 1)) / Math.max(1e-12, weightSum);
+    const steps = new Float64Array(k);
+    for (let r = 0; r < k; r++) {
+      const c = relevantIdx[r]!, j = candidates[c]!;
+      if (chain.isPrismatic[chain.drivenJoint[j]!]) continue;
+      steps[r] = Math.sqrt((8 * shareOf(r)) / Math.max(1e-9, SAFETY * secondMax[c]!));
+    }
+    let slices = 1, perSlice = 1;
+    for (let r = 0; r < k; r++) {
+      const c = relevantIdx[r]!, j = candidates[c]!;
+      const span = ranges[j]![1] - ranges[j]![0];
+      let n: number;
+      if (chain.isPrismatic[chain.drivenJoint[j]!]) {
+        let step = span;
+        for (let t = 0; t < k; t++) {
+          if (t === r) continue;
+          const mij = SAFETY * mixed[c * nc + relevantIdx[t]!]!;
+          const other = steps[t]! > 0 ? steps[t]! : span;
+          if (mij > 0) step = Math.min(step, (4 * shareOf(r)) / (mij * other));
+        }
+        n = Math.max(1, Math.ceil(span / step - 1e-9));
+      } else {
+        n = Math.max(span > Math.PI / 2 ? 2 : 1, Math.ceil(span / steps[r]! - 1e-9));
+      }
+      out[r] = n;
+      if (k >= 2 && !isPrimary(r)) slices *= n + 1;
+      else perSlice *= n + 1;
+    }
+    return slices * (perSlice + outline);
+  };
+  const counts = new Int32Array(k), trial = new Int32Array(k);
+  const bestCounts = (sig: number): number => {
+    let best = Infinity;
+    for (const w of PRIMARY_WEIGHTS) {
+      const work = countsFor(sig, w, trial);
+      if (work < best) {
+        best = work;
+        counts.set(trial);
+      }
+    }
+    return best;
+  };
+  let work = bestCounts(sigma);
+  for (let iter = 0; iter < 30 && work > req.maxWork && k > 0; iter++) {
+    sigma *= Math.max(1.05, (work / req.maxWork) ** (2 / k));
+    work = bestCounts(sigma);
+  }
   const grid = (r: number): JointGrid => {
     const j = relevant[r]!, [lo, hi] = ranges[j]!, n = counts[r]!;
     const values = new Float64Array(n + 1);
     for (let i = 0; i <= n; i++) values[i] = lo + ((hi - lo) * i) / n;
-    return { driven: j, values };
+    return { driven: j, values, periodic: periodic[j]! };
   };
-  const placeholder: JointGrid = { driven: -1, values: new Float64Array(2) };
+  const placeholder: JointGrid = { driven: -1, values: new Float64Array(2), periodic: false };
   let a: JointGrid, b: JointGrid;
   if (k >= 2) {
     a = grid(bestA);
@@ -329,9 +367,17 @@ export function planSampling(req: PlanRequest): SamplingPlan {
   }
   const secondaries: JointGrid[] = [];
   for (let r = 0; r < k; r++) if (k >= 2 && r !== bestA && r !== bestB) secondaries.push(grid(r));
+  // a face of the product grid spans one step of two joints: bound its size by the two largest one-step motions
+  const stepMotion: number[] = [];
+  for (let r = 0; r < k; r++) {
+    const g = [a, b, ...secondaries].find((x) => x.driven === relevant[r]);
+    if (g && g.values.length > 1) stepMotion.push(SAFETY * firstMax[relevantIdx[r]!]! * Math.abs(g.values[1]! - g.values[0]!));
+  }
+  stepMotion.sort((p, q) => q - p);
+  const stepReachMm = (stepMotion[0] ?? 0) + (stepMotion[1] ?? 0);
   let pointCount = a.values.length * b.values.length;
   for (const g of secondaries) pointCount *= g.values.length;
-  return { chain, point, view, qRef, a, b, secondaries, relevant, samplingSigmaMm: sigma, pointCount, estimate: { radiusMm }, staged };
+  return { chain, point, view, qRef, a, b, secondaries, ranges, relevant, stepReachMm, samplingSigmaMm: sigma, pointCount, estimate: { radiusMm }, staged };
 }
 
 const MIXED_STENCIL: readonly (readonly [number, number, number])[] = [
@@ -374,6 +420,8 @@ export interface SliceBuffers {
   readonly c0: Float64Array;
   readonly c1: Float64Array;
   readonly c2: Float64Array;
+  /** Driven joint values of the slice (secondaries set; the primaries' entries are not meaningful). */
+  readonly q: Float64Array;
 }
 
 /**
@@ -386,8 +434,8 @@ export function forEachSlice(plan: SamplingPlan, visit: (buffers: SliceBuffers, 
   const { chain, point, view, a, b, secondaries } = plan;
   const m = chain.drivenCount, n = point.lastJoint + 1;
   const na = a.values.length, nb = b.values.length;
-  const buffers: SliceBuffers = { c0: new Float64Array(na * nb), c1: new Float64Array(na * nb), c2: new Float64Array(na * nb) };
   const q = Float64Array.from(plan.qRef);
+  const buffers: SliceBuffers = { c0: new Float64Array(na * nb), c1: new Float64Array(na * nb), c2: new Float64Array(na * nb), q };
   const ns = secondaries.length;
   const counter = new Int32Array(ns);
   const g = chain.couplingGain, off = chain.couplingOffset, axes = chain.axisLocal, fixed = chain.fixed;
@@ -498,6 +546,24 @@ export function forEachSlice(plan: SamplingPlan, visit: (buffers: SliceBuffers, 
           c1[ia * nb + ib] = out3[1]!;
           c2[ia * nb + ib] = out3[2]!;
         }
+      }
+    }
+    // a periodic primary's last sample is its first one turned a full turn: make the copies bit-identical, so
+    // outlines that run through the seam stay closed to the last bit
+    if (a.periodic) {
+      const { c0, c1, c2 } = buffers, last = (na - 1) * nb;
+      for (let ib = 0; ib < nb; ib++) {
+        c0[last + ib] = c0[ib]!;
+        c1[last + ib] = c1[ib]!;
+        c2[last + ib] = c2[ib]!;
+      }
+    }
+    if (b.periodic) {
+      const { c0, c1, c2 } = buffers;
+      for (let ia = 0; ia < na; ia++) {
+        c0[ia * nb + nb - 1] = c0[ia * nb]!;
+        c1[ia * nb + nb - 1] = c1[ia * nb]!;
+        c2[ia * nb + nb - 1] = c2[ia * nb]!;
       }
     }
     visit(buffers, slice);

@@ -122,9 +122,14 @@ export function traceSingularityLoci(d: SheetData): SingularityLocus[] {
           slotAt[c] = found;
         }
         if (!complete) continue;
-        let mask = 0;
-        for (let c = 0; c < 4; c++) if (corner[c]! > 0) mask |= 1 << c;
-        if (mask === 0 || mask === 15) continue;
+        let mask = 0, negative = 0;
+        for (let c = 0; c < 4; c++) {
+          if (corner[c]! > 0) mask |= 1 << c;
+          else if (corner[c]! < 0) negative++;
+        }
+        // A crossing needs both signs strictly: a sheet that only touches det J = 0 at a node (a singular pose at a
+        // joint limit, e.g. q5 = ±180°, exactly on the grid) does not cross it.
+        if (mask === 0 || mask === 15 || negative === 0) continue;
         // Edge crossings: edges 0 (00–10), 1 (10–11), 2 (11–01), 3 (01–00); corners in r/z of the grid.
         const r0 = grid.rMinMm + ix * stepMm, z0 = grid.zMinMm + iy * stepMm;
         const pos: Pt[] = [[r0, z0], [r0 + stepMm, z0], [r0 + stepMm, z0 + stepMm], [r0, z0 + stepMm]];

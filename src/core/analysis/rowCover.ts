@@ -19,29 +19,17 @@ export class RowCover {
     this.dy = dy;
   }
 
-  /** Index of the lowest existing row (meaningless when empty). */
+  /** Index of the lowest row with an interval (meaningless when empty). */
   get jMin(): number {
-    return this.firstRow;
+    let k = 0;
+    while (k < this.size.length && this.size[k] === 0) k++;
+    return this.firstRow + k;
   }
-  /** Index of the highest existing row; jMax < jMin when empty. */
+  /** Index of the highest row with an interval; jMax < jMin when empty. */
   get jMax(): number {
-    return this.firstRow + this.data.length - 1;
-  }
-
-  /** Row index whose line is nearest to y. */
-  rowOf(y: number): number {
-    return Math.round((y - this.y0) / this.dy);
-  }
-  /** y of row j. */
-  yOf(j: number): number {
-    return this.y0 + j * this.dy;
-  }
-
-  /** Interval endpoints of row j as [s0, e0, s1, e1, …] (sorted, disjoint) and their count of numbers. */
-  row(j: number): { readonly values: Float64Array; readonly length: number } {
-    const k = j - this.firstRow;
-    if (k < 0 || k >= this.data.length) return EMPTY;
-    return { values: this.data[k]!, length: this.size[k]! };
+    let k = this.size.length - 1;
+    while (k >= 0 && this.size[k] === 0) k--;
+    return this.firstRow + k;
   }
 
   /** Number of values (2 per interval) in row j; 0 when the row does not exist. */
@@ -64,19 +52,22 @@ export class RowCover {
       return 0;
     }
     if (j < this.firstRow) {
-      const add = this.firstRow - j;
-      const fresh: Float64Array[] = [];
-      for (let i = 0; i < add; i++) fresh.push(new Float64Array(8));
+      // grow downwards with slack (as many rows again), so a cover growing row by row copies O(log n) times
+      const add = Math.max(this.firstRow - j, this.data.length);
+      const fresh: Float64Array[] = new Array<Float64Array>(add);
+      for (let i = 0; i < add; i++) fresh[i] = EMPTY_VALUES;
       this.data = fresh.concat(this.data);
       this.size = new Array<number>(add).fill(0).concat(this.size);
-      this.firstRow = j;
+      this.firstRow -= add;
     } else {
       while (j - this.firstRow >= this.data.length) {
-        this.data.push(new Float64Array(8));
+        this.data.push(EMPTY_VALUES);
         this.size.push(0);
       }
     }
-    return j - this.firstRow;
+    const k = j - this.firstRow;
+    if (this.data[k]!.length === 0) this.data[k] = new Float64Array(8);
+    return k;
   }
 
   /** True when [a, b] lies inside one interval of row j. */
@@ -135,6 +126,25 @@ export class RowCover {
     this.size[k] = newLen;
   }
 
+  /** Merges, in every row, intervals separated by a gap narrower than `widthMm` (a closing along the rows). */
+  closeGaps(widthMm: number): void {
+    for (let k = 0; k < this.data.length; k++) {
+      const v = this.data[k]!, n = this.size[k]!;
+      if (n <= 2) continue;
+      let w = 2;
+      for (let r = 2; r < n; r += 2) {
+        if (v[r]! - v[w - 1]! < widthMm) {
+          if (v[r + 1]! > v[w - 1]!) v[w - 1] = v[r + 1]!;
+        } else {
+          v[w] = v[r]!;
+          v[w + 1] = v[r + 1]!;
+          w += 2;
+        }
+      }
+      this.size[k] = w;
+    }
+  }
+
   /** Smallest and largest x over all rows; [Infinity, -Infinity] when empty. */
   xExtent(): [number, number] {
     let lo = Infinity, hi = -Infinity;
@@ -160,4 +170,3 @@ export class RowCover {
 }
 
 const EMPTY_VALUES = new Float64Array(0);
-const EMPTY = { values: EMPTY_VALUES, length: 0 } as const;

@@ -94,8 +94,11 @@ export interface SingularityReport {
   readonly lengthScaleM: number;
 }
 
-/** Allocating convenience over scaledSingularValues + classifyNullVector. */
-export function singularityReport(chain: Chain, j: ArrayLike<number>, threshold = SINGULAR_INVERSE_CONDITION): SingularityReport {
+/**
+ * Allocating convenience over scaledSingularValues + the classification. Pass `wcpMinusTcpM` (the wrist centre
+ * minus the Jacobian's reference point, base frame, m) so a decoupled six-joint arm is classified by its blocks.
+ */
+export function singularityReport(chain: Chain, j: ArrayLike<number>, threshold = SINGULAR_INVERSE_CONDITION, wcpMinusTcpM?: ArrayLike<number>): SingularityReport {
   const m = chain.drivenCount;
   const s = createSingularityScratch(m);
   const lengthM = chain.characteristicLengthM;
@@ -105,11 +108,106 @@ export function singularityReport(chain: Chain, j: ArrayLike<number>, threshold 
   let big = 0;
   for (const x of nullVector) if (Math.abs(x) > Math.abs(big)) big = x;
   const sign = big < 0 ? -1 : 1;
+  let kind: SingularityKind = "none";
+  if (inverseCondition < threshold) {
+    const cols = decoupledWristColumns(chain);
+    const d = cols ? (wcpMinusTcpM ?? wristOffsetFromJacobian(j, cols.wrist)) : null;
+    if (cols && d) {
+      // Reference point moved to the wrist centre: v_w = v_t + ω × d.
+      const jw = Float64Array.from({ length: 36 }, (_, i) => j[i]!);
+      const dx = d[0]!, dy = d[1]!, dz = d[2]!;
+      for (let c = 0; c < 6; c++) {
+        const wx = j[18 + c]!, wy = j[24 + c]!, wz = j[30 + c]!;
+        jw[c] = j[c]! + (wy * dz - wz * dy);
+        jw[6 + c] = j[6 + c]! + (wz * dx - wx * dz);
+        jw[12 + c] = j[12 + c]! + (wx * dy - wy * dx);
+      }
+      kind = classifyDecoupled(jw, lengthM, cols);
+    } else {
+      kind = classifyNullVector(s.v, m, col, jointRoles(chain));
+    }
+  }
   return {
-    kind: inverseCondition < threshold ? classifyNullVector(s.v, m, col, jointRoles(chain)) : "none",
+    kind,
     inverseCondition,
     sigmaMinScaled: s.sv[col]!,
     nullVector: nullVector.map((x) => x * sign + 0),
     lengthScaleM: lengthM,
   };
+}
+
+/**
+ * Driven columns (arm, wrist) of a six-joint arm whose Jacobian at the wrist centre is block lower-triangular
+ * [[J11, 0], [J21, J22]]: a spherical wrist centre, three wrist columns, and no arm joint driven by a wrist column.
+ * Null otherwise.
+ */
+export function decoupledWristColumns(chain: Chain): { arm: number[]; wrist: number[] } | null {
+  const m = chain.drivenCount, w = chain.wrist;
+  if (m !== 6 || !w || w.basis !== "spherical" || w.axes.length !== 3) return null;
+  const wrist: number[] = [];
+  for (const k of w.axes) {
+    const c = chain.drivenJoint.indexOf(k);
+    if (c < 0) return null;
+    wrist.push(c);
+  }
+  const arm = [0, 1, 2, 3, 4, 5].filter((c) => !wrist.includes(c));
+  for (let i = 0; i < chain.jointCount; i++) {
+    if (w.axes.includes(i)) continue;
+    for (const c of wrist) if (chain.couplingGain[i * m + c] !== 0) return null;
+  }
+  return { arm, wrist };
+}
+
+
+/**
+ * Kind of a near-singular pose of a decoupled six-joint arm (spherical wrist), from the blocks of J taken at the
+ * wrist centre (det J = det J11 · det J22, CHECKS C4): the block closer to singular names it: J22 → wrist; J11 →
+ * shoulder when its null vector is mostly joint 1 (wrist centre on axis 1), elbow otherwise.
+ * @param jAtWcp 6 × 6 Jacobian with the wrist centre as reference point
+ */
+export function classifyDecoupled(jAtWcp: ArrayLike<number>, lengthM: number, cols: { arm: number[]; wrist: number[] }): "wrist" | "shoulder" | "elbow" {
+  const b11 = new Float64Array(9), b22 = new Float64Array(9);
+  for (let r = 0; r < 3; r++) {
+    for (let c = 0; c < 3; c++) {
+      b11[r * 3 + c] = jAtWcp[r * 6 + cols.arm[c]!]! / lengthM;
+      b22[r * 3 + c] = jAtWcp[(r + 3) * 6 + cols.wrist[c]!]!;
+    }
+  }
+  const sv = new Float64Array(3), v = new Float64Array(9), svd = createSvdScratch(3, 3);
+  svdInto(sv, v, b22, 3, 3, svd);
+  const wristMeasure = sv[2]! / (sv[0]! || 1);
+  svdInto(sv, v, b11, 3, 3, svd);
+  const armMeasure = sv[2]! / (sv[0]! || 1);
+  if (wristMeasure <= armMeasure) return "wrist";
+  return v[2]! * v[2]! > 0.5 ? "shoulder" : "elbow";
+}
+
+/**
+ * The wrist centre minus the Jacobian's reference point, from the wrist columns of a 6 × 6 Jacobian alone: each
+ * wrist column's linear part is zₖ × (p − w) = −zₖ × d, three linear equations per column, solved by least squares
+ * (two non-parallel wrist axes suffice, so it holds at the wrist singularity too). Null when the axes are parallel.
+ */
+export function wristOffsetFromJacobian(j: ArrayLike<number>, wrist: readonly number[]): number[] | null {
+  // −[z]× d = v  ⇔  [z]× d = −v; accumulate AᵀA and Aᵀb.
+  const ata = new Float64Array(9), atb = new Float64Array(3);
+  for (const c of wrist) {
+    const zx = j[18 + c]!, zy = j[24 + c]!, zz = j[30 + c]!;
+    const a = [0, -zz, zy, zz, 0, -zx, -zy, zx, 0];
+    const b = [-j[c]!, -j[6 + c]!, -j[12 + c]!];
+    for (let r = 0; r < 3; r++) {
+      for (let k = 0; k < 3; k++) {
+        atb[k] = atb[k]! + a[r * 3 + k]! * b[r]!;
+        for (let l = 0; l < 3; l++) ata[k * 3 + l] = ata[k * 3 + l]! + a[r * 3 + k]! * a[r * 3 + l]!;
+      }
+    }
+  }
+  const det = ata[0]! * (ata[4]! * ata[8]! - ata[5]! * ata[7]!) - ata[1]! * (ata[3]! * ata[8]! - ata[5]! * ata[6]!) + ata[2]! * (ata[3]! * ata[7]! - ata[4]! * ata[6]!);
+  if (!(Math.abs(det) > 1e-12)) return null;
+  const out = [0, 0, 0];
+  for (let c = 0; c < 3; c++) {
+    const m = Float64Array.from(ata);
+    for (let r = 0; r < 3; r++) m[r * 3 + c] = atb[r]!;
+    out[c] = (m[0]! * (m[4]! * m[8]! - m[5]! * m[7]!) - m[1]! * (m[3]! * m[8]! - m[5]! * m[6]!) + m[2]! * (m[3]! * m[7]! - m[4]! * m[6]!)) / det;
+  }
+  return out;
 }

@@ -1,16 +1,17 @@
 /**
- * Adds the image of one sampled slice (an na × nb grid of points, each grid cell split into two triangles along
+ * Adds the image of one sampled slice (an na × nb grid of points; each grid cell split into two triangles along
  * the diagonal (ia, ib)–(ia+1, ib+1)) to a RowCover, by scanline filling with winding numbers.
  *
  * The number of triangles covering a point equals the winding number of the sum of all triangle outlines, each
  * oriented counter-clockwise in the image. Inside the grid an edge is shared by two triangles that traverse it in
- * opposite parameter directions; their contributions cancel when both triangles keep (or both reverse) the
- * orientation of the parameter grid, and add up to a double edge where the map folds. So only the image of the
- * grid boundary and of the fold edges is scanned: the cost grows with the outline, not with the area.
+ * opposite parameter directions; their contributions cancel when both keep (or both reverse) the orientation of the
+ * parameter grid, and add up to a double edge where the map folds. So only the image of the grid boundary and of
+ * the fold edges is scanned: the cost grows with the outline, not with the area.
  *
- * "Signed radius" mode maps (x, y, h) to (r, h) with r = ±√(x² + y²), the sign of x: a triangle whose x changes
- * sign is clipped at x = 0 and each piece is mapped on its own side, so the jump of r across x = 0 (a lateral
- * offset) is not filled in.
+ * "Signed radius" mode maps (x, y, h) to (r, h) with r = ±√(x² + y²), the sign of x. A triangle whose x changes sign
+ * is clipped at x = 0 into a front and a back piece, each mapped on its own side, so the jump of r across x = 0 (a
+ * lateral offset) is not filled in. Pieces cancel along shared sub-edges like whole triangles do; only the cut
+ * edges (r = ±|y| at x = 0) remain.
  *
  * A slice whose image has almost no area (thinner than a quarter row) is drawn conservatively instead: every grid
  * edge marks the rows whose band it crosses, widened by half a node spacing so thin sets stay visible.
@@ -25,21 +26,32 @@ export class SliceScratch {
   sortedXs = new Float64Array(1 << 14);
   sortedDs = new Int8Array(1 << 14);
   rowCount = new Int32Array(1024);
-  signs = new Int8Array(1024);
+  /** per triangle: 1 when clipped; piece signs front / back (±1) */
+  clipped = new Uint8Array(1024);
+  signF = new Int8Array(1024);
+  signB = new Int8Array(1024);
+  /** per point: mapped horizontal coordinate and side (1 = x ≥ 0) */
   u = new Float64Array(1024);
-  /** piece polygons for clipping (up to 4 vertices × (x, y, h)) */
-  readonly pieceF = new Float64Array(12);
-  readonly pieceB = new Float64Array(12);
-  readonly pieceUV = new Float64Array(8);
+  side = new Uint8Array(1024);
+  /** cut point of the current edge: (y, h) */
+  private readonly cut = new Float64Array(2);
 
   ensurePoints(n: number): void {
-    if (this.u.length < n) this.u = new Float64Array(2 * n);
-    if (this.signs.length < 2 * n) this.signs = new Int8Array(4 * n);
+    if (this.u.length < n) {
+      this.u = new Float64Array(2 * n);
+      this.side = new Uint8Array(2 * n);
+    }
+    if (this.clipped.length < 2 * n) {
+      this.clipped = new Uint8Array(4 * n);
+      this.signF = new Int8Array(4 * n);
+      this.signB = new Int8Array(4 * n);
+    }
   }
 
-  push(row: number, x: number, d: number): void {
-    if (this.count === this.xs.length) {
-      const n = this.count * 2;
+  /** Makes room for `extra` more crossings. */
+  reserve(extra: number): void {
+    if (this.count + extra > this.xs.length) {
+      const n = Math.max(2 * this.xs.length, this.count + extra);
       const rows = new Int32Array(n), xs = new Float64Array(n), ds = new Int8Array(n);
       rows.set(this.rows);
       xs.set(this.xs);
@@ -50,10 +62,15 @@ export class SliceScratch {
       this.sortedXs = new Float64Array(n);
       this.sortedDs = new Int8Array(n);
     }
-    this.rows[this.count] = row;
-    this.xs[this.count] = x;
-    this.ds[this.count] = d;
-    this.count++;
+  }
+
+  /** Cut point of segment p–q at x = 0, computed from the lower index first so both triangles agree. */
+  cutInto(x: Float64Array, y: Float64Array, h: Float64Array, p: number, q: number): Float64Array {
+    const a = p < q ? p : q, b = p < q ? q : p;
+    const t = x[a]! / (x[a]! - x[b]!);
+    this.cut[0] = y[a]! + t * (y[b]! - y[a]!);
+    this.cut[1] = h[a]! + t * (h[b]! - h[a]!);
+    return this.cut;
   }
 }
 
@@ -63,7 +80,13 @@ export interface SliceMode {
   readonly signedRadius: boolean;
   /** Node spacing along x of the later isoline pass (mm); conservative marks are widened by half of it. */
   readonly nodeSpacingMm: number;
+  /** The first / last grid row (column) coincide: the seam is an inner edge, not a boundary. */
+  readonly periodicA: boolean;
+  readonly periodicB: boolean;
 }
+
+/** Lateral offsets below this (mm) do not need clipping: r is continuous through x = 0. */
+const CLIP_EPS_MM = 1e-9;
 
 /**
  * Adds the image of the slice to `cover`.
@@ -72,12 +95,21 @@ export interface SliceMode {
 export function addSlice(cover: RowCover, c0: Float64Array, c1: Float64Array, c2: Float64Array, na: number, nb: number, mode: SliceMode, s: SliceScratch): void {
   const np = na * nb;
   s.ensurePoints(np);
-  const u = s.u;
-  const v = mode.signedRadius ? c2 : c1;
+  const u = s.u, side = s.side, signed = mode.signedRadius;
+  const v = signed ? c2 : c1;
   let umin = Infinity, umax = -Infinity, vmin = Infinity, vmax = -Infinity;
   for (let p = 0; p < np; p++) {
     const x = c0[p]!;
-    const val = mode.signedRadius ? (x >= 0 ? 1 : -1) * Math.hypot(x, c1[p]!) : x;
+    let val: number;
+    if (signed) {
+      const y = c1[p]!;
+      const rho = Math.sqrt(x * x + y * y);
+      side[p] = x >= 0 ? 1 : 0;
+      val = x >= 0 ? rho : -rho;
+    } else {
+      side[p] = 1;
+      val = x;
+    }
     u[p] = val;
     if (val < umin) umin = val;
     if (val > umax) umax = val;
@@ -86,93 +118,224 @@ export function addSlice(cover: RowCover, c0: Float64Array, c1: Float64Array, c2
     if (w > vmax) vmax = w;
   }
   const dy = cover.dy;
-  // Triangle signs and the total |area|.
   const cellsA = na - 1, cellsB = nb - 1;
-  const signs = s.signs;
-  let areaSum = 0;
-  let clipped = 0;
+  const clipped = s.clipped, sF = s.signF, sB = s.signB;
+  let areaSum = 0, clips = 0;
   for (let ia = 0; ia < cellsA; ia++) {
     for (let ib = 0; ib < cellsB; ib++) {
       const p00 = ia * nb + ib, p10 = p00 + nb, p01 = p00 + 1, p11 = p10 + 1;
       const t = 2 * (ia * cellsB + ib);
-      if (mode.signedRadius && needsClip(c0, c1, p00, p10, p11)) {
-        signs[t] = 0;
-        clipped++;
-      } else {
-        const a1 = area2(u, v, p00, p10, p11);
-        signs[t] = a1 >= 0 ? 1 : -1;
-        areaSum += Math.abs(a1);
-      }
-      if (mode.signedRadius && needsClip(c0, c1, p00, p11, p01)) {
-        signs[t + 1] = 0;
-        clipped++;
-      } else {
-        const a2 = area2(u, v, p00, p11, p01);
-        signs[t + 1] = a2 >= 0 ? 1 : -1;
-        areaSum += Math.abs(a2);
-      }
+      areaSum += triangleSigns(s, t, c0, c1, c2, u, v, p00, p10, p11, signed);
+      areaSum += triangleSigns(s, t + 1, c0, c1, c2, u, v, p00, p11, p01, signed);
+      clips += clipped[t]! + clipped[t + 1]!;
     }
   }
   areaSum /= 2;
   const extent = Math.max(umax - umin, vmax - vmin, 1e-12);
-  const degenerate = cellsA === 0 || cellsB === 0 || (areaSum < 0.25 * dy * extent && clipped === 0);
-  if (degenerate) {
-    addConservative(cover, u, v, na, nb, 0.5 * mode.nodeSpacingMm, umin, umax, vmin, vmax, !mode.signedRadius);
+  if (cellsA === 0 || cellsB === 0 || (areaSum < 0.25 * dy * extent && clips === 0)) {
+    addConservative(cover, u, v, na, nb, 0.5 * mode.nodeSpacingMm, umin, umax, vmin, vmax, !signed);
     return;
   }
   s.count = 0;
-  const sign = (ia: number, ib: number, which: number): number =>
-    ia < 0 || ib < 0 || ia >= cellsA || ib >= cellsB ? 0 : signs[2 * (ia * cellsB + ib) + which]!;
-  // a-edges (ia,ib)→(ia+1,ib): T1 of cell (ia,ib) runs forward, T2 of cell (ia,ib−1) backward
+  const nTri = 2 * cellsA * cellsB;
+  // triangle index or −1 outside the grid
+  const tri = (ia: number, ib: number, which: number): number => (ia < 0 || ib < 0 || ia >= cellsA || ib >= cellsB ? -1 : 2 * (ia * cellsB + ib) + which);
+  // a-edges (ia,ib)→(ia+1,ib): T1 of cell (ia,ib) runs forward, T2 of cell (ia,ib−1) backward. With a periodic b
+  // the rows ib = 0 and ib = nb − 1 are one seam: drawn once, between the last and the first cells.
+  const pb = mode.periodicB && nb > 2, pa = mode.periodicA && na > 2;
   for (let ia = 0; ia < cellsA; ia++) {
     for (let ib = 0; ib < nb; ib++) {
-      const m = sign(ia, ib, 0) - sign(ia, ib - 1, 1);
-      if (m !== 0) edge(s, cover, u, v, ia * nb + ib, (ia + 1) * nb + ib, m);
+      if (pb && ib === nb - 1) continue;
+      const back = pb && ib === 0 ? tri(ia, cellsB - 1, 1) : tri(ia, ib - 1, 1);
+      gridEdge(s, cover, c0, c1, c2, u, v, ia * nb + ib, (ia + 1) * nb + ib, tri(ia, ib, 0), back, signed);
     }
   }
   // b-edges (ia,ib)→(ia,ib+1): T1 of cell (ia−1,ib) runs forward, T2 of cell (ia,ib) backward
   for (let ia = 0; ia < na; ia++) {
+    if (pa && ia === na - 1) continue;
     for (let ib = 0; ib < cellsB; ib++) {
-      const m = sign(ia - 1, ib, 0) - sign(ia, ib, 1);
-      if (m !== 0) edge(s, cover, u, v, ia * nb + ib, ia * nb + ib + 1, m);
+      const fwd = pa && ia === 0 ? tri(cellsA - 1, ib, 0) : tri(ia - 1, ib, 0);
+      gridEdge(s, cover, c0, c1, c2, u, v, ia * nb + ib, ia * nb + ib + 1, fwd, tri(ia, ib, 1), signed);
     }
   }
   // diagonals (ia,ib)→(ia+1,ib+1): T2 runs forward, T1 backward
   for (let ia = 0; ia < cellsA; ia++) {
-    for (let ib = 0; ib < cellsB; ib++) {
-      const m = sign(ia, ib, 1) - sign(ia, ib, 0);
-      if (m !== 0) edge(s, cover, u, v, ia * nb + ib, (ia + 1) * nb + ib + 1, m);
-    }
+    for (let ib = 0; ib < cellsB; ib++) gridEdge(s, cover, c0, c1, c2, u, v, ia * nb + ib, (ia + 1) * nb + ib + 1, tri(ia, ib, 1), tri(ia, ib, 0), signed);
   }
-  if (clipped > 0) {
-    for (let ia = 0; ia < cellsA; ia++) {
-      for (let ib = 0; ib < cellsB; ib++) {
-        const t = 2 * (ia * cellsB + ib);
-        const p00 = ia * nb + ib, p10 = p00 + nb, p01 = p00 + 1, p11 = p10 + 1;
-        if (signs[t] === 0) clipTriangle(s, cover, c0, c1, c2, p00, p10, p11);
-        if (signs[t + 1] === 0) clipTriangle(s, cover, c0, c1, c2, p00, p11, p01);
-      }
+  if (clips > 0) {
+    for (let t = 0; t < nTri; t++) {
+      if (!clipped[t]) continue;
+      const cell = t >> 1, ia = Math.floor(cell / cellsB), ib = cell - ia * cellsB;
+      const p00 = ia * nb + ib, p10 = p00 + nb, p01 = p00 + 1, p11 = p10 + 1;
+      if ((t & 1) === 0) cutEdges(s, cover, c0, c1, c2, p00, p10, p11, sF[t]!, sB[t]!);
+      else cutEdges(s, cover, c0, c1, c2, p00, p11, p01, sF[t]!, sB[t]!);
     }
   }
   flush(s, cover);
 }
 
-function area2(u: Float64Array, v: Float64Array, p: number, q: number, r: number): number {
-  return (u[q]! - u[p]!) * (v[r]! - v[p]!) - (u[r]! - u[p]!) * (v[q]! - v[p]!);
+/**
+ * Adds triangles given by their three points each (x, y, h or x, y, –), flat: 9 numbers per triangle, each triangle
+ * filled on its own (clipped at x = 0 in signed-radius mode).
+ */
+export function addTriangles(cover: RowCover, tris: Float64Array, count: number, signed: boolean, s: SliceScratch): void {
+  s.count = 0;
+  const x = TRI_X, y = TRI_Y, h = TRI_H, uu = TRI_U, vv = TRI_V;
+  for (let t = 0; t < count; t++) {
+    for (let k = 0; k < 3; k++) {
+      x[k] = tris[9 * t + 3 * k]!;
+      y[k] = tris[9 * t + 3 * k + 1]!;
+      h[k] = tris[9 * t + 3 * k + 2]!;
+      if (signed) {
+        const rho = Math.sqrt(x[k]! * x[k]! + y[k]! * y[k]!);
+        uu[k] = x[k]! >= 0 ? rho : -rho;
+        vv[k] = h[k]!;
+      } else {
+        uu[k] = x[k]!;
+        vv[k] = y[k]!;
+      }
+    }
+    const mixed = signed && !((x[0]! >= 0) === (x[1]! >= 0) && (x[1]! >= 0) === (x[2]! >= 0));
+    if (mixed && Math.max(Math.abs(y[0]!), Math.abs(y[1]!), Math.abs(y[2]!)) > CLIP_EPS_MM) {
+      clipOutline(s, cover, x, y, h);
+    } else {
+      const a2 = (uu[1]! - uu[0]!) * (vv[2]! - vv[0]!) - (uu[2]! - uu[0]!) * (vv[1]! - vv[0]!);
+      if (a2 === 0) continue;
+      const m = a2 > 0 ? 1 : -1;
+      segment(s, cover, uu[0]!, vv[0]!, uu[1]!, vv[1]!, m);
+      segment(s, cover, uu[1]!, vv[1]!, uu[2]!, vv[2]!, m);
+      segment(s, cover, uu[2]!, vv[2]!, uu[0]!, vv[0]!, m);
+    }
+  }
+  flush(s, cover);
 }
 
-/** A triangle needs clipping when its x changes sign and it lies off the x = 0 plane's axis (|y| not ≈ 0). */
-function needsClip(x: Float64Array, y: Float64Array, p: number, q: number, r: number): boolean {
-  const sp = x[p]! >= 0, sq = x[q]! >= 0, sr = x[r]! >= 0;
-  if (sp === sq && sq === sr) return false;
-  return Math.max(Math.abs(y[p]!), Math.abs(y[q]!), Math.abs(y[r]!)) > 1e-9;
+const TRI_X = new Float64Array(3), TRI_Y = new Float64Array(3), TRI_H = new Float64Array(3);
+const TRI_U = new Float64Array(3), TRI_V = new Float64Array(3);
+const PIECE = new Float64Array(16);
+
+/** Sets clipped / piece signs of triangle t (points p, q, r) and returns its |area| (0 when clipped). */
+function triangleSigns(s: SliceScratch, t: number, x: Float64Array, y: Float64Array, h: Float64Array, u: Float64Array, v: Float64Array, p: number, q: number, r: number, signed: boolean): number {
+  const side = s.side;
+  if (signed && !(side[p] === side[q] && side[q] === side[r]) && Math.max(Math.abs(y[p]!), Math.abs(y[q]!), Math.abs(y[r]!)) > CLIP_EPS_MM) {
+    s.clipped[t] = 1;
+    s.signF[t] = pieceArea2(s, x, y, h, p, q, r, 1) >= 0 ? 1 : -1;
+    s.signB[t] = pieceArea2(s, x, y, h, p, q, r, 0) >= 0 ? 1 : -1;
+    return 0;
+  }
+  const a2 = (u[q]! - u[p]!) * (v[r]! - v[p]!) - (u[r]! - u[p]!) * (v[q]! - v[p]!);
+  const sg = a2 >= 0 ? 1 : -1;
+  s.clipped[t] = 0;
+  s.signF[t] = sg;
+  s.signB[t] = sg;
+  return Math.abs(a2);
 }
 
-/** Records the crossings of edge p→q (multiplicity m, negative = reversed) with the row lines. */
-function edge(s: SliceScratch, cover: RowCover, u: Float64Array, v: Float64Array, p: number, q: number, m: number): void {
-  segment(s, cover, u[p]!, v[p]!, u[q]!, v[q]!, m);
+/** Twice the signed area of the piece of triangle (p, q, r) on side `front` (1: x ≥ 0, mapped r = +ρ). */
+function pieceArea2(s: SliceScratch, x: Float64Array, y: Float64Array, h: Float64Array, p: number, q: number, r: number, front: number): number {
+  let n = 0;
+  for (let k = 0; k < 3; k++) {
+    const i = k === 0 ? p : k === 1 ? q : r;
+    const j = k === 0 ? q : k === 1 ? r : p;
+    const si = s.side[i]!, sj = s.side[j]!;
+    if (si === front) {
+      const rho = Math.sqrt(x[i]! * x[i]! + y[i]! * y[i]!);
+      PIECE[2 * n] = front ? rho : -rho;
+      PIECE[2 * n + 1] = h[i]!;
+      n++;
+    }
+    if (si !== sj) {
+      const c = s.cutInto(x, y, h, i, j);
+      PIECE[2 * n] = front ? Math.abs(c[0]!) : -Math.abs(c[0]!);
+      PIECE[2 * n + 1] = c[1]!;
+      n++;
+    }
+  }
+  let a2 = 0;
+  for (let k = 0, l = n - 1; k < n; l = k++) a2 += PIECE[2 * l]! * PIECE[2 * k + 1]! - PIECE[2 * k]! * PIECE[2 * l + 1]!;
+  return a2;
 }
 
+/** Emits the contributions of grid edge p→q; tf runs it forward, tb backward (−1: absent). */
+function gridEdge(s: SliceScratch, cover: RowCover, x: Float64Array, y: Float64Array, h: Float64Array, u: Float64Array, v: Float64Array, p: number, q: number, tf: number, tb: number, signed: boolean): void {
+  const side = s.side;
+  if (!signed || side[p] === side[q]) {
+    const front = side[p] === 1;
+    const mf = tf < 0 ? 0 : front ? s.signF[tf]! : s.signB[tf]!;
+    const mb = tb < 0 ? 0 : front ? s.signF[tb]! : s.signB[tb]!;
+    const m = mf - mb;
+    if (m !== 0) segment(s, cover, u[p]!, v[p]!, u[q]!, v[q]!, m);
+    return;
+  }
+  // x changes sign along the edge: clipped triangles contribute the two sub-edges, unclipped ones the whole edge
+  const cf = tf >= 0 && s.clipped[tf] === 1, cb = tb >= 0 && s.clipped[tb] === 1;
+  const whole = (tf >= 0 && !cf ? s.signF[tf]! : 0) - (tb >= 0 && !cb ? s.signF[tb]! : 0);
+  if (whole !== 0) segment(s, cover, u[p]!, v[p]!, u[q]!, v[q]!, whole);
+  if (!cf && !cb) return;
+  const pf = side[p] === 1;
+  const mp = (cf ? (pf ? s.signF[tf]! : s.signB[tf]!) : 0) - (cb ? (pf ? s.signF[tb]! : s.signB[tb]!) : 0);
+  const mq = (cf ? (pf ? s.signB[tf]! : s.signF[tf]!) : 0) - (cb ? (pf ? s.signB[tb]! : s.signF[tb]!) : 0);
+  const c = s.cutInto(x, y, h, p, q);
+  const ry = Math.abs(c[0]!), ch = c[1]!;
+  if (mp !== 0) segment(s, cover, u[p]!, v[p]!, pf ? ry : -ry, ch, mp);
+  if (mq !== 0) segment(s, cover, pf ? -ry : ry, ch, u[q]!, v[q]!, mq);
+}
+
+/**
+ * The cut edges of a clipped triangle (p, q, r): the front piece runs from the cut where the outline leaves the
+ * front side to the cut where it comes back, at r = +|y|; the back piece runs the other way at r = −|y|.
+ */
+function cutEdges(s: SliceScratch, cover: RowCover, x: Float64Array, y: Float64Array, h: Float64Array, p: number, q: number, r: number, signF: number, signB: number): void {
+  let exitY = 0, exitH = 0, entryY = 0, entryH = 0;
+  for (let k = 0; k < 3; k++) {
+    const i = k === 0 ? p : k === 1 ? q : r;
+    const j = k === 0 ? q : k === 1 ? r : p;
+    const si = s.side[i]!, sj = s.side[j]!;
+    if (si === sj) continue;
+    const c = s.cutInto(x, y, h, i, j);
+    if (si === 1) {
+      exitY = Math.abs(c[0]!);
+      exitH = c[1]!;
+    } else {
+      entryY = Math.abs(c[0]!);
+      entryH = c[1]!;
+    }
+  }
+  segment(s, cover, exitY, exitH, entryY, entryH, signF);
+  segment(s, cover, -entryY, entryH, -exitY, exitH, signB);
+}
+
+/** Full outline of the two pieces of a triangle given by coordinates (for addTriangles). */
+function clipOutline(s: SliceScratch, cover: RowCover, x: Float64Array, y: Float64Array, h: Float64Array): void {
+  for (const front of [1, 0]) {
+    let n = 0;
+    for (let k = 0; k < 3; k++) {
+      const l = (k + 1) % 3;
+      const sk = x[k]! >= 0 ? 1 : 0, sl = x[l]! >= 0 ? 1 : 0;
+      if (sk === front) {
+        const rho = Math.sqrt(x[k]! * x[k]! + y[k]! * y[k]!);
+        PIECE[2 * n] = front ? rho : -rho;
+        PIECE[2 * n + 1] = h[k]!;
+        n++;
+      }
+      if (sk !== sl) {
+        const t = x[k]! / (x[k]! - x[l]!);
+        const yc = Math.abs(y[k]! + t * (y[l]! - y[k]!));
+        PIECE[2 * n] = front ? yc : -yc;
+        PIECE[2 * n + 1] = h[k]! + t * (h[l]! - h[k]!);
+        n++;
+      }
+    }
+    if (n < 3) continue;
+    let a2 = 0;
+    for (let k = 0, l = n - 1; k < n; l = k++) a2 += PIECE[2 * l]! * PIECE[2 * k + 1]! - PIECE[2 * k]! * PIECE[2 * l + 1]!;
+    if (a2 === 0) continue;
+    const m = a2 > 0 ? 1 : -1;
+    for (let k = 0, l = n - 1; k < n; l = k++) segment(s, cover, PIECE[2 * l]!, PIECE[2 * l + 1]!, PIECE[2 * k]!, PIECE[2 * k + 1]!, m);
+  }
+}
+
+/** Records the crossings of segment (x0, y0)→(x1, y1) (multiplicity m, negative = reversed) with the row lines. */
 function segment(s: SliceScratch, cover: RowCover, x0: number, y0: number, x1: number, y1: number, m: number): void {
   if (m < 0) {
     const tx = x0, ty = y0;
@@ -185,21 +348,26 @@ function segment(s: SliceScratch, cover: RowCover, x0: number, y0: number, x1: n
   if (y0 === y1) return;
   // going down adds +m when sweeping left to right (counter-clockwise outline)
   const d = y1 < y0 ? m : -m;
-  const lo = Math.min(y0, y1), hi = Math.max(y0, y1);
+  const lo = y0 < y1 ? y0 : y1, hi = y0 < y1 ? y1 : y0;
   const yb = cover.y0, dy = cover.dy;
   const j0 = Math.ceil((lo - yb) / dy), j1 = Math.ceil((hi - yb) / dy) - 1;
+  if (j1 < j0) return;
+  s.reserve(j1 - j0 + 1);
   const slope = (x1 - x0) / (y1 - y0);
+  const rows = s.rows, xs = s.xs, ds = s.ds;
+  let c = s.count;
   for (let j = j0; j <= j1; j++) {
-    const y = yb + j * dy;
-    s.push(j, x0 + (y - y0) * slope, d);
+    rows[c] = j;
+    xs[c] = x0 + (yb + j * dy - y0) * slope;
+    ds[c] = d;
+    c++;
   }
+  s.count = c;
 }
 
 /** Sorts the recorded crossings by row and x, sweeps the winding number and adds the covered intervals. */
-export const STATS = { flushes: 0, crossings: 0, maxRow: 0, spans: 0 };
 function flush(s: SliceScratch, cover: RowCover): void {
   const n = s.count;
-  STATS.flushes++; STATS.crossings += n;
   if (n === 0) return;
   let jlo = Infinity, jhi = -Infinity;
   for (let k = 0; k < n; k++) {
@@ -208,7 +376,6 @@ function flush(s: SliceScratch, cover: RowCover): void {
     if (j > jhi) jhi = j;
   }
   const span = jhi - jlo + 1;
-  STATS.spans += span;
   if (s.rowCount.length < span + 1) s.rowCount = new Int32Array(2 * (span + 1));
   const counts = s.rowCount;
   counts.fill(0, 0, span + 1);
@@ -229,29 +396,37 @@ function flush(s: SliceScratch, cover: RowCover): void {
   for (let r = 0; r < span; r++) {
     const start = r === 0 ? 0 : counts[r - 1]!, end = counts[r]!;
     if (end - start < 2) continue;
-    if (end - start > STATS.maxRow) STATS.maxRow = end - start;
-    // insertion sort by x
-    for (let k = start + 1; k < end; k++) {
-      const x = xs[k]!, d = ds[k]!;
-      let i = k - 1;
-      while (i >= start && xs[i]! > x) {
-        xs[i + 1] = xs[i]!;
-        ds[i + 1] = ds[i]!;
-        i--;
-      }
-      xs[i + 1] = x;
-      ds[i + 1] = d;
-    }
+    sortRow(xs, ds, start, end);
     let w = 0, open = 0;
     const j = jlo + r;
     for (let k = start; k < end; k++) {
       const before = w;
       w += ds[k]!;
       if (before <= 0 && w > 0) open = xs[k]!;
-      else if (before > 0 && w <= 0) cover.add(j, open, xs[k]!);
+      else if (before > 0 && w <= 0 && xs[k]! > open) cover.add(j, open, xs[k]!);
     }
   }
   s.count = 0;
+}
+
+/** Sorts xs[start..end) ascending, carrying ds along: insertion sort, with shell-sort gaps for long rows. */
+function sortRow(xs: Float64Array, ds: Int8Array, start: number, end: number): void {
+  const n = end - start;
+  let gap = 1;
+  if (n > 24) while (gap < n / 3) gap = 3 * gap + 1;
+  for (; gap >= 1; gap = (gap - 1) / 3) {
+    for (let k = start + gap; k < end; k++) {
+      const x = xs[k]!, d = ds[k]!;
+      let i = k - gap;
+      while (i >= start && xs[i]! > x) {
+        xs[i + gap] = xs[i]!;
+        ds[i + gap] = ds[i]!;
+        i -= gap;
+      }
+      xs[i + gap] = x;
+      ds[i + gap] = d;
+    }
+  }
 }
 
 /** Marks every grid edge conservatively: the x-extent of the edge within each row band it crosses, widened. */
@@ -289,58 +464,4 @@ function addConservative(cover: RowCover, u: Float64Array, v: Float64Array, na: 
       if (na === 1 && nb === 1) mark(p, p);
     }
   }
-}
-
-/**
- * Clips triangle (p, q, r) at x = 0 into a front piece (x ≥ 0) and a back piece (x ≤ 0), maps each to (±√(x² + y²),
- * h) on its own side and records both outlines, counter-clockwise.
- */
-function clipTriangle(s: SliceScratch, cover: RowCover, x: Float64Array, y: Float64Array, h: Float64Array, p: number, q: number, r: number): void {
-  let nf = 0, nbk = 0;
-  const F = s.pieceF, B = s.pieceB;
-  for (let k = 0; k < 3; k++) {
-    const i = k === 0 ? p : k === 1 ? q : r;
-    const j = k === 0 ? q : k === 1 ? r : p;
-    const xi = x[i]!, xj = x[j]!;
-    if (xi >= 0) {
-      F[3 * nf] = xi;
-      F[3 * nf + 1] = y[i]!;
-      F[3 * nf + 2] = h[i]!;
-      nf++;
-    }
-    if (xi <= 0) {
-      B[3 * nbk] = xi;
-      B[3 * nbk + 1] = y[i]!;
-      B[3 * nbk + 2] = h[i]!;
-      nbk++;
-    }
-    if ((xi > 0 && xj < 0) || (xi < 0 && xj > 0)) {
-      const t = xi / (xi - xj);
-      const yc = y[i]! + t * (y[j]! - y[i]!), hc = h[i]! + t * (h[j]! - h[i]!);
-      F[3 * nf] = 0;
-      F[3 * nf + 1] = yc;
-      F[3 * nf + 2] = hc;
-      nf++;
-      B[3 * nbk] = 0;
-      B[3 * nbk + 1] = yc;
-      B[3 * nbk + 2] = hc;
-      nbk++;
-    }
-  }
-  piece(s, cover, F, nf, 1);
-  piece(s, cover, B, nbk, -1);
-}
-
-function piece(s: SliceScratch, cover: RowCover, P: Float64Array, n: number, side: number): void {
-  if (n < 3) return;
-  const uv = s.pieceUV;
-  let a2 = 0;
-  for (let k = 0; k < n; k++) {
-    uv[2 * k] = side * Math.hypot(P[3 * k]!, P[3 * k + 1]!);
-    uv[2 * k + 1] = P[3 * k + 2]!;
-  }
-  for (let k = 0, l = n - 1; k < n; l = k++) a2 += uv[2 * l]! * uv[2 * k + 1]! - uv[2 * k]! * uv[2 * l + 1]!;
-  if (a2 === 0) return;
-  const m = a2 > 0 ? 1 : -1;
-  for (let k = 0, l = n - 1; k < n; l = k++) segment(s, cover, uv[2 * l]!, uv[2 * l + 1]!, uv[2 * k]!, uv[2 * k + 1]!, m);
 }

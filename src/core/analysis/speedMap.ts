@@ -19,7 +19,7 @@ import { createSingularityScratch, scaledSingularValues } from "./singularity";
 import { createSvdScratch, svdInto } from "../math/svd";
 import { branchCode, branchFrame, branchName, type BranchFrame } from "./branches";
 import { mulberry32 } from "./random";
-import { classifyNullVector, jointRoles } from "./singularity";
+import { classifyNullVector, decoupledWristColumns, jointRoles } from "./singularity";
 import { traceSingularityLoci, type SingularityLocus } from "./loci";
 
 export type ReferenceOrientation = "down" | "outward";
@@ -337,7 +337,10 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
       for (let t = 0; t < options.discoverySeeds; t++) {
         for (let i = 0; i < m; i++) {
           const lo = Math.max(chain.lowerSi[i]!, -Math.PI), hi = Math.min(chain.upperSi[i]!, Math.PI);
-          qTry[i] = lo + (hi - lo) * rnd();
+          // Every other seed puts some joints exactly at a limit: branches that exist only in a thin band next to
+          // a limit (a wrist joint at ±180°) are found too.
+          const u = rnd();
+          qTry[i] = t % 2 === 1 && u < 0.15 ? lo : t % 2 === 1 && u > 0.85 ? hi : lo + (hi - lo) * rnd();
         }
         if (!solveIkInto(qTry, chain, target, qTry, ik, DISCOVERY_IK)) continue;
         const slot = store(cell);
@@ -455,28 +458,6 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     joints,
     reachableCells: reachable,
   };
-}
-
-/**
- * Driven columns (arm, wrist) of a six-joint arm whose Jacobian at the wrist centre is block lower-triangular
- * [[J11, 0], [J21, J22]]: a spherical wrist centre, three wrist columns, and no arm joint driven by a wrist column.
- * Null otherwise.
- */
-function decoupledWristColumns(chain: Chain): { arm: number[]; wrist: number[] } | null {
-  const m = chain.drivenCount, w = chain.wrist;
-  if (m !== 6 || !w || w.basis !== "spherical" || w.axes.length !== 3) return null;
-  const wrist: number[] = [];
-  for (const k of w.axes) {
-    const c = chain.drivenJoint.indexOf(k);
-    if (c < 0) return null;
-    wrist.push(c);
-  }
-  const arm = [0, 1, 2, 3, 4, 5].filter((c) => !wrist.includes(c));
-  for (let i = 0; i < chain.jointCount; i++) {
-    if (w.axes.includes(i)) continue;
-    for (const c of wrist) if (chain.couplingGain[i * m + c] !== 0) return null;
-  }
-  return { arm, wrist };
 }
 
 /**

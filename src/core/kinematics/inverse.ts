@@ -20,6 +20,8 @@ export interface IkScratch {
   readonly x: Float64Array;
   readonly q: Float64Array;
   readonly y: Float64Array;
+  /** Last damped step, m. */
+  readonly dq: Float64Array;
 }
 
 export function createIkScratch(chain: Chain): IkScratch {
@@ -33,6 +35,7 @@ export function createIkScratch(chain: Chain): IkScratch {
     x: new Float64Array(m),
     q: new Float64Array(m),
     y: new Float64Array(6),
+    dq: new Float64Array(m),
   };
 }
 
@@ -182,42 +185,74 @@ export function solveIkInto(
     for (let i = 0; i < 3 * m; i++) task[i] = j[i]!;
     for (let i = 3 * m; i < 6 * m; i++) task[i] = j[i]! * lengthM;
     const lambda2 = ep2 + er2 * lengthM * lengthM + 1e-12;
-    if (m > 6) {
-      // Redundant: Δq = Tᵀ (T Tᵀ + λ²I)⁻¹ e_scaled, the damped minimum-norm step (6 × 6 system).
-      const y = s.y;
-      for (let r = 0; r < 6; r++) {
-        for (let c = r; c < 6; c++) {
-          let v = 0;
-          for (let k = 0; k < m; k++) v += task[r * m + k]! * task[c * m + k]!;
-          a[r * 6 + c] = v + (r === c ? lambda2 : 0);
-          a[c * 6 + r] = v + (r === c ? lambda2 : 0);
-        }
-        y[r] = r < 3 ? e[r]! : e[r]! * lengthM;
+    // Active set: a joint at a limit whose step would push it further out is held, and the step is recomputed
+    // without it; otherwise clamping would stall the solver against the limit.
+    let stepOk = true;
+    for (let pass = 0; pass <= m; pass++) {
+      if (!dampedStepInto(s, chain, e, lambda2, lengthM)) {
+        stepOk = false;
+        break;
       }
-      if (!solve1(a, y, 6)) break;
+      const dq = s.dq;
+      let changed = false;
       for (let i = 0; i < m; i++) {
-        let v = 0;
-        for (let k = 0; k < 6; k++) v += task[k * m + i]! * y[k]!;
-        q[i] = Math.min(chain.upperSi[i]!, Math.max(chain.lowerSi[i]!, q[i]! + v));
+        const outward = (q[i]! <= chain.lowerSi[i]! && dq[i]! < 0) || (q[i]! >= chain.upperSi[i]! && dq[i]! > 0);
+        if (!outward) continue;
+        let active = false;
+        for (let r = 0; r < 6; r++) if (task[r * m + i] !== 0) active = true;
+        if (!active) continue;
+        for (let r = 0; r < 6; r++) task[r * m + i] = 0;
+        changed = true;
       }
-      continue;
-    }
-    // (TᵀT + λ²I) Δq = Tᵀ e_scaled
-    for (let r = 0; r < m; r++) {
-      for (let c = r; c < m; c++) {
-        let v = 0;
-        for (let k = 0; k < 6; k++) v += task[k * m + r]! * task[k * m + c]!;
-        a[r * m + c] = v + (r === c ? lambda2 : 0);
-        a[c * m + r] = v + (r === c ? lambda2 : 0);
+      if (!changed || pass === m) {
+        for (let i = 0; i < m; i++) q[i] = Math.min(chain.upperSi[i]!, Math.max(chain.lowerSi[i]!, q[i]! + dq[i]!));
+        break;
       }
-      let rhs = 0;
-      for (let k = 0; k < 3; k++) rhs += task[k * m + r]! * e[k]!;
-      for (let k = 3; k < 6; k++) rhs += task[k * m + r]! * e[k]! * lengthM;
-      x[r] = rhs;
     }
-    if (!solve1(a, x, m)) break;
-    for (let i = 0; i < m; i++) q[i] = Math.min(chain.upperSi[i]!, Math.max(chain.lowerSi[i]!, q[i]! + x[i]!));
+    if (!stepOk) break;
   }
   for (let i = 0; i < m; i++) qOut[i] = q[i]!;
   return converged;
+}
+
+/**
+ * One damped least-squares step from the task Jacobian in s.task (orientation rows already scaled by lengthM) and
+ * the error e: Δq = Tᵀ(TTᵀ + λ²I)⁻¹e for redundant arms, (TᵀT + λ²I)⁻¹Tᵀe otherwise. Writes s.dq.
+ */
+function dampedStepInto(s: IkScratch, chain: Chain, e: Float64Array, lambda2: number, lengthM: number): boolean {
+  const m = chain.drivenCount, a = s.a, x = s.x, task = s.task, dq = s.dq;
+  if (m > 6) {
+    const y = s.y;
+    for (let r = 0; r < 6; r++) {
+      for (let c = r; c < 6; c++) {
+        let v = 0;
+        for (let k = 0; k < m; k++) v += task[r * m + k]! * task[c * m + k]!;
+        a[r * 6 + c] = v + (r === c ? lambda2 : 0);
+        a[c * 6 + r] = v + (r === c ? lambda2 : 0);
+      }
+      y[r] = r < 3 ? e[r]! : e[r]! * lengthM;
+    }
+    if (!solve1(a, y, 6)) return false;
+    for (let i = 0; i < m; i++) {
+      let v = 0;
+      for (let k = 0; k < 6; k++) v += task[k * m + i]! * y[k]!;
+      dq[i] = v;
+    }
+    return true;
+  }
+  for (let r = 0; r < m; r++) {
+    for (let c = r; c < m; c++) {
+      let v = 0;
+      for (let k = 0; k < 6; k++) v += task[k * m + r]! * task[k * m + c]!;
+      a[r * m + c] = v + (r === c ? lambda2 : 0);
+      a[c * m + r] = v + (r === c ? lambda2 : 0);
+    }
+    let rhs = 0;
+    for (let k = 0; k < 3; k++) rhs += task[k * m + r]! * e[k]!;
+    for (let k = 3; k < 6; k++) rhs += task[k * m + r]! * e[k]! * lengthM;
+    x[r] = rhs;
+  }
+  if (!solve1(a, x, m)) return false;
+  for (let i = 0; i < m; i++) dq[i] = x[i]!;
+  return true;
 }

@@ -271,6 +271,40 @@ describe("payloadAtReach", () => {
     }
   });
 
+  it("payloadAtReach(generic 6R, tool down) is set by axis 2 reaching over the back: m = τ2 / (g (r + a1))", () => {
+    // CHECKS §0 generic 6R (a1 = 0.2 m, no sideways offsets), all ranges ±180°. With the tool pointing down the CG
+    // lies on the vertical through the wrist centre, in the arm's plane; axis 2 is horizontal at radius a1 from
+    // axis 1, so its lever is |x − a1| (CHECKS C14, horizontal axis 2): r − a1 in front, r + a1 over the back, which
+    // every row up to 1.8 m can reach. Only J2 is rated low (500 N·m); the axes through the wrist centre carry no
+    // payload torque. Rated payload 1000 kg. The CG offsets lie on the same vertical: same figure for each.
+    const base = generic6rDh();
+    const chain = compileChain({ ...base, joints: base.joints.map((j, i) => ({ ...j, ratedTorqueNm: i === 1 ? 500 : 1e6 })) });
+    const r = payloadAtReach(chain, payload(1000), { reachToleranceMm: 1e-6 });
+    expect(r.mountings[0]!.toolDirection).toBe("along-gravity");
+    const rows = r.rows.filter((x) => x.reachMm <= 1800);
+    expect(rows.length).toBeGreaterThanOrEqual(3 * 36);
+    for (const row of rows) {
+      expectRelClose(row.payloadKg, Math.min(1000, 500 / (G * (row.reachMm / 1000 + 0.2))), 1e-7, `reach ${row.reachMm} mm, offset ${row.offsetMm} mm`);
+      expect(row.limitingJoint).toBe("j2");
+    }
+  });
+
+  it("payloadAtReach(single axis too weak for its own link) gives 0 kg, limited by own weight, beyond m_L g c cos q = τ", () => {
+    // Link 10 kg at c = 0.5 m = L, rated 30 N·m: the link alone needs 10 g r N·m at reach r, more than 30 N·m beyond
+    // r = 30 / (10 g) = 0.306 m (statics, CHECKS C14).
+    const chain = singleAxis(0.5, 30);
+    const r = payloadAtReach(chain, payload(5, [{ joint: 0, massKg: 10, comInLinkM: [0.5, 0, 0] }]), { offsetsMm: [0], reachToleranceMm: 1e-6 });
+    for (const row of r.rows) {
+      if (row.reachMm <= 300) {
+        expectRelClose(row.payloadKg, Math.min(5, row.reachMm === 0 ? 5 : 30 / (G * row.reachMm / 1000) - 10), 1e-7, `reach ${row.reachMm} mm`);
+      } else {
+        expect(row.payloadKg).toBe(0);
+        expect(row.limitedBy).toBe("own-weight");
+        expect(row.limitingJoint).toBe("j1");
+      }
+    }
+  });
+
   it("payloadAtReach(2R vertical) on the ceiling gives the floor's magnitudes (mirror-symmetric posture set)", () => {
     // Ceiling flips gravity; the joint ranges are symmetric, so every floor posture has a mirror posture with the
     // same |τ| under the reversed gravity (CHECKS C14 identity, linear in g).
