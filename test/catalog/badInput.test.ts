@@ -1,10 +1,7 @@
 /**
  * The bad-input corpus: every file in test/fixtures/bad-arms/ is broken on purpose (one defect each, unless the point
- * is several at once) and expected.json lists the errors each must produce: file, JSON path and a message substring
+ * is several at once) and ../bad-arms.expected.json lists the errors each must produce: file, JSON path and a message substring
  * that names what was expected and what was found. Messages are API: a change that weakens them fails here.
- *
- * expected.json sits in the same folder, so the loader reads it too; being an array, not an arm, it is one more bad
- * file and lists its own error.
  */
 import { execFile } from "node:child_process";
 import { copyFile, mkdir, mkdtemp, readFile, readdir, rm, writeFile } from "node:fs/promises";
@@ -49,7 +46,7 @@ const byFile = new Map<string, ArmIssue[]>();
 beforeAll(async () => {
   // Git keeps the directory named folder.json only through its .gitkeep; recreate it if an export dropped it.
   await mkdir(join(corpusDir, "folder.json"), { recursive: true });
-  manifest = JSON.parse(await readFile(join(corpusDir, "expected.json"), "utf8")) as Expected[];
+  manifest = JSON.parse(await readFile(`${corpusDir}.expected.json`, "utf8")) as Expected[];
   files = (await readdir(corpusDir)).filter((f) => f.toLowerCase().endsWith(".json")).sort();
   result = await loadArms([corpusDir]);
   for (const issue of result.issues) byFile.set(issue.file, [...(byFile.get(issue.file) ?? []), issue]);
