@@ -11,7 +11,7 @@ import { mkdir, rename, writeFile } from "node:fs/promises";
 import { dirname } from "node:path";
 import { armJsonSchema, formatIssue, loadArmFile, loadArms } from "../catalog";
 import { poseCommand } from "./pose";
-import { lineCommand } from "./line";
+import { joinNegativeValues, lineCommand } from "./line";
 import { stringifyCompact } from "./json";
 
 export class UsageError extends Error {}
@@ -131,7 +131,7 @@ export async function main(argv: string[]): Promise<number> {
     }
     case "line": {
       const { values, positionals } = parseArgs({
-        args: rest,
+        args: joinNegativeValues(rest),
         allowPositionals: true,
         options: {
           from: { type: "string" }, to: { type: "string" }, orientation: { type: "string" }, speed: { type: "string" },

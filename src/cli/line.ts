@@ -22,6 +22,27 @@ export interface LineArgs {
 
 export const DEFAULT_LINE_SAMPLES = 101;
 
+const VALUE_OPTIONS = new Set(["--from", "--to", "--orientation", "--speed", "--start-joints", "--tool", "--samples"]);
+
+/**
+ * Joins an option and a following value that starts with a minus sign ("--from -300,20,600") into one argument
+ * ("--from=-300,20,600"), so node:util parseArgs takes negative coordinates instead of reporting an ambiguous
+ * option.
+ */
+export function joinNegativeValues(args: readonly string[]): string[] {
+  const out: string[] = [];
+  for (let i = 0; i < args.length; i++) {
+    const a = args[i]!, next = args[i + 1];
+    if (VALUE_OPTIONS.has(a) && next !== undefined && /^-[\d.]/.test(next)) {
+      out.push(`${a}=${next}`);
+      i++;
+    } else {
+      out.push(a);
+    }
+  }
+  return out;
+}
+
 /** Rounds every number to 9 significant digits (display only; removes float noise such as 1e-13 mm). */
 function roundDeep(value: unknown): unknown {
   if (typeof value === "number") return Number.isFinite(value) ? (Math.abs(value) < 1e-9 ? 0 : Number(value.toPrecision(9)) + 0) : null;

@@ -17,7 +17,9 @@
  *   speed.ts; the minimum-norm rates for redundant arms; least squares with an exactness check for arms with fewer
  *   than six joints). rateRatioᵢ = |q̇ᵢ| / q̇maxᵢ. The largest constant speed the line allows is
  *   commanded / max over the line and the joints of rateRatioᵢ (the ratios scale with the speed, so the figure does
- *   not depend on the commanded speed); it is 0 when a point is out of reach or exactly singular.
+ *   not depend on the commanded speed); it is 0 when a point is out of reach, when the joints must jump (no
+ *   continuous solution), or at a pose where the motion needs unbounded rates. Where J cannot be inverted but the
+ *   motion is still possible (a line crossing a singular pose exactly), the minimum-norm rates are used.
  * - Every accepted continuation point (the samples and the adaptive steps between them) counts for the bottleneck,
  *   the nearest singularity, branch changes and range violations; the bottleneck and the nearest singularity are
  *   then refined by a golden-section search between the neighbouring points, so a narrow peak between samples is
@@ -1229,8 +1231,10 @@ function feasibleSpeed(run: Run): number {
  * @returns plain data in mm, deg (mm for prismatic joints), mm/s; key names are the contract of `armdex line`
  * @throws RangeError on invalid input (non-finite or zero-length line, speed ≤ 0, a rotation that is not one,
  *   wrong joint count, samples < 2)
- * @example lineCheck(planar3r, { startM: [0.5, 0.2, 0], endM: [0.7, 0.2, 0], baseFromToolRotation: rpyToolRotation(0, 0, 0),
- *   speedMPerS: 0.1 }).feasibleConstantSpeedMmPerS // the smallest over the line of minᵢ q̇maxᵢ / |(J⁻¹u)ᵢ|, in mm/s
+ * @example planar 3R (a = 0.5, 0.4, 0.1 m; q̇max = 90, 120, 180 °/s), line (0.3, 0.5, 0) → (0.8, −0.1, 0) m at tool
+ *   angle 0.3 rad (rpyToolRotation(0, 0, 0.3)), 0.5 m/s, elbow-positive start: feasibleConstantSpeedMmPerS ≈ 697.6,
+ *   bottleneck j1 at fraction ≈ 0.41 (the test in test/core/analysis/line.test.ts checks this against the closed
+ *   form minᵢ q̇maxᵢ / |(J⁻¹u)ᵢ| minimised over the line)
  */
 export function lineCheck(chain: Chain, input: LineCheckInput, options: Partial<LineCheckOptions> = {}): LineCheckResult {
   const o: LineCheckOptions = { ...DEFAULT_LINE_CHECK, ...options };
