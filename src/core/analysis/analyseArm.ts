@@ -9,7 +9,7 @@ import { DEFAULT_SPEED_MAP, referenceOrientations, toolSpeedMap, type ReferenceO
 import { gravityDirectionInBase, type Mounting } from "./mounting";
 import { analysePayload, payloadInputOf, type PayloadSpec } from "./payload";
 import { standardCycle } from "./cycle";
-import { workspaceEnvelope, type WorkspaceEnvelope } from "./envelope";
+import { workspaceEnvelope, type PointEnvelope, type PolygonMm, type WorkspaceEnvelope } from "./envelope";
 
 export const ANALYSIS_VERSION = "2";
 
@@ -153,7 +153,15 @@ export function analyseArm(chain: Chain, facts: ArmFacts, options: AnalysisOptio
       statedMm: facts.reachMm ?? null,
       basis: wcp ? "wrist centre point" : "flange centre (the arm has no wrist centre point)",
     },
-    envelope: { layout: envelope.layout, sideAxes: envelope.sideAxes, topAxes: envelope.topAxes, axis1: envelope.axis1, wcp: wcp ?? null, flange, notes: envelope.notes },
+    envelope: {
+      layout: envelope.layout,
+      sideAxes: envelope.sideAxes,
+      topAxes: envelope.topAxes,
+      axis1: envelope.axis1,
+      wcp: wcp ? pointEnvelopeJson(wcp) : null,
+      flange: pointEnvelopeJson(flange),
+      notes: envelope.notes,
+    },
     speed: {
       maxToolSpeedMmPerS: round(maxTool, 0),
       shareAtLeast: shareAtLeast(down),
@@ -178,6 +186,14 @@ export function analyseArm(chain: Chain, facts: ArmFacts, options: AnalysisOptio
 }
 
 export type ArmAnalysis = ReturnType<typeof analyseArm>;
+
+/** A point envelope for the JSON: polygons rounded to 0.1 mm, `areaM2` = the side-view area (the contract name). */
+function pointEnvelopeJson(e: PointEnvelope) {
+  const r1 = (x: number) => Number(x.toFixed(1)) + 0;
+  const ring = (r: readonly (readonly [number, number])[]): [number, number][] => r.map((p) => [r1(p[0]), r1(p[1])]);
+  const roundRings = (polygons: readonly PolygonMm[]) => polygons.map((poly) => ({ outer: ring(poly.outer), holes: poly.holes.map(ring) }));
+  return { ...e, side: roundRings(e.side), top: roundRings(e.top), areaM2: round(e.sideAreaM2, 4) };
+}
 
 function cycleAt(chain: Chain, down: ToolSpeedMap, facts: ArmFacts, gravity: readonly number[]) {
   const g = down.grid, m = chain.drivenCount;

@@ -205,9 +205,14 @@ function toleranceFn(o: EnvelopeOptions): (radiusMm: number) => number {
   return (r) => Math.max(o.minToleranceMm, o.toleranceOfReach * r);
 }
 
-function polygonsOf(rings: readonly Float64Array[], tolMm: number, o: EnvelopeOptions): PolygonMm[] {
+/**
+ * Simplified, assembled polygons. Holes smaller across than `pocketMm` are dropped: points reached only for
+ * secondary-joint values strictly between two samples can leave such pockets inside the union (first order in the
+ * secondary step), while the holes of a real envelope (around the shoulder, behind a joint limit) are far larger.
+ */
+function polygonsOf(rings: readonly Float64Array[], tolMm: number, o: EnvelopeOptions, pocketMm = 0): PolygonMm[] {
   const eps = o.simplifyShare * tolMm;
-  return assemblePolygons(rings.map((r) => simplifyFlatRing(r, eps)), (GAP_SHARE * tolMm) ** 2);
+  return assemblePolygons(rings.map((r) => simplifyFlatRing(r, eps)), (GAP_SHARE * tolMm) ** 2, pocketMm);
 }
 
 /**
@@ -354,11 +359,11 @@ function revoluteBase(chain: Chain, o: EnvelopeOptions): WorkspaceEnvelope {
     // slices whose lateral offset is small): closing them moves the boundary by at most half that
     side.closeGaps(GAP_SHARE * target);
     plane.closeGaps(GAP_SHARE * target);
-    const sidePolygons = polygonsOf(coverRings(side, row), target, o);
+    const sidePolygons = polygonsOf(coverRings(side, row), target, o, plan.secondaryStepMm);
     const planRings = coverRings(plane, row).map((r) => simplifyFlatRing(r, o.simplifyShare * target));
     const profile = polarProfile(planRings, row);
     const place = { tLoRad: tLo, tHiRad: tHi, phi0Rad: phi0, sense, centreMm: centre } as const;
-    const topPolygons = polygonsOf(sweptPlanRings(sweptPlanArcs(profile, place), row, centre), target, o);
+    const topPolygons = polygonsOf(sweptPlanRings(sweptPlanArcs(profile, place), row, centre), target, o, planView.secondaryStepMm);
     const volumeMm3 = revolvedVolume(side, profile, tLo, tHi);
     const tol = Math.max(statedTolerance(plan, row, o, target), statedTolerance(planView, row, o, target));
     if (tol > target * 1.0001) notes.push(`${kind}: the sample budget (workBudget ${o.workBudget}) coarsened the joint grid; boundary error up to ${tol.toFixed(1)} mm instead of ${target.toFixed(1)} mm`);
@@ -515,8 +520,8 @@ function projectedBase(chain: Chain, o: EnvelopeOptions, layout: "prismatic-base
     const maxReach = topExt.refined(0);
     side.closeGaps(GAP_SHARE * target);
     top.closeGaps(GAP_SHARE * target);
-    const sidePolygons = polygonsOf(coverRings(side, row), target, o);
-    const topPolygons = polygonsOf(coverRings(top, row), target, o);
+    const sidePolygons = polygonsOf(coverRings(side, row), target, o, sidePlan.secondaryStepMm);
+    const topPolygons = polygonsOf(coverRings(top, row), target, o, topPlan.secondaryStepMm);
     let volumeM3: number | null = null;
     let samples = sidePlan.pointCount + topPlan.pointCount;
     let tol = Math.max(statedTolerance(sidePlan, row, o, target), statedTolerance(topPlan, row, o, target));

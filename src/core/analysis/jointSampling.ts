@@ -69,6 +69,9 @@ export interface SamplingPlan {
   /** Bound on the size of a face of the product grid (one step of two joints): the two largest one-step motions,
    * lever × step, added (mm). */
   readonly stepReachMm: number;
+  /** Largest one-step motion of a secondary joint, lever × step (mm; 0 without secondaries): the size of a pocket
+   * that points reached only between two sampled slices can leave inside the union. */
+  readonly secondaryStepMm: number;
   /** Sampling error budget actually used (mm); larger than requested when the sample budget forced it. */
   readonly samplingSigmaMm: number;
   /** Grid points over all slices. */
@@ -373,11 +376,16 @@ export function planSampling(req: PlanRequest): SamplingPlan {
     const g = [a, b, ...secondaries].find((x) => x.driven === relevant[r]);
     if (g && g.values.length > 1) stepMotion.push(SAFETY * firstMax[relevantIdx[r]!]! * Math.abs(g.values[1]! - g.values[0]!));
   }
+  let secondaryStepMm = 0;
+  for (const g of secondaries) {
+    const c = relevantIdx[relevant.indexOf(g.driven)]!;
+    secondaryStepMm = Math.max(secondaryStepMm, SAFETY * firstMax[c]! * Math.abs(g.values[1]! - g.values[0]!));
+  }
   stepMotion.sort((p, q) => q - p);
   const stepReachMm = (stepMotion[0] ?? 0) + (stepMotion[1] ?? 0);
   let pointCount = a.values.length * b.values.length;
   for (const g of secondaries) pointCount *= g.values.length;
-  return { chain, point, view, qRef, a, b, secondaries, ranges, relevant, stepReachMm, samplingSigmaMm: sigma, pointCount, estimate: { radiusMm }, staged };
+  return { chain, point, view, qRef, a, b, secondaries, ranges, relevant, stepReachMm, secondaryStepMm, samplingSigmaMm: sigma, pointCount, estimate: { radiusMm }, staged };
 }
 
 const MIXED_STENCIL: readonly (readonly [number, number, number])[] = [

@@ -140,11 +140,24 @@ function flatPointInRing(x: number, y: number, ring: Float64Array): boolean {
   return inside;
 }
 
+/** Diagonal of the bounding box of a flat ring (mm). */
+function flatRingExtent(ring: Float64Array): number {
+  let x0 = Infinity, x1 = -Infinity, y0 = Infinity, y1 = -Infinity;
+  for (let k = 0; k < ring.length; k += 2) {
+    x0 = Math.min(x0, ring[k]!);
+    x1 = Math.max(x1, ring[k]!);
+    y0 = Math.min(y0, ring[k + 1]!);
+    y1 = Math.max(y1, ring[k + 1]!);
+  }
+  return Math.hypot(x1 - x0, y1 - y0);
+}
+
 /**
  * Groups rings that have the inside on their left (outer rings counter-clockwise, holes clockwise) into polygons:
- * each hole goes to the smallest outer ring that contains it. Rings with |area| below `minAreaMm2` are dropped.
+ * each hole goes to the smallest outer ring that contains it. Rings with |area| below `minAreaMm2` are dropped, and
+ * holes whose bounding box is smaller than `minHoleMm` across.
  */
-export function assemblePolygons(rings: readonly Float64Array[], minAreaMm2: number): PolygonMm[] {
+export function assemblePolygons(rings: readonly Float64Array[], minAreaMm2: number, minHoleMm = 0): PolygonMm[] {
   const outers: { ring: Float64Array; area: number; holes: Float64Array[] }[] = [];
   const holes: Float64Array[] = [];
   for (const r of rings) {
@@ -152,7 +165,7 @@ export function assemblePolygons(rings: readonly Float64Array[], minAreaMm2: num
     const a2 = flatRingArea2(r);
     if (Math.abs(a2) / 2 < minAreaMm2) continue;
     if (a2 > 0) outers.push({ ring: r, area: a2 / 2, holes: [] });
-    else holes.push(r);
+    else if (flatRingExtent(r) >= minHoleMm) holes.push(r);
   }
   outers.sort((p, q) => p.area - q.area);
   for (const h of holes) {
