@@ -79,7 +79,7 @@ export const DEFAULT_SPEED_MAP: SpeedMapOptions = {
 
 /** Largest joint change between neighbouring cells still taken as one continuous solution, rad (or m). */
 const MAX_CONTINUATION_JUMP_RAD = 0.3;
-const CONTINUATION_IK: IkOptions = { maxIterations: 12, toleranceM: 1e-6, toleranceRad: 1e-5 };
+const CONTINUATION_IK: IkOptions = { maxIterations: 12, toleranceM: 1e-6, toleranceRad: 1e-5, trustFinalStepBelowM: 2e-5 };
 const DISCOVERY_IK: IkOptions = { maxIterations: 60, toleranceM: 1e-7, toleranceRad: 1e-6 };
 
 /** The plane: origin on axis 1, radial and up unit vectors in the base frame. */

@@ -45,6 +45,12 @@ export interface IkOptions {
   readonly toleranceM: number;
   /** Orientation tolerance, rad. */
   readonly toleranceRad: number;
+  /**
+   * When the error (m, orientation scaled by the length) is already below this, take one last undamped-enough step
+   * and stop without checking it: Newton's quadratic convergence makes the next error far below the tolerance.
+   * 0 turns it off.
+   */
+  readonly trustFinalStepBelowM?: number;
 }
 
 export const DEFAULT_IK: IkOptions = { maxIterations: 40, toleranceM: 1e-7, toleranceRad: 1e-6 };
@@ -188,6 +194,7 @@ export function solveIkInto(
     // Active set: a joint at a limit whose step would push it further out is held, and the step is recomputed
     // without it; otherwise clamping would stall the solver against the limit.
     let stepOk = true;
+    let held = false;
     for (let pass = 0; pass <= m; pass++) {
       if (!dampedStepInto(s, chain, e, lambda2, lengthM)) {
         stepOk = false;
@@ -203,13 +210,23 @@ export function solveIkInto(
         if (!active) continue;
         for (let r = 0; r < 6; r++) task[r * m + i] = 0;
         changed = true;
+        held = true;
       }
       if (!changed || pass === m) {
-        for (let i = 0; i < m; i++) q[i] = Math.min(chain.upperSi[i]!, Math.max(chain.lowerSi[i]!, q[i]! + dq[i]!));
+        for (let i = 0; i < m; i++) {
+          const v = q[i]! + dq[i]!;
+          if (v < chain.lowerSi[i]! || v > chain.upperSi[i]!) held = true;
+          q[i] = Math.min(chain.upperSi[i]!, Math.max(chain.lowerSi[i]!, v));
+        }
         break;
       }
     }
     if (!stepOk) break;
+    const trust = options.trustFinalStepBelowM ?? 0;
+    if (!held && err < trust * trust) {
+      converged = true;
+      break;
+    }
   }
   for (let i = 0; i < m; i++) qOut[i] = q[i]!;
   return converged;
