@@ -147,8 +147,9 @@ export function polygonsExtent(polygons: readonly PolygonData[]): [[number, numb
 
 /**
  * Regions of a grid where value ≥ threshold, for each threshold, as polygons in data units (d3-contour, linear
- * interpolation between cell centres). Null (unreachable) cells count as below every threshold; the edge toward them
- * lies half a cell beyond the last valid centre, so a lone valid cell covers its own square.
+ * interpolation between cell centres; value i + j·nx sits at the node (rMin + i·step, zMin + j·step)). Null cells count
+ * as below every threshold, and d3-contour puts the edge toward them through the last valid centre: use
+ * `presentRegion` for the outline of the valid cells and `dilateGrid` before contouring values that are clipped to it.
  */
 export function gridBands(grid: GridData, values: readonly (number | null)[], thresholds: readonly number[]): { threshold: number; polygons: PolygonData[] }[] {
   const { nx, ny, rMinMm, zMinMm, stepMm } = grid;
@@ -164,4 +165,49 @@ export function gridBands(grid: GridData, values: readonly (number | null)[], th
       holes: rings.slice(1).map((r) => r.map(toData)),
     })),
   }));
+}
+
+/** 1 where a cell has a value, 0 where it is null. */
+export function presenceMask(values: readonly (number | null)[]): number[] {
+  return values.map((v) => (v === null || !Number.isFinite(v) ? 0 : 1));
+}
+
+/**
+ * The region of the cells that have a value: d3-contour of the 0/1 mask at 0.5, so every edge between a valid and a
+ * null cell lies on the cell border (halfway between the two nodes) and convex corners are cut diagonally.
+ * @example presentRegion({ nx: 3, ny: 3, rMinMm: 0, zMinMm: 0, stepMm: 10 }, [null, null, null, null, 1, null, null, null, null])
+ *   // one diamond with corners at (5, 10), (10, 5), (15, 10), (10, 15)
+ */
+export function presentRegion(grid: GridData, values: readonly (number | null)[]): PolygonData[] {
+  return gridBands(grid, presenceMask(values), [0.5])[0]?.polygons ?? [];
+}
+
+/**
+ * One ring of null cells around the valid ones takes the mean of its valid 8-neighbours, so contours of the values run
+ * out past the valid cells' borders; clip them to `presentRegion` afterwards. Allocates its result.
+ */
+export function dilateGrid(grid: GridData, values: readonly (number | null)[]): (number | null)[] {
+  const { nx, ny } = grid;
+  const out = values.slice();
+  for (let iy = 0; iy < ny; iy++) {
+    for (let ix = 0; ix < nx; ix++) {
+      if (values[ix + iy * nx] !== null) continue;
+      let sum = 0;
+      let n = 0;
+      for (let dy = -1; dy <= 1; dy++) {
+        for (let dx = -1; dx <= 1; dx++) {
+          const jx = ix + dx;
+          const jy = iy + dy;
+          if (jx < 0 || jy < 0 || jx >= nx || jy >= ny) continue;
+          const v = values[jx + jy * nx];
+          if (v !== null && v !== undefined && Number.isFinite(v)) {
+            sum += v;
+            n++;
+          }
+        }
+      }
+      if (n > 0) out[ix + iy * nx] = sum / n;
+    }
+  }
+  return out;
 }

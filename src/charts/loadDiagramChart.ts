@@ -64,7 +64,8 @@ export function loadDiagramChart(input: LoadDiagramChartInput): ChartResult {
   curves.forEach((c, i) => {
     const d = polylinesPath([c.pointsMm], xs, ys, 0.2);
     if (d) parts.push(el("path", { class: seriesClass(i), d, "data-mass-kg": fmt(c.massKg, 3) }));
-    const mid = c.pointsMm[Math.floor(c.pointsMm.length * 0.35)]!;
+    // Labels at staggered places along the curves, so curves that run side by side keep their labels apart.
+    const mid = c.pointsMm[Math.min(c.pointsMm.length - 1, Math.floor(c.pointsMm.length * (0.12 + 0.14 * (i % 6))))]!;
     parts.push(textEl(`${label(c.massKg, 1)} kg`, { class: "series-label", x: fmt(xs(mid[0]) + 4), y: fmt(ys(mid[1]) - 4) }));
   });
   parts.push(legendSvg(legend, 8, 40, widthPx - 16).svg);
@@ -76,9 +77,13 @@ export function loadDiagramChart(input: LoadDiagramChartInput): ChartResult {
         `Masses drawn: ${curves.map((c) => `${label(c.massKg, 2)} kg`).join(", ")}; a load is allowed when its CG lies inside the curve of its mass.` +
         (missing.length > 0 ? ` Not allowed even at zero offset: ${missing.map((c) => `${label(c.massKg, 2)} kg`).join(", ")}.` : "")
       : "No mass of the diagram is allowed by the wrist ratings, even at zero offset.";
+  const open = curves.some((c) => c.openEnded)
+    ? " Curves that run off the top of the chart continue: their limit does not depend on Lz (a roll rating alone)."
+    : "";
   const caption =
     "From the declared wrist moment (M ≥ m·g·L) and inertia (J ≥ m·L², point mass) ratings, capped at the rated payload. " +
-    "Static: excludes acceleration; the load's own inertia about its CG is not included; gripper, tooling and part all count as payload.";
+    "Static: excludes acceleration; the load's own inertia about its CG is not included; gripper, tooling and part all count as payload." +
+    open;
   return {
     id: input.id,
     title,

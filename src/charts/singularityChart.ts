@@ -3,7 +3,7 @@
  * its own colour and dash pattern with a legend, and the cells close to a singularity (low inverse condition) hatched.
  */
 import { axisBottomSvg, axisLeftSvg } from "./axes";
-import { gridBands, polygonsPath, polylinesPath, type GridData, type PointData, type PolygonData } from "./geometry";
+import { dilateGrid, gridBands, polygonsPath, polylinesPath, presentRegion, type GridData, type PointData } from "./geometry";
 import type { EnvelopeLayoutKind } from "./envelopeChart";
 import { MIN_MAP_WIDTH_PX, mappedBox, mappedRect } from "./speedMapChart";
 import { DEFAULT_MARGINS, equalScale } from "./layout";
@@ -65,9 +65,10 @@ export function singularityChart(input: SingularityChartInput): ChartResult {
   const kinds = LOCUS_KINDS.filter((k) => (byKind.get(k)?.length ?? 0) > 0);
 
   const near = input.inverseCondition
-    ? gridBands(g, input.inverseCondition.map((v) => (v === null ? null : -v)), [-NEAR_SINGULAR_INVERSE_CONDITION])[0]?.polygons ?? []
+    ? (gridBands(g, dilateGrid(g, input.inverseCondition.map((v) => (v === null ? null : -v))), [-NEAR_SINGULAR_INVERSE_CONDITION])[0]?.polygons ?? [])
     : [];
-  const reachedPolys = gridBands(g, input.reached.map((v) => (v === null ? null : 1)), [0.5])[0]?.polygons ?? [];
+  const reachedPolys = presentRegion(g, input.reached);
+  const reachId = `${input.id}-reached`;
 
   const legend: LegendItem[] = [{ kind: "fill", className: "reached-region", label: `reached with the ${input.orientationLabel}` }];
   if (near.length > 0) {
@@ -91,16 +92,17 @@ export function singularityChart(input: SingularityChartInput): ChartResult {
   const finalWidthPx = layout.widthPx;
 
   const parts: string[] = [];
+  const reachedD = polygonsPath(reachedPolys, x, y);
   parts.push(
     `<defs><pattern id="${hatchId}" width="6" height="6" patternUnits="userSpaceOnUse" patternTransform="rotate(45)">` +
-      `${el("line", { class: "hatch-line", x1: 0, y1: 0, x2: 0, y2: 6 })}</pattern></defs>`,
+      `${el("line", { class: "hatch-line", x1: 0, y1: 0, x2: 0, y2: 6 })}</pattern>` +
+      `<clipPath id="${reachId}">${el("path", { d: reachedD || "M0 0", "clip-rule": "evenodd" })}</clipPath></defs>`,
   );
   parts.push(axisBottomSvg(x, area, { label: revolute ? "distance from axis 1, r" : "base x", unit: "mm", ticks: 7, grid: true }));
   parts.push(axisLeftSvg(y, area, { label: revolute ? "height along axis 1, z" : "height, base z", unit: "mm", ticks: 7, grid: true }));
-  const reachedD = polygonsPath(reachedPolys, x, y);
   if (reachedD) parts.push(el("path", { class: "reached-region", d: reachedD, "fill-rule": "evenodd" }));
   const nearD = polygonsPath(near, x, y);
-  if (nearD) parts.push(el("path", { class: "near-singular", d: nearD, "fill-rule": "evenodd", fill: `url(#${hatchId})` }));
+  if (nearD) parts.push(el("path", { class: "near-singular", d: nearD, "fill-rule": "evenodd", fill: `url(#${hatchId})`, "clip-path": `url(#${reachId})` }));
   if (showAxis1) {
     const ax = x(0);
     parts.push(el("line", { class: "axis1", x1: fmt(ax), x2: fmt(ax), y1: fmt(area.top), y2: fmt(area.top + area.height) }));
@@ -134,9 +136,4 @@ export function singularityChart(input: SingularityChartInput): ChartResult {
     widthPx: finalWidthPx,
     heightPx: layout.heightPx,
   };
-}
-
-/** The polygons of the reached region (exported for tests and the comparison page). */
-export function reachedRegion(grid: GridData, reached: readonly (number | null)[]): PolygonData[] {
-  return gridBands(grid, reached.map((v) => (v === null ? null : 1)), [0.5])[0]?.polygons ?? [];
 }

@@ -4,7 +4,7 @@
  * envelope outlined for context, drawn to scale.
  */
 import { axisBottomSvg, axisLeftSvg } from "./axes";
-import { gridBands, polygonsPath, type GridData, type PolygonData } from "./geometry";
+import { dilateGrid, gridBands, polygonsPath, presentRegion, type GridData, type PolygonData } from "./geometry";
 import { DEFAULT_MARGINS, equalScale } from "./layout";
 import type { ScaleLinear } from "d3-scale";
 import { legendRows, legendSvg, stepScaleSvg, type LegendItem } from "./legend";
@@ -88,19 +88,25 @@ export function speedMapChart(input: SpeedMapChartInput): ChartResult {
 
   const parts: string[] = [];
   const clipId = `${input.id}-clip`;
-  parts.push(`<defs><clipPath id="${clipId}">${mappedRect(box, x, y, "")}</clipPath></defs>`);
+  const reachId = `${input.id}-reached`;
+  const reachedD = polygonsPath(presentRegion(g, input.guaranteedMmPerS), x, y);
+  parts.push(
+    `<defs><clipPath id="${clipId}">${mappedRect(box, x, y, "")}</clipPath>` +
+      `<clipPath id="${reachId}">${el("path", { d: reachedD || "M0 0", "clip-rule": "evenodd" })}</clipPath></defs>`,
+  );
   parts.push(axisBottomSvg(x, area, { label: revolute ? "distance from axis 1, r" : "base x", unit: "mm", ticks: 7, grid: true }));
   parts.push(axisLeftSvg(y, area, { label: revolute ? "height along axis 1, z" : "height, base z", unit: "mm", ticks: 7, grid: true }));
 
   const thresholds = SPEED_BANDS_M_PER_S.map((v) => v * 1000);
-  const bands = gridBands(g, input.guaranteedMmPerS, thresholds);
+  // Contours of the values spread one cell outward, clipped to the reached cells: bands run to the cells' borders.
+  const bands = gridBands(g, dilateGrid(g, input.guaranteedMmPerS), thresholds);
   const bandPaths: string[] = [];
   bands.forEach((band, i) => {
     const d = polygonsPath(band.polygons, x, y);
     if (d) bandPaths.push(el("path", { class: `speed-band ${speedBandClass(i)}`, d, "fill-rule": "evenodd", "data-band-m-per-s": speedEdgeLabel(SPEED_BANDS_M_PER_S[i]!) }));
   });
   const reached = bandPaths.length > 0;
-  parts.push(el("g", { class: "speed-bands", "clip-path": `url(#${clipId})` }, ...bandPaths));
+  parts.push(el("g", { class: "speed-bands", "clip-path": `url(#${reachId})` }, ...bandPaths));
   if (input.flangeSide && input.flangeSide.length > 0) {
     const d = polygonsPath(input.flangeSide, x, y);
     if (d) parts.push(el("path", { class: "env-outline", d, "fill-rule": "evenodd", "clip-path": `url(#${clipId})` }));

@@ -17,7 +17,7 @@ import {
   type PointData,
 } from "../charts";
 import { armDataPaths } from "./armCsv";
-import { formatList, formatNumber, formatQuantity, NOT_STATED } from "./format";
+import { formatNumber, formatQuantity, NOT_STATED } from "./format";
 import { MOUNTING_LABEL } from "./labels";
 import { siteHref } from "./links";
 import type { TableCell, TableModel, TableRow } from "./table";
@@ -94,7 +94,14 @@ export interface ArmAnalysisModel {
   readonly summary: readonly SummaryFigure[];
   /** Warnings of the analysis, as sentences. */
   readonly warnings: readonly { readonly code: string; readonly text: string }[];
-  readonly envelope: { readonly charts: readonly ChartResult[]; readonly table: TableModel; readonly reachText: string; readonly notes: readonly string[] };
+  readonly envelope: {
+    readonly charts: readonly ChartResult[];
+    readonly table: TableModel;
+    /** What the charts show, one sentence, then the reach comparison. */
+    readonly intro: string;
+    readonly reachText: string;
+    readonly notes: readonly string[];
+  };
   readonly speed: { readonly charts: readonly ChartResult[]; readonly table: TableModel; readonly notes: readonly string[] };
   readonly singularities: { readonly charts: readonly ChartResult[]; readonly notes: readonly string[] };
   readonly payload: {
@@ -168,18 +175,16 @@ function envelopeSection(arm: Arm, a: ArmAnalysis, name: string): ArmAnalysisMod
     }),
   );
   const from = revolute ? "from axis 1" : "from the base z axis";
-  const points = [e.wcp, e.flange] as const;
-  const row = (key: string, label: string, f: (p: NonNullable<(typeof points)[number]>) => TableCell): TableRow => ({
-    key,
-    cells: [cell(label), ...points.map((p) => (p ? f(p) : { text: "no wrist centre point" }))],
-  });
+  type Point = NonNullable<typeof e.wcp> | typeof e.flange;
+  const points: Point[] = e.wcp ? [e.wcp, e.flange] : [e.flange];
+  const row = (key: string, label: string, f: (p: Point) => TableCell): TableRow => ({ key, cells: [cell(label), ...points.map(f)] });
   const table: TableModel = {
     id: "envelope-table",
     caption: "Envelope figures, computed from the kinematic parameters and joint limits",
     rowHeaders: true,
     columns: [
       { key: "figure", label: "Figure", numeric: false },
-      { key: "wcp", label: "Wrist centre point", numeric: true },
+      ...(e.wcp ? [{ key: "wcp", label: "Wrist centre point", numeric: true }] : []),
       { key: "flange", label: "Flange centre", numeric: true },
     ],
     rows: [
@@ -194,7 +199,7 @@ function envelopeSection(arm: Arm, a: ArmAnalysis, name: string): ArmAnalysisMod
     ],
   };
   const rc = reachCheck(a);
-  const what = rc.basis === "wcp" ? "wrist centre point" : "flange centre (the arm has no wrist centre point)";
+  const what = rc.basis === "wcp" ? "wrist centre point" : "flange centre";
   const reachText =
     rc.statedMm === null
       ? `Computed reach of the ${what}: ${formatQuantity(rc.computedMm, "mm")}. The arm file states no reach.`
@@ -206,7 +211,10 @@ function envelopeSection(arm: Arm, a: ArmAnalysis, name: string): ArmAnalysisMod
       : layout === "prismatic-base"
         ? ["The first joint slides: the side view is the projection on the base x\u2013z plane, the top view the projection on the base x\u2013y plane."]
         : [];
-  return { charts, table, reachText, notes: [...classNote, ...e.notes.map(sentence)] };
+  const intro = e.wcp
+    ? "Where the wrist centre point and the flange centre can be, within the joint limits of the arm file."
+    : "Where the flange centre can be, within the joint limits of the arm file (the arm has no wrist centre point).";
+  return { charts, table, intro, reachText, notes: [...classNote, ...e.notes.map(sentence)] };
 }
 
 function sentence(text: string): string {
@@ -256,7 +264,7 @@ function speedSection(a: ArmAnalysis, name: string, layout: ArmAnalysis["envelop
     `Maximum tool speed over every map: ${a.speed.maxToolSpeedMmPerS === null ? NOT_STATED : formatSpeedMPerS(a.speed.maxToolSpeedMmPerS)} (the largest speed of the flange centre when every joint runs at its rated speed in the best direction).`,
     `Guaranteed straight-line speed: the speed the flange centre reaches in every direction at constant orientation with every joint within its rated speed; it falls to zero at a singularity.`,
     sentence(a.speed.shareBasis),
-    ...maps.map((m) => `Inverse-kinematics branches kept, ${orientationWords(m.orientation).short}: ${m.branchNames.length > 0 ? formatList(m.branchNames) : "\u2014"} (the best per cell).`),
+    ...maps.map((m) => `Inverse-kinematics branches kept, ${orientationWords(m.orientation).short}: ${m.branchNames.length > 0 ? m.branchNames.join("; ") : "\u2014"} (the best per cell).`),
     ...(a.speed.redundancy ? [sentence(`joint rates: ${a.speed.redundancy}`)] : []),
     `Tool point: ${a.speed.tcp}. Maps are drawn on a ${formatNumber(maps[0]?.grid.stepMm ?? a.options.mapStepMm)}\u00a0mm grid; figures use the ${formatNumber(a.options.mapStepMm)}\u00a0mm computation grid.`,
   ];
@@ -324,26 +332,10 @@ function payloadSection(arm: Arm, a: ArmAnalysis, name: string): ArmAnalysisMode
         { key: "limited-by", label: `What limits it (offset ${formatNumber(first)} mm)`, numeric: false },
         { key: "ratings-limit", label: `Joint ratings alone (offset ${formatNumber(first)} mm)`, unit: "kg", numeric: true },
       ],
-      rows: reaches.map((reach) => {
-        const at = (o: number) => rows.find((r) => r.reachMm === reach && r.offsetMm === o);
-        const base = at(first);
-        const limited = base ? (base.limitedBy === "joint-rating" ? `${base.limitingJoint ?? "joint"} rating` : (LIMITED_BY_TEXT[base.limitedBy] ?? base.limitedBy)) : "\u2014";
-        return {
-          key: `${reach}`,
-          cells: [
-            { text: formatNumber(reach), sortValue: reach },
-            ...offsets.map((o) => {
-              const r = at(o);
-              return r && r.limitedBy !== "unreachable" ? { text: formatNumber(r.payloadKg, 2), sortValue: r.payloadKg } : dashCell();
-            }),
-            { text: limited },
-            base && base.torqueLimitKg !== null
-              ? { text: `${formatNumber(base.torqueLimitKg, 1)}${base.torqueLimitJoint ? ` (${base.torqueLimitJoint})` : ""}`, sortValue: base.torqueLimitKg }
-              : dashCell(),
-          ],
-        };
-      }),
-      footnote: "\u201cJoint ratings alone\u201d: the static limit from the joint torque ratings before the cap at the rated payload, with the joint that sets it. It is not a payload rating.",
+      rows: mergedPayloadRows(rows, offsets, reaches, first),
+      footnote:
+        "Consecutive reaches with the same payloads are shown as one row (the CSV download has every 50 mm step). " +
+        "\u201cJoint ratings alone\u201d: the static limit from the joint torque ratings before the cap at the rated payload, with the joint that sets it; it is not a payload rating.",
     };
   });
   const ld = p.loadDiagram;
@@ -359,6 +351,59 @@ function payloadSection(arm: Arm, a: ArmAnalysis, name: string): ArmAnalysisMode
         : `With the centre of gravity at the flange centre, the wrist ratings allow ${formatQuantity(ld.wristAllowsAtZeroOffsetKg, "kg", 1)} (before the cap at the rated ${formatQuantity(ld.ratedPayloadKg, "kg", 2)}).`;
   const notes = [sentence(p.atReachDetail.convention), ...p.atReachDetail.notes.map(sentence), ...(ld.basis === "wrist-ratings" ? [sentence(ld.convention)] : [])];
   return { basisText, statement: p.statement, charts, tables, loadDiagram, loadDiagramText, notes };
+}
+
+type PayloadRow = ArmAnalysis["payload"]["atReach"][number];
+
+function limitedText(r: PayloadRow | undefined): string {
+  if (!r) return "\u2014";
+  return r.limitedBy === "joint-rating" ? `${r.limitingJoint ?? "joint"} rating` : (LIMITED_BY_TEXT[r.limitedBy] ?? r.limitedBy);
+}
+
+/**
+ * Table rows of payload at reach for one mounting: consecutive reaches whose payloads (every offset) and limit agree
+ * are merged into one row "from to mm"; the joint-ratings column then gives its range.
+ */
+function mergedPayloadRows(rows: readonly PayloadRow[], offsets: readonly number[], reaches: readonly number[], first: number): TableRow[] {
+  const at = (reach: number, o: number) => rows.find((r) => r.reachMm === reach && r.offsetMm === o);
+  const signature = (reach: number) =>
+    offsets.map((o) => {
+      const r = at(reach, o);
+      return r && r.limitedBy !== "unreachable" ? r.payloadKg.toFixed(2) : "-";
+    }).join("|") + `|${limitedText(at(reach, first))}`;
+  const groups: number[][] = [];
+  for (const reach of reaches) {
+    const last = groups.at(-1);
+    if (last && signature(last[0]!) === signature(reach)) last.push(reach);
+    else groups.push([reach]);
+  }
+  return groups.map((g): TableRow => {
+    const r0 = g[0]!;
+    const r1 = g.at(-1)!;
+    const limits = g.map((reach) => at(reach, first)).filter((r): r is PayloadRow => r !== undefined && r.torqueLimitKg !== null);
+    const lo = Math.min(...limits.map((r) => r.torqueLimitKg!));
+    const hi = Math.max(...limits.map((r) => r.torqueLimitKg!));
+    const joints = [...new Set(limits.map((r) => r.torqueLimitJoint).filter((j): j is string => j !== null))];
+    const ratings: TableCell =
+      limits.length === 0
+        ? dashCell()
+        : {
+            text: `${formatNumber(lo, 1)}${hi - lo >= 0.05 ? ` to ${formatNumber(hi, 1)}` : ""}${joints.length > 0 ? ` (${joints.join(", ")})` : ""}`,
+            sortValue: lo,
+          };
+    return {
+      key: `${r0}`,
+      cells: [
+        { text: r0 === r1 ? formatNumber(r0) : `${formatNumber(r0)} to ${formatNumber(r1)}`, sortValue: r0 },
+        ...offsets.map((o) => {
+          const r = at(r0, o);
+          return r && r.limitedBy !== "unreachable" ? { text: formatNumber(r.payloadKg, 2), sortValue: r.payloadKg } : dashCell();
+        }),
+        { text: limitedText(at(r0, first)) },
+        ratings,
+      ],
+    };
+  });
 }
 
 function cycleSection(a: ArmAnalysis, name: string): ArmAnalysisModel["cycle"] {

@@ -36,7 +36,7 @@ const COLUMNS: readonly TableColumn[] = [
 const COMPUTED_REACH_COLUMN: TableColumn = { key: "computed-reach", label: "Computed reach", unit: "mm", numeric: true };
 const COMPUTED_COLUMNS: readonly TableColumn[] = [
   { key: "max-tool-speed", label: "Max tool speed", unit: "m/s", numeric: true },
-  { key: "share-1", label: "Line speed \u2265 1 m/s, tool down", unit: "% of side view", numeric: true },
+  { key: "share-1", label: "Share \u2265 1 m/s, tool down", unit: "%", numeric: true },
   { key: "cycle", label: "Standard cycle", unit: "s", numeric: true },
 ];
 
@@ -46,21 +46,21 @@ function computedCells(analysis: ArmAnalysis | undefined): { reach: TableCell; s
     return { reach: none, stated: null, rest: [none, none, none] };
   }
   const rc = reachCheck(analysis);
-  const reach: TableCell = { text: formatNumber(rc.computedMm), note: rc.basis === "wcp" ? "wrist centre point" : "flange centre", sortValue: rc.computedMm };
+  const reach: TableCell = { text: formatNumber(rc.computedMm), note: rc.basis === "wcp" ? "WCP" : "flange", sortValue: rc.computedMm };
   const stated: TableCell | null =
     rc.statedMm === null || rc.deviation === null
       ? null
       : {
           text: formatNumber(rc.statedMm),
-          note: rc.mismatch ? `check: ${formatSignedPercent(rc.deviation)} from computed` : `${formatSignedPercent(rc.deviation)} from computed`,
+          note: rc.mismatch ? `check: ${formatSignedPercent(rc.deviation)}` : formatSignedPercent(rc.deviation),
           sortValue: rc.statedMm,
         };
   const down = analysis.speed.maps.find((m) => m.orientation === "down");
   const share = down?.shareAtLeast["1"];
   const v = analysis.speed.maxToolSpeedMmPerS;
   const c = analysis.cycle.standardCycleS;
-  const cycleCell: TableCell =
-    c === null ? (analysis.cycle.reason ? { text: "not computed", note: analysis.cycle.reason } : { text: "not computed" }) : { text: formatNumber(c, 2), sortValue: c };
+  // Where the cycle could not be computed the arm sheet gives the reason; the table stays narrow.
+  const cycleCell: TableCell = c === null ? { text: "not computed" } : { text: formatNumber(c, 2), sortValue: c };
   return {
     reach,
     stated,
@@ -128,8 +128,9 @@ export function catalogPageModel(arms: readonly Arm[], options: ViewOptions, ana
       rows,
       ...(withComputed && {
         footnote:
-          "Computed reach: wrist centre point (flange centre where the arm has none); the stated reach is marked \u201ccheck\u201d when it differs from it by more than 2\u00a0%. " +
-          "Speeds and the cycle are for the flange centre with no tool, from joint speed limits only. Computed figures are for early comparison, not maker figures.",
+          "Computed reach: of the wrist centre point (WCP), or of the flange centre where the arm has none. Under the stated reach: how far it lies from the computed one, " +
+          "marked \u201ccheck\u201d beyond 2\u00a0%. Share \u2265 1 m/s: share of the side view reached with the tool pointing down where the guaranteed straight-line speed is at least 1 m/s. " +
+          "Speeds and the cycle are for the flange centre with no tool, from joint limits only. Computed figures are for early comparison, not maker figures.",
       }),
     },
   };

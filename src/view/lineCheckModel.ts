@@ -1,0 +1,264 @@
+/**
+ * The straight-line check as the site shows it, shared by the build (standard lines) and the browser (the form):
+ * the query a user states (mm, deg, mm/s), its text form for the URL, the call into the core's lineCheck set up
+ * exactly as `armdex line` sets it up (src/cli/line.ts: gravity of the first mounting, "down"/"outward" taken at
+ * the line's start, roll-pitch-yaw as URDF, flange centre as the tool point, 101 samples), and the result turned
+ * into display sentences and chart data. Pure: no DOM, no Astro, no I/O.
+ */
+import type { Chain } from "../core/kinematics/chain";
+import { lineCheck, referenceToolRotation, rpyToolRotation, type LineCheckResult } from "../core/analysis/line";
+import { gravityDirectionInBase, type Mounting } from "../core/analysis/mounting";
+import { degToRad, mmToM } from "../core/units";
+import type { LineRatesChartInput } from "../charts/lineRatesChart";
+import { formatNumber, formatQuantity } from "./format";
+
+/** Tool orientation held along the line: a named reference or roll, pitch, yaw (deg, URDF fixed axes). */
+export type LineOrientation =
+  | { readonly kind: "down" }
+  | { readonly kind: "outward" }
+  | { readonly kind: "rpy"; readonly rpyDeg: readonly [number, number, number] };
+
+/** One line as a user states it (file units). */
+export interface LineQuery {
+  readonly fromMm: readonly [number, number, number];
+  readonly toMm: readonly [number, number, number];
+  readonly orientation: LineOrientation;
+  readonly speedMmPerS: number;
+}
+
+/** URL query keys of the line state (kept apart from other keys of the page, e.g. `arms` on the comparison page). */
+export const LINE_QUERY_KEYS = ["from", "to", "orientation", "speed"] as const;
+
+/** Samples along the line: the CLI's default, so the site and `armdex line` report the same figures. */
+export const LINE_SAMPLES = 101;
+
+/** Largest line length accepted from the form, mm (a typo guard; no arm in the catalog reaches 20 m). */
+export const MAX_LINE_COORDINATE_MM = 20_000;
+
+export type ParsedLineQuery =
+  | { readonly ok: true; readonly query: LineQuery }
+  | { readonly ok: false; readonly errors: readonly string[] };
+
+/** A number as the URL and the form write it: plain ASCII, at most 3 decimals, no exponent. */
+function plain(value: number): string {
+  const text = String(Math.round(value * 1000) / 1000);
+  return text === "-0" ? "0" : text;
+}
+
+/** "450,-250,400" → [450, −250, 400]; a message naming the field otherwise. */
+export function parseTriple(text: string, field: string): readonly [number, number, number] | string {
+  const parts = text.split(",").map((p) => p.trim());
+  if (parts.length !== 3 || parts.some((p) => p === "")) return `${field}: expected three numbers x, y, z (mm), found "${text}"`;
+  const values = parts.map(Number);
+  if (!values.every(Number.isFinite)) return `${field}: expected three numbers x, y, z (mm), found "${text}"`;
+  if (values.some((v) => Math.abs(v) > MAX_LINE_COORDINATE_MM)) return `${field}: coordinates above ${formatNumber(MAX_LINE_COORDINATE_MM)} mm are not accepted, found "${text}"`;
+  return [values[0]!, values[1]!, values[2]!];
+}
+
+/** "down", "outward" or "roll,pitch,yaw" (deg). */
+export function parseOrientation(text: string): LineOrientation | string {
+  const t = text.trim();
+  if (t === "down") return { kind: "down" };
+  if (t === "outward") return { kind: "outward" };
+  const parts = t.split(",").map((p) => p.trim());
+  const values = parts.map(Number);
+  if (parts.length !== 3 || parts.some((p) => p === "") || !values.every(Number.isFinite)) {
+    return `orientation: expected down, outward or roll,pitch,yaw in degrees, found "${text}"`;
+  }
+  return { kind: "rpy", rpyDeg: [values[0]!, values[1]!, values[2]!] };
+}
+
+/** The orientation as the URL and `armdex line --orientation` write it. */
+export function orientationText(o: LineOrientation): string {
+  return o.kind === "rpy" ? o.rpyDeg.map(plain).join(",") : o.kind;
+}
+
+/** Words for the orientation: "tool pointing down", "roll 180°, pitch 0°, yaw 90°". */
+export function orientationWords(o: LineOrientation): string {
+  if (o.kind === "down") return "tool pointing down (along gravity)";
+  if (o.kind === "outward") return "tool pointing away from axis 1";
+  const [r, p, y] = o.rpyDeg;
+  return `roll ${formatQuantity(r, "°", 1)}, pitch ${formatQuantity(p, "°", 1)}, yaw ${formatQuantity(y, "°", 1)}`;
+}
+
+/**
+ * Reads the line state from a query string lookup (URLSearchParams.get). Returns null when none of the keys is
+ * present (nothing to run), the query when all are present and valid, and every problem otherwise.
+ * @example parseLineQuery((k) => new URLSearchParams("from=450,-250,400&to=450,250,400&orientation=down&speed=500").get(k))
+ *   // { ok: true, query: { fromMm: [450, -250, 400], toMm: [450, 250, 400], orientation: { kind: "down" }, speedMmPerS: 500 } }
+ */
+export function parseLineQuery(get: (key: string) => string | null): ParsedLineQuery | null {
+  const raw = LINE_QUERY_KEYS.map((k) => get(k));
+  if (raw.every((v) => v === null)) return null;
+  const errors: string[] = [];
+  const [fromText = null, toText = null, orientationTextValue = null, speedText = null] = raw;
+  const from = fromText === null ? "from: missing (x, y, z in mm)" : parseTriple(fromText, "from");
+  const to = toText === null ? "to: missing (x, y, z in mm)" : parseTriple(toText, "to");
+  const orientation = orientationTextValue === null ? "orientation: missing (down, outward or roll,pitch,yaw)" : parseOrientation(orientationTextValue);
+  if (typeof from === "string") errors.push(from);
+  if (typeof to === "string") errors.push(to);
+  if (typeof orientation === "string") errors.push(orientation);
+  const speed = speedText === null ? NaN : Number(speedText.trim());
+  if (speedText === null) errors.push("speed: missing (mm/s)");
+  else if (speedText.trim() === "" || !Number.isFinite(speed) || speed <= 0) errors.push(`speed: expected a positive number of mm/s, found "${speedText}"`);
+  else if (speed > 100_000) errors.push(`speed: above 100,000 mm/s is not accepted, found "${speedText}"`);
+  if (typeof from !== "string" && typeof to !== "string" && from.every((v, i) => v === to[i])) errors.push("from and to are the same point: the line has no length");
+  if (errors.length > 0 || typeof from === "string" || typeof to === "string" || typeof orientation === "string") return { ok: false, errors };
+  return { ok: true, query: { fromMm: from, toMm: to, orientation, speedMmPerS: speed } };
+}
+
+/**
+ * The line state as query-string pairs, in a fixed order.
+ * @example lineQueryPairs({ fromMm: [450, -250, 400], toMm: [450, 250, 400], orientation: { kind: "down" }, speedMmPerS: 500 })
+ *   // [["from", "450,-250,400"], ["to", "450,250,400"], ["orientation", "down"], ["speed", "500"]]
+ */
+export function lineQueryPairs(q: LineQuery): [string, string][] {
+  return [
+    ["from", q.fromMm.map(plain).join(",")],
+    ["to", q.toMm.map(plain).join(",")],
+    ["orientation", orientationText(q.orientation)],
+    ["speed", plain(q.speedMmPerS)],
+  ];
+}
+
+/** "from=450%2C-250%2C400&to=…": the query string of a line (URLSearchParams encoding). */
+export function lineQueryString(q: LineQuery): string {
+  return new URLSearchParams(lineQueryPairs(q)).toString();
+}
+
+/** The `armdex line` command that reproduces a line (for a reader who wants the full JSON). */
+export function lineCommandText(armFile: string, q: LineQuery): string {
+  const [from, to, orientation, speed] = lineQueryPairs(q).map(([, v]) => v);
+  return `npx armdex line ${armFile} --from ${from} --to ${to} --orientation ${orientation} --speed ${speed}`;
+}
+
+/** Orientations the form offers for an arm: arms with fewer than six driven joints hold "down" only (their tool
+ * turns about one axis), as the speed maps do. */
+export function orientationKindsFor(drivenCount: number): readonly LineOrientation["kind"][] {
+  return drivenCount >= 6 ? ["down", "outward", "rpy"] : ["down"];
+}
+
+/**
+ * Runs the core's lineCheck for a query, set up as `armdex line` does (src/cli/line.ts).
+ * @param mountings the arm file's mountings; the first decides gravity and so the meaning of "down"
+ * @throws RangeError from lineCheck on invalid input (the form validates first)
+ */
+export function runLineQuery(chain: Chain, mountings: readonly Mounting[], q: LineQuery, samples = LINE_SAMPLES): LineCheckResult {
+  const gravity = gravityDirectionInBase(mountings[0] ?? "floor");
+  const startM = q.fromMm.map(mmToM), endM = q.toMm.map(mmToM);
+  const o = q.orientation;
+  const rotation =
+    o.kind === "rpy"
+      ? rpyToolRotation(degToRad(o.rpyDeg[0]), degToRad(o.rpyDeg[1]), degToRad(o.rpyDeg[2]))
+      : referenceToolRotation(chain, o.kind, startM, gravity);
+  return lineCheck(chain, { startM, endM, baseFromToolRotation: rotation, speedMPerS: mmToM(q.speedMmPerS), toolInFlangeM: [0, 0, 0] }, { samples, gravity });
+}
+
+// ---------------------------------------------------------------------------------------------------------------
+// Display
+
+/** Decimals shown for a speed: one below 100 mm/s, none above. */
+export function speedDecimals(mmPerS: number): number {
+  return Math.abs(mmPerS) < 100 ? 1 : 0;
+}
+
+/** What the page says about one result. Every string is finished (units, rounding). */
+export interface LineFigures {
+  /** The largest constant speed, e.g. "412 mm/s", or "0 mm/s"; null-valued when no joint with a limit moves. */
+  readonly feasibleText: string;
+  /** The raw figure (mm/s) behind feasibleText; null when unbounded. */
+  readonly feasibleMmPerS: number | null;
+  /** "within" / "above" the commanded speed, as a sentence. */
+  readonly commandedText: string;
+  readonly commandedFeasible: boolean;
+  /** "J1 at 212 mm from the start (42 % along)". */
+  readonly bottleneckText: string;
+  /** "wrist kind, closest at 130 mm (inverse condition 0.012)". */
+  readonly singularityText: string;
+  /** "front, elbow up, wrist − (best of 7 starts)". */
+  readonly startText: string;
+  /** Out of reach, range violations, branch changes, joints without a limit; empty when none. */
+  readonly problems: readonly string[];
+}
+
+const percent = (fraction: number) => `${formatNumber(fraction * 100, 0)} %`;
+const along = (fraction: number, lengthMm: number) => `${formatQuantity(fraction * lengthMm, "mm")} from the start (${percent(fraction)} along)`;
+
+/** The result as sentences. */
+export function lineFigures(r: LineCheckResult): LineFigures {
+  const f = r.feasibleConstantSpeedMmPerS;
+  const feasibleText = f === null ? "not limited by any joint speed" : formatQuantity(f, "mm/s", speedDecimals(f));
+  const commanded = formatQuantity(r.speedMmPerS, "mm/s", speedDecimals(r.speedMmPerS));
+  const commandedText = r.commandedSpeedFeasible
+    ? `The commanded ${commanded} is within it.`
+    : `The commanded ${commanded} is above it: at least one joint cannot keep up.`;
+  const b = r.bottleneck;
+  let bottleneckText = "none";
+  if (b) {
+    const where = along(b.fraction, r.lengthMm);
+    if (b.reason === "joint rate") bottleneckText = `${b.joint ?? "a joint"} at ${where}, needing ${formatNumber(b.rateRatio ?? 0, 2)} × its speed limit at ${commanded}`;
+    else if (b.reason === "out of reach") bottleneckText = `out of reach at ${where}`;
+    else if (b.reason === "jump") bottleneckText = `${b.joint ?? "the joints"} must jump at ${where} (no continuous motion: the arm stops and changes posture)`;
+    else bottleneckText = `${b.joint ?? "a joint"} would need an unbounded rate at ${where} (singular pose)`;
+  }
+  const s = r.nearestSingularity;
+  const singularityText = s
+    ? `${s.kind} kind, closest at ${along(s.fraction, r.lengthMm)}; inverse condition ${formatNumber(s.inverseCondition, 3)}${s.singular ? " (singular)" : ""}`
+    : "none found (no point of the line was reached)";
+  const startText = r.startBranch
+    ? `${r.startBranch.branch}${r.startBranches.length > 1 ? ` (best of ${r.startBranches.length} start postures)` : ""}`
+    : "no posture reaches the start";
+  const problems: string[] = [];
+  for (const g of r.outOfReach) problems.push(`Out of reach from ${formatQuantity(g.fromFraction * r.lengthMm, "mm")} to ${formatQuantity(g.toFraction * r.lengthMm, "mm")} along the line.`);
+  for (const v of r.jointLimitViolations) {
+    problems.push(`${v.joint} passes its ${v.bound} limit (${formatQuantity(v.limitValue, v.unit === "deg" ? "°" : "mm", 1)}, reaching ${formatQuantity(v.extremeValue, v.unit === "deg" ? "°" : "mm", 1)}) from ${formatQuantity(v.fromFraction * r.lengthMm, "mm")} to ${formatQuantity(v.toFraction * r.lengthMm, "mm")}.`);
+  }
+  for (const c of r.branchChanges) {
+    problems.push(`Posture change (${c.kind}${c.continuous ? ", continuous" : ", a jump"}) at ${formatQuantity(c.fraction * r.lengthMm, "mm")}: ${c.from} → ${c.to}.`);
+  }
+  if (r.orientationHeld === "tool axis") problems.push("Only the tool axis is held: the arm cannot keep the full orientation, so the rotation about the tool axis is left free.");
+  if (r.jointsWithoutSpeedLimit.length > 0) problems.push(`No speed limit in the file for ${r.jointsWithoutSpeedLimit.join(", ")}: not counted.`);
+  return {
+    feasibleText,
+    feasibleMmPerS: f,
+    commandedText,
+    commandedFeasible: r.commandedSpeedFeasible,
+    bottleneckText,
+    singularityText,
+    startText,
+    problems,
+  };
+}
+
+/** Chart data of a result: rate ratios against the distance along the line, one series per driven joint. */
+export function lineRatesChartInput(r: LineCheckResult, id: string, title: string): LineRatesChartInput {
+  const b = r.bottleneck;
+  return {
+    id,
+    title,
+    lengthMm: r.lengthMm,
+    speedMmPerS: r.speedMmPerS,
+    positionsMm: r.samples.map((s) => s.fraction * r.lengthMm),
+    series: r.jointNames.map((joint, i) => ({
+      joint,
+      values: r.samples.map((s) => (s.rateRatios ? (s.rateRatios[i] ?? null) : null)),
+    })),
+    bottleneck: b
+      ? {
+          positionMm: b.fraction * r.lengthMm,
+          jointIndex: b.jointIndex,
+          rateRatio: b.reason === "joint rate" ? b.rateRatio : null,
+          label:
+            b.reason === "joint rate"
+              ? `bottleneck ${b.joint ?? ""}`.trim()
+              : b.reason === "out of reach"
+                ? "out of reach"
+                : b.reason === "jump"
+                  ? `${b.joint ?? "joints"} jump`
+                  : "singular",
+        }
+      : null,
+    gapsMm: r.outOfReach.map((g) => [g.fromFraction * r.lengthMm, g.toFraction * r.lengthMm] as const),
+    feasibleMmPerS: r.feasibleConstantSpeedMmPerS,
+  };
+}
