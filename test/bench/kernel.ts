@@ -7,7 +7,7 @@ import { Matrix, SingularValueDecomposition, inverse } from "ml-matrix";
 import type { Chain } from "../../src/core";
 import { createScratch, forwardInto, jacobianInto } from "../../src/core";
 import { createSpeedScratch, guaranteedLineSpeed, maxToolSpeed } from "../../src/core/analysis/speed";
-import { createSingularityScratch, scaledSingularValues } from "../../src/core/analysis/singularity";
+import { createSingularityScratch, scaledInverseCondition } from "../../src/core/analysis/singularity";
 
 export function fastKernel(chain: Chain) {
   const m = chain.drivenCount, s = createScratch(chain), j = new Float64Array(6 * m);
@@ -15,7 +15,7 @@ export function fastKernel(chain: Chain) {
   return (q: Float64Array): number => {
     const t = forwardInto(chain, q, s);
     jacobianInto(j, chain, s, t[3]!, t[7]!, t[11]!);
-    const inv = scaledSingularValues(j, m, chain.characteristicLengthM, sg);
+    const inv = scaledInverseCondition(j, m, chain.characteristicLengthM, sg);
     return inv + guaranteedLineSpeed(j, m, chain.maxSpeedSi, sp) + maxToolSpeed(j, m, chain.maxSpeedSi, sp);
   };
 }

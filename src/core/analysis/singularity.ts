@@ -12,7 +12,7 @@
  *   Spong, Hutchinson & Vidyasagar, Robot Modeling and Control, §4.9 (decoupling of singularities) [from memory]
  */
 import type { Chain } from "../kinematics/chain";
-import { createSvdScratch, svdInto, type SvdScratch } from "../math/svd";
+import { createSvdScratch, singularValuesInto, svdInto, type SvdScratch } from "../math/svd";
 
 export type SingularityKind = "none" | "wrist" | "shoulder" | "elbow" | "other";
 
@@ -62,6 +62,20 @@ export function scaledSingularValues(j: ArrayLike<number>, m: number, lengthM: n
   for (let i = 0; i < 3 * m; i++) scaled[i] = j[i]! / lengthM;
   for (let i = 3 * m; i < 6 * m; i++) scaled[i] = j[i]!;
   svdInto(s.sv, s.v, scaled, 6, m, s.svd);
+  const k = Math.min(6, m);
+  const max = s.sv[0]!;
+  return max > 0 ? s.sv[k - 1]! / max : 0;
+}
+
+/**
+ * Inverse condition σ_min/σ_max of the scaled Jacobian only (singular values into s.sv, no singular vectors):
+ * the cheaper path for maps and kernels that do not name the singularity.
+ */
+export function scaledInverseCondition(j: ArrayLike<number>, m: number, lengthM: number, s: SingularityScratch): number {
+  const scaled = s.scaled;
+  for (let i = 0; i < 3 * m; i++) scaled[i] = j[i]! / lengthM;
+  for (let i = 3 * m; i < 6 * m; i++) scaled[i] = j[i]!;
+  singularValuesInto(s.sv, scaled, 6, m, s.svd);
   const k = Math.min(6, m);
   const max = s.sv[0]!;
   return max > 0 ? s.sv[k - 1]! / max : 0;

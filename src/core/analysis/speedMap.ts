@@ -15,7 +15,7 @@ import type { Chain } from "../kinematics/chain";
 import { createScratch, forwardInto, jacobianInto, wristCentreInto } from "../kinematics/forward";
 import { createIkScratch, solveIkInto, type IkOptions } from "../kinematics/inverse";
 import { createSpeedScratch, guaranteedLineSpeed, maxToolSpeed } from "./speed";
-import { createSingularityScratch, scaledSingularValues } from "./singularity";
+import { createSingularityScratch, scaledInverseCondition, scaledSingularValues } from "./singularity";
 import { createSvdScratch, svdInto } from "../math/svd";
 import { branchCode, branchFrame, branchName, type BranchFrame } from "./branches";
 import { mulberry32 } from "./random";
@@ -405,7 +405,7 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     const t = bestT;
     guaranteed[cell] = bestG * 1000;
     maxSpeed[cell] = bestMax * 1000;
-    invCond[cell] = scaledSingularValues(j, m, chain.characteristicLengthM, sg);
+    invCond[cell] = scaledInverseCondition(j, m, chain.characteristicLengthM, sg);
     const dBest = detVal[cell * K + best]!;
     detSign[cell] = Number.isFinite(dBest) ? (dBest > 0 ? 1 : dBest < 0 ? -1 : 0) : 0;
     joints.set(q, cell * m);

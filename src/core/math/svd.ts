@@ -23,7 +23,12 @@ export function createSvdScratch(rows: number, cols: number): SvdScratch {
  */
 export function singularValuesInto(out: Float64Array, a: ArrayLike<number>, rows: number, cols: number, s: SvdScratch): Float64Array {
   const w = s.work, norms = s.norms;
-  for (let i = 0; i < rows * cols; i++) w[i] = a[i]!;
+  let frob = 0;
+  for (let i = 0; i < rows * cols; i++) {
+    w[i] = a[i]!;
+    frob += a[i]! * a[i]!;
+  }
+  const tiny = 1e-30 * frob;
   // Orthogonalise the columns of w by plane rotations; singular values are the final column norms.
   for (let sweep = 0; sweep < 60; sweep++) {
     let rotated = false;
@@ -36,7 +41,9 @@ export function singularValuesInto(out: Float64Array, a: ArrayLike<number>, rows
           beta += wq * wq;
           gamma += wp * wq;
         }
-        if (gamma === 0 || Math.abs(gamma) <= 1e-15 * Math.sqrt(alpha * beta)) continue;
+        // Converged pair (|cos| of the angle between the columns ≤ 1e-12: the singular values are then exact to
+        // about 1e-24 relative, since the error is quadratic in it), or a column already at zero (a wide or rank-deficient matrix): no rotation.
+        if (gamma === 0 || Math.abs(gamma) <= 1e-12 * Math.sqrt(alpha * beta) || alpha <= tiny || beta <= tiny) continue;
         rotated = true;
         const zeta = (beta - alpha) / (2 * gamma);
         const t = Math.sign(zeta || 1) / (Math.abs(zeta) + Math.sqrt(1 + zeta * zeta));
@@ -77,7 +84,12 @@ export function singularValuesInto(out: Float64Array, a: ArrayLike<number>, rows
  */
 export function svdInto(sv: Float64Array, vOut: Float64Array, a: ArrayLike<number>, rows: number, cols: number, s: SvdScratch): Float64Array {
   const w = s.work, v = s.v, norms = s.norms, order = s.order;
-  for (let i = 0; i < rows * cols; i++) w[i] = a[i]!;
+  let frob = 0;
+  for (let i = 0; i < rows * cols; i++) {
+    w[i] = a[i]!;
+    frob += a[i]! * a[i]!;
+  }
+  const tiny = 1e-30 * frob;
   v.fill(0, 0, cols * cols);
   for (let i = 0; i < cols; i++) v[i * cols + i] = 1;
   for (let sweep = 0; sweep < 60; sweep++) {
@@ -91,7 +103,8 @@ export function svdInto(sv: Float64Array, vOut: Float64Array, a: ArrayLike<numbe
           beta += wq * wq;
           gamma += wp * wq;
         }
-        if (gamma === 0 || Math.abs(gamma) <= 1e-15 * Math.sqrt(alpha * beta)) continue;
+        // Converged pair, or a column already at zero (a wide or rank-deficient matrix): no rotation.
+        if (gamma === 0 || Math.abs(gamma) <= 1e-15 * Math.sqrt(alpha * beta) || alpha <= tiny || beta <= tiny) continue;
         rotated = true;
         const zeta = (beta - alpha) / (2 * gamma);
         const t = Math.sign(zeta || 1) / (Math.abs(zeta) + Math.sqrt(1 + zeta * zeta));
