@@ -11,7 +11,7 @@ import { analysePayload, payloadInputOf, type PayloadSpec } from "./payload";
 import { standardCycle } from "./cycle";
 import { workspaceEnvelope, type PointEnvelope, type PolygonMm, type WorkspaceEnvelope } from "./envelope";
 
-export const ANALYSIS_VERSION = "2";
+export const ANALYSIS_VERSION = "3";
 
 /** Arm facts the analysis needs besides the chain (plain types; the catalog fills them from the arm file). */
 export interface ArmFacts extends PayloadSpec {
@@ -198,33 +198,41 @@ function pointEnvelopeJson(e: PointEnvelope) {
 function cycleAt(chain: Chain, down: ToolSpeedMap, facts: ArmFacts, gravity: readonly number[]) {
   const g = down.grid, m = chain.drivenCount;
   const names = Array.from(chain.drivenJoint, (k) => chain.jointNames[k]!);
-  // Column at 60 % of the largest reached distance from axis 1.
+  // Reference location: the column at 60 % of the largest reached distance from axis 1, at the height with the
+  // best guaranteed speed where the point 25 mm up (against gravity) is reached too; when the cycle cannot be
+  // completed there (the 300 mm across move leaves the plane), the next best heights and columns are tried, and
+  // the across move may run to one side of the plane.
   let rMaxCell = 0;
   for (let i = 0; i < down.branch.length; i++) if (down.branch[i]! >= 0) rMaxCell = Math.max(rMaxCell, i % g.nx);
-  const ix = Math.round(0.6 * rMaxCell + 0.4 * (-g.rMinMm / g.stepMm));
-  let bestCell = -1, best = -1;
-  const upCells = Math.ceil(25 / g.stepMm);
-  for (let iy = 0; iy + upCells < g.ny; iy++) {
-    const cell = ix + iy * g.nx, above = ix + (iy + upCells) * g.nx;
-    const v = down.guaranteedMmPerS[cell]!;
-    if (Number.isFinite(v) && Number.isFinite(down.guaranteedMmPerS[above]!) && v > best) {
-      best = v;
-      bestCell = cell;
+  const axisCell = -g.rMinMm / g.stepMm;
+  const upCells = Math.ceil(25 / g.stepMm) * (gravity[2]! > 0 ? -1 : 1);
+  const candidates: { cell: number; speed: number; ix: number; iy: number }[] = [];
+  for (const share of [0.6, 0.5, 0.7, 0.4]) {
+    const ix = Math.round(axisCell + share * (rMaxCell - axisCell));
+    const column: { cell: number; speed: number; ix: number; iy: number }[] = [];
+    for (let iy = 0; iy < g.ny; iy++) {
+      const up = iy + upCells;
+      if (up < 0 || up >= g.ny) continue;
+      const cell = ix + iy * g.nx;
+      const v = down.guaranteedMmPerS[cell]!;
+      if (Number.isFinite(v) && Number.isFinite(down.guaranteedMmPerS[ix + up * g.nx]!)) column.push({ cell, speed: v, ix, iy });
     }
+    column.sort((a, b) => b.speed - a.speed);
+    candidates.push(...column.slice(0, 3));
   }
-  if (bestCell < 0) {
-    return { standardCycleS: null, limitingJoint: null, location: null, moves: [], assumptions: [], reason: "no location with the tool pointing down was found for the cycle" };
-  }
-  const rMm = g.rMinMm + ix * g.stepMm, zMm = g.zMinMm + Math.floor(bestCell / g.nx) * g.stepMm;
-  const seed = down.joints.subarray(bestCell * m, bestCell * m + m);
-  // Target: flange down (along gravity), flange x pointing away from axis 1; lateral offset along base y.
-  const pose = (lateralMm: number, r: number, z: number, upMm: number, out: Float64Array) => {
+  // Target: flange along gravity; flange x away from axis 1 (base x made perpendicular to gravity, or base z).
+  const pose = (shiftMm: number) => (lateralMm: number, r: number, z: number, upMm: number, out: Float64Array) => {
     const gx = gravity[0]!, gy = gravity[1]!, gz = gravity[2]!;
-    // Side-plane point (base x–z), moved sideways along base y and up against gravity.
     out.fill(0);
-    const px = (r - gx * upMm) / 1000, py = (lateralMm - gy * upMm) / 1000, pz = (z - gz * upMm) / 1000;
+    const px = (r - gx * upMm) / 1000, py = (lateralMm + shiftMm - gy * upMm) / 1000, pz = (z - gz * upMm) / 1000;
     let xx = 1 - gx * gx, xy = -gx * gy, xz = -gx * gz;
-    const n = Math.hypot(xx, xy, xz) || 1;
+    let n = Math.hypot(xx, xy, xz);
+    if (n < 1e-9) {
+      xx = -gz * gx;
+      xy = -gz * gy;
+      xz = 1 - gz * gz;
+      n = Math.hypot(xx, xy, xz) || 1;
+    }
     xx /= n; xy /= n; xz /= n;
     const yx = gy * xz - gz * xy, yy = gz * xx - gx * xz, yz = gx * xy - gy * xx;
     out[0] = xx; out[1] = yx; out[2] = gx; out[3] = px;
@@ -234,5 +242,17 @@ function cycleAt(chain: Chain, down: ToolSpeedMap, facts: ArmFacts, gravity: rea
     return out;
   };
   void facts;
-  return standardCycle(chain, { rMm, zMm }, seed, pose, { upMm: 25, acrossMm: 300, jointNames: names });
+  let last: ReturnType<typeof standardCycle> | null = null;
+  for (const c of candidates.slice(0, 12)) {
+    const rMm = g.rMinMm + c.ix * g.stepMm, zMm = g.zMinMm + c.iy * g.stepMm;
+    const seed = down.joints.subarray(c.cell * m, c.cell * m + m);
+    for (const shift of [0, 150, -150]) {
+      const result = standardCycle(chain, { rMm, zMm }, seed, pose(shift), { upMm: 25, acrossMm: 300, jointNames: names });
+      if (result.standardCycleS !== null) {
+        return shift === 0 ? result : { ...result, assumptions: [...result.assumptions, `The across move runs from the side plane to ${shift > 0 ? "+" : "−"}300 mm along base y (the centred move leaves the reach).`], lateralShiftMm: shift };
+      }
+      last = result;
+    }
+  }
+  return last ?? { standardCycleS: null, limitingJoint: null, location: null, moves: [], assumptions: [], reason: "no location with the tool pointing down was found for the cycle" };
 }
