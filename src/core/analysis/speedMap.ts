@@ -13,7 +13,7 @@
  */
 import type { Chain } from "../kinematics/chain";
 import { createScratch, forwardInto, jacobianInto, wristCentreInto } from "../kinematics/forward";
-import { createIkScratch, solveIkInto, type IkOptions } from "../kinematics/inverse";
+import { createIkScratch, holdsFullOrientation, solveIkInto, type IkOptions } from "../kinematics/inverse";
 import { createSpeedScratch, guaranteedLineSpeed, maxToolSpeed } from "./speed";
 import { createSingularityScratch, scaledInverseCondition, scaledSingularValues } from "./singularity";
 import { createSvdScratch, svdInto } from "../math/svd";
@@ -221,6 +221,11 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
   const ny = Math.max(1, Math.ceil((bounds.zMax - zMinMm) / step) + 1);
   const cells = nx * ny, K = options.maxBranches;
   const grid: Grid2 = { nx, ny, rMinMm, zMinMm, stepMm: step };
+  // Arms with fewer than six joints that can still turn the tool about its axis (SCARA, palletizer, gantry with a
+  // rotary axis) hold the full reference orientation; otherwise only the tool axis (rotation about it free).
+  const task: "full" | "axis" = holdsFullOrientation(chain, mulberry32(options.seed ^ 0x51f3)) ? "full" : "axis";
+  const continuationIk: IkOptions = { ...CONTINUATION_IK, task };
+  const discoveryIk: IkOptions = { ...DISCOVERY_IK, task };
 
   const sol = new Float64Array(cells * K * m);
   const count = new Uint8Array(cells);
@@ -310,7 +315,7 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
         if (mine) continue;
         setTarget(next);
         for (let i = 0; i < m; i++) qSeed[i] = sol[from + i]!;
-        if (!solveIkInto(qTry, chain, target, qSeed, ik, CONTINUATION_IK)) continue;
+        if (!solveIkInto(qTry, chain, target, qSeed, ik, continuationIk)) continue;
         // A large joint jump means the solver left the sheet (it landed on another branch near a singularity):
         // keep the solution, but do not join the sheets.
         let jump = 0;
@@ -342,7 +347,7 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
           const u = rnd();
           qTry[i] = t % 2 === 1 && u < 0.15 ? lo : t % 2 === 1 && u > 0.85 ? hi : lo + (hi - lo) * rnd();
         }
-        if (!solveIkInto(qTry, chain, target, qTry, ik, DISCOVERY_IK)) continue;
+        if (!solveIkInto(qTry, chain, target, qTry, ik, discoveryIk)) continue;
         const slot = store(cell);
         if (slot >= 0) {
           push(cell, slot);

@@ -51,6 +51,11 @@ export interface IkOptions {
    * 0 turns it off.
    */
   readonly trustFinalStepBelowM?: number;
+  /**
+   * "full": position and the whole orientation; "axis": position and the tool axis only (rotation about the tool
+   * axis left free). Default: full for six or more driven joints, axis otherwise.
+   */
+  readonly task?: "full" | "axis";
 }
 
 export const DEFAULT_IK: IkOptions = { maxIterations: 40, toleranceM: 1e-7, toleranceRad: 1e-6 };
@@ -149,7 +154,7 @@ export function solveIkInto(
 ): boolean {
   const m = chain.drivenCount, q = s.q, e = s.e, j = s.j, task = s.task, a = s.a, x = s.x;
   const lengthM = chain.characteristicLengthM;
-  const axisOnly = m < 6;
+  const axisOnly = options.task ? options.task === "axis" : m < 6;
   for (let i = 0; i < m; i++) q[i] = Math.min(chain.upperSi[i]!, Math.max(chain.lowerSi[i]!, seed[i]!));
   const tol2p = options.toleranceM * options.toleranceM, tol2r = options.toleranceRad * options.toleranceRad;
   let converged = false;
@@ -272,4 +277,37 @@ function dampedStepInto(s: IkScratch, chain: Chain, e: Float64Array, lambda2: nu
   if (!solve1(a, x, m)) return false;
   for (let i = 0; i < m; i++) dq[i] = x[i]!;
   return true;
+}
+
+/**
+ * Whether an arm with fewer than six driven joints can still hold a full tool orientation in its reachable poses
+ * (a SCARA or palletizer turns its tool about a fixed vertical axis): at a few seeded random poses, a target turned
+ * 0.5 rad about the tool axis is solved with the full task. Arms with six or more joints: true.
+ */
+export function holdsFullOrientation(chain: Chain, random: () => number): boolean {
+  const m = chain.drivenCount;
+  if (m >= 6) return true;
+  const s = createIkScratch(chain);
+  const q = new Float64Array(m), out = new Float64Array(m), target = new Float64Array(16);
+  let ok = 0;
+  const tries = 5;
+  for (let t = 0; t < tries; t++) {
+    for (let i = 0; i < m; i++) {
+      const lo = Math.max(chain.lowerSi[i]!, -Math.PI), hi = Math.min(chain.upperSi[i]!, Math.PI);
+      q[i] = lo + (0.25 + 0.5 * random()) * (hi - lo);
+    }
+    const f = forwardInto(chain, q, s.kin);
+    // target = f · Rz(0.5): the same point and tool axis, turned about the tool axis.
+    const c = Math.cos(0.5), sn = Math.sin(0.5);
+    for (let r = 0; r < 3; r++) {
+      const a = f[r * 4]!, b = f[r * 4 + 1]!;
+      target[r * 4] = c * a + sn * b;
+      target[r * 4 + 1] = -sn * a + c * b;
+      target[r * 4 + 2] = f[r * 4 + 2]!;
+      target[r * 4 + 3] = f[r * 4 + 3]!;
+    }
+    target[15] = 1;
+    if (solveIkInto(out, chain, target, q, s, { ...DEFAULT_IK, task: "full" })) ok++;
+  }
+  return ok * 2 > tries;
 }
