@@ -184,6 +184,7 @@ export const ANALYSIS_SECTIONS: readonly PageSection[] = [
   { id: "singularities", title: "Singularities" },
   { id: "payload", title: "Payload" },
   { id: "cycle", title: "Cycle" },
+  { id: "line-check", title: "Straight lines" },
 ];
 
 /**

@@ -73,12 +73,12 @@ export function orientationText(o: LineOrientation): string {
   return o.kind === "rpy" ? o.rpyDeg.map(plain).join(",") : o.kind;
 }
 
-/** Words for the orientation: "tool pointing down", "roll 180°, pitch 0°, yaw 90°". */
+/** Words for the orientation, as a sentence start: "Tool pointing down …", "Roll 180°, pitch 0°, yaw 90°". */
 export function orientationWords(o: LineOrientation): string {
-  if (o.kind === "down") return "tool pointing down (along gravity)";
-  if (o.kind === "outward") return "tool pointing away from axis 1";
+  if (o.kind === "down") return "Tool pointing down (along gravity)";
+  if (o.kind === "outward") return "Tool pointing away from axis 1";
   const [r, p, y] = o.rpyDeg;
-  return `roll ${formatQuantity(r, "°", 1)}, pitch ${formatQuantity(p, "°", 1)}, yaw ${formatQuantity(y, "°", 1)}`;
+  return `Roll ${formatQuantity(r, "°", 1)}, pitch ${formatQuantity(p, "°", 1)}, yaw ${formatQuantity(y, "°", 1)}`;
 }
 
 /**
@@ -168,12 +168,14 @@ export interface LineFigures {
   readonly feasibleText: string;
   /** The raw figure (mm/s) behind feasibleText; null when unbounded. */
   readonly feasibleMmPerS: number | null;
+  /** What the figure leaves out, when the line has a problem it does not count (joint ranges); null otherwise. */
+  readonly feasibleCaveat: string | null;
   /** "within" / "above" the commanded speed, as a sentence. */
   readonly commandedText: string;
   readonly commandedFeasible: boolean;
   /** "J1 at 212 mm from the start (42 % along)". */
   readonly bottleneckText: string;
-  /** "wrist kind, closest at 130 mm (inverse condition 0.012)". */
+  /** "wrist kind, closest at 130 mm from the start (…); inverse condition 0.012", or "none close: …". */
   readonly singularityText: string;
   /** "front, elbow up, wrist − (best of 7 starts)". */
   readonly startText: string;
@@ -181,8 +183,23 @@ export interface LineFigures {
   readonly problems: readonly string[];
 }
 
+/** Inverse condition below which the page names the kind of the nearest singular pose (above it: "none close"). */
+export const NEAR_SINGULAR_LINE_INVERSE_CONDITION = 0.05;
+
 const percent = (fraction: number) => `${formatNumber(fraction * 100, 0)} %`;
 const along = (fraction: number, lengthMm: number) => `${formatQuantity(fraction * lengthMm, "mm")} from the start (${percent(fraction)} along)`;
+
+/** True when joint i's rate ratio is the same at every reached sample (a gantry axis on a straight line). */
+function constantRatio(r: LineCheckResult, i: number): boolean {
+  let lo = Infinity, hi = -Infinity;
+  for (const s of r.samples) {
+    const v = s.rateRatios?.[i];
+    if (v === null || v === undefined) continue;
+    lo = Math.min(lo, v);
+    hi = Math.max(hi, v);
+  }
+  return hi > 0 && hi - lo <= 1e-9 * hi;
+}
 
 /** The result as sentences. */
 export function lineFigures(r: LineCheckResult): LineFigures {
@@ -196,15 +213,22 @@ export function lineFigures(r: LineCheckResult): LineFigures {
   let bottleneckText = "none";
   if (b) {
     const where = along(b.fraction, r.lengthMm);
-    if (b.reason === "joint rate") bottleneckText = `${b.joint ?? "a joint"} at ${where}, needing ${formatNumber(b.rateRatio ?? 0, 2)} × its speed limit at ${commanded}`;
+    if (b.reason === "joint rate") {
+      const needing = `needing ${formatNumber(b.rateRatio ?? 0, 2)} × its speed limit at ${commanded}`;
+      bottleneckText = b.jointIndex !== null && constantRatio(r, b.jointIndex) ? `${b.joint ?? "a joint"}, the same all along the line, ${needing}` : `${b.joint ?? "a joint"} at ${where}, ${needing}`;
+    }
     else if (b.reason === "out of reach") bottleneckText = `out of reach at ${where}`;
     else if (b.reason === "jump") bottleneckText = `${b.joint ?? "the joints"} must jump at ${where} (no continuous motion: the arm stops and changes posture)`;
     else bottleneckText = `${b.joint ?? "a joint"} would need an unbounded rate at ${where} (singular pose)`;
   }
   const s = r.nearestSingularity;
-  const singularityText = s
-    ? `${s.kind} kind, closest at ${along(s.fraction, r.lengthMm)}; inverse condition ${formatNumber(s.inverseCondition, 3)}${s.singular ? " (singular)" : ""}`
-    : "none found (no point of the line was reached)";
+  const singularityText = !s
+    ? "not known (no point of the line was reached)"
+    : s.singular
+      ? `${s.kind} kind, crossed at ${along(s.fraction, r.lengthMm)} (inverse condition ${formatNumber(s.inverseCondition, 3)})`
+      : s.inverseCondition < NEAR_SINGULAR_LINE_INVERSE_CONDITION
+        ? `${s.kind} kind, closest at ${along(s.fraction, r.lengthMm)}; inverse condition ${formatNumber(s.inverseCondition, 3)}`
+        : `none close: the lowest inverse condition is ${formatNumber(s.inverseCondition, 3)}, at ${along(s.fraction, r.lengthMm)} (0 means singular, 1 best)`;
   const startText = r.startBranch
     ? `${r.startBranch.branch}${r.startBranches.length > 1 ? ` (best of ${r.startBranches.length} start postures)` : ""}`
     : "no posture reaches the start";
@@ -218,9 +242,15 @@ export function lineFigures(r: LineCheckResult): LineFigures {
   }
   if (r.orientationHeld === "tool axis") problems.push("Only the tool axis is held: the arm cannot keep the full orientation, so the rotation about the tool axis is left free.");
   if (r.jointsWithoutSpeedLimit.length > 0) problems.push(`No speed limit in the file for ${r.jointsWithoutSpeedLimit.join(", ")}: not counted.`);
+  const ranges = [...new Set(r.jointLimitViolations.map((v) => v.joint))];
+  const feasibleCaveat =
+    ranges.length > 0 && r.outOfReach.length === 0
+      ? `joint speeds only: ${ranges.join(", ")} ${ranges.length === 1 ? "leaves its" : "leave their"} range on this line (see below)`
+      : null;
   return {
     feasibleText,
     feasibleMmPerS: f,
+    feasibleCaveat,
     commandedText,
     commandedFeasible: r.commandedSpeedFeasible,
     bottleneckText,

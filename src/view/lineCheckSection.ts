@@ -28,14 +28,20 @@ export interface LineCheckArmRef {
   /** Arm file path, for the `armdex line` hint. */
   readonly file: string;
   readonly drivenCount: number;
+  /** This arm's default line (its "front" standard line) as query pairs: the form's values when the URL holds none. */
+  readonly defaults: readonly [string, string][];
 }
 
 /** Settings handed to src/scripts/lineCheck.ts through the section's data-line-check attribute (JSON). */
 export interface LineCheckClientConfig {
+  /** The arms (armsFromQuery: every arm that may be chosen). */
   readonly arms: readonly LineCheckArmRef[];
-  /** Form values when the URL holds no line. */
-  readonly defaults: readonly [string, string][];
+  /** True on the comparison page: the arms checked are those named in the address (`?arms=a,b`), in that order. */
+  readonly armsFromQuery: boolean;
 }
+
+/** URL query key of the compared arms (comparison page). */
+export const COMPARE_ARMS_KEY = "arms";
 
 export interface LineCheckSectionModel {
   readonly heading: string;
@@ -59,14 +65,20 @@ export function armSpecPath(id: string): string {
   return `data/arms/${encodeURIComponent(id)}/spec.json`;
 }
 
-function armRef(arm: LineCheckSectionArm, baseUrl: string): LineCheckArmRef {
+function armRef(arm: LineCheckSectionArm, baseUrl: string, defaults: LineQuery): LineCheckArmRef {
   return {
     id: arm.id,
     name: `${arm.spec.maker} ${arm.spec.model}`,
     specHref: siteHref(baseUrl, armSpecPath(arm.id)),
     file: arm.file,
     drivenCount: arm.chain.drivenCount,
+    defaults: lineQueryPairs(defaults),
   };
+}
+
+/** An arm's default line: its first standard line (chosen without running the check), else a fallback. */
+function defaultQuery(arm: LineCheckSectionArm, analysis: ArmAnalysis | null): LineQuery {
+  return (analysis ? standardLineQueries(analysis, arm.spec.mountings[0] ?? "floor").lines[0]?.query : undefined) ?? fallbackQuery(analysis);
 }
 
 /** Form field values of a query (names as in LineCheck.astro). */
@@ -92,14 +104,14 @@ function orientationChoices(arms: readonly LineCheckArmRef[]): { kinds: LineOrie
       ? ""
       : arms.length === 1
         ? `This arm has ${downOnly[0]!.drivenCount} driven joints: its tool turns about one axis only, so the check holds the tool pointing down.`
-        : `${downOnly.map((a) => a.name).join(", ")} ${downOnly.length === 1 ? "holds" : "hold"} the tool pointing down only (fewer than six driven joints).`;
+        : `Arms with fewer than six driven joints hold the tool pointing down only: ${downOnly.map((a) => a.name).join(", ")}.`;
   return { kinds: ["down", "outward", "rpy"].filter((k) => kinds.has(k as LineOrientation["kind"])) as LineOrientation["kind"][], note };
 }
 
-function section(arms: readonly LineCheckArmRef[], standard: StandardLinesModel | null, defaults: LineQuery): LineCheckSectionModel {
+function section(arms: readonly LineCheckArmRef[], standard: StandardLinesModel | null, defaults: LineQuery, armsFromQuery: boolean): LineCheckSectionModel {
   const { kinds, note } = orientationChoices(arms);
   const several = arms.length > 1;
-  const config: LineCheckClientConfig = { arms, defaults: lineQueryPairs(defaults) };
+  const config: LineCheckClientConfig = { arms, armsFromQuery };
   return {
     heading: "Straight-line check",
     intro:
@@ -131,17 +143,23 @@ function fallbackQuery(analysis: ArmAnalysis | null): LineQuery {
 export function lineCheckSectionModel(arm: LineCheckSectionArm, analysis: ArmAnalysis | null, baseUrl: string): LineCheckSectionModel {
   const standard = analysis ? standardLinesModel(arm, analysis) : null;
   const defaults = standard?.lines[0]?.query ?? fallbackQuery(analysis);
-  return section([armRef(arm, baseUrl)], standard, defaults);
+  return section([armRef(arm, baseUrl, defaults)], standard, defaults, false);
 }
 
 /**
- * The section of the comparison page: the form only, run for every arm at once.
- * @param arms the compared arms, in page order; the default line comes from the first arm's standard "front" line
+ * The section of the comparison page: the form only, run for several arms at once (no standard lines).
+ * @param arms the arms that may be compared (the whole catalog for a static `/compare/?arms=a,b` page), each with
+ *   its analysis (for its default line; null allowed)
+ * @param options.armsFromQuery true (default): the browser checks the arms the address names in `?arms=a,b`, in
+ *   that order; false: it checks every arm given here
  */
-export function lineCheckCompareModel(arms: readonly { readonly arm: LineCheckSectionArm; readonly analysis: ArmAnalysis | null }[], baseUrl: string): LineCheckSectionModel {
+export function lineCheckCompareModel(
+  arms: readonly { readonly arm: LineCheckSectionArm; readonly analysis: ArmAnalysis | null }[],
+  baseUrl: string,
+  options: { readonly armsFromQuery?: boolean } = {},
+): LineCheckSectionModel {
   if (arms.length === 0) throw new RangeError("invalid arms: at least one arm is needed");
+  const refs = arms.map((a) => armRef(a.arm, baseUrl, defaultQuery(a.arm, a.analysis)));
   const first = arms[0]!;
-  const firstLines = first.analysis ? standardLineQueries(first.analysis, first.arm.spec.mountings[0] ?? "floor").lines : [];
-  const defaults = firstLines[0]?.query ?? fallbackQuery(first.analysis);
-  return section(arms.map((a) => armRef(a.arm, baseUrl)), null, defaults);
+  return section(refs, null, defaultQuery(first.arm, first.analysis), options.armsFromQuery ?? true);
 }
