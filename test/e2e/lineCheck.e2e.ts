@@ -180,3 +180,29 @@ describe("straight-line check", () => {
     expect(await finish()).toEqual([]);
   });
 });
+
+describe("straight-line check side by side", () => {
+  it("/compare/?arms=… checks one line for every chosen arm, each figure equal to the CLI's", async () => {
+    // Reference: `armdex line` per arm (the same core in Node); the page reads the arms and the line from its address.
+    const line: Line = { from: "400,-300,300", to: "400,300,300", orientation: "down", speed: "800" };
+    const ids = ["corvell-tern-7", "corvell-tern-25"];
+    const references = await Promise.all(
+      ids.map(async (id) => {
+        const args = ["tsx", "src/cli/armdex.ts", "line", `arms/${id}.json`, `--from=${line.from}`, `--to=${line.to}`, `--orientation=${line.orientation}`, `--speed=${line.speed}`];
+        const { stdout } = await run("npx", args, { cwd: root, maxBuffer: 32 * 1024 * 1024 });
+        return (JSON.parse(stdout) as CliLine).feasibleConstantSpeedMmPerS!;
+      }),
+    );
+    const { page, finish } = await open(`compare/?arms=${ids.join(",")}&${query(line)}`);
+    await waitForResult(page);
+    const text = await page.locator("[data-line-results]").innerText();
+    for (const [i, id] of ids.entries()) {
+      const model = id === "corvell-tern-7" ? "Tern 7" : "Tern 25";
+      const row = page.locator("[data-line-results] tr", { hasText: model }).first();
+      expect(text, `${id} listed`).toContain(model);
+      expectShownEqual(await row.innerText(), references[i]!);
+    }
+    await page.screenshot({ path: join(shotsDir, "compare-line-check.png"), fullPage: true });
+    expect(await finish()).toEqual([]);
+  });
+});
