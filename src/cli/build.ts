@@ -56,8 +56,15 @@ async function main(): Promise<number> {
     return code || 1;
   }
   // Swap: the old site moves aside, the new one takes its name, the old one is removed.
-  if (existsSync(outDir)) await rename(outDir, oldDir);
-  await rename(tmpDir, outDir);
+  const hadOld = existsSync(outDir);
+  if (hadOld) await rename(outDir, oldDir);
+  try {
+    await rename(tmpDir, outDir);
+  } catch (e) {
+    // Put the previous site back rather than leave none.
+    if (hadOld) await rename(oldDir, outDir);
+    throw e;
+  }
   await rm(oldDir, { recursive: true, force: true });
   process.stdout.write(`site written to ${outDir}\n`);
   return 0;
