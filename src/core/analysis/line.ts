@@ -45,6 +45,8 @@
  *   Methods, ch. 2 (predictor–corrector) [from memory]; Kiefer, Proc. AMS 4(3), 1953 (golden-section search)
  *   [from memory]; DOMAIN.md "Speed" (guaranteed straight-line speed) and "Singularities"
  */
+import { solveInPlace } from "../math/linsolve";
+import { rotationErrorInto } from "../math/so3";
 import type { Chain } from "../kinematics/chain";
 import { createScratch, forwardInto, jacobianInto, toolPointInto, wristCentreInto, type KinematicsScratch } from "../kinematics/forward";
 import { createIkScratch, solveIkInto, type IkOptions, type IkScratch } from "../kinematics/inverse";
@@ -455,48 +457,6 @@ function createContext(chain: Chain, input: LineCheckInput, options: LineCheckOp
   };
 }
 
-/** Solves the symmetric positive (semi)definite a·x = x in place (n × n), partial pivoting; false when singular. */
-function solveInPlace(a: Float64Array, x: Float64Array, n: number): boolean {
-  let scale = 0;
-  for (let i = 0; i < n * n; i++) scale = Math.max(scale, Math.abs(a[i]!));
-  if (!(scale > 0)) return false;
-  const tol = 1e-15 * scale;
-  for (let c = 0; c < n; c++) {
-    let p = c, best = Math.abs(a[c * n + c]!);
-    for (let r = c + 1; r < n; r++) {
-      const v = Math.abs(a[r * n + c]!);
-      if (v > best) {
-        best = v;
-        p = r;
-      }
-    }
-    if (!(best > tol)) return false;
-    if (p !== c) {
-      for (let k = 0; k < n; k++) {
-        const t = a[c * n + k]!;
-        a[c * n + k] = a[p * n + k]!;
-        a[p * n + k] = t;
-      }
-      const t = x[c]!;
-      x[c] = x[p]!;
-      x[p] = t;
-    }
-    const piv = a[c * n + c]!;
-    for (let r = c + 1; r < n; r++) {
-      const f = a[r * n + c]! / piv;
-      if (f === 0) continue;
-      for (let k = c; k < n; k++) a[r * n + k] = a[r * n + k]! - f * a[c * n + k]!;
-      x[r] = x[r]! - f * x[c]!;
-    }
-  }
-  for (let c = n - 1; c >= 0; c--) {
-    let v = x[c]!;
-    for (let r = c + 1; r < n; r++) v -= a[c * n + r]! * x[r]!;
-    x[c] = v / a[c * n + c]!;
-  }
-  return true;
-}
-
 /**
  * Task rows of the Jacobian in ctx.j into ctx.task (rows × m): the linear rows, then the angular rows times the
  * characteristic length (all of them for the full pose; their components along the target tool x and y axes for
@@ -532,7 +492,7 @@ function taskSolveInto(ctx: Context, out: Float64Array, lambda2: number): boolea
       }
       x[r] = y[r]!;
     }
-    if (!solveInPlace(a, x, k)) return false;
+    if (!solveInPlace(a, x, k, 1e-15)) return false;
     for (let i = 0; i < m; i++) {
       let v = 0;
       for (let r = 0; r < k; r++) v += t[r * m + i]! * x[r]!;
@@ -551,7 +511,7 @@ function taskSolveInto(ctx: Context, out: Float64Array, lambda2: number): boolea
     for (let i = 0; i < k; i++) v += t[i * m + r]! * y[i]!;
     x[r] = v;
   }
-  if (!solveInPlace(a, x, m)) return false;
+  if (!solveInPlace(a, x, m, 1e-15)) return false;
   for (let i = 0; i < m; i++) out[i] = x[i]!;
   return true;
 }
@@ -579,45 +539,7 @@ function orientationErrorInto(ctx: Context, f: Float64Array): void {
     e[5] = ez;
     return;
   }
-  // R_err = R_t · R_cᵀ; (i, j) = Σ_k R_t[i,k] R_c[j,k].
-  let r00 = 0, r01 = 0, r02 = 0, r10 = 0, r11 = 0, r12 = 0, r20 = 0, r21 = 0, r22 = 0;
-  for (let k = 0; k < 3; k++) {
-    const t0 = r[k]!, t1 = r[3 + k]!, t2 = r[6 + k]!;
-    const c0 = f[k]!, c1 = f[4 + k]!, c2 = f[8 + k]!;
-    r00 += t0 * c0; r01 += t0 * c1; r02 += t0 * c2;
-    r10 += t1 * c0; r11 += t1 * c1; r12 += t1 * c2;
-    r20 += t2 * c0; r21 += t2 * c1; r22 += t2 * c2;
-  }
-  const vx = (r21 - r12) / 2, vy = (r02 - r20) / 2, vz = (r10 - r01) / 2;
-  const sinA = Math.hypot(vx, vy, vz), cosA = (r00 + r11 + r22 - 1) / 2;
-  const angle = Math.atan2(sinA, cosA);
-  if (sinA > 1e-9) {
-    const k = angle / sinA;
-    e[3] = vx * k;
-    e[4] = vy * k;
-    e[5] = vz * k;
-  } else if (cosA > 0) {
-    e[3] = vx;
-    e[4] = vy;
-    e[5] = vz;
-  } else {
-    // Half turn: the axis from the diagonal of (R_err + I)/2 = k kᵀ.
-    const kx = Math.sqrt(Math.max(0, (r00 + 1) / 2)), ky = Math.sqrt(Math.max(0, (r11 + 1) / 2)), kz = Math.sqrt(Math.max(0, (r22 + 1) / 2));
-    let ax = kx, ay = ky, az = kz;
-    if (kx >= ky && kx >= kz) {
-      ay = Math.sign(r01 + r10) * ky;
-      az = Math.sign(r02 + r20) * kz;
-    } else if (ky >= kz) {
-      ax = Math.sign(r01 + r10) * kx;
-      az = Math.sign(r12 + r21) * kz;
-    } else {
-      ax = Math.sign(r02 + r20) * kx;
-      ay = Math.sign(r12 + r21) * ky;
-    }
-    e[3] = Math.PI * ax;
-    e[4] = Math.PI * ay;
-    e[5] = Math.PI * az;
-  }
+  rotationErrorInto(e, 3, r, 3, f);
 }
 
 /**

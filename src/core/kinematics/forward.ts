@@ -1,5 +1,5 @@
 import type { Chain } from "./chain";
-import { identity4Into, mul4AtInto, mul4Into, rotationAxisAngleInto, translationInto, transformPointInto } from "../math/mat4";
+import { mul4AtInto, mul4Into, rotationAxisAngleInto, translationInto, transformPointInto } from "../math/mat4";
 
 /** Preallocated buffers for one chain. Made once per analysis; the hot kernels allocate nothing. */
 export interface KinematicsScratch {
@@ -158,9 +158,4 @@ export function jacobianInto(out: Float64Array, chain: Chain, s: KinematicsScrat
     }
   }
   return out;
-}
-
-/** Scratch-free identity used by callers that need a fresh transform. */
-export function identityPose(): Float64Array {
-  return identity4Into(new Float64Array(16));
 }

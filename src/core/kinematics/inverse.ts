@@ -10,6 +10,8 @@
  */
 import type { Chain } from "./chain";
 import { createScratch, forwardInto, jacobianInto, type KinematicsScratch } from "./forward";
+import { solveInPlace } from "../math/linsolve";
+import { rotationErrorInto } from "../math/so3";
 
 export interface IkScratch {
   readonly kin: KinematicsScratch;
@@ -60,85 +62,6 @@ export interface IkOptions {
 
 export const DEFAULT_IK: IkOptions = { maxIterations: 40, toleranceM: 1e-7, toleranceRad: 1e-6 };
 
-/** Axis-angle vector ω (rad) with exp([ω]) = R_target · Rᵀ, from two row-major 4×4 poses. Writes e[3..5]. */
-function orientationErrorInto(e: Float64Array, t: Float64Array, target: ArrayLike<number>): void {
-  // R_err = Rt · Rᵀ; element (r, c) = Σ_k Rt[r,k] R[c,k] (written out: no closure in the hot path).
-  const t0 = target[0]!, t1 = target[1]!, t2 = target[2]!, t4 = target[4]!, t5 = target[5]!, t6 = target[6]!;
-  const t8 = target[8]!, t9 = target[9]!, t10 = target[10]!;
-  const r00 = t0 * t[0]! + t1 * t[1]! + t2 * t[2]!, r01 = t0 * t[4]! + t1 * t[5]! + t2 * t[6]!, r02 = t0 * t[8]! + t1 * t[9]! + t2 * t[10]!;
-  const r10 = t4 * t[0]! + t5 * t[1]! + t6 * t[2]!, r11 = t4 * t[4]! + t5 * t[5]! + t6 * t[6]!, r12 = t4 * t[8]! + t5 * t[9]! + t6 * t[10]!;
-  const r20 = t8 * t[0]! + t9 * t[1]! + t10 * t[2]!, r21 = t8 * t[4]! + t9 * t[5]! + t10 * t[6]!, r22 = t8 * t[8]! + t9 * t[9]! + t10 * t[10]!;
-  const vx = (r21 - r12) / 2, vy = (r02 - r20) / 2, vz = (r10 - r01) / 2;
-  const sinA = Math.hypot(vx, vy, vz);
-  const cosA = (r00 + r11 + r22 - 1) / 2;
-  const angle = Math.atan2(sinA, cosA);
-  if (sinA > 1e-9) {
-    const f = angle / sinA;
-    e[3] = vx * f;
-    e[4] = vy * f;
-    e[5] = vz * f;
-  } else if (cosA > 0) {
-    e[3] = vx;
-    e[4] = vy;
-    e[5] = vz;
-  } else {
-    // Half-turn: axis from the diagonal of (R_err + I) / 2 = k kᵀ.
-    const kx = Math.sqrt(Math.max(0, (r00 + 1) / 2)), ky = Math.sqrt(Math.max(0, (r11 + 1) / 2)), kz = Math.sqrt(Math.max(0, (r22 + 1) / 2));
-    let ax = kx, ay = ky, az = kz;
-    if (kx >= ky && kx >= kz) {
-      ay = Math.sign(r01 + r10) * ky;
-      az = Math.sign(r02 + r20) * kz;
-    } else if (ky >= kz) {
-      ax = Math.sign(r01 + r10) * kx;
-      az = Math.sign(r12 + r21) * kz;
-    } else {
-      ax = Math.sign(r02 + r20) * kx;
-      ay = Math.sign(r12 + r21) * ky;
-    }
-    e[3] = Math.PI * ax;
-    e[4] = Math.PI * ay;
-    e[5] = Math.PI * az;
-  }
-}
-
-/** Solves a·x = b in place (k × k, one right-hand side) with partial pivoting; false when singular. */
-function solve1(a: Float64Array, x: Float64Array, k: number): boolean {
-  for (let c = 0; c < k; c++) {
-    let p = c, best = Math.abs(a[c * k + c]!);
-    for (let r = c + 1; r < k; r++) {
-      const v = Math.abs(a[r * k + c]!);
-      if (v > best) {
-        best = v;
-        p = r;
-      }
-    }
-    if (!(best > 1e-300)) return false;
-    if (p !== c) {
-      for (let j = 0; j < k; j++) {
-        const t = a[c * k + j]!;
-        a[c * k + j] = a[p * k + j]!;
-        a[p * k + j] = t;
-      }
-      const t = x[c]!;
-      x[c] = x[p]!;
-      x[p] = t;
-    }
-    const piv = a[c * k + c]!;
-    for (let r = c + 1; r < k; r++) {
-      const f = a[r * k + c]! / piv;
-      if (f === 0) continue;
-      for (let j = c; j < k; j++) a[r * k + j] = a[r * k + j]! - f * a[c * k + j]!;
-      x[r] = x[r]! - f * x[c]!;
-    }
-  }
-  for (let c = k - 1; c >= 0; c--) {
-    let v = x[c]!;
-    for (let r = c + 1; r < k; r++) v -= a[c * k + r]! * x[r]!;
-    x[c] = v / a[c * k + c]!;
-  }
-  return true;
-}
-
 /**
  * Solves for driven joints that put the flange at `baseFromFlangeTarget` (row-major 4×4, m), starting from `seed`,
  * keeping every joint inside its range. Writes the solution into `qOut` (may alias `seed`) and returns whether it
@@ -179,7 +102,7 @@ export function solveIkInto(
         e[5] = e[5]! / n;
       }
     } else {
-      orientationErrorInto(e, t, baseFromFlangeTarget);
+      rotationErrorInto(e, 3, baseFromFlangeTarget, 4, t);
     }
     const ep2 = e[0]! * e[0]! + e[1]! * e[1]! + e[2]! * e[2]!;
     const er2 = e[3]! * e[3]! + e[4]! * e[4]! + e[5]! * e[5]!;
@@ -254,7 +177,7 @@ function dampedStepInto(s: IkScratch, chain: Chain, e: Float64Array, lambda2: nu
       }
       y[r] = r < 3 ? e[r]! : e[r]! * lengthM;
     }
-    if (!solve1(a, y, 6)) return false;
+    if (!solveInPlace(a, y, 6)) return false;
     for (let i = 0; i < m; i++) {
       let v = 0;
       for (let k = 0; k < 6; k++) v += task[k * m + i]! * y[k]!;
@@ -274,7 +197,7 @@ function dampedStepInto(s: IkScratch, chain: Chain, e: Float64Array, lambda2: nu
     for (let k = 3; k < 6; k++) rhs += task[k * m + r]! * e[k]! * lengthM;
     x[r] = rhs;
   }
-  if (!solve1(a, x, m)) return false;
+  if (!solveInPlace(a, x, m)) return false;
   for (let i = 0; i < m; i++) dq[i] = x[i]!;
   return true;
 }

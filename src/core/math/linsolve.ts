@@ -1,0 +1,46 @@
+/**
+ * Solves a·x = b in place for one right-hand side (a: n × n row-major, overwritten; x: b on entry, the solution on
+ * return) by Gaussian elimination with partial pivoting. Returns false when a pivot is not above
+ * max(relTol × the largest |entry|, 1e-300). Allocates nothing.
+ * @see Golub & Van Loan, Matrix Computations, 4th ed., §3.4 (partial pivoting) [from memory]
+ */
+export function solveInPlace(a: Float64Array, x: Float64Array, n: number, relTol = 0): boolean {
+  let scale = 0;
+  for (let i = 0; i < n * n; i++) scale = Math.max(scale, Math.abs(a[i]!));
+  if (!(scale > 0)) return false;
+  const tol = Math.max(relTol * scale, 1e-300);
+  for (let c = 0; c < n; c++) {
+    let p = c, best = Math.abs(a[c * n + c]!);
+    for (let r = c + 1; r < n; r++) {
+      const v = Math.abs(a[r * n + c]!);
+      if (v > best) {
+        best = v;
+        p = r;
+      }
+    }
+    if (!(best > tol)) return false;
+    if (p !== c) {
+      for (let k = 0; k < n; k++) {
+        const t = a[c * n + k]!;
+        a[c * n + k] = a[p * n + k]!;
+        a[p * n + k] = t;
+      }
+      const t = x[c]!;
+      x[c] = x[p]!;
+      x[p] = t;
+    }
+    const piv = a[c * n + c]!;
+    for (let r = c + 1; r < n; r++) {
+      const f = a[r * n + c]! / piv;
+      if (f === 0) continue;
+      for (let k = c; k < n; k++) a[r * n + k] = a[r * n + k]! - f * a[c * n + k]!;
+      x[r] = x[r]! - f * x[c]!;
+    }
+  }
+  for (let c = n - 1; c >= 0; c--) {
+    let v = x[c]!;
+    for (let r = c + 1; r < n; r++) v -= a[c * n + r]! * x[r]!;
+    x[c] = v / a[c * n + c]!;
+  }
+  return true;
+}
