@@ -5,8 +5,8 @@
  */
 import { spawn } from "node:child_process";
 import { existsSync } from "node:fs";
-import { rename, rm } from "node:fs/promises";
-import { resolve } from "node:path";
+import { readdir, rename, rm } from "node:fs/promises";
+import { basename, dirname, resolve } from "node:path";
 
 const root = process.cwd();
 const outDir = resolve(root, process.env.ARMDEX_OUT_DIR ?? "dist");
@@ -25,15 +25,53 @@ function run(command: string, args: string[]): Promise<number> {
   });
 }
 
+/**
+ * Removes this build's temporary folder. Called once the step that wrote it has exited; a second pass after a short
+ * pause catches files a dying process still flushed while the first pass ran.
+ */
 async function cleanup(): Promise<void> {
-  await rm(tmpDir, { recursive: true, force: true });
+  await rm(tmpDir, { recursive: true, force: true, maxRetries: 3 });
+  if (existsSync(tmpDir) || interrupted) {
+    await new Promise((r) => setTimeout(r, 250));
+    await rm(tmpDir, { recursive: true, force: true, maxRetries: 3 });
+  }
 }
 
+/**
+ * Folders of earlier builds killed outright (SIGKILL, power loss): a temporary folder was never published and is
+ * removed; a set-aside previous site is restored when no site took its place, else removed.
+ */
+async function removeStaleFolders(): Promise<void> {
+  const parent = dirname(outDir);
+  if (!existsSync(parent)) return;
+  const pattern = new RegExp(`^${basename(outDir).replace(/[.*+?^${}()|[\]\\]/g, "\\$&")}\\.(building|previous)-(\\d+)$`);
+  for (const name of await readdir(parent)) {
+    const m = pattern.exec(name);
+    if (!m || Number(m[2]) === process.pid || isAlive(Number(m[2]))) continue;
+    // Killed between the two renames of a swap: the set-aside folder is the last published site; put it back.
+    if (m[1] === "previous" && !existsSync(outDir)) await rename(resolve(parent, name), outDir);
+    else await rm(resolve(parent, name), { recursive: true, force: true });
+  }
+}
+
+function isAlive(pid: number): boolean {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch (e) {
+    return (e as NodeJS.ErrnoException).code === "EPERM";
+  }
+}
+
+// An interrupt stops the running step; the main flow then removes the temporary folder once that step has exited
+// (removing it while Astro still writes would race) and leaves dist/ as it was. A signal that arrives during the
+// final swap waits for it: the two renames finish, so dist/ is the old site or the new one, never neither.
 for (const signal of ["SIGINT", "SIGTERM"] as const) {
   process.on(signal, () => {
+    if (interrupted) return;
     interrupted = true;
+    process.stderr.write(`build interrupted (${signal})\n`);
     child?.kill(signal);
-    void cleanup().then(() => process.exit(130));
   });
 }
 
@@ -41,19 +79,20 @@ async function main(): Promise<number> {
   const tsx = resolve(root, "node_modules/.bin/tsx");
   const astro = resolve(root, "node_modules/.bin/astro");
   const cli = resolve(root, "src/cli/armdex.ts");
+  await removeStaleFolders();
   for (const step of [["schema"], ["check"], ["analyze", "--all"]]) {
     const code = await run(tsx, [cli, ...step]);
     if (code !== 0 || interrupted) {
       process.stderr.write(`build stopped at "armdex ${step.join(" ")}"; ${existsSync(outDir) ? "the previous site in dist/ is unchanged" : "nothing was published"}\n`);
-      return code || 1;
+      return interrupted ? 130 : code || 1;
     }
   }
   await cleanup();
-  const code = await run(astro, ["build", "--outDir", tmpDir]);
+  const code = interrupted ? 130 : await run(astro, ["build", "--outDir", tmpDir]);
   if (code !== 0 || interrupted) {
     await cleanup();
-    process.stderr.write(`astro build failed; ${existsSync(outDir) ? "the previous site in dist/ is unchanged" : "nothing was published"}\n`);
-    return code || 1;
+    process.stderr.write(`astro build ${interrupted ? "interrupted" : "failed"}; ${existsSync(outDir) ? "the previous site in dist/ is unchanged" : "nothing was published"}\n`);
+    return interrupted ? 130 : code || 1;
   }
   // Swap: the old site moves aside, the new one takes its name, the old one is removed.
   const hadOld = existsSync(outDir);
