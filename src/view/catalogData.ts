@@ -1,6 +1,7 @@
 /** The catalog summary written to data/catalog.json: one row per arm with its key declared and computed figures. */
 import type { Arm } from "../catalog/load";
 import type { ArmAnalysis } from "../core/analysis/analyseArm";
+import { bestGuaranteedLineSpeedDownMPerS } from "./catalogPageModel";
 
 export function catalogSummaryRow(arm: Arm, analysis: ArmAnalysis) {
   const s = arm.spec;
@@ -26,6 +27,8 @@ export function catalogSummaryRow(arm: Arm, analysis: ArmAnalysis) {
     repeatabilityMm: s.repeatabilityMm,
     massKg: s.massKg,
     maxToolSpeedMmPerS: analysis.speed.maxToolSpeedMmPerS,
+    /** Highest guaranteed straight-line speed in the "down" map (tool pointing down), m/s. */
+    bestGuaranteedLineSpeedToolDownMPerS: bestGuaranteedLineSpeedDownMPerS(analysis),
     shareGuaranteedAtLeast1MPerS: analysis.speed.shareAtLeast["1"] ?? null,
     shareOrientation: down?.orientation ?? null,
     standardCycleS: analysis.cycle.standardCycleS === null ? null : Number(analysis.cycle.standardCycleS.toFixed(3)),

@@ -1,5 +1,5 @@
 /** Props of the catalog page: one row per arm with its key declared figures and, given the analyses, computed ones. */
-import type { Arm } from "../catalog";
+import type { Arm, ArmSpec } from "../catalog";
 import type { ArmAnalysis } from "../core/analysis/analyseArm";
 import { formatSignedPercent, reachCheck } from "./armAnalysisModel";
 import { formatList, formatNumber, formatPrice, NOT_STATED } from "./format";
@@ -7,11 +7,18 @@ import { CLASS_LABEL, MOUNTING_LABEL } from "./labels";
 import { armPath, siteHref } from "./links";
 import type { TableCell, TableColumn, TableModel, TableRow } from "./table";
 
+export interface FilterOption {
+  readonly value: string;
+  readonly label: string;
+}
+
 export interface CatalogPageModel {
   readonly title: string;
   /** "3 arms from 2 makers". */
   readonly countText: string;
   readonly table: TableModel;
+  /** Choices of the filter form: the classes and mountings that occur in the catalog, in the format's order. */
+  readonly filterChoices: { readonly classes: readonly FilterOption[]; readonly mountings: readonly FilterOption[] };
 }
 
 export interface ViewOptions {
@@ -36,14 +43,25 @@ const COLUMNS: readonly TableColumn[] = [
 const COMPUTED_REACH_COLUMN: TableColumn = { key: "computed-reach", label: "Computed reach", unit: "mm", numeric: true };
 const COMPUTED_COLUMNS: readonly TableColumn[] = [
   { key: "max-tool-speed", label: "Max tool speed", unit: "m/s", numeric: true },
+  { key: "line-speed", label: "Best guaranteed line speed, tool down", unit: "m/s", numeric: true },
   { key: "share-1", label: "Share \u2265 1 m/s, tool down", unit: "%", numeric: true },
   { key: "cycle", label: "Standard cycle", unit: "s", numeric: true },
 ];
 
+/**
+ * The arm's best guaranteed straight-line speed with the tool pointing down, m/s: the largest value of the "down"
+ * tool-speed map (every arm has that map; the share column uses it too). Null without a map.
+ */
+export function bestGuaranteedLineSpeedDownMPerS(analysis: ArmAnalysis): number | null {
+  const down = analysis.speed.maps.find((m) => m.orientation === "down");
+  const v = down?.maxGuaranteedMmPerS;
+  return v === null || v === undefined ? null : v / 1000;
+}
+
 function computedCells(analysis: ArmAnalysis | undefined): { reach: TableCell; stated: TableCell | null; rest: TableCell[] } {
   if (!analysis) {
     const none = { text: "not computed" };
-    return { reach: none, stated: null, rest: [none, none, none] };
+    return { reach: none, stated: null, rest: [none, none, none, none] };
   }
   const rc = reachCheck(analysis);
   const reach: TableCell = { text: formatNumber(rc.computedMm), note: rc.basis === "wcp" ? "WCP" : "flange", sortValue: rc.computedMm };
@@ -58,6 +76,7 @@ function computedCells(analysis: ArmAnalysis | undefined): { reach: TableCell; s
   const down = analysis.speed.maps.find((m) => m.orientation === "down");
   const share = down?.shareAtLeast["1"];
   const v = analysis.speed.maxToolSpeedMmPerS;
+  const line = bestGuaranteedLineSpeedDownMPerS(analysis);
   const c = analysis.cycle.standardCycleS;
   // Where the cycle could not be computed the arm sheet gives the reason; the table stays narrow.
   const cycleCell: TableCell = c === null ? { text: "not computed" } : { text: formatNumber(c, 2), sortValue: c };
@@ -66,6 +85,7 @@ function computedCells(analysis: ArmAnalysis | undefined): { reach: TableCell; s
     stated,
     rest: [
       v === null ? { text: "not computed" } : { text: formatNumber(v / 1000, 2), sortValue: v / 1000 },
+      line === null ? { text: "not computed" } : { text: formatNumber(line, 2), sortValue: line },
       share === undefined ? { text: "\u2014" } : { text: formatNumber(share * 100, 1), sortValue: share * 100 },
       cycleCell,
     ],
@@ -91,8 +111,23 @@ export function catalogPageModel(arms: readonly Arm[], options: ViewOptions, ana
     const c = s.commercial;
     const computed = withComputed ? computedCells(analyses.get(arm.id)) : null;
     const statedCell: TableCell = s.reachMm === undefined ? { text: NOT_STATED } : (computed?.stated ?? { text: formatNumber(s.reachMm), sortValue: s.reachMm });
+    const analysis = analyses?.get(arm.id);
+    const line = analysis ? bestGuaranteedLineSpeedDownMPerS(analysis) : null;
+    const data: Record<string, string> = {
+      class: s.class,
+      mountings: s.mountings.join(" "),
+      "payload-kg": String(s.ratedPayloadKg),
+    };
+    if (analysis) {
+      data["computed-reach-mm"] = String(reachCheck(analysis).computedMm);
+      if (analysis.reach.minHeightMm !== null) data["min-height-mm"] = String(analysis.reach.minHeightMm);
+      if (analysis.reach.maxHeightMm !== null) data["max-height-mm"] = String(analysis.reach.maxHeightMm);
+      if (line !== null) data["line-speed-m-per-s"] = String(line);
+    }
     return {
       key: arm.id,
+      label: `${s.maker} ${s.model}`,
+      data,
       cells: [
         { text: s.maker, sortValue: s.maker },
         { text: s.model, sortValue: s.model, href: siteHref(options.baseUrl, armPath(arm.id)) },
@@ -106,7 +141,7 @@ export function catalogPageModel(arms: readonly Arm[], options: ViewOptions, ana
         ...(computed ? computed.rest : []),
         { text: formatList(s.mountings.map((m) => MOUNTING_LABEL[m])), sortValue: s.mountings.join(" ") },
         { text: s.protection, sortValue: s.protection },
-        ...(withPrice ? [c ? { text: formatPrice(c.listPrice, c.currency), sortValue: c.listPrice } : { text: NOT_STATED }] : []),
+        ...(withPrice ? [c ? { text: formatPrice(c.listPrice, c.currency), sortValue: c.listPrice, sortGroup: c.currency } : { text: NOT_STATED }] : []),
       ],
     };
   });
@@ -118,10 +153,16 @@ export function catalogPageModel(arms: readonly Arm[], options: ViewOptions, ana
   return {
     title: "Catalog",
     countText: `${plural(arms.length, "arm")} from ${plural(makers, "maker")}`,
+    filterChoices: {
+      classes: (Object.keys(CLASS_LABEL) as ArmSpec["class"][]).filter((k) => arms.some((a) => a.spec.class === k)).map((k) => ({ value: k, label: CLASS_LABEL[k] })),
+      mountings: (Object.keys(MOUNTING_LABEL) as ArmSpec["mountings"][number][])
+        .filter((k) => arms.some((a) => a.spec.mountings.includes(k)))
+        .map((k) => ({ value: k, label: MOUNTING_LABEL[k] })),
+    },
     table: {
       id: "catalog",
       caption: withComputed
-        ? "Every arm in the catalog: figures as declared in its source document, and computed reach, tool speed, line-speed share and cycle estimate"
+        ? "Every arm in the catalog: figures as declared in its source document, and computed reach, tool speed, line speed, line-speed share and cycle estimate"
         : "Every arm in the catalog, with figures as declared in its source document",
       rowHeaders: false,
       columns,
@@ -129,8 +170,10 @@ export function catalogPageModel(arms: readonly Arm[], options: ViewOptions, ana
       ...(withComputed && {
         footnote:
           "Computed reach: of the wrist centre point (WCP), or of the flange centre where the arm has none. Under the stated reach: how far it lies from the computed one, " +
-          "marked \u201ccheck\u201d beyond 2\u00a0%. Share \u2265 1 m/s: share of the side view reached with the tool pointing down where the guaranteed straight-line speed is at least 1 m/s. " +
-          "Speeds and the cycle are for the flange centre with no tool, from joint limits only. Computed figures are for early comparison, not maker figures.",
+          "marked \u201ccheck\u201d beyond 2\u00a0%. Best guaranteed line speed: the highest guaranteed straight-line speed anywhere in the side view with the tool pointing down. " +
+          "Share \u2265 1 m/s: share of the side view reached with the tool pointing down where the guaranteed straight-line speed is at least 1 m/s. " +
+          "Speeds and the cycle are for the flange centre with no tool, from joint limits only. Computed figures are for early comparison, not maker figures." +
+          (withPrice ? " List prices are not converted between currencies: they sort by currency first." : ""),
       }),
     },
   };

@@ -19,10 +19,16 @@ export interface TableCell {
   readonly href?: string;
   /** Raw value for sorting: a number in the column's unit, or a string. */
   readonly sortValue?: number | string;
+  /** Sorted by this first (`data-sort-group`), e.g. the currency of a price: amounts are never converted. */
+  readonly sortGroup?: string;
 }
 
 export interface TableRow {
   readonly key: string;
+  /** Name of the row in words, for controls that act on it ("Corvell Tern 7"). */
+  readonly label?: string;
+  /** Raw figures written as `data-<name>` attributes on the row, for scripts (names in kebab-case). */
+  readonly data?: Readonly<Record<string, string>>;
   /** Cells in column order. */
   readonly cells: readonly TableCell[];
 }
