@@ -2,8 +2,11 @@
  * npm run bench: speed is measured here, never in unit tests. Reports medians (and ratios against a baseline
  * measured in the same run):
  * 1. the per-pose kernel (FK + Jacobian + singular values + both speed figures), ours vs ml-matrix objects;
- * 2. per-stage analysis times for every arm of the catalog, single-threaded.
- * Options: --arms <folder> (default arms/), --quick (fewer repetitions).
+ * 2. per-stage analysis times for every arm of the catalog, single-threaded;
+ * 3. catalog scale: a generated catalog of 300 arm variants built cold, then warm after adding one arm (build time,
+ *    peak memory of the build's processes, per-arm analysis time; see scale.ts).
+ * Options: --arms <folder> (default arms/), --quick (fewer repetitions, 30 generated arms), --only <ids>,
+ * --scale-arms <n> (default 300), --no-scale (skip section 3).
  */
 import { parseArgs } from "node:util";
 import { loadArms } from "../../src/catalog";
@@ -15,8 +18,11 @@ import { payloadAtReach, payloadInputOf, loadDiagram } from "../../src/core/anal
 import { analyseArm } from "../../src/core/analysis/analyseArm";
 import { gravityDirectionInBase } from "../../src/core/analysis/mounting";
 import { armFacts } from "../../src/catalog/analysis";
+import { runScaleBench } from "./scale";
 
-const { values } = parseArgs({ options: { arms: { type: "string" }, quick: { type: "boolean" }, only: { type: "string" } } });
+const { values } = parseArgs({
+  options: { arms: { type: "string" }, quick: { type: "boolean" }, only: { type: "string" }, "scale-arms": { type: "string" }, "no-scale": { type: "boolean" } },
+});
 const reps = values.quick ? 3 : 7;
 
 function median(xs: number[]): number {
@@ -73,4 +79,10 @@ for (const arm of chosen) {
   })));
   const full = median(Array.from({ length: 1 }, () => timeMs(() => analyseArm(c, facts))));
   console.log(`${arm.id.padEnd(28)} ${env.toFixed(0).padStart(8)} ${maps.toFixed(0).padStart(11)} ${pay.toFixed(0).padStart(8)} ${full.toFixed(0).padStart(14)}`);
+}
+
+// 3. Catalog scale.
+if (!values["no-scale"]) {
+  console.log("\ncatalog scale (whole build: check, analyses in worker threads, site):");
+  await runScaleBench({ root: process.cwd(), arms: Number(values["scale-arms"] ?? (values.quick ? 30 : 300)) });
 }
