@@ -7,11 +7,11 @@ import type { Chain } from "../kinematics/chain";
 import { mToMm } from "../units";
 import { DEFAULT_SPEED_MAP, referenceOrientations, toolSpeedMap, type ReferenceOrientation, type SpeedMapOptions, type ToolSpeedMap } from "./speedMap";
 import { gravityDirectionInBase, type Mounting } from "./mounting";
-import { analysePayload, payloadInputOf, type PayloadSpec } from "./payload";
+import { analysePayload, payloadInputOf, type PayloadAnalysisOptions, type PayloadSpec } from "./payload";
 import { standardCycle } from "./cycle";
-import { workspaceEnvelope, type PointEnvelope, type PolygonMm, type WorkspaceEnvelope } from "./envelope";
+import { DEFAULT_ENVELOPE_OPTIONS, workspaceEnvelope, type EnvelopeOptions, type PointEnvelope, type PolygonMm, type WorkspaceEnvelope } from "./envelope";
 
-export const ANALYSIS_VERSION = "3";
+export const ANALYSIS_VERSION = "4";
 
 /** Arm facts the analysis needs besides the chain (plain types; the catalog fills them from the arm file). */
 export interface ArmFacts extends PayloadSpec {
@@ -25,6 +25,10 @@ export interface ArmFacts extends PayloadSpec {
 export interface AnalysisOptions {
   readonly mapStepMm: number;
   readonly seed: number;
+  /** Overrides of the envelope options (a coarser envelope for property tests); absent from published analyses. */
+  readonly envelope?: Partial<EnvelopeOptions> | undefined;
+  /** Overrides of the payload options (a coarser posture search for property tests); absent from published analyses. */
+  readonly payload?: Partial<PayloadAnalysisOptions> | undefined;
 }
 
 export const DEFAULT_ANALYSIS: AnalysisOptions = { mapStepMm: 10, seed: 20261202 };
@@ -96,7 +100,7 @@ export function analyseArm(chain: Chain, facts: ArmFacts, options: AnalysisOptio
   const gravity = gravityDirectionInBase(primary);
 
   // 1. Envelope.
-  const envelope: WorkspaceEnvelope = workspaceEnvelope(chain);
+  const envelope: WorkspaceEnvelope = workspaceEnvelope(chain, { ...DEFAULT_ENVELOPE_OPTIONS, ...options.envelope });
   const wcp = envelope.wcp;
   const flange = envelope.flange;
   if (!flange) throw new RangeError("invalid envelope: the flange envelope is required");
@@ -116,7 +120,7 @@ export function analyseArm(chain: Chain, facts: ArmFacts, options: AnalysisOptio
   const loci = maps.flatMap((map) => map.loci.map((l) => ({ kind: l.kind, orientation: map.orientation, polylinesMm: l.polylinesMm.map((p) => p.map(([r, z]) => [round(r, 1), round(z, 1)])) })));
 
   // 4. Payload.
-  const payload = analysePayload(chain, payloadInputOf(facts, chain));
+  const payload = analysePayload(chain, payloadInputOf(facts, chain), options.payload ?? {});
   for (const w of payload.warnings) warnings.push({ code: "payload-above-wrist-rating", message: w.message });
 
   // 5. Cycle: at 60 % of the flange reach, at the height of the best guaranteed speed in the "down" map there.

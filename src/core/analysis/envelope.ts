@@ -556,7 +556,9 @@ function projectedBase(chain: Chain, o: EnvelopeOptions, layout: "prismatic-base
       side: sidePolygons,
       top: topPolygons,
       maxReachMm: maxReach,
-      minReachMm: pointInPolygons(0, 0, topPolygons) ? 0 : distanceToPolygons(0, 0, topPolygons),
+      // the nearest sample (refined) bounds the minimum too: the top view may have no polygon at all when the
+      // point's projection on the base x–y plane has no area (a vertical line or curve)
+      minReachMm: pointInPolygons(0, 0, topPolygons) ? 0 : Math.max(0, Math.min(topExt.refined(1), distanceToPolygons(0, 0, topPolygons))),
       maxHeightMm: maxH,
       minHeightMm: minH,
       sideAreaM2: side.area() / MM2_PER_M2,

@@ -132,8 +132,9 @@ export function addSlice(cover: RowCover, c0: Float64Array, c1: Float64Array, c2
   }
   areaSum /= 2;
   const extent = Math.max(umax - umin, vmax - vmin, 1e-12);
-  if (cellsA === 0 || cellsB === 0 || (areaSum < 0.25 * dy * extent && clips === 0)) {
-    addConservative(cover, u, v, na, nb, 0.5 * mode.nodeSpacingMm, umin, umax, vmin, vmax, !signed);
+  // (a thin image that crosses the axis counts too: its clipped pieces have no area to fill either)
+  if (cellsA === 0 || cellsB === 0 || areaSum < 0.25 * dy * extent) {
+    addConservative(cover, u, v, na, nb, 0.5 * mode.nodeSpacingMm, umin, umax, vmin, vmax, !signed, signed ? { s, x: c0, y: c1, h: c2 } : null);
     return;
   }
   s.count = 0;
@@ -214,14 +215,16 @@ const TRI_X = new Float64Array(3), TRI_Y = new Float64Array(3), TRI_H = new Floa
 const TRI_U = new Float64Array(3), TRI_V = new Float64Array(3);
 const PIECE = new Float64Array(16);
 
-/** Sets clipped / piece signs of triangle t (points p, q, r) and returns its |area| (0 when clipped). */
+/** Sets clipped / piece signs of triangle t (points p, q, r) and returns twice its |area| in the image (for a
+ * clipped triangle, of its front and back pieces together). */
 function triangleSigns(s: SliceScratch, t: number, x: Float64Array, y: Float64Array, h: Float64Array, u: Float64Array, v: Float64Array, p: number, q: number, r: number, signed: boolean): number {
   const side = s.side;
   if (signed && !(side[p] === side[q] && side[q] === side[r]) && Math.max(Math.abs(y[p]!), Math.abs(y[q]!), Math.abs(y[r]!)) > CLIP_EPS_MM) {
     s.clipped[t] = 1;
-    s.signF[t] = pieceArea2(s, x, y, h, p, q, r, 1) >= 0 ? 1 : -1;
-    s.signB[t] = pieceArea2(s, x, y, h, p, q, r, 0) >= 0 ? 1 : -1;
-    return 0;
+    const front = pieceArea2(s, x, y, h, p, q, r, 1), back = pieceArea2(s, x, y, h, p, q, r, 0);
+    s.signF[t] = front >= 0 ? 1 : -1;
+    s.signB[t] = back >= 0 ? 1 : -1;
+    return Math.abs(front) + Math.abs(back);
   }
   const a2 = (u[q]! - u[p]!) * (v[r]! - v[p]!) - (u[r]! - u[p]!) * (v[q]! - v[p]!);
   const sg = a2 >= 0 ? 1 : -1;
@@ -429,8 +432,12 @@ function sortRow(xs: Float64Array, ds: Int8Array, start: number, end: number): v
   }
 }
 
-/** Marks every grid edge conservatively: the x-extent of the edge within each row band it crosses, widened. */
-function addConservative(cover: RowCover, u: Float64Array, v: Float64Array, na: number, nb: number, widen: number, umin: number, umax: number, vmin: number, vmax: number, continuous: boolean): void {
+/**
+ * Marks every grid edge conservatively: the x-extent of the edge within each row band it crosses, widened. In
+ * signed-radius mode (`clip` given) an edge whose x changes sign is split where it crosses x = 0, and each piece is
+ * mapped on its own side (r = ±|y| at the cut), so the jump of r across the axis is not filled in.
+ */
+function addConservative(cover: RowCover, u: Float64Array, v: Float64Array, na: number, nb: number, widen: number, umin: number, umax: number, vmin: number, vmax: number, continuous: boolean, clip: { s: SliceScratch; x: Float64Array; y: Float64Array; h: Float64Array } | null = null): void {
   const yb = cover.y0, dy = cover.dy;
   const jlo = Math.ceil((vmin - yb) / dy - 0.5), jhi = Math.floor((vmax - yb) / dy + 0.5);
   if (jlo === jhi && continuous) {
@@ -439,7 +446,16 @@ function addConservative(cover: RowCover, u: Float64Array, v: Float64Array, na: 
     return;
   }
   const mark = (p: number, q: number) => {
-    const x0 = u[p]!, y0 = v[p]!, x1 = u[q]!, y1 = v[q]!;
+    if (clip && clip.s.side[p] !== clip.s.side[q] && Math.max(Math.abs(clip.y[p]!), Math.abs(clip.y[q]!)) > CLIP_EPS_MM) {
+      const c = clip.s.cutInto(clip.x, clip.y, clip.h, p, q);
+      const rc = Math.abs(c[0]!), hc = c[1]!;
+      markSegment(u[p]!, v[p]!, clip.s.side[p] ? rc : -rc, hc);
+      markSegment(clip.s.side[q] ? rc : -rc, hc, u[q]!, v[q]!);
+      return;
+    }
+    markSegment(u[p]!, v[p]!, u[q]!, v[q]!);
+  };
+  const markSegment = (x0: number, y0: number, x1: number, y1: number) => {
     const lo = Math.min(y0, y1), hi = Math.max(y0, y1);
     const j0 = Math.ceil((lo - yb) / dy - 0.5), j1 = Math.floor((hi - yb) / dy + 0.5);
     for (let j = j0; j <= j1; j++) {

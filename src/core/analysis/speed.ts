@@ -129,7 +129,9 @@ export function lineRatesInto(j: ArrayLike<number>, m: number, s: SpeedScratch):
         b[k * 3 + c] = v;
       }
     }
-    return true;
+    // J J ᵀ squares the condition number: near a rank drop the solve passes its pivot test with a wrong answer,
+    // so check J·B = E as for m < 6 (found by the random-arm property tests: B gave 30 % wrong tool velocities)
+    return residualOk(j, m, b);
   }
   // m < 6: least squares (JᵀJ) B = Jᵀ E, then check that J·B = E (the motion is possible at all).
   for (let r = 0; r < m; r++) {
@@ -143,6 +145,11 @@ export function lineRatesInto(j: ArrayLike<number>, m: number, s: SpeedScratch):
   }
   if (!solveInPlace3(a, x, m)) return false;
   for (let i = 0; i < m * 3; i++) b[i] = x[i]!;
+  return residualOk(j, m, b);
+}
+
+/** True when J·B = E = [I₃; 0] within 1e-7 (the joint rates B really move the tool point at constant orientation). */
+function residualOk(j: ArrayLike<number>, m: number, b: Float64Array): boolean {
   for (let r = 0; r < 6; r++) {
     for (let c = 0; c < 3; c++) {
       let v = 0;
