@@ -14,6 +14,7 @@
 import type { Chain } from "../kinematics/chain";
 import { createScratch, forwardInto, jacobianInto, wristCentreInto } from "../kinematics/forward";
 import { createIkScratch, holdsFullOrientation, solveIkInto, type IkOptions } from "../kinematics/inverse";
+import { MAX_CLOSED_FORM_SOLUTIONS, solveSphericalWristInto, sphericalWristIk, wrapNear } from "../kinematics/closedForm";
 import { createSpeedScratch, guaranteedLineSpeed, maxToolSpeed } from "./speed";
 import { createSingularityScratch, scaledInverseCondition, scaledSingularValues } from "./singularity";
 import { createSvdScratch, svdInto } from "../math/svd";
@@ -66,6 +67,14 @@ export interface SpeedMapOptions {
   /** Solutions kept per cell. */
   readonly maxBranches: number;
   readonly seed: number;
+  /**
+   * Closed-form inverse kinematics (six revolute joints with a spherical wrist), where it applies: true for every
+   * cell (discovery and continuation); "discovery" for the discovery cells only, the continuation staying
+   * numeric; false (default) keeps the numeric solver everywhere.
+   */
+  readonly closedForm?: boolean | "discovery";
+  /** With closed form: look for solutions at every cell, not only at discovery cells (default true). */
+  readonly discoverEveryCell?: boolean;
 }
 
 export const DEFAULT_SPEED_MAP: SpeedMapOptions = {
@@ -258,6 +267,55 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
   const up: [number, number, number] = [plane.up[0]!, plane.up[1]!, plane.up[2]!];
   const frame: BranchFrame | null = branchFrame(chain, kin, Array.from(c0), up);
 
+  // Closed-form inverse kinematics where the chain allows it (six revolute joints, spherical wrist): every solution
+  // of a cell solved once and cached; continuation then takes the cached solution nearest to the neighbour's (by
+  // whole turns), as the numeric continuation would converge to it. Degenerate cells (a family of solutions: wrist
+  // centre on axis 1, axes 4 and 6 in line) and other arms use the numeric solver.
+  const closedMode = options.closedForm ?? false;
+  const closed = task === "full" && closedMode !== false ? sphericalWristIk(chain) : null;
+  const closedContinuation = closedMode === true;
+  const closedSol = closed ? new Float64Array(cells * MAX_CLOSED_FORM_SOLUTIONS * m) : null;
+  const closedCount = closed ? new Int8Array(cells).fill(-2) : null;
+  const closedTarget = new Float64Array(16);
+  /** Number of closed-form solutions at a cell (solved on first use); −1 when degenerate or not available. */
+  const closedAt = (cell: number): number => {
+    if (!closed || !closedCount || !closedSol) return -1;
+    let c = closedCount[cell]!;
+    if (c === -2) {
+      const ix = cell % nx, iy = (cell - ix) / nx;
+      targetInto(closedTarget, plane, (grid.rMinMm + ix * step) / 1000, (zMinMm + iy * step) / 1000, orientation, options.gravity, 1);
+      c = solveSphericalWristInto(closedSol, closed, closedTarget, cell * MAX_CLOSED_FORM_SOLUTIONS * m);
+      closedCount[cell] = c;
+    }
+    return c;
+  };
+  /** The closed-form solution at `cell` nearest to `seed` (largest joint difference, revolute joints by whole turns) into `out`. */
+  const nearestClosedInto = (out: Float64Array, cell: number, n: number, seed: Float64Array): boolean => {
+    let bestJump = Infinity, best = -1;
+    const sols = closedSol!;
+    for (let k = 0; k < n; k++) {
+      const off = (cell * MAX_CLOSED_FORM_SOLUTIONS + k) * m;
+      let jump = 0;
+      for (let i = 0; i < m && jump < bestJump; i++) {
+        const v = sols[off + i]!, s = seed[i]!;
+        // In range and within half a turn of the seed needs no wrapping (the usual case).
+        const d = Math.abs(v - s);
+        jump = Math.max(jump, d <= Math.PI || !wraps[i] ? d : Math.abs(wrapNear(v, s, chain.lowerSi[i]!, chain.upperSi[i]!) - s));
+      }
+      if (jump < bestJump) {
+        bestJump = jump;
+        best = k;
+      }
+    }
+    if (best < 0) return false;
+    const off = (cell * MAX_CLOSED_FORM_SOLUTIONS + best) * m;
+    for (let i = 0; i < m; i++) {
+      const v = sols[off + i]!, s = seed[i]!;
+      out[i] = Math.abs(v - s) <= Math.PI || !wraps[i] ? v : wrapNear(v, s, chain.lowerSi[i]!, chain.upperSi[i]!);
+    }
+    return true;
+  };
+
   const setTarget = (cell: number) => {
     const ix = cell % nx, iy = (cell - ix) / nx;
     targetInto(target, plane, (grid.rMinMm + ix * step) / 1000, (zMinMm + iy * step) / 1000, orientation, options.gravity, 1);
@@ -313,9 +371,14 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
         let mine = false;
         for (let k = 0; k < held; k++) if (find(next * K + k) === root) mine = true;
         if (mine) continue;
-        setTarget(next);
         for (let i = 0; i < m; i++) qSeed[i] = sol[from + i]!;
-        if (!solveIkInto(qTry, chain, target, qSeed, ik, continuationIk)) continue;
+        const nClosed = closedContinuation ? closedAt(next) : -1;
+        if (nClosed >= 0) {
+          if (!nearestClosedInto(qTry, next, nClosed, qSeed)) continue;
+        } else {
+          setTarget(next);
+          if (!solveIkInto(qTry, chain, target, qSeed, ik, continuationIk)) continue;
+        }
         // A large joint jump means the solver left the sheet (it landed on another branch near a singularity):
         // keep the solution, but do not join the sheets.
         let jump = 0;
@@ -332,12 +395,30 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     }
   };
 
-  // Discovery at spaced cells, from seeded random joint values; each new solution floods the grid.
+  /** Stores every closed-form solution of a cell not held yet and floods from it; false when not available there. */
+  const discoverClosed = (cell: number): boolean => {
+    const n = closedAt(cell);
+    if (n < 0) return false;
+    for (let k = 0; k < n; k++) {
+      const off = (cell * MAX_CLOSED_FORM_SOLUTIONS + k) * m;
+      for (let i = 0; i < m; i++) qTry[i] = closedSol![off + i]!;
+      const slot = store(cell);
+      if (slot >= 0) {
+        push(cell, slot);
+        flood();
+      }
+    }
+    return true;
+  };
+
+  // Discovery at spaced cells, from seeded random joint values (every solution in closed form); each new solution
+  // floods the grid.
   const rnd = mulberry32(options.seed ^ (orientation === "down" ? 0x9e37 : 0x7f4a));
   const every = Math.max(1, options.discoveryEveryCells);
   for (let iy = Math.floor(every / 2); iy < ny; iy += every) {
     for (let ix = Math.floor(every / 2); ix < nx; ix += every) {
       const cell = ix + iy * nx;
+      if (discoverClosed(cell)) continue;
       setTarget(cell);
       for (let t = 0; t < options.discoverySeeds; t++) {
         for (let i = 0; i < m; i++) {
@@ -356,6 +437,10 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
       }
     }
   }
+
+  // Closed form: branches the flood did not reach from the discovery cells (cut off by joint limits or by
+  // degenerate cells) are found at every cell.
+  if (closed && closedContinuation && options.discoverEveryCell !== false) for (let cell = 0; cell < cells; cell++) discoverClosed(cell);
 
   // Figures per cell: best branch by guaranteed speed.
   const guaranteed = new Float64Array(cells).fill(NaN);
