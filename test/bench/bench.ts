@@ -3,10 +3,11 @@
  * measured in the same run):
  * 1. the per-pose kernel (FK + Jacobian + singular values + both speed figures), ours vs ml-matrix objects;
  * 2. per-stage analysis times for every arm of the catalog, single-threaded;
- * 3. catalog scale: a generated catalog of 300 arm variants built cold, then warm after adding one arm (build time,
+ * 3. a longer fuzz run (test/fuzz/longRun.ts): random valid arms through the whole analysis, property violations;
+ * 4. catalog scale: a generated catalog of 300 arm variants built cold, then warm after adding one arm (build time,
  *    peak memory of the build's processes, per-arm analysis time; see scale.ts).
  * Options: --arms <folder> (default arms/), --quick (fewer repetitions, 30 generated arms), --only <ids>,
- * --scale-arms <n> (default 300), --no-scale (skip section 3).
+ * --scale-arms <n> (default 300), --no-scale (skip section 4), --fuzz-runs <n> (default 500, 50 with --quick).
  */
 import { parseArgs } from "node:util";
 import { loadArms } from "../../src/catalog";
@@ -19,9 +20,10 @@ import { analyseArm } from "../../src/core/analysis/analyseArm";
 import { gravityDirectionInBase } from "../../src/core/analysis/mounting";
 import { armFacts } from "../../src/catalog/analysis";
 import { runScaleBench } from "./scale";
+import { runFuzz } from "../fuzz/longRun";
 
 const { values } = parseArgs({
-  options: { arms: { type: "string" }, quick: { type: "boolean" }, only: { type: "string" }, "scale-arms": { type: "string" }, "no-scale": { type: "boolean" } },
+  options: { arms: { type: "string" }, quick: { type: "boolean" }, only: { type: "string" }, "scale-arms": { type: "string" }, "no-scale": { type: "boolean" }, "fuzz-runs": { type: "string" } },
 });
 const reps = values.quick ? 3 : 7;
 
@@ -81,7 +83,17 @@ for (const arm of chosen) {
   console.log(`${arm.id.padEnd(28)} ${env.toFixed(0).padStart(8)} ${maps.toFixed(0).padStart(11)} ${pay.toFixed(0).padStart(8)} ${full.toFixed(0).padStart(14)}`);
 }
 
-// 3. Catalog scale.
+// 3. Longer fuzz run.
+{
+  const runs = Number(values["fuzz-runs"] ?? (values.quick ? 50 : 500));
+  console.log(`\nfuzz: ${runs} random valid arms through the whole analysis (seed 1)`);
+  const r = runFuzz({ seed: 1, runs });
+  console.log(`  outcomes ${JSON.stringify(r.counts)}, per arm median ${r.medianMs.toFixed(0)} ms, max ${r.maxMs.toFixed(0)} ms`);
+  console.log(`  arms violating a property: ${r.failures.length}`);
+  for (const f of r.failures.slice(0, 5)) console.log(`    arm ${f.index}: ${f.violations[0] ?? ""}`);
+}
+
+// 4. Catalog scale.
 if (!values["no-scale"]) {
   console.log("\ncatalog scale (whole build: check, analyses in worker threads, site):");
   await runScaleBench({ root: process.cwd(), arms: Number(values["scale-arms"] ?? (values.quick ? 30 : 300)) });
