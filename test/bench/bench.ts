@@ -3,11 +3,13 @@
  * measured in the same run):
  * 1. the per-pose kernel (FK + Jacobian + singular values + both speed figures), ours vs ml-matrix objects;
  * 2. per-stage analysis times for every arm of the catalog, single-threaded;
- * 3. a longer fuzz run (test/fuzz/longRun.ts): random valid arms through the whole analysis, property violations;
- * 4. catalog scale: a generated catalog of 300 arm variants built cold, then warm after adding one arm (build time,
+ * 3. the demo catalog's site build, arm-sheet page weight, and the side-by-side page of four arms: navigation
+ *    start to drawn (compareInteractive.ts), in headless Chromium;
+ * 4. a longer fuzz run (test/fuzz/longRun.ts): random valid arms through the whole analysis, property violations;
+ * 5. catalog scale: a generated catalog of 300 arm variants built cold, then warm after adding one arm (build time,
  *    peak memory of the build's processes, per-arm analysis time; see scale.ts).
  * Options: --arms <folder> (default arms/), --quick (fewer repetitions, 30 generated arms), --only <ids>,
- * --scale-arms <n> (default 300), --no-scale (skip section 4), --fuzz-runs <n> (default 500, 50 with --quick).
+ * --scale-arms <n> (default 300), --no-scale (skip section 5), --fuzz-runs <n> (default 500, 50 with --quick).
  */
 import { parseArgs } from "node:util";
 import { loadArms } from "../../src/catalog";
@@ -19,7 +21,10 @@ import { payloadAtReach, payloadInputOf, loadDiagram } from "../../src/core/anal
 import { analyseArm } from "../../src/core/analysis/analyseArm";
 import { gravityDirectionInBase } from "../../src/core/analysis/mounting";
 import { armFacts } from "../../src/catalog/analysis";
-import { runScaleBench } from "./scale";
+import { runScaleBench, timedBuild } from "./scale";
+import { measureCompareInteractive } from "./compareInteractive";
+import { readdirSync, statSync } from "node:fs";
+import { join } from "node:path";
 import { runFuzz } from "../fuzz/longRun";
 
 const { values } = parseArgs({
@@ -83,7 +88,24 @@ for (const arm of chosen) {
   console.log(`${arm.id.padEnd(28)} ${env.toFixed(0).padStart(8)} ${maps.toFixed(0).padStart(11)} ${pay.toFixed(0).padStart(8)} ${full.toFixed(0).padStart(14)}`);
 }
 
-// 3. Longer fuzz run.
+// 3. Demo site: build, page weight, side-by-side page time to interactive.
+{
+  const base = "/tools/armdex/";
+  const outDir = join(process.cwd(), "test-results", "bench-dist");
+  console.log(`\ndemo site (${values.arms ?? "arms"}, base ${base}):`);
+  const build = await timedBuild(process.cwd(), { ...process.env, ARMDEX_BASE: base, ARMDEX_OUT_DIR: outDir, ASTRO_TELEMETRY_DISABLED: "1", ...(values.arms ? { ARMDEX_ARMS_DIR: values.arms } : {}) });
+  if (build.exitCode !== 0) throw new Error(`demo build failed:\n${build.output.slice(-3000)}`);
+  console.log(`  build ${build.seconds.toFixed(1)} s (analyses from the cache where present), peak memory ${build.peakRssMb.toFixed(0)} MB`);
+  const sheets = readdirSync(join(outDir, "arms")).map((id) => ({ id, kb: statSync(join(outDir, "arms", id, "index.html")).size / 1024 }));
+  const heaviest = sheets.reduce((a, b) => (b.kb > a.kb ? b : a));
+  console.log(`  arm sheet HTML+SVG: median ${median(sheets.map((s) => s.kb)).toFixed(0)} KB, largest ${heaviest.kb.toFixed(0)} KB (${heaviest.id}); limit 300 KB`);
+  const four = arms.filter((a) => a.chain.drivenCount >= 4).slice(0, 4).map((a) => a.id);
+  const r = await measureCompareInteractive({ distDir: outDir, base, arms: four, runs: reps });
+  console.log(`  side by side, 4 arms (${four.join(", ")}): drawn in median ${r.medianMs.toFixed(0)} ms over ${reps} cold loads ` +
+    `(min ${Math.min(...r.runsMs).toFixed(0)} ms); target 1000 ms`);
+}
+
+// 4. Longer fuzz run.
 {
   const runs = Number(values["fuzz-runs"] ?? (values.quick ? 50 : 500));
   console.log(`\nfuzz: ${runs} random valid arms through the whole analysis (seed 1)`);
@@ -93,7 +115,7 @@ for (const arm of chosen) {
   for (const f of r.failures.slice(0, 5)) console.log(`    arm ${f.index}: ${f.violations[0] ?? ""}`);
 }
 
-// 4. Catalog scale.
+// 5. Catalog scale.
 if (!values["no-scale"]) {
   console.log("\ncatalog scale (whole build: check, analyses in worker threads, site):");
   await runScaleBench({ root: process.cwd(), arms: Number(values["scale-arms"] ?? (values.quick ? 30 : 300)) });
