@@ -9,7 +9,6 @@
  * State in the address (history.replaceState): arms, the requirements (need-*), the chart choices (point,
  * chart-offset). When everything is drawn (or an error is shown) the <html> element gets data-ready="true".
  */
-import { select } from "d3-selection";
 import { envelopeOverlayNode, payloadOverlayNode, type EnvelopeOverlayArm, type PayloadOverlayArm } from "../charts/compareCharts";
 import type { SvgNode } from "../charts/nodes";
 import type { CompareArmSummary } from "../view/compareData";
@@ -25,6 +24,7 @@ import {
   type Verdict,
 } from "../view/requirements";
 import { formatNumber } from "../view/format";
+import { appendSvgNode, h } from "./dom";
 
 /** Settings from the page (data-compare attribute, JSON). */
 export interface CompareClientConfig {
@@ -33,27 +33,6 @@ export interface CompareClientConfig {
 
 const POINT_KEY = "point";
 const OFFSET_KEY = "chart-offset";
-
-function h<K extends keyof HTMLElementTagNameMap>(tag: K, props: { className?: string; text?: string; attrs?: Record<string, string> } = {}, ...children: (Node | string)[]): HTMLElementTagNameMap[K] {
-  const el = document.createElement(tag);
-  if (props.className) el.className = props.className;
-  if (props.text !== undefined) el.textContent = props.text;
-  for (const [k, v] of Object.entries(props.attrs ?? {})) el.setAttribute(k, v);
-  for (const c of children) el.append(c);
-  return el;
-}
-
-function appendSvgNode(parent: Element, node: SvgNode): Element {
-  const sel = select(parent).append<Element>(node.tag);
-  for (const [name, value] of Object.entries(node.attrs)) {
-    if (value === null || value === undefined || value === false || name === "xmlns") continue;
-    sel.attr(name, value === true ? name : String(value));
-  }
-  if (node.text !== undefined) sel.text(node.text);
-  const el = sel.node()!;
-  for (const child of node.children ?? []) appendSvgNode(el, child);
-  return el;
-}
 
 function markReady(root: HTMLElement, state: "done" | "error"): void {
   root.dataset.state = state;

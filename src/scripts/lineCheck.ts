@@ -8,7 +8,6 @@
  * One arm (arm sheet) or several (comparison page): `runLineCheckForArms` is the DOM-free part for any list of
  * arms; `mountLineCheck` wires one section; `mountAllLineChecks` every section of the page.
  */
-import { select } from "d3-selection";
 import { compileChain, type ArmKinematicsInput, type Chain } from "../core";
 import type { LineCheckResult } from "../core/analysis/line";
 import type { Mounting } from "../core/analysis/mounting";
@@ -27,6 +26,7 @@ import {
 } from "../view/lineCheckModel";
 import { COMPARE_ARMS_KEY, type LineCheckArmRef, type LineCheckClientConfig } from "../view/lineCheckSection";
 import { formatQuantity } from "../view/format";
+import { appendSvgNode, h } from "./dom";
 
 /** An arm description as the spec endpoint serves it: the kinematics plus the mountings (gravity). */
 export type LineCheckSpec = ArmKinematicsInput & { readonly mountings?: readonly Mounting[] };
@@ -87,28 +87,6 @@ export function runLineCheckForArms(arms: readonly LineCheckArm[], query: LineQu
 
 // ---------------------------------------------------------------------------------------------------------------
 // DOM
-
-/** Appends a chart node tree under `parent` as SVG elements (d3-selection creates them in the SVG namespace). */
-export function appendSvgNode(parent: Element, node: SvgNode): Element {
-  const sel = select(parent).append<Element>(node.tag);
-  for (const [name, value] of Object.entries(node.attrs)) {
-    if (value === null || value === undefined || value === false || name === "xmlns") continue;
-    sel.attr(name, value === true ? name : String(value));
-  }
-  if (node.text !== undefined) sel.text(node.text);
-  const el = sel.node()!;
-  for (const child of node.children ?? []) appendSvgNode(el, child);
-  return el;
-}
-
-function h<K extends keyof HTMLElementTagNameMap>(tag: K, props: { className?: string; text?: string; attrs?: Record<string, string> } = {}, ...children: Node[]): HTMLElementTagNameMap[K] {
-  const el = document.createElement(tag);
-  if (props.className) el.className = props.className;
-  if (props.text !== undefined) el.textContent = props.text;
-  for (const [k, v] of Object.entries(props.attrs ?? {})) el.setAttribute(k, v);
-  for (const c of children) el.append(c);
-  return el;
-}
 
 function figureRow(term: string, value: string, key: string, extra: Record<string, string> = {}, caveat: string | null = null): HTMLElement {
   const dd = h("dd", { text: value, attrs: { "data-key": key, ...extra } });
