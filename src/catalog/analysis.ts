@@ -2,13 +2,17 @@
  * Analyses of catalog arms, cached on disk by content: the key is the arm's spec hash, the analysis version and
  * the options, so an unchanged arm is never analysed twice and a changed algorithm never reuses old results.
  * Entries are written atomically (temporary file + rename): an interrupted build leaves no half-written entry.
+ *
+ * Beside each analysis (`<key>.json`, 0.1–2 MB) lies its summary (`<key>.summary.json`, the few figures the catalog
+ * table, data/catalog.json and the side-by-side page need), so pages that list every arm never hold every full
+ * analysis in memory.
  */
 import { createHash } from "node:crypto";
 import { existsSync, readdirSync, readFileSync } from "node:fs";
-import { mkdir, readFile, rename, writeFile } from "node:fs/promises";
+import { mkdir, readFile, rename, rm, writeFile } from "node:fs/promises";
 import { fileURLToPath } from "node:url";
-import { join, resolve } from "node:path";
-import { Worker } from "node:worker_threads";
+import { dirname, join, resolve } from "node:path";
+import { threadId, Worker } from "node:worker_threads";
 import { availableParallelism } from "node:os";
 import { ANALYSIS_VERSION, DEFAULT_ANALYSIS, analyseArm, type AnalysisOptions, type ArmAnalysis, type ArmFacts } from "../core/analysis/analyseArm";
 import type { Arm } from "./load";
@@ -31,45 +35,162 @@ export function armFacts(arm: Arm): ArmFacts {
   };
 }
 
-let coreHash: string | null = null;
+const sourceHashes = new Map<string, string>();
+
+/** The project's src/ folder: beside this module when run from source (CLI, tests), else under the working directory
+ * (the site build, where this module is bundled). */
+function srcDir(): string {
+  const beside = fileURLToPath(new URL("../", import.meta.url));
+  return existsSync(join(beside, "core", "index.ts")) ? beside : resolve("src");
+}
+
+/**
+ * sha256 over the TypeScript sources of the named folders of src/ (file names and bytes, in sorted order), e.g.
+ * ["view", "charts"]. Memoised per process. A single folder hashes names relative to it (coreFingerprint, as cache
+ * keys written before had it).
+ */
+export function sourceFingerprint(folders: readonly string[]): string {
+  const name = folders.join(",");
+  const known = sourceHashes.get(name);
+  if (known) return known;
+  const h = createHash("sha256");
+  for (const folder of folders) {
+    const root = join(srcDir(), folder);
+    const prefix = folders.length === 1 ? "" : `${folder}/`;
+    const files = readdirSync(root, { recursive: true, encoding: "utf8" }).filter((f) => f.endsWith(".ts")).sort();
+    for (const f of files) h.update(`${prefix}${f}\n`).update(readFileSync(join(root, f)));
+  }
+  const hex = h.digest("hex");
+  sourceHashes.set(name, hex);
+  return hex;
+}
 
 /**
  * sha256 over the sources of the computation core (src/core), so a changed algorithm never reuses a cached result
  * even when ANALYSIS_VERSION was not bumped.
  */
 export function coreFingerprint(): string {
-  if (coreHash) return coreHash;
-  // Next to this module when run from source (CLI, tests); the project's src/core when bundled (the site build).
-  const beside = fileURLToPath(new URL("../core/", import.meta.url));
-  const root = existsSync(join(beside, "index.ts")) ? beside : resolve("src/core");
-  const files = readdirSync(root, { recursive: true, encoding: "utf8" }).filter((f) => f.endsWith(".ts")).sort();
-  const h = createHash("sha256");
-  for (const f of files) h.update(`${f}\n`).update(readFileSync(join(root, f)));
-  coreHash = h.digest("hex");
-  return coreHash;
+  return sourceFingerprint(["core"]);
 }
 
 export function analysisKey(arm: Pick<Arm, "specHash">, options: AnalysisOptions = DEFAULT_ANALYSIS): string {
   return createHash("sha256").update(`${arm.specHash}\n${ANALYSIS_VERSION}\n${coreFingerprint()}\n${JSON.stringify(options)}`).digest("hex").slice(0, 32);
 }
 
+type SpeedMap = ArmAnalysis["speed"]["maps"][number];
+
+/**
+ * The part of an analysis that pages listing every arm use: reach, warnings, axis 1 and the flange's top view, the
+ * speed figures and the reach maps (the standard lines start from the "tool down" one), the cycle time. The same shape as the analysis (an ArmAnalysis is one), so
+ * view functions typed with it take either.
+ */
+export interface AnalysisSummary {
+  readonly id: string;
+  readonly specHash: string;
+  readonly analysisVersion: ArmAnalysis["analysisVersion"];
+  readonly reach: ArmAnalysis["reach"];
+  readonly warnings: ArmAnalysis["warnings"];
+  readonly envelope: Pick<ArmAnalysis["envelope"], "layout" | "axis1"> & { readonly flange: Pick<ArmAnalysis["envelope"]["flange"], "top"> };
+  readonly speed: Pick<ArmAnalysis["speed"], "maxToolSpeedMmPerS" | "shareAtLeast"> & {
+    readonly maps: readonly Pick<SpeedMap, "orientation" | "grid" | "reachableCells" | "maxGuaranteedMmPerS" | "maxToolSpeedMmPerS" | "shareAtLeast" | "guaranteedMmPerS">[];
+  };
+  readonly cycle: Pick<ArmAnalysis["cycle"], "standardCycleS">;
+}
+
+/** The summary of an analysis: a projection, every value as the analysis has it. */
+export function summariseAnalysis(a: ArmAnalysis): AnalysisSummary {
+  return {
+    id: a.id,
+    specHash: a.specHash,
+    analysisVersion: a.analysisVersion,
+    reach: a.reach,
+    warnings: a.warnings,
+    envelope: { layout: a.envelope.layout, axis1: a.envelope.axis1, flange: { top: a.envelope.flange.top } },
+    speed: {
+      maxToolSpeedMmPerS: a.speed.maxToolSpeedMmPerS,
+      shareAtLeast: a.speed.shareAtLeast,
+      maps: a.speed.maps.map((m) => ({
+        orientation: m.orientation,
+        grid: m.grid,
+        reachableCells: m.reachableCells,
+        maxGuaranteedMmPerS: m.maxGuaranteedMmPerS,
+        maxToolSpeedMmPerS: m.maxToolSpeedMmPerS,
+        shareAtLeast: m.shareAtLeast,
+        guaranteedMmPerS: m.guaranteedMmPerS,
+      })),
+    },
+    cycle: { standardCycleS: a.cycle.standardCycleS },
+  };
+}
+
+function entryPath(arm: Pick<Arm, "specHash">, options: AnalysisOptions, suffix: "" | ".summary"): string {
+  return join(cacheDir(), `${analysisKey(arm, options)}${suffix}.json`);
+}
+
+/** Writes `text` to `path` atomically: a temporary file in the same folder, then one rename. */
+export async function writeFileAtomic(path: string, text: string): Promise<void> {
+  await mkdir(dirname(path), { recursive: true });
+  const tmp = `${path}.${process.pid}.${threadId}.${Math.floor(performance.now() * 1000)}.tmp`;
+  try {
+    await writeFile(tmp, text);
+    await rename(tmp, path);
+  } catch (e) {
+    await rm(tmp, { force: true });
+    throw e;
+  }
+}
+
+const belongsTo = (data: { specHash?: unknown; analysisVersion?: unknown } | null, arm: Pick<Arm, "specHash">) =>
+  data !== null && typeof data === "object" && data.specHash === arm.specHash && data.analysisVersion === ANALYSIS_VERSION;
+
+/**
+ * The cached analysis of an arm as the cache file's text (the JSON `armdex analyze` prints), without parsing it;
+ * null when there is none.
+ */
+export async function readCachedAnalysisText(arm: Arm, options: AnalysisOptions = DEFAULT_ANALYSIS): Promise<string | null> {
+  try {
+    return await readFile(entryPath(arm, options, ""), "utf8");
+  } catch {
+    return null;
+  }
+}
+
 export async function readCachedAnalysis(arm: Arm, options: AnalysisOptions = DEFAULT_ANALYSIS): Promise<ArmAnalysis | null> {
   try {
-    const text = await readFile(join(cacheDir(), `${analysisKey(arm, options)}.json`), "utf8");
-    const data = JSON.parse(text) as ArmAnalysis;
-    return data.specHash === arm.specHash && data.analysisVersion === ANALYSIS_VERSION ? data : null;
+    const data = JSON.parse(await readFile(entryPath(arm, options, ""), "utf8")) as ArmAnalysis;
+    return belongsTo(data, arm) ? data : null;
+  } catch {
+    return null;
+  }
+}
+
+/** The cached summary of an arm's analysis; null when there is none or it is unreadable (it is then rebuilt). */
+export async function readCachedSummary(arm: Pick<Arm, "specHash">, options: AnalysisOptions = DEFAULT_ANALYSIS): Promise<AnalysisSummary | null> {
+  try {
+    const data = JSON.parse(await readFile(entryPath(arm, options, ".summary"), "utf8")) as AnalysisSummary;
+    return belongsTo(data, arm) ? data : null;
   } catch {
     return null;
   }
 }
 
 export async function writeCachedAnalysis(arm: Arm, analysis: ArmAnalysis, options: AnalysisOptions = DEFAULT_ANALYSIS): Promise<void> {
-  const dir = cacheDir();
-  await mkdir(dir, { recursive: true });
-  const path = join(dir, `${analysisKey(arm, options)}.json`);
-  const tmp = `${path}.${process.pid}.${Math.floor(performance.now() * 1000)}.tmp`;
-  await writeFile(tmp, JSON.stringify(analysis));
-  await rename(tmp, path);
+  // The analysis first: a summary on disk means its analysis is there too.
+  await writeFileAtomic(entryPath(arm, options, ""), JSON.stringify(analysis));
+  await writeFileAtomic(entryPath(arm, options, ".summary"), JSON.stringify(summariseAnalysis(analysis)));
+}
+
+/**
+ * The summary of one arm's analysis: from the cache; else made from the cached analysis (and cached), else from a
+ * new analysis (as getAnalysis).
+ */
+export async function getAnalysisSummary(arm: Arm, options: AnalysisOptions = DEFAULT_ANALYSIS): Promise<AnalysisSummary> {
+  const cached = await readCachedSummary(arm, options);
+  if (cached) return cached;
+  const analysis = await getAnalysis(arm, options);
+  const text = JSON.stringify(summariseAnalysis(analysis));
+  await writeFileAtomic(entryPath(arm, options, ".summary"), text);
+  return JSON.parse(text) as AnalysisSummary;
 }
 
 /** The analysis of one arm: from the cache, or computed here (and cached). */
@@ -79,6 +200,13 @@ export async function getAnalysis(arm: Arm, options: AnalysisOptions = DEFAULT_A
   const analysis = analyseArm(arm.chain, armFacts(arm), options);
   await writeCachedAnalysis(arm, analysis, options);
   return JSON.parse(JSON.stringify(analysis)) as ArmAnalysis;
+}
+
+async function summaryFromAnalysis(arm: Arm): Promise<boolean> {
+  const analysis = await readCachedAnalysis(arm);
+  if (!analysis) return false;
+  await writeFileAtomic(entryPath(arm, DEFAULT_ANALYSIS, ".summary"), JSON.stringify(summariseAnalysis(analysis)));
+  return true;
 }
 
 export interface AnalyseAllReport {
@@ -93,8 +221,10 @@ export interface AnalyseAllReport {
 export async function analyseCatalog(arms: readonly Arm[], options: { workers?: number; log?: (line: string) => void } = {}): Promise<AnalyseAllReport> {
   const missing: Arm[] = [];
   const cached: string[] = [];
+  // A readable summary stands for its analysis (written first); an arm with an analysis but no summary gets one
+  // here, from the analysis. Neither parses every full analysis.
   for (const arm of arms) {
-    if (await readCachedAnalysis(arm)) cached.push(arm.id);
+    if ((await readCachedSummary(arm)) || (existsSync(entryPath(arm, DEFAULT_ANALYSIS, "")) && (await summaryFromAnalysis(arm)))) cached.push(arm.id);
     else missing.push(arm);
   }
   const analysed: { id: string; ms: number }[] = [];

@@ -104,7 +104,7 @@ export async function main(argv: string[]): Promise<number> {
     case "analyze":
     case "analyse": {
       const { values, positionals } = parseArgs({ args: rest, allowPositionals: true, options: { all: { type: "boolean" }, workers: { type: "string" } } });
-      const { analyseCatalog, getAnalysis } = await import("../catalog/analysis");
+      const { analyseCatalog, getAnalysis, getAnalysisSummary } = await import("../catalog/analysis");
       if (values.all) {
         const { arms, issues } = await loadArms(positionals.length ? positionals : [defaultArmsDir()]);
         const errors = issues.filter((i) => i.severity === "error");
@@ -116,7 +116,7 @@ export async function main(argv: string[]): Promise<number> {
         const report = await analyseCatalog(arms, { workers: values.workers ? Number(values.workers) : undefined, log: (l) => process.stdout.write(`${l}\n`) });
         process.stdout.write(`${report.analysed.length} analysed, ${report.cached.length} from the cache, in ${((performance.now() - t0) / 1000).toFixed(1)} s\n`);
         for (const arm of arms) {
-          for (const w of (await getAnalysis(arm)).warnings) process.stdout.write(`warning: ${arm.file}: ${w.message}\n`);
+          for (const w of (await getAnalysisSummary(arm)).warnings) process.stdout.write(`warning: ${arm.file}: ${w.message}\n`);
         }
         return 0;
       }

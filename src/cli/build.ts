@@ -75,20 +75,29 @@ for (const signal of ["SIGINT", "SIGTERM"] as const) {
   });
 }
 
+/** "step armdex check: 1.2 s": the time of each step, for the scale bench (test/bench/scale.ts) and the curious. */
+function stepTime(name: string, t0: number): void {
+  process.stdout.write(`step ${name}: ${((performance.now() - t0) / 1000).toFixed(1)} s\n`);
+}
+
 async function main(): Promise<number> {
   const tsx = resolve(root, "node_modules/.bin/tsx");
   const astro = resolve(root, "node_modules/.bin/astro");
   const cli = resolve(root, "src/cli/armdex.ts");
   await removeStaleFolders();
   for (const step of [["schema"], ["check"], ["analyze", "--all"]]) {
+    const t0 = performance.now();
     const code = await run(tsx, [cli, ...step]);
+    stepTime(`armdex ${step.join(" ")}`, t0);
     if (code !== 0 || interrupted) {
       process.stderr.write(`build stopped at "armdex ${step.join(" ")}"; ${existsSync(outDir) ? "the previous site in dist/ is unchanged" : "nothing was published"}\n`);
       return interrupted ? 130 : code || 1;
     }
   }
   await cleanup();
+  const t0 = performance.now();
   const code = interrupted ? 130 : await run(astro, ["build", "--outDir", tmpDir]);
+  stepTime("astro build", t0);
   if (code !== 0 || interrupted) {
     await cleanup();
     process.stderr.write(`astro build ${interrupted ? "interrupted" : "failed"}; ${existsSync(outDir) ? "the previous site in dist/ is unchanged" : "nothing was published"}\n`);

@@ -48,7 +48,7 @@ export interface ReachCheck {
 }
 
 /** Stated against computed reach (the same rule as the analysis warning and data/catalog.json). */
-export function reachCheck(analysis: ArmAnalysis): ReachCheck {
+export function reachCheck(analysis: Pick<ArmAnalysis, "reach">): ReachCheck {
   const wcp = analysis.reach.wcpMaxMm;
   const computedMm = wcp ?? analysis.reach.flangeMaxMm ?? 0;
   const statedMm = analysis.reach.statedMm ?? null;

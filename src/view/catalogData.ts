@@ -1,9 +1,9 @@
 /** The catalog summary written to data/catalog.json: one row per arm with its key declared and computed figures. */
 import type { Arm } from "../catalog/load";
-import type { ArmAnalysis } from "../core/analysis/analyseArm";
+import type { AnalysisSummary } from "../catalog/analysis";
 import { bestGuaranteedLineSpeedDownMPerS } from "./catalogPageModel";
 
-export function catalogSummaryRow(arm: Arm, analysis: ArmAnalysis) {
+export function catalogSummaryRow(arm: Arm, analysis: AnalysisSummary) {
   const s = arm.spec;
   const computedReach = analysis.reach.wcpMaxMm ?? analysis.reach.flangeMaxMm;
   const deviation = s.reachMm !== undefined && computedReach ? s.reachMm / computedReach - 1 : null;

@@ -1,6 +1,6 @@
 /** Props of the catalog page: one row per arm with its key declared figures and, given the analyses, computed ones. */
 import type { Arm, ArmSpec } from "../catalog";
-import type { ArmAnalysis } from "../core/analysis/analyseArm";
+import type { AnalysisSummary } from "../catalog/analysis";
 import { formatSignedPercent, reachCheck } from "./armAnalysisModel";
 import { formatList, formatNumber, formatPrice, NOT_STATED } from "./format";
 import { CLASS_LABEL, MOUNTING_LABEL } from "./labels";
@@ -52,13 +52,13 @@ const COMPUTED_COLUMNS: readonly TableColumn[] = [
  * The arm's best guaranteed straight-line speed with the tool pointing down, m/s: the largest value of the "down"
  * tool-speed map (every arm has that map; the share column uses it too). Null without a map.
  */
-export function bestGuaranteedLineSpeedDownMPerS(analysis: ArmAnalysis): number | null {
+export function bestGuaranteedLineSpeedDownMPerS(analysis: AnalysisSummary): number | null {
   const down = analysis.speed.maps.find((m) => m.orientation === "down");
   const v = down?.maxGuaranteedMmPerS;
   return v === null || v === undefined ? null : v / 1000;
 }
 
-function computedCells(analysis: ArmAnalysis | undefined): { reach: TableCell; stated: TableCell | null; rest: TableCell[] } {
+function computedCells(analysis: AnalysisSummary | undefined): { reach: TableCell; stated: TableCell | null; rest: TableCell[] } {
   if (!analysis) {
     const none = { text: "not computed" };
     return { reach: none, stated: null, rest: [none, none, none, none] };
@@ -101,9 +101,9 @@ function plural(n: number, word: string): string {
 /**
  * The catalog table. The price column appears only when at least one arm file carries commercial data; the computed
  * columns (reach, maximum tool speed, share of guaranteed line speed ≥ 1 m/s with the tool down, standard cycle) only
- * when `analyses` (by arm id) is given.
+ * when `analyses` (by arm id; summaries or full analyses) is given.
  */
-export function catalogPageModel(arms: readonly Arm[], options: ViewOptions, analyses?: ReadonlyMap<string, ArmAnalysis>): CatalogPageModel {
+export function catalogPageModel(arms: readonly Arm[], options: ViewOptions, analyses?: ReadonlyMap<string, AnalysisSummary>): CatalogPageModel {
   const withPrice = arms.some((a) => a.spec.commercial !== undefined);
   const withComputed = analyses !== undefined;
   const rows: TableRow[] = arms.map((arm) => {

@@ -4,6 +4,7 @@
  * page). Pure; the catalog's Arm and ArmAnalysis come in, finished strings and plain data go out.
  */
 import type { ArmAnalysis } from "../core/analysis/analyseArm";
+import type { AnalysisSummary } from "../catalog/analysis";
 import type { Chain } from "../core/kinematics/chain";
 import type { Mounting } from "../core/analysis/mounting";
 import { siteHref } from "./links";
@@ -77,7 +78,7 @@ function armRef(arm: LineCheckSectionArm, baseUrl: string, defaults: LineQuery):
 }
 
 /** An arm's default line: its first standard line (chosen without running the check), else a fallback. */
-function defaultQuery(arm: LineCheckSectionArm, analysis: ArmAnalysis | null): LineQuery {
+function defaultQuery(arm: LineCheckSectionArm, analysis: AnalysisSummary | null): LineQuery {
   return (analysis ? standardLineQueries(analysis, arm.spec.mountings[0] ?? "floor").lines[0]?.query : undefined) ?? fallbackQuery(analysis);
 }
 
@@ -129,7 +130,7 @@ function section(arms: readonly LineCheckArmRef[], standard: StandardLinesModel 
 }
 
 /** A fallback line when an arm has no standard line: level, in front of the base at half the stated or computed reach. */
-function fallbackQuery(analysis: ArmAnalysis | null): LineQuery {
+function fallbackQuery(analysis: Pick<AnalysisSummary, "reach"> | null): LineQuery {
   const reach = analysis?.reach.flangeMaxMm ?? 1000;
   const r = Math.round((reach * 0.5) / 5) * 5, h = Math.round((reach * 0.2) / 5) * 5;
   const z = Math.round(((analysis?.reach.maxHeightMm ?? reach) * 0.4) / 5) * 5;
@@ -149,12 +150,12 @@ export function lineCheckSectionModel(arm: LineCheckSectionArm, analysis: ArmAna
 /**
  * The section of the comparison page: the form only, run for several arms at once (no standard lines).
  * @param arms the arms that may be compared (the whole catalog for a static `/compare/?arms=a,b` page), each with
- *   its analysis (for its default line; null allowed)
+ *   its analysis or the analysis' summary (for its default line; null allowed)
  * @param options.armsFromQuery true (default): the browser checks the arms the address names in `?arms=a,b`, in
  *   that order; false: it checks every arm given here
  */
 export function lineCheckCompareModel(
-  arms: readonly { readonly arm: LineCheckSectionArm; readonly analysis: ArmAnalysis | null }[],
+  arms: readonly { readonly arm: LineCheckSectionArm; readonly analysis: AnalysisSummary | null }[],
   baseUrl: string,
   options: { readonly armsFromQuery?: boolean } = {},
 ): LineCheckSectionModel {

@@ -11,6 +11,7 @@
  */
 import type { Chain } from "../core/kinematics/chain";
 import type { ArmAnalysis } from "../core/analysis/analyseArm";
+import type { AnalysisSummary } from "../catalog/analysis";
 import { gravityDirectionInBase, type Mounting } from "../core/analysis/mounting";
 import type { LineCheckResult } from "../core/analysis/line";
 import { lineRatesChart } from "../charts/lineRatesChart";
@@ -35,7 +36,7 @@ export interface StandardLine {
 export const STANDARD_LINE_SPEED_MM_PER_S = 500;
 
 type Vec3 = [number, number, number];
-type Map2 = ArmAnalysis["speed"]["maps"][number];
+type Map2 = AnalysisSummary["speed"]["maps"][number];
 
 /** Side-view plane of the speed maps (speedMap.ts sidePlane): origin on axis 1, radial = base x made perpendicular
  * to axis 1, up = axis 1 pointing to base +z (or +x). Map cell (r, z) is o + r·radial moved along up to height z. */
@@ -49,7 +50,7 @@ interface Plane {
 const dot = (a: readonly number[], b: readonly number[]) => a[0]! * b[0]! + a[1]! * b[1]! + a[2]! * b[2]!;
 const cross = (a: readonly number[], b: readonly number[]): Vec3 => [a[1]! * b[2]! - a[2]! * b[1]!, a[2]! * b[0]! - a[0]! * b[2]!, a[0]! * b[1]! - a[1]! * b[0]!];
 
-function planeOf(analysis: ArmAnalysis): Plane {
+function planeOf(analysis: AnalysisSummary): Plane {
   const axis = analysis.envelope.axis1;
   if (!axis) return { o: [0, 0, 0], radial: [1, 0, 0], up: [0, 0, 1], lateral: [0, 1, 0] };
   let [zx, zy, zz] = axis.direction;
@@ -113,7 +114,7 @@ const lengthOf = (q: LineQuery) => Math.hypot(q.toMm[0] - q.fromMm[0], q.toMm[1]
  * @param mounting the arm's primary mounting (gravity: "down" and the words above/below)
  * @example standardLineQueries(analysisOf("corvell-tern-7"), "floor").lines.map((l) => l.key) // ["front", "axis1", "edge"]
  */
-export function standardLineQueries(analysis: ArmAnalysis, mounting: Mounting): { lines: StandardLine[]; notes: string[] } {
+export function standardLineQueries(analysis: AnalysisSummary, mounting: Mounting): { lines: StandardLine[]; notes: string[] } {
   const gravity = gravityDirectionInBase(mounting);
   const map = analysis.speed.maps.find((m) => m.orientation === "down");
   const notes: string[] = [];

@@ -94,6 +94,8 @@ export interface BuildRun {
   readonly exitCode: number | null;
   /** Per-arm analysis times the build logged ("analysed <id> in <s> s"). */
   readonly analysedS: number[];
+  /** Wall time of each build step the build logged ("step astro build: 12.3 s"), in order. */
+  readonly steps: { readonly name: string; readonly seconds: number }[];
   readonly output: string;
 }
 
@@ -111,9 +113,14 @@ export function timedBuild(root: string, env: NodeJS.ProcessEnv): Promise<BuildR
     child.on("exit", (code) => {
       clearInterval(timer);
       const analysedS = [...output.matchAll(/analysed \S+ in ([\d.]+) s/g)].map((m) => Number(m[1]));
-      done({ seconds: (performance.now() - t0) / 1000, peakRssMb: peak / 2 ** 20, exitCode: code, analysedS, output });
+      const steps = [...output.matchAll(/^step (.+): ([\d.]+) s$/gm)].map((m) => ({ name: m[1]!, seconds: Number(m[2]) }));
+      done({ seconds: (performance.now() - t0) / 1000, peakRssMb: peak / 2 ** 20, exitCode: code, analysedS, steps, output });
     });
   });
+}
+
+function stepsText(run: BuildRun): string {
+  return run.steps.map((s) => `${s.name} ${s.seconds.toFixed(1)} s`).join(", ");
 }
 
 function median(xs: number[]): number {
@@ -144,9 +151,11 @@ export async function runScaleBench(opts: { root: string; arms: number; keep?: b
   };
   log(`scale: ${ids.length} generated arms, cold build (empty cache, no previous site)…`);
   const cold = await timedBuild(opts.root, env);
+  if (opts.keep) writeFileSync(join(scratch, "cold.log"), cold.output);
   if (cold.exitCode !== 0) throw new Error(`cold build failed:\n${cold.output.slice(-3000)}`);
   log(`  cold build ${cold.seconds.toFixed(0)} s, peak memory ${cold.peakRssMb.toFixed(0)} MB, ${cold.analysedS.length} arms analysed, ` +
     `per arm median ${median(cold.analysedS).toFixed(2)} s, max ${Math.max(...cold.analysedS).toFixed(2)} s`);
+  log(`    steps: ${stepsText(cold)}`);
   // Add one arm, a variant not in the catalog yet, and rebuild.
   // (the same generator one step further: variant number N, an id the catalog does not have yet)
   const extraIds = generateCatalog(join(opts.root, "arms"), join(scratch, "extra"), opts.arms + 1);
@@ -154,8 +163,10 @@ export async function runScaleBench(opts: { root: string; arms: number; keep?: b
   writeFileSync(join(armsDir, extra), readFileSync(join(scratch, "extra", extra)));
   log(`scale: added ${extra}, warm build…`);
   const warm = await timedBuild(opts.root, env);
+  if (opts.keep) writeFileSync(join(scratch, "warm.log"), warm.output);
   if (warm.exitCode !== 0) throw new Error(`warm build failed:\n${warm.output.slice(-3000)}`);
   log(`  warm build ${warm.seconds.toFixed(0)} s, peak memory ${warm.peakRssMb.toFixed(0)} MB, ${warm.analysedS.length} arm(s) analysed`);
+  log(`    steps: ${stepsText(warm)}`);
   log(`  targets: cold ≤ 600 s ${cold.seconds <= 600 ? "met" : "MISSED"}, warm ≤ 60 s ${warm.seconds <= 60 ? "met" : "MISSED"}, ` +
     `peak ≤ 2048 MB ${Math.max(cold.peakRssMb, warm.peakRssMb) <= 2048 ? "met" : "MISSED"}`);
   if (!opts.keep) rmSync(scratch, { recursive: true, force: true });

@@ -1,7 +1,8 @@
-// dist/data/arms/<id>.json: the arm's full analysis (the same JSON `armdex analyze` prints).
+// dist/data/arms/<id>.json: the arm's full analysis (the same JSON `armdex analyze` prints). The cache entry is that
+// JSON already: it is copied as it is, not parsed and written again.
 import type { APIRoute, GetStaticPaths } from "astro";
-import { getCatalog } from "../../../catalog";
-import { getAnalysis } from "../../../catalog/analysis";
+import { getCatalog, type Arm } from "../../../catalog";
+import { getAnalysis, readCachedAnalysisText } from "../../../catalog/analysis";
 
 export const getStaticPaths = (async () => {
   const { arms } = await getCatalog();
@@ -9,6 +10,7 @@ export const getStaticPaths = (async () => {
 }) satisfies GetStaticPaths;
 
 export const GET: APIRoute = async ({ props }) => {
-  const analysis = await getAnalysis((props as { arm: Parameters<typeof getAnalysis>[0] }).arm);
-  return new Response(JSON.stringify(analysis), { headers: { "content-type": "application/json" } });
+  const arm = (props as { arm: Arm }).arm;
+  const text = (await readCachedAnalysisText(arm)) ?? JSON.stringify(await getAnalysis(arm));
+  return new Response(text, { headers: { "content-type": "application/json" } });
 };

@@ -1,7 +1,9 @@
-// dist/data/arms/<id>/payload.csv: payload at reach for every mounting, reach and CG offset (from the analysis).
+// dist/data/arms/<id>/payload.csv: payload at reach for every mounting, reach and CG offset (from the analysis;
+// cached beside it, see src/catalog/derived.ts).
 import type { APIRoute, GetStaticPaths } from "astro";
 import { getCatalog, type Arm } from "../../../../catalog";
 import { getAnalysis } from "../../../../catalog/analysis";
+import { cachedDerived } from "../../../../catalog/derived";
 import { payloadCsv } from "../../../../view/armCsv";
 
 export const getStaticPaths = (async () => {
@@ -10,6 +12,7 @@ export const getStaticPaths = (async () => {
 }) satisfies GetStaticPaths;
 
 export const GET: APIRoute = async ({ props }) => {
-  const analysis = await getAnalysis((props as { arm: Arm }).arm);
-  return new Response(payloadCsv(analysis), { headers: { "content-type": "text/csv; charset=utf-8" } });
+  const arm = (props as { arm: Arm }).arm;
+  const csv = await cachedDerived(arm, "payload-csv", {}, async () => payloadCsv(await getAnalysis(arm)));
+  return new Response(csv, { headers: { "content-type": "text/csv; charset=utf-8" } });
 };
