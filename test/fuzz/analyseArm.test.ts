@@ -14,7 +14,8 @@ import { checkArm, DEFAULT_CHECK } from "./properties";
 
 const SEED = Number(process.env.ARMDEX_FUZZ_SEED ?? 20260317);
 const RUNS = Number(process.env.ARMDEX_FUZZ_RUNS ?? 10);
-const ENVELOPE = process.env.ARMDEX_FUZZ_ENVELOPE === "1";
+/** Side-view containment of every sampled pose: on by default since the envelope fixes; ARMDEX_FUZZ_ENVELOPE=0 turns it off. */
+const ENVELOPE = process.env.ARMDEX_FUZZ_ENVELOPE !== "0";
 /** Ends a run (shrinking included) that goes on far longer than any arm should take: a hang guard, not a speed check. */
 const HANG_GUARD_MS = 600_000;
 

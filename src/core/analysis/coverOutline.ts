@@ -63,11 +63,29 @@ export function coverRings(cover: RowCover, dxMm: number): Float64Array[] {
         else hi = mid;
       }
       const k = 2 * lo;
-      if (k < len && v[k]! <= x) return Math.min(x - v[k]!, v[k + 1]! - x, dxMm);
-      let d = dxMm;
-      if (k < len) d = Math.min(d, v[k]! - x);
-      if (k >= 2) d = Math.min(d, x - v[k - 1]!);
-      return -d;
+      let f: number;
+      if (k < len && v[k]! <= x) f = Math.min(x - v[k]!, v[k + 1]! - x, dxMm);
+      else {
+        let d = dxMm;
+        if (k < len) d = Math.min(d, v[k]! - x);
+        if (k >= 2) d = Math.min(d, x - v[k - 1]!);
+        f = -d;
+      }
+      // an interval with no node strictly inside it would fall between two nodes of negative value and vanish from
+      // the outline (a thin part of the region, or a single point): its nearest node takes it, with the distance to
+      // its far end, so the crossing towards the next node lands on that end (the outline contains the interval;
+      // it widens by at most half a node spacing there)
+      let s = k;
+      while (s >= 2 && v[s - 1]! > x - dxMm) s -= 2;
+      for (; s < len && v[s]! < x + dxMm; s += 2) {
+        const a = v[s]!, b = v[s + 1]!;
+        // nodes strictly inside (a, b): the first node after a comes at or after b
+        if (x0 + (Math.floor((a - x0) / dxMm) + 1) * dxMm < b) continue;
+        if (Math.round(((a + b) / 2 - x0) / dxMm) !== i) continue;
+        const reach = Math.max(b - x, x - a, 1e-6 * dxMm);
+        if (reach > f) f = reach;
+      }
+      return f;
     },
   });
   for (const r of rings) {

@@ -46,8 +46,12 @@
  * numbers on the rows of a run-length raster, sliceCover.ts) for every combination ("slice") of the other joints.
  * Between neighbouring slices the corners of the joint box (two limits at once) and, in the side view, the axis gap
  * (lateral offset changing sign) are swept explicitly (cornerSweep.ts, axisSweep.ts): sampled slices alone would
- * leave saw-teeth of first order there. The rows are exact along r; outlines come from marching squares
- * (isolines.ts) and are simplified (Douglas–Peucker). Reach and height figures are refined from the best grid sample
+ * leave saw-teeth of first order there. Each row holds the region's extent within its band (|z − z_j| ≤ half a row
+ * spacing), so corners and thin strips between two row lines are kept (sliceCover.ts); outlines come from marching
+ * squares (isolines.ts), which keep every row interval however narrow (coverOutline.ts), and are simplified
+ * (Douglas–Peucker). Outer rings are never dropped; only holes narrower than the secondary-joint step (pockets
+ * between sampled slices) are filled. A secondary prismatic joint is sampled finely enough for the curved boundary
+ * it translates, and a prismatic joint for the bend of ρ along its line (jointSampling.ts). Reach and height figures are refined from the best grid sample
  * by a bounded compass search (extremes.ts), so they are local optima, not grid values.
  *
  * Target boundary error: max(minToleranceMm, toleranceOfReach × reach of the point). `toleranceMm` states a bound:
@@ -206,9 +210,10 @@ function toleranceFn(o: EnvelopeOptions): (radiusMm: number) => number {
 }
 
 /**
- * Simplified, assembled polygons. Holes smaller across than `pocketMm` are dropped: points reached only for
- * secondary-joint values strictly between two samples can leave such pockets inside the union (first order in the
- * secondary step), while the holes of a real envelope (around the shoulder, behind a joint limit) are far larger.
+ * Simplified, assembled polygons. Holes narrower than `pocketMm` (2 · area / perimeter) are dropped: points reached
+ * only for secondary-joint values strictly between two samples can leave such pockets inside the union (slivers as
+ * wide as the secondary step at most, however long), while the holes of a real envelope (around the shoulder, behind
+ * a joint limit) are far wider. Outer rings are never dropped (see assemblePolygons).
  */
 function polygonsOf(rings: readonly Float64Array[], tolMm: number, o: EnvelopeOptions, pocketMm = 0): PolygonMm[] {
   const eps = o.simplifyShare * tolMm;

@@ -110,6 +110,23 @@ export function simplifyFlatRing(ring: Float64Array, epsilon: number): Float64Ar
   }
   let count = 0;
   for (let k = 0; k < n; k++) count += keep[k]!;
+  if (count < 3) {
+    // a ring thinner than epsilon: keep its point farthest from the anchor chord, so it stays a ring
+    const ax = ring[0]!, ay = ring[1]!, dx = ring[2 * far]! - ax, dy = ring[2 * far + 1]! - ay;
+    let best = -1, bestD = -1;
+    for (let k = 1; k < n; k++) {
+      if (k === far) continue;
+      const d = Math.abs(dx * (ring[2 * k + 1]! - ay) - dy * (ring[2 * k]! - ax));
+      if (d > bestD) {
+        bestD = d;
+        best = k;
+      }
+    }
+    if (best >= 0) {
+      keep[best] = 1;
+      count++;
+    }
+  }
   const out = new Float64Array(2 * count);
   for (let k = 0, o = 0; k < n; k++) {
     if (!keep[k]) continue;
@@ -140,22 +157,24 @@ function flatPointInRing(x: number, y: number, ring: Float64Array): boolean {
   return inside;
 }
 
-/** Diagonal of the bounding box of a flat ring (mm). */
-function flatRingExtent(ring: Float64Array): number {
-  let x0 = Infinity, x1 = -Infinity, y0 = Infinity, y1 = -Infinity;
-  for (let k = 0; k < ring.length; k += 2) {
-    x0 = Math.min(x0, ring[k]!);
-    x1 = Math.max(x1, ring[k]!);
-    y0 = Math.min(y0, ring[k + 1]!);
-    y1 = Math.max(y1, ring[k + 1]!);
-  }
-  return Math.hypot(x1 - x0, y1 - y0);
+/**
+ * Width of a flat ring as 2 · area / perimeter (mm): the width of a long strip, the radius of a disc. A pocket left
+ * between two sampled slices is a thin sliver however long, so its width, not its bounding box, tells it from a
+ * real hole.
+ */
+function flatRingWidth(ring: Float64Array, areaMm2: number): number {
+  const n = ring.length >> 1;
+  let perimeter = 0;
+  for (let k = 0, p = n - 1; k < n; p = k++) perimeter += Math.hypot(ring[2 * k]! - ring[2 * p]!, ring[2 * k + 1]! - ring[2 * p + 1]!);
+  return perimeter > 0 ? (2 * areaMm2) / perimeter : 0;
 }
 
 /**
  * Groups rings that have the inside on their left (outer rings counter-clockwise, holes clockwise) into polygons:
- * each hole goes to the smallest outer ring that contains it. Rings with |area| below `minAreaMm2` are dropped, and
- * holes whose bounding box is smaller than `minHoleMm` across.
+ * each hole goes to the smallest outer ring that contains it. Holes with |area| below `minAreaMm2` are dropped, and
+ * holes narrower than `minHoleMm` (2 · area / perimeter; filling a hole errs on the outside). Outer rings are
+ * kept whatever their size: dropping one would lose points the region holds (a thin strip, or a point that does not
+ * move at all, outlines as a sliver).
  */
 export function assemblePolygons(rings: readonly Float64Array[], minAreaMm2: number, minHoleMm = 0): PolygonMm[] {
   const outers: { ring: Float64Array; area: number; holes: Float64Array[] }[] = [];
@@ -163,9 +182,8 @@ export function assemblePolygons(rings: readonly Float64Array[], minAreaMm2: num
   for (const r of rings) {
     if (r.length < 6) continue;
     const a2 = flatRingArea2(r);
-    if (Math.abs(a2) / 2 < minAreaMm2) continue;
     if (a2 > 0) outers.push({ ring: r, area: a2 / 2, holes: [] });
-    else if (flatRingExtent(r) >= minHoleMm) holes.push(r);
+    else if (a2 < 0 && -a2 / 2 >= minAreaMm2 && flatRingWidth(r, -a2 / 2) >= minHoleMm) holes.push(r);
   }
   outers.sort((p, q) => p.area - q.area);
   for (const h of holes) {

@@ -35,6 +35,41 @@ export class SliceScratch {
   side = new Uint8Array(1024);
   /** cut point of the current edge: (y, h) */
   private readonly cut = new Float64Array(2);
+  /** pending band mark (row, x-interval): consecutive outline segments mostly mark the same row, so their marks are
+   * merged first; a mark then enters the crossings as a pair (+1 at its start, −1 at its end), so the winding sweep
+   * of flush() unites it with the filled intervals at no extra cost to the cover */
+  private markRow = 0;
+  private markLo = Infinity;
+  private markHi = -Infinity;
+
+  /** Marks [a, b] on row j (merged with the pending mark when they touch). */
+  mark(j: number, a: number, b: number): void {
+    if (j === this.markRow && a <= this.markHi && b >= this.markLo) {
+      if (a < this.markLo) this.markLo = a;
+      if (b > this.markHi) this.markHi = b;
+      return;
+    }
+    this.flushMark();
+    this.markRow = j;
+    this.markLo = a;
+    this.markHi = b;
+  }
+
+  /** Records the pending mark as two crossings. */
+  flushMark(): void {
+    if (this.markLo <= this.markHi) {
+      this.reserve(2);
+      const c = this.count;
+      this.rows[c] = this.rows[c + 1] = this.markRow;
+      this.xs[c] = this.markLo;
+      this.xs[c + 1] = this.markHi;
+      this.ds[c] = 1;
+      this.ds[c + 1] = -1;
+      this.count = c + 2;
+    }
+    this.markLo = Infinity;
+    this.markHi = -Infinity;
+  }
 
   ensurePoints(n: number): void {
     if (this.u.length < n) {
@@ -338,8 +373,24 @@ function clipOutline(s: SliceScratch, cover: RowCover, x: Float64Array, y: Float
   }
 }
 
-/** Records the crossings of segment (x0, y0)→(x1, y1) (multiplicity m, negative = reversed) with the row lines. */
+/**
+ * Records the crossings of segment (x0, y0)→(x1, y1) (multiplicity m, negative = reversed) with the row lines, such
+ * that each row j receives the segment's x-extent within the row's band |y − y_j| ≤ dy/2, not only its point on the
+ * row line: a crossing that opens an interval (it raises the winding number sweeping left to right) moves left by the
+ * segment's band run (at most dy/2 · |dx/dy|, the segment's x-extent within the band), one that closes an interval
+ * moves right as far, and the pieces of the segment in the bands of its two end points are marked explicitly (see
+ * markEnds).
+ *
+ * So every row holds the projection of the region's part within its band, not only its section by the row line: a
+ * point of the region in band j either drops vertically onto row j inside the region or meets the outline, which
+ * lies on such segments, on the way. With sections alone the parts between two row lines were lost: a corner poking
+ * between rows and, worse, a thin slanted strip, whose row sections do not overlap from row to row and so were
+ * outlined as separate specks (found by the property tests: misses of 40–80 mm with dy ≈ 20 mm). Moving crossings
+ * outward only raises the winding number, so the result is the union of the filled rows and the band pieces; it
+ * moves a slanted boundary out by its band run, at most dy/2 measured across the boundary.
+ */
 function segment(s: SliceScratch, cover: RowCover, x0: number, y0: number, x1: number, y1: number, m: number): void {
+  markEnds(s, cover, x0, y0, x1, y1);
   if (m < 0) {
     const tx = x0, ty = y0;
     x0 = x1;
@@ -357,19 +408,52 @@ function segment(s: SliceScratch, cover: RowCover, x0: number, y0: number, x1: n
   if (j1 < j0) return;
   s.reserve(j1 - j0 + 1);
   const slope = (x1 - x0) / (y1 - y0);
+  // opening crossings (d > 0) move left, closing ones right, to the end of the segment's piece within the band
+  // (clipped to the segment: a nearly level segment has a long band run)
+  const left = d > 0 === slope > 0 ? -0.5 * dy : 0.5 * dy;
   const rows = s.rows, xs = s.xs, ds = s.ds;
   let c = s.count;
   for (let j = j0; j <= j1; j++) {
+    let y = yb + j * dy + left;
+    y = y < lo ? lo : y > hi ? hi : y;
     rows[c] = j;
-    xs[c] = x0 + (yb + j * dy - y0) * slope;
+    xs[c] = x0 + (y - y0) * slope;
     ds[c] = d;
     c++;
   }
   s.count = c;
 }
 
+/**
+ * Marks on rows j0 and j1, the rows whose bands hold the segment's end points, its x-extent within those bands (the
+ * whole segment when both ends share a band), where the segment does not cross that row's line: there no shifted
+ * crossing reaches the part of the segment between its end point and the band's edge (a corner poking between two
+ * row lines). Where it does cross it, the shifted crossing covers the band piece already.
+ */
+function markEnds(s: SliceScratch, cover: RowCover, x0: number, y0: number, x1: number, y1: number): void {
+  const yb = cover.y0, dy = cover.dy;
+  const lo = y0 < y1 ? y0 : y1, hi = y0 < y1 ? y1 : y0;
+  const j0 = Math.round((lo - yb) / dy), j1 = Math.round((hi - yb) / dy);
+  // row lines y_j with lo ≤ y_j < hi get a crossing (see segment)
+  const r0 = yb + j0 * dy, r1 = yb + j1 * dy;
+  if (j0 === j1) {
+    if (!(lo <= r0 && r0 < hi)) s.mark(j0, x0 < x1 ? x0 : x1, x0 < x1 ? x1 : x0);
+    return;
+  }
+  const slope = (x1 - x0) / (y1 - y0);
+  // the start's band first: the next segment of a chain then marks the same row and merges with it
+  for (let e = 0; e < 2; e++) {
+    const j = (e === 0) === (y0 <= y1) ? j0 : j1, rj = j === j0 ? r0 : r1;
+    if (lo <= rj && rj < hi) continue;
+    const ya = Math.max(lo, yb + (j - 0.5) * dy), yc = Math.min(hi, yb + (j + 0.5) * dy);
+    const xa = x0 + (ya - y0) * slope, xc = x0 + (yc - y0) * slope;
+    s.mark(j, xa < xc ? xa : xc, xa < xc ? xc : xa);
+  }
+}
+
 /** Sorts the recorded crossings by row and x, sweeps the winding number and adds the covered intervals. */
 function flush(s: SliceScratch, cover: RowCover): void {
+  s.flushMark();
   const n = s.count;
   if (n === 0) return;
   let jlo = Infinity, jhi = -Infinity;
