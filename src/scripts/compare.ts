@@ -236,14 +236,14 @@ function drawVerdicts(root: HTMLElement, state: PageState): void {
   out.replaceChildren(verdictTable(state.arms, verdicts));
 }
 
-async function loadSummary(href: string, name: string): Promise<CompareArmSummary> {
-  const res = await fetch(href);
+async function loadSummary(href: string, name: string, early: ReadonlyMap<string, Promise<Response>>): Promise<CompareArmSummary> {
+  const res = await (early.get(href) ?? fetch(href));
   if (!res.ok) throw new Error(`the figures of ${name} could not be loaded (HTTP ${res.status})`);
   return (await res.json()) as CompareArmSummary;
 }
 
-/** Wires the page. */
-export async function mountCompare(root: HTMLElement): Promise<void> {
+/** Wires the page. `early`: summary fetches already started by compareStart.ts, by address. */
+export async function mountCompare(root: HTMLElement, early: ReadonlyMap<string, Promise<Response>> = new Map()): Promise<void> {
   const config = JSON.parse(root.dataset.compare ?? "{}") as CompareClientConfig;
   const status = root.querySelector<HTMLElement>("[data-compare-status]");
   const say = (text: string, kind: "info" | "error") => {
@@ -262,7 +262,7 @@ export async function mountCompare(root: HTMLElement): Promise<void> {
   say(`Loading the figures of ${refs.length} arms…`, "info");
   let arms: CompareArmSummary[];
   try {
-    arms = await Promise.all(refs.map((r) => loadSummary(r.summaryHref, r.name)));
+    arms = await Promise.all(refs.map((r) => loadSummary(r.summaryHref, r.name, early)));
   } catch (e) {
     say(`Could not load the figures: ${e instanceof Error ? e.message : String(e)}.`, "error");
     markReady(root, "error");
@@ -349,6 +349,3 @@ export async function mountCompare(root: HTMLElement): Promise<void> {
   say(`${arms.length} arms side by side.`, "info");
   markReady(root, "done");
 }
-
-const root = document.querySelector<HTMLElement>("[data-compare]");
-if (root) void mountCompare(root);
