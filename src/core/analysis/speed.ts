@@ -168,9 +168,29 @@ function residualOk(j: ArrayLike<number>, m: number, b: Float64Array): boolean {
 export function guaranteedLineSpeed(j: ArrayLike<number>, m: number, maxRate: ArrayLike<number>, s: SpeedScratch): number {
   if (!lineRatesInto(j, m, s)) return 0;
   const b = s.b;
+  // Math.hypot is several times slower than sqrt(x² + y² + z²), which is within a few ulp of it: a first pass with
+  // the latter finds the rows that can hold the minimum (ratio within 1e-9 of the smallest), and only those get
+  // hypot. The result is the same minimum, to the bit, as over every row. Rows whose squares could under- or
+  // overflow, and non-finite ratios, take the plain loop.
+  let approx = Infinity;
+  for (let i = 0; i < m; i++) {
+    const x = b[i * 3]!, y = b[i * 3 + 1]!, z = b[i * 3 + 2]!;
+    const n2 = x * x + y * y + z * z;
+    if (n2 === 0 && x === 0 && y === 0 && z === 0) continue;
+    const ratio = maxRate[i]! / Math.sqrt(n2);
+    if (!(n2 > 1e-280 && n2 < 1e280 && Number.isFinite(ratio))) return rowMinimum(b, m, maxRate, Infinity);
+    if (ratio < approx) approx = ratio;
+  }
+  return rowMinimum(b, m, maxRate, approx * (1 + 1e-9));
+}
+
+/** minᵢ q̇maxᵢ / ‖Bᵢ‖ over the non-zero rows whose sqrt-norm ratio is at most `threshold` (0 when none). */
+function rowMinimum(b: Float64Array, m: number, maxRate: ArrayLike<number>, threshold: number): number {
   let best = Infinity;
   for (let i = 0; i < m; i++) {
-    const n = Math.hypot(b[i * 3]!, b[i * 3 + 1]!, b[i * 3 + 2]!);
+    const x = b[i * 3]!, y = b[i * 3 + 1]!, z = b[i * 3 + 2]!;
+    if (threshold !== Infinity && !(maxRate[i]! / Math.sqrt(x * x + y * y + z * z) <= threshold)) continue;
+    const n = Math.hypot(x, y, z);
     if (n > 0) best = Math.min(best, maxRate[i]! / n);
   }
   return Number.isFinite(best) ? best : 0;

@@ -13,7 +13,7 @@
  */
 import type { Chain } from "../kinematics/chain";
 import { createScratch, forwardInto, jacobianInto, wristCentreInto } from "../kinematics/forward";
-import { createIkScratch, holdsFullOrientation, solveIkInto, type IkOptions } from "../kinematics/inverse";
+import { createIkScratch, createIkSeedPose, holdsFullOrientation, ikSeedPoseInto, solveIkInto, type IkOptions } from "../kinematics/inverse";
 import { MAX_CLOSED_FORM_SOLUTIONS, solveSphericalWristInto, sphericalWristIk, wrapNear } from "../kinematics/closedForm";
 import { createSpeedScratch, guaranteedLineSpeed, maxToolSpeed } from "./speed";
 import { createSingularityScratch, scaledInverseCondition, scaledSingularValues } from "./singularity";
@@ -343,9 +343,28 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
       }
     }
     if (n >= K) return -1;
-    sol.set(qTry, base + n * m);
+    for (let i = 0; i < m; i++) sol[base + n * m + i] = qTry[i]!;
     count[cell] = n + 1;
     return n;
+  };
+
+  // Per solution (cell·K + slot): guaranteed straight-line speed (m/s) and det J (square task Jacobians), computed
+  // when the solution leaves the queue from the forward kinematics and Jacobian its continuation solves start from.
+  const guaranteedVal = new Float64Array(cells * K).fill(NaN);
+  const detVal = new Float64Array(cells * K).fill(NaN);
+  const sp = createSpeedScratch(m);
+  const detWork = new Float64Array(36);
+  const lengthCubed = chain.characteristicLengthM ** 3;
+  const seedPose = createIkSeedPose(chain);
+  const popKin = createScratch(chain);
+  /** Forward kinematics and Jacobian of solution (cell, slot) = q into seedPose, and its figures into guaranteedVal, detVal. */
+  const slotFigures = (cell: number, slot: number, q: Float64Array) => {
+    const idx = cell * K + slot;
+    ikSeedPoseInto(seedPose, chain, q, popKin);
+    const jac = seedPose.jacobian;
+    guaranteedVal[idx] = guaranteedLineSpeed(jac, m, chain.maxSpeedSi, sp);
+    // det J from the LU the speed figure just made (m = 6); the 4-row task determinant otherwise.
+    detVal[idx] = m === 6 ? sp.lastDet / lengthCubed : taskDeterminant(jac, m, chain.characteristicLengthM, seedPose.flange, detWork);
   };
 
   // Flood fill: queue of (cell, slot).
@@ -361,6 +380,8 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
       const ix = cell % nx, iy = (cell - ix) / nx;
       const from = (cell * K + slot) * m;
       const fromIdx = cell * K + slot;
+      for (let i = 0; i < m; i++) qSeed[i] = sol[from + i]!;
+      slotFigures(cell, slot, qSeed);
       for (let d = 0; d < 4; d++) {
         const jx = ix + (d === 0 ? 1 : d === 1 ? -1 : 0), jy = iy + (d === 2 ? 1 : d === 3 ? -1 : 0);
         if (jx < 0 || jy < 0 || jx >= nx || jy >= ny) continue;
@@ -371,13 +392,12 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
         let mine = false;
         for (let k = 0; k < held; k++) if (find(next * K + k) === root) mine = true;
         if (mine) continue;
-        for (let i = 0; i < m; i++) qSeed[i] = sol[from + i]!;
         const nClosed = closedContinuation ? closedAt(next) : -1;
         if (nClosed >= 0) {
           if (!nearestClosedInto(qTry, next, nClosed, qSeed)) continue;
         } else {
           setTarget(next);
-          if (!solveIkInto(qTry, chain, target, qSeed, ik, continuationIk)) continue;
+          if (!solveIkInto(qTry, chain, target, qSeed, ik, continuationIk, seedPose)) continue;
         }
         // A large joint jump means the solver left the sheet (it landed on another branch near a singularity):
         // keep the solution, but do not join the sheets.
@@ -450,52 +470,50 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
   const branch = new Int8Array(cells).fill(-1);
   const joints = new Float64Array(cells * m).fill(NaN);
   const j = new Float64Array(6 * m);
-  const sp = createSpeedScratch(m);
   const sg = createSingularityScratch(m);
   const codes: number[] = [];
   const c = new Float64Array(3);
-  const detVal = new Float64Array(cells * K).fill(NaN);
-  const detWork = new Float64Array(36);
-  const bestJ = new Float64Array(6 * m), bestT = new Float64Array(16);
-  const lengthCubed = chain.characteristicLengthM ** 3;
+  const bestJ = new Float64Array(6 * m);
+  /** Jacobian of solution (cell, slot) into `out` (forward kinematics into kin). */
+  const slotJacobianInto = (out: Float64Array, cell: number, slot: number) => {
+    const off = (cell * K + slot) * m;
+    const t = forwardInto(chain, sol.subarray(off, off + m), kin);
+    jacobianInto(out, chain, kin, t[3]!, t[7]!, t[11]!);
+  };
   let reachable = 0;
   for (let cell = 0; cell < cells; cell++) {
     const n = count[cell]!;
     if (n === 0) continue;
     reachable++;
-    let best = -1, bestG = -1, bestMax = 0;
+    let best = -1, bestG = -1, bestJReady = false;
     for (let k = 0; k < n; k++) {
-      const off = (cell * K + k) * m;
-      for (let i = 0; i < m; i++) qSeed[i] = sol[off + i]!;
-      const t = forwardInto(chain, qSeed, kin);
-      jacobianInto(j, chain, kin, t[3]!, t[7]!, t[11]!);
-      const g = guaranteedLineSpeed(j, m, chain.maxSpeedSi, sp);
-      // det J from the LU the speed figure just made (m = 6); the 4-row task determinant otherwise.
-      detVal[cell * K + k] = m === 6 ? sp.lastDet / lengthCubed : taskDeterminant(j, m, chain.characteristicLengthM, t, detWork);
+      // Every stored solution went through the queue; computed here only if one had not.
+      if (Number.isNaN(guaranteedVal[cell * K + k]!)) slotFigures(cell, k, sol.subarray((cell * K + k) * m, (cell * K + k) * m + m));
+      const g = guaranteedVal[cell * K + k]!;
       if (g > bestG + 1e-12 || best < 0) {
         best = k;
         bestG = g;
-        bestJ.set(j);
-        bestT.set(t);
+        bestJReady = false;
       } else if (Math.abs(g - bestG) <= 1e-12) {
         // Tie (both singular, or equal): prefer the larger maximum speed.
+        if (!bestJReady) slotJacobianInto(bestJ, cell, best);
+        bestJReady = true;
+        slotJacobianInto(j, cell, k);
         const vNew = maxToolSpeed(j, m, chain.maxSpeedSi, sp), vOld = maxToolSpeed(bestJ, m, chain.maxSpeedSi, sp);
         if (vNew > vOld) {
           best = k;
           bestJ.set(j);
-          bestT.set(t);
         }
       }
     }
-    bestMax = maxToolSpeed(bestJ, m, chain.maxSpeedSi, sp);
     const off = (cell * K + best) * m;
     const q = sol.subarray(off, off + m);
-    forwardInto(chain, q, kin);
-    j.set(bestJ);
-    const t = bestT;
+    const t = forwardInto(chain, q, kin);
+    if (!bestJReady) jacobianInto(bestJ, chain, kin, t[3]!, t[7]!, t[11]!);
+    const bestMax = maxToolSpeed(bestJ, m, chain.maxSpeedSi, sp);
     guaranteed[cell] = bestG * 1000;
     maxSpeed[cell] = bestMax * 1000;
-    invCond[cell] = scaledInverseCondition(j, m, chain.characteristicLengthM, sg);
+    invCond[cell] = scaledInverseCondition(bestJ, m, chain.characteristicLengthM, sg);
     const dBest = detVal[cell * K + best]!;
     detSign[cell] = Number.isFinite(dBest) ? (dBest > 0 ? 1 : dBest < 0 ? -1 : 0) : 0;
     joints.set(q, cell * m);

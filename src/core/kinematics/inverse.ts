@@ -15,7 +15,7 @@ import { rotationErrorInto } from "../math/so3";
 
 export interface IkScratch {
   readonly kin: KinematicsScratch;
-  readonly j: Float64Array;
+  /** Task Jacobian: the 6 × m Jacobian with its angular rows multiplied by the characteristic length. */
   readonly task: Float64Array;
   readonly e: Float64Array;
   readonly a: Float64Array;
@@ -30,7 +30,6 @@ export function createIkScratch(chain: Chain): IkScratch {
   const m = chain.drivenCount;
   return {
     kin: createScratch(chain),
-    j: new Float64Array(6 * m),
     task: new Float64Array(6 * m),
     e: new Float64Array(6),
     a: new Float64Array(Math.max(36, m * m)),
@@ -63,6 +62,40 @@ export interface IkOptions {
 export const DEFAULT_IK: IkOptions = { maxIterations: 40, toleranceM: 1e-7, toleranceRad: 1e-6 };
 
 /**
+ * Forward kinematics already done at a seed, for solves that start from it (a continuation tries the same seed on
+ * up to four neighbouring cells): the first iteration takes the flange pose, the Jacobian and the undamped normal
+ * matrix from here instead of computing them again. The solve gives the same result to the bit either way.
+ * Fill with ikSeedPoseInto.
+ */
+export interface IkSeedPose {
+  /** Driven joints the pose belongs to. */
+  readonly q: Float64Array;
+  /** baseFromFlange at q, 16. */
+  readonly flange: Float64Array;
+  /** Geometric Jacobian at q (flange centre), 6 × m. */
+  readonly jacobian: Float64Array;
+  /** TᵀT (m ≤ 6) or TTᵀ (m > 6) of the task Jacobian at q, without damping; valid when normalReady. */
+  readonly normal: Float64Array;
+  normalReady: boolean;
+}
+
+export function createIkSeedPose(chain: Chain): IkSeedPose {
+  const m = chain.drivenCount;
+  return { q: new Float64Array(m), flange: new Float64Array(16), jacobian: new Float64Array(6 * m), normal: new Float64Array(Math.max(36, m * m)), normalReady: false };
+}
+
+/** Forward kinematics and the flange-centre Jacobian at `q` into `pose` (kin is work space). */
+export function ikSeedPoseInto(pose: IkSeedPose, chain: Chain, q: ArrayLike<number>, kin: KinematicsScratch): IkSeedPose {
+  const m = chain.drivenCount;
+  for (let i = 0; i < m; i++) pose.q[i] = q[i]!;
+  const t = forwardInto(chain, pose.q, kin);
+  jacobianInto(pose.jacobian, chain, kin, t[3]!, t[7]!, t[11]!);
+  for (let i = 0; i < 16; i++) pose.flange[i] = t[i]!;
+  pose.normalReady = false;
+  return pose;
+}
+
+/**
  * Solves for driven joints that put the flange at `baseFromFlangeTarget` (row-major 4×4, m), starting from `seed`,
  * keeping every joint inside its range. Writes the solution into `qOut` (may alias `seed`) and returns whether it
  * converged. Allocates nothing.
@@ -74,16 +107,21 @@ export function solveIkInto(
   seed: ArrayLike<number>,
   s: IkScratch,
   options: IkOptions = DEFAULT_IK,
+  seedPose?: IkSeedPose,
 ): boolean {
-  const m = chain.drivenCount, q = s.q, e = s.e, j = s.j, task = s.task, a = s.a, x = s.x;
+  const m = chain.drivenCount, q = s.q, e = s.e, task = s.task;
   const lengthM = chain.characteristicLengthM;
   const axisOnly = options.task ? options.task === "axis" : m < 6;
   for (let i = 0; i < m; i++) q[i] = Math.min(chain.upperSi[i]!, Math.max(chain.lowerSi[i]!, seed[i]!));
+  // The seed pose serves the first iteration only when it belongs to exactly these joints (signed zeros included).
+  let pose = seedPose;
+  if (seedPose) for (let i = 0; i < m; i++) if (!Object.is(seedPose.q[i], q[i])) pose = undefined;
   const tol2p = options.toleranceM * options.toleranceM, tol2r = options.toleranceRad * options.toleranceRad;
   let converged = false;
   let previous = Infinity;
   for (let it = 0; it <= options.maxIterations; it++) {
-    const t = forwardInto(chain, q, s.kin);
+    const seeded = it === 0 ? pose : undefined;
+    const t = seeded ? seeded.flange : forwardInto(chain, q, s.kin);
     e[0] = baseFromFlangeTarget[3]! - t[3]!;
     e[1] = baseFromFlangeTarget[7]! - t[7]!;
     e[2] = baseFromFlangeTarget[11]! - t[11]!;
@@ -115,16 +153,17 @@ export function solveIkInto(
     const err = ep2 + er2 * lengthM * lengthM;
     if (it >= 4 && err > 0.25 * previous) break;
     previous = err;
-    jacobianInto(j, chain, s.kin, t[3]!, t[7]!, t[11]!);
-    for (let i = 0; i < 3 * m; i++) task[i] = j[i]!;
-    for (let i = 3 * m; i < 6 * m; i++) task[i] = j[i]! * lengthM;
+    if (seeded) task.set(seeded.jacobian);
+    else jacobianInto(task, chain, s.kin, t[3]!, t[7]!, t[11]!);
+    for (let i = 3 * m; i < 6 * m; i++) task[i] = task[i]! * lengthM;
     const lambda2 = ep2 + er2 * lengthM * lengthM + 1e-12;
     // Active set: a joint at a limit whose step would push it further out is held, and the step is recomputed
     // without it; otherwise clamping would stall the solver against the limit.
     let stepOk = true;
     let held = false;
     for (let pass = 0; pass <= m; pass++) {
-      if (!dampedStepInto(s, chain, e, lambda2, lengthM)) {
+      // The seed's normal matrix holds for the first pass (no joint held yet).
+      if (!dampedStepInto(s, chain, e, lambda2, lengthM, pass === 0 ? seeded : undefined)) {
         stepOk = false;
         break;
       }
@@ -162,16 +201,24 @@ export function solveIkInto(
 
 /**
  * One damped least-squares step from the task Jacobian in s.task (orientation rows already scaled by lengthM) and
- * the error e: Δq = Tᵀ(TTᵀ + λ²I)⁻¹e for redundant arms, (TᵀT + λ²I)⁻¹Tᵀe otherwise. Writes s.dq.
+ * the error e: Δq = Tᵀ(TTᵀ + λ²I)⁻¹e for redundant arms, (TᵀT + λ²I)⁻¹Tᵀe otherwise. Writes s.dq. With `cache`,
+ * the undamped normal matrix of this task is taken from it, or computed and kept there.
  */
-function dampedStepInto(s: IkScratch, chain: Chain, e: Float64Array, lambda2: number, lengthM: number): boolean {
+function dampedStepInto(s: IkScratch, chain: Chain, e: Float64Array, lambda2: number, lengthM: number, cache?: IkSeedPose): boolean {
   const m = chain.drivenCount, a = s.a, x = s.x, task = s.task, dq = s.dq;
+  const cached = cache !== undefined && cache.normalReady, normal = cache?.normal;
+  if (cache) cache.normalReady = true;
   if (m > 6) {
     const y = s.y;
     for (let r = 0; r < 6; r++) {
       for (let c = r; c < 6; c++) {
-        let v = 0;
-        for (let k = 0; k < m; k++) v += task[r * m + k]! * task[c * m + k]!;
+        let v: number;
+        if (cached) v = normal![r * 6 + c]!;
+        else {
+          v = 0;
+          for (let k = 0; k < m; k++) v += task[r * m + k]! * task[c * m + k]!;
+          if (normal) normal[r * 6 + c] = v;
+        }
         a[r * 6 + c] = v + (r === c ? lambda2 : 0);
         a[c * 6 + r] = v + (r === c ? lambda2 : 0);
       }
@@ -185,17 +232,21 @@ function dampedStepInto(s: IkScratch, chain: Chain, e: Float64Array, lambda2: nu
     }
     return true;
   }
+  // The six task rows written out (sums in row order, as a loop over them would add).
+  const m2 = 2 * m, m3 = 3 * m, m4 = 4 * m, m5 = 5 * m;
   for (let r = 0; r < m; r++) {
+    const t0 = task[r]!, t1 = task[m + r]!, t2 = task[m2 + r]!, t3 = task[m3 + r]!, t4 = task[m4 + r]!, t5 = task[m5 + r]!;
     for (let c = r; c < m; c++) {
-      let v = 0;
-      for (let k = 0; k < 6; k++) v += task[k * m + r]! * task[k * m + c]!;
+      let v: number;
+      if (cached) v = normal![r * m + c]!;
+      else {
+        v = 0 + t0 * task[c]! + t1 * task[m + c]! + t2 * task[m2 + c]! + t3 * task[m3 + c]! + t4 * task[m4 + c]! + t5 * task[m5 + c]!;
+        if (normal) normal[r * m + c] = v;
+      }
       a[r * m + c] = v + (r === c ? lambda2 : 0);
       a[c * m + r] = v + (r === c ? lambda2 : 0);
     }
-    let rhs = 0;
-    for (let k = 0; k < 3; k++) rhs += task[k * m + r]! * e[k]!;
-    for (let k = 3; k < 6; k++) rhs += task[k * m + r]! * e[k]! * lengthM;
-    x[r] = rhs;
+    x[r] = 0 + t0 * e[0]! + t1 * e[1]! + t2 * e[2]! + t3 * e[3]! * lengthM + t4 * e[4]! * lengthM + t5 * e[5]! * lengthM;
   }
   if (!solveInPlace(a, x, m)) return false;
   for (let i = 0; i < m; i++) dq[i] = x[i]!;
