@@ -216,3 +216,9 @@ export function getCatalog(dir = process.env.ARMDEX_ARMS_DIR ?? "arms"): Promise
   }
   return p;
 }
+
+/** Static paths of the per-arm pages and files (`/arms/<id>/`, `/data/arms/<id>…`): one per catalog arm, the arm as props. */
+export async function armStaticPaths(): Promise<{ params: { id: string }; props: { arm: Arm } }[]> {
+  const { arms } = await getCatalog();
+  return arms.map((arm) => ({ params: { id: arm.id }, props: { arm } }));
+}

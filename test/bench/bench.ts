@@ -26,17 +26,12 @@ import { measureCompareInteractive } from "./compareInteractive";
 import { readdirSync, statSync } from "node:fs";
 import { join } from "node:path";
 import { runFuzz } from "../fuzz/longRun";
+import { median } from "./stats";
 
 const { values } = parseArgs({
   options: { arms: { type: "string" }, quick: { type: "boolean" }, only: { type: "string" }, "scale-arms": { type: "string" }, "no-scale": { type: "boolean" }, "fuzz-runs": { type: "string" } },
 });
 const reps = values.quick ? 3 : 7;
-
-function median(xs: number[]): number {
-  const s = [...xs].sort((a, b) => a - b);
-  const mid = s.length >> 1;
-  return s.length % 2 ? s[mid]! : (s[mid - 1]! + s[mid]!) / 2;
-}
 
 function timeMs(f: () => unknown): number {
   const t0 = performance.now();

@@ -9,6 +9,7 @@
 import { resolve } from "node:path";
 import { launchChromium } from "../e2e/helpers/browser";
 import { serveStatic } from "../e2e/helpers/staticServer";
+import { median } from "./stats";
 
 export interface CompareInteractiveOptions {
   readonly distDir: string;
@@ -41,10 +42,7 @@ export async function measureCompareInteractive(opts: { distDir: string; base: s
     await browser.close();
     await server.close();
   }
-  const sorted = [...runsMs].sort((a, b) => a - b);
-  const mid = Math.floor(sorted.length / 2);
-  const medianMs = sorted.length % 2 ? sorted[mid]! : (sorted[mid - 1]! + sorted[mid]!) / 2;
-  return { medianMs, runsMs };
+  return { medianMs: median(runsMs), runsMs };
 }
 
 const entry = process.argv[1] ? resolve(process.argv[1]) : "";

@@ -13,6 +13,7 @@ import { spawn } from "node:child_process";
 import { mkdirSync, readdirSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { join, resolve } from "node:path";
 import { mulberry32 } from "../../src/core/analysis/random";
+import { median } from "./stats";
 
 type Json = Record<string, any>;
 
@@ -121,13 +122,6 @@ export function timedBuild(root: string, env: NodeJS.ProcessEnv): Promise<BuildR
 
 function stepsText(run: BuildRun): string {
   return run.steps.map((s) => `${s.name} ${s.seconds.toFixed(1)} s`).join(", ");
-}
-
-function median(xs: number[]): number {
-  if (xs.length === 0) return NaN;
-  const s = [...xs].sort((a, b) => a - b);
-  const mid = s.length >> 1;
-  return s.length % 2 ? s[mid]! : (s[mid - 1]! + s[mid]!) / 2;
 }
 
 export interface ScaleReport {

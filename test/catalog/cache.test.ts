@@ -8,10 +8,9 @@ import { mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSyn
 import { tmpdir } from "node:os";
 import { join, relative } from "node:path";
 import { afterEach, beforeAll, beforeEach, describe, expect, it } from "vitest";
-import { loadArmFile, type Arm } from "../../src/catalog";
+import type { Arm } from "../../src/catalog";
 import {
   analysisKey,
-  armFacts,
   getAnalysisSummary,
   readCachedSummary,
   sourceFingerprint,
@@ -20,10 +19,11 @@ import {
   writeFileAtomic,
 } from "../../src/catalog/analysis";
 import { cachedDerived, derivedKey, derivedPath } from "../../src/catalog/derived";
-import { analyseArm, type ArmAnalysis } from "../../src/core/analysis/analyseArm";
+import type { ArmAnalysis } from "../../src/core/analysis/analyseArm";
 import { catalogSummaryRow } from "../../src/view/catalogData";
 import { catalogPageModel } from "../../src/view/catalogPageModel";
 import { lineCheckCompareModel } from "../../src/view/lineCheckSection";
+import { demoArmWithAnalysis } from "../helpers/demoAnalysis";
 
 let dir: string;
 const previous = process.env.ARMDEX_CACHE_DIR;
@@ -168,10 +168,7 @@ describe("analysis summaries", () => {
 
   beforeAll(async () => {
     // The SCARA of the demo catalog: the quickest to analyse.
-    const loaded = await loadArmFile("arms/yarrowfield-sable-600.json");
-    if (!loaded.arm) throw new Error(`demo arm did not load: ${JSON.stringify(loaded.issues)}`);
-    arm = loaded.arm;
-    analysis = JSON.parse(JSON.stringify(analyseArm(arm.chain, armFacts(arm)))) as ArmAnalysis;
+    ({ arm, analysis } = await demoArmWithAnalysis());
   });
 
   it("are written beside the analysis and read back as the projection of it", async () => {

@@ -7,6 +7,7 @@ import { existsSync } from "node:fs";
 import { join } from "node:path";
 import type { TestProject } from "vitest/node";
 import { serveStatic } from "./helpers/staticServer";
+import { buildEnv } from "./helpers/buildEnv";
 
 declare module "vitest" {
   export interface ProvidedContext {
@@ -16,20 +17,6 @@ declare module "vitest" {
     basePath: string;
     distDir: string;
   }
-}
-
-/**
- * The environment for the build: ours, minus what vitest adds for its own tests. Vitest sets BASE_URL, MODE, DEV,
- * PROD, SSR and NODE_ENV=test in process.env; Astro reads process.env into import.meta.env, so a leaked BASE_URL
- * would override the configured base path of every link.
- */
-function buildEnv(): NodeJS.ProcessEnv {
-  const env: NodeJS.ProcessEnv = { ...process.env, ASTRO_TELEMETRY_DISABLED: "1" };
-  for (const key of ["BASE_URL", "MODE", "DEV", "PROD", "SSR", "TEST", "VITEST", "VITEST_MODE", "VITEST_POOL_ID", "VITEST_WORKER_ID"]) {
-    delete env[key];
-  }
-  if (env.NODE_ENV === "test") delete env.NODE_ENV;
-  return env;
 }
 
 export default async function setup(project: TestProject): Promise<() => Promise<void>> {

@@ -16,6 +16,7 @@ import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { collectProblems, launchChromium, watchPage } from "./helpers/browser";
 import { serveStatic, type StaticServer } from "./helpers/staticServer";
+import { buildEnv } from "./helpers/buildEnv";
 
 const root = new URL("../..", import.meta.url).pathname;
 const basePath = inject("basePath");
@@ -89,10 +90,7 @@ beforeAll(async () => {
   const other = JSON.parse(readFileSync(join(root, "arms", "corvell-tern-25.json"), "utf8")) as Record<string, unknown>;
   delete other.$schema;
   writeFileSync(join(armsDir, "corvell-tern-25.json"), JSON.stringify(other, null, 2));
-  const env: NodeJS.ProcessEnv = { ...process.env, ARMDEX_ARMS_DIR: armsDir, ARMDEX_OUT_DIR: outDir, ASTRO_TELEMETRY_DISABLED: "1" };
-  // vitest's own variables must not reach Astro (see globalSetup.ts).
-  for (const key of ["BASE_URL", "MODE", "DEV", "PROD", "SSR", "TEST", "VITEST", "VITEST_MODE", "VITEST_POOL_ID", "VITEST_WORKER_ID"]) delete env[key];
-  if (env.NODE_ENV === "test") delete env.NODE_ENV;
+  const env = buildEnv({ ARMDEX_ARMS_DIR: armsDir, ARMDEX_OUT_DIR: outDir });
   const result = spawnSync("npm", ["run", "build"], { cwd: root, env, encoding: "utf8", maxBuffer: 64 * 1024 * 1024 });
   if (result.status !== 0) throw new Error(`build of the hostile catalog failed:\n${`${result.stdout}\n${result.stderr}`.slice(-4000)}`);
   server = await serveStatic(outDir, basePath);

@@ -12,6 +12,7 @@ import { spawn, spawnSync } from "node:child_process";
 import { mkdirSync, readdirSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { dirname, join } from "node:path";
 import { afterAll, beforeAll, expect, inject, it } from "vitest";
+import { buildEnv } from "./helpers/buildEnv";
 
 const root = new URL("../..", import.meta.url).pathname;
 const suiteDist = inject("distDir");
@@ -22,13 +23,7 @@ const outDir = join(scratch, "dist");
 const ARM_IDS = ["corvell-tern-7", "corvell-heron-210l", "yarrowfield-sable-600"];
 const OLD_SITE: Record<string, string> = { "index.html": "<!doctype html><title>previous site</title>", "data/marker.txt": "previous build" };
 
-function buildEnv(): NodeJS.ProcessEnv {
-  const env: NodeJS.ProcessEnv = { ...process.env, ARMDEX_ARMS_DIR: armsDir, ARMDEX_OUT_DIR: outDir, ARMDEX_CACHE_DIR: cacheDir, ASTRO_TELEMETRY_DISABLED: "1" };
-  // vitest's own variables must not reach Astro (see globalSetup.ts).
-  for (const key of ["BASE_URL", "MODE", "DEV", "PROD", "SSR", "TEST", "VITEST", "VITEST_MODE", "VITEST_POOL_ID", "VITEST_WORKER_ID"]) delete env[key];
-  if (env.NODE_ENV === "test") delete env.NODE_ENV;
-  return env;
-}
+const scratchEnv = () => buildEnv({ ARMDEX_ARMS_DIR: armsDir, ARMDEX_OUT_DIR: outDir, ARMDEX_CACHE_DIR: cacheDir });
 
 function files(dir: string): string[] {
   const out: string[] = [];
@@ -45,7 +40,7 @@ function files(dir: string): string[] {
 /** Runs `build.ts` directly (not through npm, so the signal reaches it) and sends `signal` once `when` matches its output. */
 function interruptedBuild(when: RegExp, signal: NodeJS.Signals): Promise<{ code: number | null; output: string; signalled: boolean }> {
   return new Promise((done) => {
-    const child = spawn(join(root, "node_modules/.bin/tsx"), [join(root, "src/cli/build.ts")], { cwd: root, env: buildEnv() });
+    const child = spawn(join(root, "node_modules/.bin/tsx"), [join(root, "src/cli/build.ts")], { cwd: root, env: scratchEnv() });
     let output = "";
     let signalled = false;
     const onData = (chunk: Buffer) => {
@@ -125,7 +120,7 @@ it("a complete build afterwards publishes the same analyses as a build that was 
   const gone = spawnSync(process.execPath, ["-e", "process.stdout.write(String(process.pid))"], { encoding: "utf8" }).stdout;
   mkdirSync(join(scratch, `dist.building-${gone}`, "arms"), { recursive: true });
   writeFileSync(join(scratch, `dist.building-${gone}`, "index.html"), "half a site");
-  const result = spawnSync(join(root, "node_modules/.bin/tsx"), [join(root, "src/cli/build.ts")], { cwd: root, env: buildEnv(), encoding: "utf8", maxBuffer: 64 * 1024 * 1024 });
+  const result = spawnSync(join(root, "node_modules/.bin/tsx"), [join(root, "src/cli/build.ts")], { cwd: root, env: scratchEnv(), encoding: "utf8", maxBuffer: 64 * 1024 * 1024 });
   expect(result.status, `${result.stdout}\n${result.stderr}`.slice(-3000)).toBe(0);
   expect(readdirSync(scratch).filter((n) => n.startsWith("dist")).sort()).toEqual(["dist"]);
   expect(readFileSync(join(outDir, "index.html"), "utf8")).not.toBe(OLD_SITE["index.html"]);

@@ -7,6 +7,7 @@ import { spawnSync } from "node:child_process";
 import { mkdirSync, readdirSync, readFileSync, rmSync, statSync } from "node:fs";
 import { join, relative } from "node:path";
 import { afterAll, expect, inject, it } from "vitest";
+import { buildEnv } from "./helpers/buildEnv";
 
 const root = new URL("../..", import.meta.url).pathname;
 const distDir = inject("distDir");
@@ -31,10 +32,7 @@ function files(dir: string): string[] {
 }
 
 it("two builds of the same arms are byte-identical", () => {
-  const env: NodeJS.ProcessEnv = { ...process.env, ARMDEX_OUT_DIR: outDir, ASTRO_TELEMETRY_DISABLED: "1" };
-  // The same clean-up the suite's setup does: vitest's own variables must not reach Astro.
-  for (const key of ["BASE_URL", "MODE", "DEV", "PROD", "SSR", "TEST", "VITEST", "VITEST_MODE", "VITEST_POOL_ID", "VITEST_WORKER_ID"]) delete env[key];
-  if (env.NODE_ENV === "test") delete env.NODE_ENV;
+  const env = buildEnv({ ARMDEX_OUT_DIR: outDir });
   const result = spawnSync("npm", ["run", "build"], { cwd: root, env, encoding: "utf8", maxBuffer: 64 * 1024 * 1024 });
   expect(result.status, `${result.stdout}\n${result.stderr}`.slice(-3000)).toBe(0);
   const first = files(distDir), second = files(outDir);

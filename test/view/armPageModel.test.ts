@@ -3,22 +3,19 @@
  * copy with the stated reach changed to check the mismatch flag. No Astro, no cache.
  */
 import { beforeAll, describe, expect, it } from "vitest";
-import { loadArmFile, type Arm } from "../../src/catalog";
-import { armFacts } from "../../src/catalog/analysis";
-import { analyseArm, type ArmAnalysis } from "../../src/core/analysis/analyseArm";
+import type { Arm } from "../../src/catalog";
+import type { ArmAnalysis } from "../../src/core/analysis/analyseArm";
 import { ANALYSIS_SECTIONS, armPageModel } from "../../src/view/armPageModel";
 import { reachCheck } from "../../src/view/armAnalysisModel";
 import { jointsCsv, payloadCsv, PAYLOAD_CSV_HEADER } from "../../src/view/armCsv";
 import { catalogPageModel } from "../../src/view/catalogPageModel";
+import { demoArmWithAnalysis } from "../helpers/demoAnalysis";
 
 let arm: Arm;
 let analysis: ArmAnalysis;
 
 beforeAll(async () => {
-  const loaded = await loadArmFile("arms/yarrowfield-sable-600.json");
-  if (!loaded.arm) throw new Error(`demo arm did not load: ${JSON.stringify(loaded.issues)}`);
-  arm = loaded.arm;
-  analysis = JSON.parse(JSON.stringify(analyseArm(arm.chain, armFacts(arm)))) as ArmAnalysis;
+  ({ arm, analysis } = await demoArmWithAnalysis());
 });
 
 describe("armPageModel with an analysis", () => {

@@ -5,20 +5,17 @@
  * over the published "down" map's cells; the row's raw figures against the analysis fields they stand for.
  */
 import { beforeAll, describe, expect, it } from "vitest";
-import { loadArmFile, type Arm } from "../../src/catalog";
-import { armFacts } from "../../src/catalog/analysis";
-import { analyseArm, type ArmAnalysis } from "../../src/core/analysis/analyseArm";
+import type { Arm } from "../../src/catalog";
+import type { ArmAnalysis } from "../../src/core/analysis/analyseArm";
 import { bestGuaranteedLineSpeedDownMPerS, catalogPageModel } from "../../src/view/catalogPageModel";
 import { catalogSummaryRow } from "../../src/view/catalogData";
+import { demoArmWithAnalysis } from "../helpers/demoAnalysis";
 
 let arm: Arm;
 let analysis: ArmAnalysis;
 
 beforeAll(async () => {
-  const loaded = await loadArmFile("arms/yarrowfield-sable-600.json");
-  if (!loaded.arm) throw new Error(`demo arm did not load: ${JSON.stringify(loaded.issues)}`);
-  arm = loaded.arm;
-  analysis = JSON.parse(JSON.stringify(analyseArm(arm.chain, armFacts(arm)))) as ArmAnalysis;
+  ({ arm, analysis } = await demoArmWithAnalysis());
 });
 
 describe("bestGuaranteedLineSpeedDownMPerS", () => {

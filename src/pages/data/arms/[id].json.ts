@@ -1,13 +1,10 @@
 // dist/data/arms/<id>.json: the arm's full analysis (the same JSON `armdex analyze` prints). The cache entry is that
 // JSON already: it is copied as it is, not parsed and written again.
 import type { APIRoute, GetStaticPaths } from "astro";
-import { getCatalog, type Arm } from "../../../catalog";
+import { armStaticPaths, type Arm } from "../../../catalog";
 import { getAnalysis, readCachedAnalysisText } from "../../../catalog/analysis";
 
-export const getStaticPaths = (async () => {
-  const { arms } = await getCatalog();
-  return arms.map((arm) => ({ params: { id: arm.id }, props: { arm } }));
-}) satisfies GetStaticPaths;
+export const getStaticPaths = armStaticPaths satisfies GetStaticPaths;
 
 export const GET: APIRoute = async ({ props }) => {
   const arm = (props as { arm: Arm }).arm;

@@ -1,12 +1,9 @@
 // dist/data/arms/<id>/joints.csv: the joint table as declared in the arm file.
 import type { APIRoute, GetStaticPaths } from "astro";
-import { getCatalog, type Arm } from "../../../../catalog";
+import { armStaticPaths, type Arm } from "../../../../catalog";
 import { jointsCsv } from "../../../../view/armCsv";
 
-export const getStaticPaths = (async () => {
-  const { arms } = await getCatalog();
-  return arms.map((arm) => ({ params: { id: arm.id }, props: { arm } }));
-}) satisfies GetStaticPaths;
+export const getStaticPaths = armStaticPaths satisfies GetStaticPaths;
 
 export const GET: APIRoute = ({ props }) =>
   new Response(jointsCsv((props as { arm: Arm }).arm), { headers: { "content-type": "text/csv; charset=utf-8" } });

@@ -1,15 +1,12 @@
 // dist/data/arms/<id>/payload.csv: payload at reach for every mounting, reach and CG offset (from the analysis;
 // cached beside it, see src/catalog/derived.ts).
 import type { APIRoute, GetStaticPaths } from "astro";
-import { getCatalog, type Arm } from "../../../../catalog";
+import { armStaticPaths, type Arm } from "../../../../catalog";
 import { getAnalysis } from "../../../../catalog/analysis";
 import { cachedDerived } from "../../../../catalog/derived";
 import { payloadCsv } from "../../../../view/armCsv";
 
-export const getStaticPaths = (async () => {
-  const { arms } = await getCatalog();
-  return arms.map((arm) => ({ params: { id: arm.id }, props: { arm } }));
-}) satisfies GetStaticPaths;
+export const getStaticPaths = armStaticPaths satisfies GetStaticPaths;
 
 export const GET: APIRoute = async ({ props }) => {
   const arm = (props as { arm: Arm }).arm;
