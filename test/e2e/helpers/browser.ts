@@ -49,7 +49,12 @@ export async function watchPage(page: Page, origin: string): Promise<PageProblem
     const url = req.url();
     if (!url.startsWith(`${origin}/`) && !url.startsWith("data:") && !url.startsWith("about:")) problems.foreignRequests.push(url);
   });
-  page.on("requestfailed", (req) => problems.failedRequests.push(`${req.url()}: ${req.failure()?.errorText ?? "failed"}`));
+  // A request the page cancelled itself (net::ERR_ABORTED: a reload or navigation while the favicon was still on its
+  // way) is not a breakage; a missing file shows as an HTTP status below, a refused one as another net error.
+  page.on("requestfailed", (req) => {
+    const error = req.failure()?.errorText ?? "failed";
+    if (!error.includes("ERR_ABORTED")) problems.failedRequests.push(`${req.url()}: ${error}`);
+  });
   page.on("response", (res) => {
     if (res.status() >= 400) problems.failedRequests.push(`${res.url()}: HTTP ${res.status()}`);
   });
