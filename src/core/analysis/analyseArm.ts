@@ -11,7 +11,7 @@ import { analysePayload, payloadInputOf, type PayloadAnalysisOptions, type Paylo
 import { standardCycle } from "./cycle";
 import { DEFAULT_ENVELOPE_OPTIONS, workspaceEnvelope, type EnvelopeOptions, type PointEnvelope, type PolygonMm, type WorkspaceEnvelope } from "./envelope";
 
-export const ANALYSIS_VERSION = "5";
+export const ANALYSIS_VERSION = "6";
 
 /** Arm facts the analysis needs besides the chain (plain types; the catalog fills them from the arm file). */
 export interface ArmFacts extends PayloadSpec {

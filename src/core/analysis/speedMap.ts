@@ -22,6 +22,7 @@ import { branchCode, branchFrame, branchName, type BranchFrame } from "./branche
 import { mulberry32 } from "./random";
 import { classifyNullVector, decoupledWristColumns, jointRoles } from "./singularity";
 import { traceSingularityLoci, type SingularityLocus } from "./loci";
+import { wristFlipOf, wristTwinInto } from "../kinematics/wristFlip";
 
 export type ReferenceOrientation = "down" | "outward";
 
@@ -75,6 +76,12 @@ export interface SpeedMapOptions {
   readonly closedForm?: boolean | "discovery";
   /** With closed form: look for solutions at every cell, not only at discovery cells (default true). */
   readonly discoverEveryCell?: boolean;
+  /**
+   * Wrist-flip twins (default true): on arms whose wrist flip is a symmetry of the chain (kinematics/wristFlip.ts),
+   * every solution's twin is stored beside it without solving, with its figures taken from the solution's (same
+   * guaranteed speed, det J negated). false solves every solution numerically (for tests).
+   */
+  readonly wristTwins?: boolean;
 }
 
 export const DEFAULT_SPEED_MAP: SpeedMapOptions = {
@@ -323,14 +330,14 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
   // Revolute driven joints: values 2π apart are the same arm posture (e.g. q1 = ±180° on the back side of an arm
   // whose J1 range is ±180°); they must not take two of the K slots, or real branches find no room.
   const wraps = Uint8Array.from(chain.drivenJoint, (k) => (chain.isPrismatic[k] ? 0 : 1));
-  /** Stores qTry at `cell` unless an equal solution (revolute joints compared modulo 2π) is there; returns the slot or −1. */
-  const store = (cell: number): number => {
+  /** Stores q at `cell` unless an equal solution (revolute joints compared modulo 2π) is there; returns the slot or −1. */
+  const storeQ = (cell: number, q: Float64Array): number => {
     const base = cell * K * m, n = count[cell]!;
     lastEqual = -1;
     for (let k = 0; k < n; k++) {
       let same = true;
       for (let i = 0; i < m; i++) {
-        let d = Math.abs(sol[base + k * m + i]! - qTry[i]!);
+        let d = Math.abs(sol[base + k * m + i]! - q[i]!);
         if (wraps[i]) d = Math.abs(d - 2 * Math.PI * Math.round(d / (2 * Math.PI)));
         if (d > 1e-4) {
           same = false;
@@ -343,9 +350,44 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
       }
     }
     if (n >= K) return -1;
-    for (let i = 0; i < m; i++) sol[base + n * m + i] = qTry[i]!;
+    for (let i = 0; i < m; i++) sol[base + n * m + i] = q[i]!;
     count[cell] = n + 1;
     return n;
+  };
+  const store = (cell: number): number => storeQ(cell, qTry);
+
+  // Wrist-flip twins: twinSlot[cell·K + slot] = the slot of the solution's twin in the same cell, −1 when none.
+  // Six driven joints only: a redundant arm's solutions are not isolated, and its twins would take the slots that
+  // solutions elsewhere in its self-motion need.
+  const flip = task === "full" && m === 6 && options.wristTwins !== false ? wristFlipOf(chain) : null;
+  const twinSlot = new Int8Array(flip ? cells * K : 0).fill(-1);
+  const qTwin = new Float64Array(m);
+  /**
+   * Pairs solution (cell, slot) with its twin: stores the twin (queued like any new solution) unless it is out of
+   * range, already there or the cell is full. Returns the twin's slot or −1.
+   */
+  const pairTwin = (cell: number, slot: number): number => {
+    if (!flip) return -1;
+    const idx = cell * K + slot;
+    if (twinSlot[idx]! >= 0) return twinSlot[idx]!;
+    if (!wristTwinInto(qTwin, sol, flip, chain, idx * m)) return -1;
+    const stored = storeQ(cell, qTwin);
+    const t = stored >= 0 ? stored : lastEqual;
+    if (t < 0 || twinSlot[cell * K + t]! >= 0) return -1;
+    twinSlot[idx] = t;
+    twinSlot[cell * K + t] = slot;
+    if (stored >= 0) push(cell, stored);
+    return t;
+  };
+  /** Joins the twins of two joined solutions when they are continuous too (the ± half turns may differ). */
+  const unionTwins = (a: number, b: number) => {
+    const ca = (a / K) | 0, cb = (b / K) | 0;
+    const ta = twinSlot[a]!, tb = twinSlot[b]!;
+    if (ta < 0 || tb < 0) return;
+    const oa = (ca * K + ta) * m, ob = (cb * K + tb) * m;
+    let jump = 0;
+    for (let i = 0; i < m; i++) jump = Math.max(jump, Math.abs(sol[oa + i]! - sol[ob + i]!));
+    if (jump < MAX_CONTINUATION_JUMP_RAD) union(ca * K + ta, cb * K + tb);
   };
 
   // Per solution (cell·K + slot): guaranteed straight-line speed (m/s) and det J (square task Jacobians), computed
@@ -381,7 +423,16 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
       const from = (cell * K + slot) * m;
       const fromIdx = cell * K + slot;
       for (let i = 0; i < m; i++) qSeed[i] = sol[from + i]!;
-      slotFigures(cell, slot, qSeed);
+      // A twin takes its figures from its partner (same guaranteed speed, det J negated), once the partner has them.
+      const partner = flip ? twinSlot[fromIdx]! : -1;
+      let poseReady = false;
+      if (partner >= 0 && !Number.isNaN(guaranteedVal[cell * K + partner]!)) {
+        guaranteedVal[fromIdx] = guaranteedVal[cell * K + partner]!;
+        detVal[fromIdx] = -detVal[cell * K + partner]!;
+      } else {
+        slotFigures(cell, slot, qSeed);
+        poseReady = true;
+      }
       for (let d = 0; d < 4; d++) {
         const jx = ix + (d === 0 ? 1 : d === 1 ? -1 : 0), jy = iy + (d === 2 ? 1 : d === 3 ? -1 : 0);
         if (jx < 0 || jy < 0 || jx >= nx || jy >= ny) continue;
@@ -397,6 +448,10 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
           if (!nearestClosedInto(qTry, next, nClosed, qSeed)) continue;
         } else {
           setTarget(next);
+          if (!poseReady) {
+            ikSeedPoseInto(seedPose, chain, qSeed, popKin);
+            poseReady = true;
+          }
           if (!solveIkInto(qTry, chain, target, qSeed, ik, continuationIk, seedPose)) continue;
         }
         // A large joint jump means the solver left the sheet (it landed on another branch near a singularity):
@@ -408,8 +463,11 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
         if (s2 >= 0) {
           if (continuous) union(fromIdx, next * K + s2);
           push(next, s2);
+          if (flip && pairTwin(next, s2) >= 0 && continuous) unionTwins(fromIdx, next * K + s2);
         } else if (lastEqual >= 0 && continuous) {
-          union(fromIdx, next * K + lastEqual);
+          const equal = lastEqual;
+          union(fromIdx, next * K + equal);
+          if (flip && pairTwin(next, equal) >= 0) unionTwins(fromIdx, next * K + equal);
         }
       }
     }
@@ -425,6 +483,7 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
       const slot = store(cell);
       if (slot >= 0) {
         push(cell, slot);
+        pairTwin(cell, slot);
         flood();
       }
     }
@@ -439,8 +498,9 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     for (let ix = Math.floor(every / 2); ix < nx; ix += every) {
       const cell = ix + iy * nx;
       if (discoverClosed(cell)) continue;
-      setTarget(cell);
       for (let t = 0; t < options.discoverySeeds; t++) {
+        // Every seed sets the target again: the flood from the previous seed's solution aimed it at other cells.
+        setTarget(cell);
         for (let i = 0; i < m; i++) {
           const lo = Math.max(chain.lowerSi[i]!, -Math.PI), hi = Math.min(chain.upperSi[i]!, Math.PI);
           // Every other seed puts some joints exactly at a limit: branches that exist only in a thin band next to
@@ -452,6 +512,7 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
         const slot = store(cell);
         if (slot >= 0) {
           push(cell, slot);
+          pairTwin(cell, slot);
           flood();
         }
       }
@@ -494,6 +555,8 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
         best = k;
         bestG = g;
         bestJReady = false;
+      } else if (flip && twinSlot[cell * K + k] === best) {
+        // The best one's twin: the same figures (see pairTwin); the first stored is kept.
       } else if (Math.abs(g - bestG) <= 1e-12) {
         // Tie (both singular, or equal): prefer the larger maximum speed.
         if (!bestJReady) slotJacobianInto(bestJ, cell, best);
@@ -576,12 +639,22 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
  * elbow otherwise (joints 2 and 3). Labelling by the σ_min vector of the full J instead mislabels crossings near a
  * second, uncrossed singularity (that σ belongs to the other one) and shoulder crossings whose wrist compensation
  * is large.
+ * When the second and third arm axes are parallel (the usual elbow), det J11 = c₁·(c₂ × c₃) factors exactly: c₂ and
+ * c₃ (the linear columns of those joints) are both perpendicular to the common axis direction z₂, so c₂ × c₃ = e·z₂
+ * and det J11 = (c₁·z₂)·e. The elbow factor e vanishes when c₂ ∥ c₃ (wrist centre in the plane of axes 2 and 3),
+ * the shoulder factor c₁·z₂ when joint 1 moves the wrist centre along z₂ only or not at all (on axis 1, or on the
+ * cylinder of the lateral shoulder offset). The factor that changes sign across the square names the crossing;
+ * this stays right where both sets come close (an arm stretched up along axis 1), where the smallest singular
+ * vector of J11 mixes the two. Otherwise, and when both or neither factor changes sign, the null vector decides.
+ * @see Spong, Hutchinson & Vidyasagar, Robot Modeling and Control, §4.9 (det J11 of an elbow manipulator as a
+ *   product of an elbow term and a shoulder term) [from memory]
  */
 function createDecoupledLabeller(chain: Chain, cols: { arm: number[]; wrist: number[] }): (cornerJoints: (corner: number) => Float64Array) => "wrist" | "shoulder" | "elbow" {
   const kin = createScratch(chain);
   const j = new Float64Array(36), w = new Float64Array(3), block = new Float64Array(9);
   const sv = new Float64Array(3), v = new Float64Array(9), svd = createSvdScratch(3, 3);
-  const det11 = [0, 0, 0, 0], det22 = [0, 0, 0, 0];
+  const det11 = [0, 0, 0, 0], det22 = [0, 0, 0, 0], shoulderF = [0, 0, 0, 0], elbowF = [0, 0, 0, 0];
+  let parallel23: boolean | null = null;
   const det3 = (b: Float64Array) => b[0]! * (b[4]! * b[8]! - b[5]! * b[7]!) - b[1]! * (b[3]! * b[8]! - b[5]! * b[6]!) + b[2]! * (b[3]! * b[7]! - b[4]! * b[6]!);
   const fill = (rowOffset: number, columns: number[], scale: number) => {
     for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) block[r * 3 + c] = j[(rowOffset + r) * 6 + columns[c]!]! * scale;
@@ -597,9 +670,24 @@ function createDecoupledLabeller(chain: Chain, cols: { arm: number[]; wrist: num
       fill(0, cols.arm, 1 / chain.characteristicLengthM);
       det11[c] = det3(block);
       if (Math.abs(det11[c]!) < Math.abs(det11[near]!)) near = c;
+      // Factors of det J11 (columns of `block`: c₁, c₂, c₃ scaled; z₂ from the angular rows of the second arm column).
+      const a2 = cols.arm[1]!, a3 = cols.arm[2]!;
+      const zx = j[18 + a2]!, zy = j[24 + a2]!, zz = j[30 + a2]!;
+      if (parallel23 === null) {
+        const ux = j[18 + a3]!, uy = j[24 + a3]!, uz = j[30 + a3]!;
+        parallel23 = Math.hypot(zy * uz - zz * uy, zz * ux - zx * uz, zx * uy - zy * ux) < 1e-9;
+      }
+      shoulderF[c] = block[0]! * zx + block[3]! * zy + block[6]! * zz;
+      const ex = block[4]! * block[8]! - block[7]! * block[5]!, ey = block[7]! * block[2]! - block[1]! * block[8]!, ez = block[1]! * block[5]! - block[4]! * block[2]!;
+      elbowF[c] = ex * zx + ey * zy + ez * zz;
     }
     const changes = (d: number[]) => d.some((x) => x > 0) && d.some((x) => x < 0);
     if (changes(det22) || !changes(det11)) return "wrist";
+    if (parallel23) {
+      const s = changes(shoulderF), e = changes(elbowF);
+      if (s && !e) return "shoulder";
+      if (e && !s) return "elbow";
+    }
     forwardInto(chain, cornerJoints(near), kin);
     wristCentreInto(w, chain, kin);
     jacobianInto(j, chain, kin, w[0]!, w[1]!, w[2]!);

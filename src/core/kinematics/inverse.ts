@@ -49,7 +49,7 @@ export interface IkOptions {
   /**
    * When the error (m, orientation scaled by the length) is already below this, take one last undamped-enough step
    * and stop without checking it: Newton's quadratic convergence makes the next error far below the tolerance.
-   * 0 turns it off.
+   * Steps longer than 1e-3 rad (near a singularity) are checked all the same. 0 turns it off.
    */
   readonly trustFinalStepBelowM?: number;
   /**
@@ -58,6 +58,9 @@ export interface IkOptions {
    */
   readonly task?: "full" | "axis";
 }
+
+/** Longest joint step (rad or m) still taken without checking it (trustFinalStepBelowM). */
+const TRUSTED_STEP_RAD = 1e-3;
 
 export const DEFAULT_IK: IkOptions = { maxIterations: 40, toleranceM: 1e-7, toleranceRad: 1e-6 };
 
@@ -191,8 +194,14 @@ export function solveIkInto(
     if (!stepOk) break;
     const trust = options.trustFinalStepBelowM ?? 0;
     if (!held && err < trust * trust) {
-      converged = true;
-      break;
+      // Only a short step is trusted: the error it leaves is of the order of L·‖Δq‖², below 1e-6 m for
+      // ‖Δq‖ < 1e-3 rad. Near a singularity a small error can take a long step, whose result must be checked.
+      let longest = 0;
+      for (let i = 0; i < m; i++) longest = Math.max(longest, Math.abs(s.dq[i]!));
+      if (longest < TRUSTED_STEP_RAD) {
+        converged = true;
+        break;
+      }
     }
   }
   for (let i = 0; i < m; i++) qOut[i] = q[i]!;

@@ -318,6 +318,28 @@ describe("toolSpeedMap(generic 6R, down, 20 mm): per-cell figures", () => {
     expect(checked).toBe(200);
   });
 
+  it.each(["down", "outward"] as const)("%s: the kept joint values of every reachable cell reach its target", (orientation) => {
+    // Every cell, not a sample: a discovery solve once aimed at a stale target (the flood from the previous seed had
+    // moved it) and stored a solution 1.6 m away from its cell as that cell's fastest branch. Forward kinematics by
+    // forwardInto (itself checked against the mathjs DH product in forward.test.ts); tolerances as above.
+    const map = mapOf(orientation);
+    const g = map.grid, s = createScratch(chain);
+    const [tr, tz] = TOOL[orientation];
+    let checked = 0;
+    const off: string[] = [];
+    for (let cell = 0; cell < g.nx * g.ny; cell++) {
+      if (map.branch[cell]! < 0) continue;
+      checked++;
+      const ix = cell % g.nx, iy = (cell - ix) / g.nx;
+      const t = forwardInto(chain, map.joints.subarray(cell * 6, cell * 6 + 6), s);
+      const dMm = Math.hypot(t[3]! * 1000 - (g.rMinMm + ix * g.stepMm), t[7]! * 1000, t[11]! * 1000 - (g.zMinMm + iy * g.stepMm));
+      const dAxis = Math.hypot(t[2]! - tr, t[6]!, t[10]! - tz);
+      if (!(dMm <= 2e-3 && dAxis <= 2e-5)) off.push(`cell (${ix}, ${iy}): ${dMm.toFixed(4)} mm, axis ${dAxis.toExponential(1)}`);
+    }
+    expect(checked).toBe(map.reachableCells);
+    expect(off, `${off.length} of ${checked} cells; first: ${off.slice(0, 5).join("; ")}`).toEqual([]);
+  });
+
   it("unreachable cells are NaN, and no cell beyond the flange reach (CHECKS C6) is reachable", () => {
     // C6: the wrist centre stays within a2 + L of the axis-2 point O1 = (±a1, d1); with the tool down the flange is
     // d6 below the wrist centre.
