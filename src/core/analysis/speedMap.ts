@@ -248,7 +248,8 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
   // Continuation thread that found each solution: a thread does not revisit a cell it already holds.
   // Sheets: solutions joined by continuation (union-find over cell·K + slot). Within a sheet the solution varies
   // continuously from cell to cell, so a sign change of det J between neighbours is a singular crossing.
-  const parent = new Int32Array(cells * K).map((_, i) => i);
+  const parent = new Int32Array(cells * K);
+  for (let i = 0; i < parent.length; i++) parent[i] = i;
   const find = (i: number): number => {
     while (parent[i] !== i) {
       parent[i] = parent[parent[i]!]!;
@@ -323,10 +324,19 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     return true;
   };
 
+  // Every cell's target has the same orientation: it is computed once; setTarget only moves the position (the
+  // same arithmetic as targetInto's).
   const setTarget = (cell: number) => {
     const ix = cell % nx, iy = (cell - ix) / nx;
-    targetInto(target, plane, (grid.rMinMm + ix * step) / 1000, (zMinMm + iy * step) / 1000, orientation, options.gravity, 1);
+    const rM = (grid.rMinMm + ix * step) / 1000, zM = (zMinMm + iy * step) / 1000;
+    const up = plane.up, rad = plane.radial;
+    const px0 = plane.o[0]! + rM * rad[0]!, py0 = plane.o[1]! + rM * rad[1]!, pz0 = plane.o[2]! + rM * rad[2]!;
+    const h0 = px0 * up[0]! + py0 * up[1]! + pz0 * up[2]!;
+    target[3] = px0 + (zM - h0) * up[0]!;
+    target[7] = py0 + (zM - h0) * up[1]!;
+    target[11] = pz0 + (zM - h0) * up[2]!;
   };
+  targetInto(target, plane, 0, 0, orientation, options.gravity, 1);
   // Revolute driven joints: values 2π apart are the same arm posture (e.g. q1 = ±180° on the back side of an arm
   // whose J1 range is ±180°); they must not take two of the K slots, or real branches find no room.
   const wraps = Uint8Array.from(chain.drivenJoint, (k) => (chain.isPrismatic[k] ? 0 : 1));

@@ -10,7 +10,7 @@
  */
 import type { Chain } from "./chain";
 import { createScratch, forwardInto, jacobianInto, type KinematicsScratch } from "./forward";
-import { solveInPlace } from "../math/linsolve";
+import { choleskySolveInPlace, solveInPlace } from "../math/linsolve";
 import { rotationErrorInto } from "../math/so3";
 
 export interface IkScratch {
@@ -24,6 +24,8 @@ export interface IkScratch {
   readonly y: Float64Array;
   /** Last damped step, m. */
   readonly dq: Float64Array;
+  /** Diagonal and right-hand side of a linear system, for the fallback of solveSpd. */
+  readonly backup: Float64Array;
 }
 
 export function createIkScratch(chain: Chain): IkScratch {
@@ -37,6 +39,7 @@ export function createIkScratch(chain: Chain): IkScratch {
     q: new Float64Array(m),
     y: new Float64Array(6),
     dq: new Float64Array(m),
+    backup: new Float64Array(2 * Math.max(6, m)),
   };
 }
 
@@ -209,6 +212,26 @@ export function solveIkInto(
 }
 
 /**
+ * Solves the damped normal equations (symmetric, positive definite for λ² > 0) by Cholesky; when rounding makes a
+ * pivot non-positive (λ² tiny against a rank-deficient matrix), by elimination with pivoting from a saved copy.
+ */
+function solveSpd(a: Float64Array, x: Float64Array, n: number, backup: Float64Array): boolean {
+  // The factorization overwrites the diagonal and the lower triangle only: the upper triangle still holds the
+  // matrix, so the diagonal and the right-hand side are all a retry needs.
+  for (let i = 0; i < n; i++) {
+    backup[i] = a[i * n + i]!;
+    backup[n + i] = x[i]!;
+  }
+  if (choleskySolveInPlace(a, x, n)) return true;
+  for (let i = 0; i < n; i++) {
+    a[i * n + i] = backup[i]!;
+    x[i] = backup[n + i]!;
+    for (let j = 0; j < i; j++) a[i * n + j] = a[j * n + i]!;
+  }
+  return solveInPlace(a, x, n);
+}
+
+/**
  * One damped least-squares step from the task Jacobian in s.task (orientation rows already scaled by lengthM) and
  * the error e: Δq = Tᵀ(TTᵀ + λ²I)⁻¹e for redundant arms, (TᵀT + λ²I)⁻¹Tᵀe otherwise. Writes s.dq. With `cache`,
  * the undamped normal matrix of this task is taken from it, or computed and kept there.
@@ -233,7 +256,7 @@ function dampedStepInto(s: IkScratch, chain: Chain, e: Float64Array, lambda2: nu
       }
       y[r] = r < 3 ? e[r]! : e[r]! * lengthM;
     }
-    if (!solveInPlace(a, y, 6)) return false;
+    if (!solveSpd(a, y, 6, s.backup)) return false;
     for (let i = 0; i < m; i++) {
       let v = 0;
       for (let k = 0; k < 6; k++) v += task[k * m + i]! * y[k]!;
@@ -257,7 +280,7 @@ function dampedStepInto(s: IkScratch, chain: Chain, e: Float64Array, lambda2: nu
     }
     x[r] = 0 + t0 * e[0]! + t1 * e[1]! + t2 * e[2]! + t3 * e[3]! * lengthM + t4 * e[4]! * lengthM + t5 * e[5]! * lengthM;
   }
-  if (!solveInPlace(a, x, m)) return false;
+  if (!solveSpd(a, x, m, s.backup)) return false;
   for (let i = 0; i < m; i++) dq[i] = x[i]!;
   return true;
 }

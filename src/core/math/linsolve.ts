@@ -44,3 +44,37 @@ export function solveInPlace(a: Float64Array, x: Float64Array, n: number, relTol
   }
   return true;
 }
+
+/**
+ * Solves a·x = b in place for a symmetric positive definite a (n × n row-major; only its lower triangle is read,
+ * and it is overwritten by the Cholesky factor L with a = L·Lᵀ; x: b on entry, the solution on return). About half
+ * the work of elimination with pivoting and no pivot search. Returns false when a pivot is not positive (a not
+ * numerically positive definite); a and x are then spoilt. Allocates nothing.
+ * @see Golub & Van Loan, Matrix Computations, 4th ed., §4.2 (Cholesky factorization) [from memory]
+ */
+export function choleskySolveInPlace(a: Float64Array, x: Float64Array, n: number): boolean {
+  for (let j = 0; j < n; j++) {
+    let d = a[j * n + j]!;
+    for (let k = 0; k < j; k++) d -= a[j * n + k]! * a[j * n + k]!;
+    if (!(d > 0)) return false;
+    const ljj = Math.sqrt(d);
+    a[j * n + j] = ljj;
+    for (let i = j + 1; i < n; i++) {
+      let v = a[i * n + j]!;
+      for (let k = 0; k < j; k++) v -= a[i * n + k]! * a[j * n + k]!;
+      a[i * n + j] = v / ljj;
+    }
+  }
+  // L·y = b, then Lᵀ·x = y.
+  for (let i = 0; i < n; i++) {
+    let v = x[i]!;
+    for (let k = 0; k < i; k++) v -= a[i * n + k]! * x[k]!;
+    x[i] = v / a[i * n + i]!;
+  }
+  for (let i = n - 1; i >= 0; i--) {
+    let v = x[i]!;
+    for (let k = i + 1; k < n; k++) v -= a[k * n + i]! * x[k]!;
+    x[i] = v / a[i * n + i]!;
+  }
+  return true;
+}

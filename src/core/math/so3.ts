@@ -15,11 +15,14 @@ export function rotationErrorInto(out: Float64Array, o: number, target: ArrayLik
   const r10 = t4 * t[0]! + t5 * t[1]! + t6 * t[2]!, r11 = t4 * t[4]! + t5 * t[5]! + t6 * t[6]!, r12 = t4 * t[8]! + t5 * t[9]! + t6 * t[10]!;
   const r20 = t8 * t[0]! + t9 * t[1]! + t10 * t[2]!, r21 = t8 * t[4]! + t9 * t[5]! + t10 * t[6]!, r22 = t8 * t[8]! + t9 * t[9]! + t10 * t[10]!;
   const vx = (r21 - r12) / 2, vy = (r02 - r20) / 2, vz = (r10 - r01) / 2;
-  const sinA = Math.hypot(vx, vy, vz);
+  // |v| ≤ 1: sqrt of the sum of squares cannot overflow (and is several times faster than Math.hypot).
+  const sinA = Math.sqrt(vx * vx + vy * vy + vz * vz);
   const cosA = (r00 + r11 + r22 - 1) / 2;
-  const angle = Math.atan2(sinA, cosA);
   if (sinA > 1e-9) {
-    const f = angle / sinA;
+    // θ/sin θ = 1 + θ²/6 + 7θ⁴/360 + …; with θ = asin(s) for θ < 90°, θ/s = 1 + s²/6 + 3s⁴/40 + …, so below s = 1e-4
+    // the first two terms are exact to double precision and atan2 is not needed (the usual case in a solver's
+    // last iterations).
+    const f = sinA < 1e-4 && cosA > 0 ? 1 + (sinA * sinA) / 6 : Math.atan2(sinA, cosA) / sinA;
     out[o] = vx * f;
     out[o + 1] = vy * f;
     out[o + 2] = vz * f;
