@@ -5,7 +5,7 @@
  */
 import type { Chain } from "../kinematics/chain";
 import { mToMm } from "../units";
-import { DEFAULT_SPEED_MAP, referenceOrientations, toolSpeedMap, type ReferenceOrientation, type SpeedMapOptions, type ToolSpeedMap } from "./speedMap";
+import { createSpeedMapWorkspace, DEFAULT_SPEED_MAP, referenceOrientations, toolSpeedMap, type ReferenceOrientation, type SpeedMapOptions, type ToolSpeedMap } from "./speedMap";
 import { gravityDirectionInBase, type Mounting } from "./mounting";
 import { analysePayload, payloadInputOf, type PayloadAnalysisOptions, type PayloadSpec } from "./payload";
 import { standardCycle } from "./cycle";
@@ -113,7 +113,8 @@ export function analyseArm(chain: Chain, facts: ArmFacts, options: AnalysisOptio
     seed: options.seed,
     boundsMm: { rMax: flange.maxReachMm + 2 * options.mapStepMm, zMin: flange.minHeightMm - 2 * options.mapStepMm, zMax: flange.maxHeightMm + 2 * options.mapStepMm },
   };
-  const maps = referenceOrientations(chain).map((o: ReferenceOrientation) => toolSpeedMap(chain, o, mapOptions));
+  const workspace = createSpeedMapWorkspace();
+  const maps = referenceOrientations(chain).map((o: ReferenceOrientation) => toolSpeedMap(chain, o, mapOptions, workspace));
   const down = maps[0]!;
   let maxTool = 0;
   for (const map of maps) for (const v of map.maxMmPerS) if (v > maxTool) maxTool = v;

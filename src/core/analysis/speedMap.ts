@@ -82,6 +82,8 @@ export interface SpeedMapOptions {
    * guaranteed speed, det J negated). false solves every solution numerically (for tests).
    */
   readonly wristTwins?: boolean;
+  /** Continuation solves start from the first-order predictor q + B·Δp (default true); false: from the neighbour q. */
+  readonly predictor?: boolean;
 }
 
 export const DEFAULT_SPEED_MAP: SpeedMapOptions = {
@@ -95,6 +97,8 @@ export const DEFAULT_SPEED_MAP: SpeedMapOptions = {
 
 /** Largest joint change between neighbouring cells still taken as one continuous solution, rad (or m). */
 const MAX_CONTINUATION_JUMP_RAD = 0.3;
+/** Longest joint change the continuation predictor may make; beyond it (close to a singularity) the damped solver starts. */
+const PREDICTOR_MAX_STEP_RAD = 0.03;
 const CONTINUATION_IK: IkOptions = { maxIterations: 12, toleranceM: 1e-6, toleranceRad: 1e-5, trustFinalStepBelowM: 2e-5 };
 const DISCOVERY_IK: IkOptions = { maxIterations: 60, toleranceM: 1e-7, toleranceRad: 1e-6 };
 
@@ -215,6 +219,36 @@ function targetInto(out: Float64Array, plane: Plane, rM: number, zM: number, ori
   return out;
 }
 
+/**
+ * Work arrays of toolSpeedMap (solutions, sheets, queue: tens of MB for a large arm), kept between the maps of one
+ * arm so the second map neither allocates them again nor touches fresh memory. The arrays a map returns are never
+ * taken from here. Each view is the first `length` entries of a buffer that only grows; contents are not cleared.
+ */
+export interface SpeedMapWorkspace {
+  f64(name: string, length: number): Float64Array;
+  i32(name: string, length: number): Int32Array;
+  i8(name: string, length: number): Int8Array;
+  u8(name: string, length: number): Uint8Array;
+}
+
+export function createSpeedMapWorkspace(): SpeedMapWorkspace {
+  const buffers = new Map<string, ArrayBuffer>();
+  const bytes = (name: string, size: number): ArrayBuffer => {
+    let b = buffers.get(name);
+    if (!b || b.byteLength < size) {
+      b = new ArrayBuffer(size);
+      buffers.set(name, b);
+    }
+    return b;
+  };
+  return {
+    f64: (name, length) => new Float64Array(bytes(name, 8 * length), 0, length),
+    i32: (name, length) => new Int32Array(bytes(name, 4 * length), 0, length),
+    i8: (name, length) => new Int8Array(bytes(name, length), 0, length),
+    u8: (name, length) => new Uint8Array(bytes(name, length), 0, length),
+  };
+}
+
 /** Orientations an arm gets maps for. */
 export function referenceOrientations(chain: Chain): ReferenceOrientation[] {
   return chain.drivenCount >= 6 ? ["down", "outward"] : ["down"];
@@ -224,7 +258,7 @@ export function referenceOrientations(chain: Chain): ReferenceOrientation[] {
  * Computes the tool-speed map of one reference orientation.
  * @see module comment for definitions; DOMAIN: guaranteed straight-line speed and maximum tool speed
  */
-export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, options: SpeedMapOptions = DEFAULT_SPEED_MAP): ToolSpeedMap {
+export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, options: SpeedMapOptions = DEFAULT_SPEED_MAP, workspace?: SpeedMapWorkspace): ToolSpeedMap {
   const m = chain.drivenCount;
   const plane = sidePlane(chain, options.gravity);
   const bounds = options.boundsMm ?? sampledBounds(chain, plane, options.seed);
@@ -243,12 +277,14 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
   const continuationIk: IkOptions = { ...CONTINUATION_IK, task };
   const discoveryIk: IkOptions = { ...DISCOVERY_IK, task };
 
-  const sol = new Float64Array(cells * K * m);
-  const count = new Uint8Array(cells);
+  const ws = workspace ?? createSpeedMapWorkspace();
+  const sol = ws.f64("sol", cells * K * m);
+  const count = ws.u8("count", cells);
+  count.fill(0);
   // Continuation thread that found each solution: a thread does not revisit a cell it already holds.
   // Sheets: solutions joined by continuation (union-find over cell·K + slot). Within a sheet the solution varies
   // continuously from cell to cell, so a sign change of det J between neighbours is a singular crossing.
-  const parent = new Int32Array(cells * K);
+  const parent = ws.i32("parent", cells * K);
   for (let i = 0; i < parent.length; i++) parent[i] = i;
   const find = (i: number): number => {
     while (parent[i] !== i) {
@@ -370,7 +406,8 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
   // Six driven joints only: a redundant arm's solutions are not isolated, and its twins would take the slots that
   // solutions elsewhere in its self-motion need.
   const flip = task === "full" && m === 6 && options.wristTwins !== false ? wristFlipOf(chain) : null;
-  const twinSlot = new Int8Array(flip ? cells * K : 0).fill(-1);
+  const twinSlot = ws.i8("twinSlot", flip ? cells * K : 0);
+  twinSlot.fill(-1);
   const qTwin = new Float64Array(m);
   /**
    * Pairs solution (cell, slot) with its twin: stores the twin (queued like any new solution) unless it is out of
@@ -402,8 +439,10 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
 
   // Per solution (cell·K + slot): guaranteed straight-line speed (m/s) and det J (square task Jacobians), computed
   // when the solution leaves the queue from the forward kinematics and Jacobian its continuation solves start from.
-  const guaranteedVal = new Float64Array(cells * K).fill(NaN);
-  const detVal = new Float64Array(cells * K).fill(NaN);
+  const guaranteedVal = ws.f64("guaranteedVal", cells * K);
+  const detVal = ws.f64("detVal", cells * K);
+  guaranteedVal.fill(NaN);
+  detVal.fill(NaN);
   const sp = createSpeedScratch(m);
   const detWork = new Float64Array(36);
   const lengthCubed = chain.characteristicLengthM ** 3;
@@ -419,8 +458,29 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     detVal[idx] = m === 6 ? sp.lastDet / lengthCubed : taskDeterminant(jac, m, chain.characteristicLengthM, seedPose.flange, detWork);
   };
 
+  // Continuation predictor (see flood): plane steps in the base frame, m: +r, −r, +z, −z.
+  // Not for redundant arms: there the predictor's minimum-norm tangent and the damped solver's step move along the
+  // self-motion differently, and the map follows the path taken.
+  const usePredictor = options.predictor !== false && m <= 6;
+  const tangentB = new Float64Array(3 * m);
+  const qPred = new Float64Array(m);
+  const planeStep = [0, 1, 2, 3].map((d) => {
+    const v = d < 2 ? plane.radial : plane.up, sign = d % 2 === 0 ? 1 : -1;
+    return Float64Array.from([0, 1, 2], (i) => (sign * step * v[i]!) / 1000);
+  });
+  /** q + B·Δp for the step in direction d into out; false when the step is long (near a singularity). */
+  const predictInto = (out: Float64Array, d: number, q: Float64Array): boolean => {
+    const dp = planeStep[d]!, dx = dp[0]!, dy = dp[1]!, dz = dp[2]!;
+    for (let i = 0; i < m; i++) {
+      const v = tangentB[3 * i]! * dx + tangentB[3 * i + 1]! * dy + tangentB[3 * i + 2]! * dz;
+      if (!(Math.abs(v) < PREDICTOR_MAX_STEP_RAD)) return false;
+      out[i] = q[i]! + v;
+    }
+    return true;
+  };
+
   // Flood fill: queue of (cell, slot).
-  const queue = new Int32Array(cells * K * 2);
+  const queue = ws.i32("queue", cells * K * 2);
   let head = 0, tail = 0;
   const push = (cell: number, slot: number) => {
     queue[tail++] = cell;
@@ -435,13 +495,19 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
       for (let i = 0; i < m; i++) qSeed[i] = sol[from + i]!;
       // A twin takes its figures from its partner (same guaranteed speed, det J negated), once the partner has them.
       const partner = flip ? twinSlot[fromIdx]! : -1;
-      let poseReady = false;
+      let poseReady = false, tangentReady = false;
       if (partner >= 0 && !Number.isNaN(guaranteedVal[cell * K + partner]!)) {
         guaranteedVal[fromIdx] = guaranteedVal[cell * K + partner]!;
         detVal[fromIdx] = -detVal[cell * K + partner]!;
       } else {
         slotFigures(cell, slot, qSeed);
         poseReady = true;
+        // B, the joint rates per unit tool velocity at constant orientation, is the speed figure's by-product (none
+        // at a singular pose, where the figure is 0): the tangent of the solution sheet along the plane.
+        if (usePredictor && guaranteedVal[fromIdx]! > 0) {
+          tangentB.set(sp.b);
+          tangentReady = true;
+        }
       }
       for (let d = 0; d < 4; d++) {
         const jx = ix + (d === 0 ? 1 : d === 1 ? -1 : 0), jy = iy + (d === 2 ? 1 : d === 3 ? -1 : 0);
@@ -458,11 +524,15 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
           if (!nearestClosedInto(qTry, next, nClosed, qSeed)) continue;
         } else {
           setTarget(next);
-          if (!poseReady) {
-            ikSeedPoseInto(seedPose, chain, qSeed, popKin);
-            poseReady = true;
+          // First-order predictor q + B·Δp: where the solver's first (damped) step from q would go, without
+          // solving for it. The solve from the seed pose remains for poses without B and as the fallback.
+          if (!(tangentReady && predictInto(qPred, d, qSeed) && solveIkInto(qTry, chain, target, qPred, ik, continuationIk))) {
+            if (!poseReady) {
+              ikSeedPoseInto(seedPose, chain, qSeed, popKin);
+              poseReady = true;
+            }
+            if (!solveIkInto(qTry, chain, target, qSeed, ik, continuationIk, seedPose)) continue;
           }
-          if (!solveIkInto(qTry, chain, target, qSeed, ik, continuationIk, seedPose)) continue;
         }
         // A large joint jump means the solver left the sheet (it landed on another branch near a singularity):
         // keep the solution, but do not join the sheets.
@@ -603,7 +673,7 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     }
     branch[cell] = idx;
   }
-  const sheet = new Int32Array(cells * K);
+  const sheet = ws.i32("sheet", cells * K);
   for (let i = 0; i < cells * K; i++) sheet[i] = find(i);
   const roles = jointRoles(chain);
   const decoupled = decoupledWristColumns(chain);

@@ -84,6 +84,40 @@ function trans(x: number, y: number, z: number): Float64Array {
  * - Frames (as URDF): joint origin (xyz, rpy) in the previous joint's frame, then motion about/along `axis`.
  * @throws RangeError when the input breaks a rule validation should have caught (programmer error)
  */
+/**
+ * A rotation (4×4, no translation) taking ẑ to the unit vector (x, y, z): the turn about ẑ × a by the angle between
+ * them (Rodrigues), or a half turn about x̂ when a = −ẑ; the identity when a = ẑ.
+ */
+function rotationTakingZTo(x: number, y: number, z: number): Float64Array {
+  const out = identity4Into(new Float64Array(16));
+  if (x === 0 && y === 0) {
+    if (z < 0) {
+      out[5] = -1;
+      out[10] = -1;
+    }
+    return out;
+  }
+  // k = ẑ × a / |ẑ × a| = (−y, x, 0)/s, s = sin θ = √(x² + y²), c = cos θ = z.
+  const s = Math.sqrt(x * x + y * y), c = z, kx = -y / s, ky = x / s, v = 1 - c;
+  out[0] = c + kx * kx * v;
+  out[1] = kx * ky * v;
+  out[2] = ky * s;
+  out[4] = kx * ky * v;
+  out[5] = c + ky * ky * v;
+  out[6] = -kx * s;
+  out[8] = -ky * s;
+  out[9] = kx * s;
+  out[10] = c;
+  return out;
+}
+
+/** Transpose of the rotation block of a 4×4 rotation (no translation). */
+function transposeRotation(r: Float64Array): Float64Array {
+  const out = identity4Into(new Float64Array(16));
+  for (let i = 0; i < 3; i++) for (let j = 0; j < 3; j++) out[i * 4 + j] = r[j * 4 + i]!;
+  return out;
+}
+
 export function compileChain(input: ArmKinematicsInput): Chain {
   const joints = input.joints;
   const n = joints.length;
@@ -115,11 +149,13 @@ export function compileChain(input: ArmKinematicsInput): Chain {
       if (!o || !a) throw new RangeError(`invalid joint ${j.name}: missing origin or axis`);
       const len = Math.hypot(a[0]!, a[1]!, a[2]!);
       if (!(len > 0)) throw new RangeError(`invalid joint ${j.name}: zero axis`);
-      pre.push(poseFromFrame(new Float64Array(16), o));
-      axisLocal[3 * i] = a[0]! / len;
-      axisLocal[3 * i + 1] = a[1]! / len;
-      axisLocal[3 * i + 2] = a[2]! / len;
-      post.push(identity4Into(new Float64Array(16)));
+      // The motion frame is turned so the axis is its z: Rot(a, q) = R·Rz(q)·Rᵀ with R·ẑ = a (likewise for a
+      // translation), so pre = origin·R, post = Rᵀ and every joint takes forward kinematics' z-axis fast path.
+      // The link frame (joint origin frame, in which link masses are given) stays post = Rᵀ after the motion frame.
+      const r = rotationTakingZTo(a[0]! / len, a[1]! / len, a[2]! / len);
+      pre.push(mulNew(poseFromFrame(new Float64Array(16), o), r));
+      axisLocal[3 * i + 2] = 1;
+      post.push(transposeRotation(r));
     }
   });
 
