@@ -111,6 +111,8 @@ export function analyseArm(chain: Chain, facts: ArmFacts, options: AnalysisOptio
     stepMm: options.mapStepMm,
     gravity,
     seed: options.seed,
+    // The JSON keeps every k-th node (mapJson): the inverse condition is computed on those only.
+    conditionMaxColumns: MAX_OUTPUT_COLUMNS,
     boundsMm: { rMax: flange.maxReachMm + 2 * options.mapStepMm, zMin: flange.minHeightMm - 2 * options.mapStepMm, zMax: flange.maxHeightMm + 2 * options.mapStepMm },
   };
   const workspace = createSpeedMapWorkspace();

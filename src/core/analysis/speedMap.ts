@@ -42,7 +42,10 @@ export interface ToolSpeedMap {
   readonly guaranteedMmPerS: Float64Array;
   /** Maximum tool speed, mm/s; NaN where unreachable. */
   readonly maxMmPerS: Float64Array;
-  /** σ_min/σ_max of the Jacobian with linear rows divided by the length scale; NaN where unreachable. */
+  /**
+   * σ_min/σ_max of the Jacobian with linear rows divided by the length scale; NaN where unreachable, and off the
+   * nodes kept when `conditionMaxColumns` is set.
+   */
   readonly inverseCondition: Float64Array;
   /** Sign of det J of the best branch (square Jacobians; 0 otherwise or unreachable). */
   readonly detSign: Int8Array;
@@ -82,6 +85,11 @@ export interface SpeedMapOptions {
    * guaranteed speed, det J negated). false solves every solution numerically (for tests).
    */
   readonly wristTwins?: boolean;
+  /**
+   * When set, the inverse condition is computed on every k-th column and row only, k = ⌈nx / conditionMaxColumns⌉
+   * (the nodes a coarser output grid keeps; NaN elsewhere). Default: every cell.
+   */
+  readonly conditionMaxColumns?: number;
   /** Continuation solves start from the first-order predictor q + B·Δp (default true); false: from the neighbour q. */
   readonly predictor?: boolean;
 }
@@ -607,6 +615,8 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
   const guaranteed = new Float64Array(cells).fill(NaN);
   const maxSpeed = new Float64Array(cells).fill(NaN);
   const invCond = new Float64Array(cells).fill(NaN);
+  // The inverse condition (a singular value decomposition per cell) only on the nodes a caller keeps.
+  const conditionEvery = Math.max(1, Math.ceil(nx / (options.conditionMaxColumns ?? Infinity)));
   const detSign = new Int8Array(cells);
   const branch = new Int8Array(cells).fill(-1);
   const joints = new Float64Array(cells * m).fill(NaN);
@@ -656,7 +666,8 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     const bestMax = maxToolSpeed(bestJ, m, chain.maxSpeedSi, sp);
     guaranteed[cell] = bestG * 1000;
     maxSpeed[cell] = bestMax * 1000;
-    invCond[cell] = scaledInverseCondition(bestJ, m, chain.characteristicLengthM, sg);
+    const cx = cell % nx;
+    if (cx % conditionEvery === 0 && ((cell - cx) / nx) % conditionEvery === 0) invCond[cell] = scaledInverseCondition(bestJ, m, chain.characteristicLengthM, sg);
     const dBest = detVal[cell * K + best]!;
     detSign[cell] = Number.isFinite(dBest) ? (dBest > 0 ? 1 : dBest < 0 ? -1 : 0) : 0;
     joints.set(q, cell * m);

@@ -35,6 +35,7 @@ import { compileChain, createScratch, forwardInto, jacobianInto } from "../../..
 import { createSpeedScratch, guaranteedLineSpeed, maxToolSpeed } from "../../../src/core/analysis/speed";
 import { DEFAULT_SPEED_MAP, toolSpeedMap, type ReferenceOrientation, type ToolSpeedMap } from "../../../src/core/analysis/speedMap";
 import { expectClose } from "../../helpers/expectClose";
+import { Matrix, SingularValueDecomposition } from "ml-matrix";
 import { mulberry32, uniform } from "../../helpers/prng";
 import { dhFrameReference, flat4, generic6rDh, GENERIC_6R_SI } from "../../helpers/testArms";
 
@@ -338,6 +339,30 @@ describe("toolSpeedMap(generic 6R, down, 20 mm): per-cell figures", () => {
     }
     expect(checked).toBe(map.reachableCells);
     expect(off, `${off.length} of ${checked} cells; first: ${off.slice(0, 5).join("; ")}`).toEqual([]);
+  });
+
+  it("with conditionMaxColumns the inverse condition is on every k-th node only, and equals σ_min/σ_max by ml-matrix's SVD", () => {
+    // Reference: ml-matrix SingularValueDecomposition of J with its linear rows divided by the characteristic length
+    // (module doc of singularity.ts), J by jacobianInto at the kept joints (checked against finite differences in
+    // forward.test.ts). Tolerance 1e-9 absolute on a value in [0, 1].
+    const map = toolSpeedMap(chain, "down", { ...DEFAULT_SPEED_MAP, stepMm: 40, discoveryEveryCells: 5, conditionMaxColumns: 16 });
+    const g = map.grid, k = Math.ceil(g.nx / 16), s = createScratch(chain);
+    expect(k).toBeGreaterThan(1);
+    let kept = 0;
+    for (let cell = 0; cell < g.nx * g.ny; cell++) {
+      const ix = cell % g.nx, iy = (cell - ix) / g.nx, v = map.inverseCondition[cell]!;
+      if (map.branch[cell]! < 0 || ix % k !== 0 || iy % k !== 0) {
+        expect(Number.isNaN(v), `cell (${ix}, ${iy})`).toBe(true);
+        continue;
+      }
+      kept++;
+      const f = forwardInto(chain, map.joints.subarray(cell * 6, cell * 6 + 6), s);
+      const j = jacobianInto(new Float64Array(36), chain, s, f[3]!, f[7]!, f[11]!);
+      const scaled = Matrix.from1DArray(6, 6, Array.from(j, (x, i) => (i < 18 ? x / chain.characteristicLengthM : x)));
+      const sv = new SingularValueDecomposition(scaled).diagonal;
+      expectClose(v, Math.min(...sv) / Math.max(...sv), 1e-9, `cell (${ix}, ${iy})`);
+    }
+    expect(kept).toBeGreaterThan(20);
   });
 
   it("unreachable cells are NaN, and no cell beyond the flange reach (CHECKS C6) is reachable", () => {
