@@ -20,6 +20,7 @@ import { createSingularityScratch, scaledInverseCondition, scaledSingularValues 
 import { createSvdScratch, svdInto } from "../math/svd";
 import { branchCode, branchFrame, branchName, type BranchFrame } from "./branches";
 import { mulberry32 } from "./random";
+import { rotationErrorInto } from "../math/so3";
 import { classifyNullVector, decoupledWristColumns, jointRoles } from "./singularity";
 import { traceSingularityLoci, type SingularityLocus } from "./loci";
 import { wristFlipOf, wristTwinInto } from "../kinematics/wristFlip";
@@ -107,7 +108,13 @@ export const DEFAULT_SPEED_MAP: SpeedMapOptions = {
 const MAX_CONTINUATION_JUMP_RAD = 0.3;
 /** Longest joint change the continuation predictor may make; beyond it (close to a singularity) the damped solver starts. */
 const PREDICTOR_MAX_STEP_RAD = 0.03;
-const CONTINUATION_IK: IkOptions = { maxIterations: 12, toleranceM: 1e-6, toleranceRad: 1e-5, trustFinalStepBelowM: 2e-5 };
+/**
+ * Continuation solves: a last short Newton step from an error below 1 mm is taken without checking it (the error
+ * left is of the order of L·‖Δq‖² < 1e-6 m); every solution is checked when it leaves the queue, where its forward
+ * kinematics is computed anyway, and corrected by VERIFY_IK if it misses the tolerance.
+ */
+const CONTINUATION_IK: IkOptions = { maxIterations: 12, toleranceM: 1e-6, toleranceRad: 1e-5, trustFinalStepBelowM: 1e-3 };
+const VERIFY_IK: IkOptions = { maxIterations: 12, toleranceM: 1e-6, toleranceRad: 1e-5 };
 const DISCOVERY_IK: IkOptions = { maxIterations: 60, toleranceM: 1e-7, toleranceRad: 1e-6 };
 
 /** The plane: origin on axis 1, radial and up unit vectors in the base frame. */
@@ -283,6 +290,7 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
   // rotary axis) hold the full reference orientation; otherwise only the tool axis (rotation about it free).
   const task: "full" | "axis" = holdsFullOrientation(chain, mulberry32(options.seed ^ 0x51f3)) ? "full" : "axis";
   const continuationIk: IkOptions = { ...CONTINUATION_IK, task };
+  const verifyIk: IkOptions = { ...VERIFY_IK, task };
   const discoveryIk: IkOptions = { ...DISCOVERY_IK, task };
 
   const ws = workspace ?? createSpeedMapWorkspace();
@@ -370,7 +378,8 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
 
   // Every cell's target has the same orientation: it is computed once; setTarget only moves the position (the
   // same arithmetic as targetInto's).
-  const setTarget = (cell: number) => {
+  const setTarget = (cell: number) => setTargetInto(target, cell);
+  const setTargetInto = (target: Float64Array, cell: number) => {
     const ix = cell % nx, iy = (cell - ix) / nx;
     const rM = (grid.rMinMm + ix * step) / 1000, zM = (zMinMm + iy * step) / 1000;
     const up = plane.up, rad = plane.radial;
@@ -381,6 +390,7 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     target[11] = pz0 + (zM - h0) * up[2]!;
   };
   targetInto(target, plane, 0, 0, orientation, options.gravity, 1);
+  const popTarget = Float64Array.from(target);
   // Revolute driven joints: values 2π apart are the same arm posture (e.g. q1 = ±180° on the back side of an arm
   // whose J1 range is ±180°); they must not take two of the K slots, or real branches find no room.
   const wraps = Uint8Array.from(chain.drivenJoint, (k) => (chain.isPrismatic[k] ? 0 : 1));
@@ -466,6 +476,20 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     detVal[idx] = m === 6 ? sp.lastDet / lengthCubed : taskDeterminant(jac, m, chain.characteristicLengthM, seedPose.flange, detWork);
   };
 
+  const qFix = new Float64Array(m);
+  const poseError = new Float64Array(6);
+  /** Whether flange pose t meets the continuation tolerances at the target (the solver's error measure). */
+  const withinTolerance = (t: Float64Array, goal: Float64Array): boolean => {
+    const ex = goal[3]! - t[3]!, ey = goal[7]! - t[7]!, ez = goal[11]! - t[11]!;
+    if (ex * ex + ey * ey + ez * ez > CONTINUATION_IK.toleranceM ** 2) return false;
+    if (task === "axis") {
+      const cx = t[6]! * goal[10]! - t[10]! * goal[6]!, cy = t[10]! * goal[2]! - t[2]! * goal[10]!, cz = t[2]! * goal[6]! - t[6]! * goal[2]!;
+      return t[2]! * goal[2]! + t[6]! * goal[6]! + t[10]! * goal[10]! > 0 && cx * cx + cy * cy + cz * cz <= CONTINUATION_IK.toleranceRad ** 2;
+    }
+    rotationErrorInto(poseError, 3, goal, 4, t);
+    return poseError[3]! ** 2 + poseError[4]! ** 2 + poseError[5]! ** 2 <= CONTINUATION_IK.toleranceRad ** 2;
+  };
+
   // Continuation predictor (see flood): plane steps in the base frame, m: +r, −r, +z, −z.
   // Not for redundant arms: there the predictor's minimum-norm tangent and the damped solver's step move along the
   // self-motion differently, and the map follows the path taken.
@@ -510,6 +534,15 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
       } else {
         slotFigures(cell, slot, qSeed);
         poseReady = true;
+        // The check of a trusted last step (CONTINUATION_IK), from the forward kinematics just done.
+        setTargetInto(popTarget, cell);
+        if (!withinTolerance(seedPose.flange, popTarget) && solveIkInto(qFix, chain, popTarget, qSeed, ik, verifyIk, seedPose)) {
+          for (let i = 0; i < m; i++) sol[from + i] = qFix[i]!;
+          qSeed.set(qFix);
+          slotFigures(cell, slot, qSeed);
+          const twin = flip ? twinSlot[fromIdx]! : -1;
+          if (twin >= 0 && wristTwinInto(qTwin, sol, flip!, chain, from)) sol.set(qTwin, (cell * K + twin) * m);
+        }
         // B, the joint rates per unit tool velocity at constant orientation, is the speed figure's by-product (none
         // at a singular pose, where the figure is 0): the tangent of the solution sheet along the plane.
         if (usePredictor && guaranteedVal[fromIdx]! > 0) {
