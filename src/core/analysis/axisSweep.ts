@@ -15,9 +15,16 @@ export class AxisSweep {
   private readonly strides: number[];
   private readonly radix: number[];
   private readonly history: number;
-  private readonly store: Float64Array;
-  /** per stored point: 1 when within `near` of the axis (a straddling quad has all its corners that close) */
-  private readonly nearFlags: Uint8Array;
+  /** the last `history` slices' points, one array per coordinate (copied whole, slot · na · nb + point) */
+  private readonly storeX: Float64Array;
+  private readonly storeY: Float64Array;
+  private readonly storeH: Float64Array;
+  /** the current slice's points within `near` of the axis (a straddling quad has all its corners that close), in
+   * grid order */
+  private readonly nearPoints: Int32Array;
+  /** per stored point: bit 0 set when x ≥ 0, bit 1 when y ≥ 0 (four corners straddle both axes when both bits
+   * differ among them: one byte per corner to test instead of two coordinates) */
+  private readonly signs: Uint8Array;
   private readonly near2: number;
   tris: Float64Array = new Float64Array(9 * 64);
   count = 0;
@@ -34,29 +41,39 @@ export class AxisSweep {
     }
     const k = this.radix.length;
     this.history = k === 0 ? 1 : this.strides[k - 1]! + (k >= 2 ? this.strides[k - 2]! : 0) + 1;
-    this.store = new Float64Array(k === 0 ? 0 : this.history * 3 * this.na * this.nb);
-    this.nearFlags = new Uint8Array(k === 0 ? 0 : this.history * this.na * this.nb);
+    const stored = k === 0 ? 0 : this.history * this.na * this.nb;
+    this.storeX = new Float64Array(stored);
+    this.storeY = new Float64Array(stored);
+    this.storeH = new Float64Array(stored);
+    this.nearPoints = new Int32Array(k === 0 ? 0 : this.na * this.nb);
+    this.signs = new Uint8Array(stored);
     // a quad of the product grid spans one step of two joints: its corners straddle both x = 0 and y = 0 only when
     // they all lie within that distance of the axis
     this.near2 = plan.stepReachMm ** 2;
   }
 
+  /** Index of the slice's first stored point. */
   private slot(slice: number): number {
-    return (slice % this.history) * 3 * this.na * this.nb;
+    return (slice % this.history) * this.na * this.nb;
   }
 
-  private push(st: Float64Array, i: number, j: number, k: number): void {
+  /** Adds the triangle of stored points i, j, k. */
+  private push(i: number, j: number, k: number): void {
     if (9 * (this.count + 1) > this.tris.length) {
       const grown = new Float64Array(this.tris.length * 2);
       grown.set(this.tris);
       this.tris = grown;
     }
-    const o = 9 * this.count;
-    for (let c = 0; c < 3; c++) {
-      this.tris[o + c] = st[i + c]!;
-      this.tris[o + 3 + c] = st[j + c]!;
-      this.tris[o + 6 + c] = st[k + c]!;
-    }
+    const o = 9 * this.count, t = this.tris, x = this.storeX, y = this.storeY, h = this.storeH;
+    t[o] = x[i]!;
+    t[o + 1] = y[i]!;
+    t[o + 2] = h[i]!;
+    t[o + 3] = x[j]!;
+    t[o + 4] = y[j]!;
+    t[o + 5] = h[j]!;
+    t[o + 6] = x[k]!;
+    t[o + 7] = y[k]!;
+    t[o + 8] = h[k]!;
     this.count++;
   }
 
@@ -66,48 +83,43 @@ export class AxisSweep {
     const k = this.radix.length;
     if (k === 0) return;
     const np = this.na * this.nb, nb = this.nb, na = this.na;
-    const base = this.slot(slice), st = this.store, near = this.nearFlags, nbase0 = base / 3;
-    let any = 0;
+    const base = this.slot(slice), near = this.nearPoints, signs = this.signs, near2 = this.near2;
+    this.storeX.set(buf.c0, base);
+    this.storeY.set(buf.c1, base);
+    this.storeH.set(buf.c2, base);
+    let nearCount = 0;
     for (let p = 0; p < np; p++) {
       const x = buf.c0[p]!, y = buf.c1[p]!;
-      st[base + 3 * p] = x;
-      st[base + 3 * p + 1] = y;
-      st[base + 3 * p + 2] = buf.c2[p]!;
-      const f = x * x + y * y <= this.near2 ? 1 : 0;
-      near[nbase0 + p] = f;
-      any |= f;
+      if (x * x + y * y <= near2) near[nearCount++] = p;
+      signs[base + p] = (x >= 0 ? 1 : 0) | (y >= 0 ? 2 : 0);
     }
-    if (!any) return;
+    if (nearCount === 0) return;
     const digit = (d: number) => Math.floor(slice / this.strides[d]!) % this.radix[d]!;
-    // flags of four points: both signs of x and both signs of y present
-    const straddles = (o1: number, o2: number, o3: number, o4: number): boolean => {
-      const x1 = st[o1]! >= 0, x2 = st[o2]! >= 0, x3 = st[o3]! >= 0, x4 = st[o4]! >= 0;
-      if (x1 === x2 && x2 === x3 && x3 === x4) return false;
-      const y1 = st[o1 + 1]! >= 0, y2 = st[o2 + 1]! >= 0, y3 = st[o3 + 1]! >= 0, y4 = st[o4 + 1]! >= 0;
-      return !(y1 === y2 && y2 === y3 && y3 === y4);
+    // four stored points: both signs of x and both signs of y present
+    const straddles = (i1: number, i2: number, i3: number, i4: number): boolean => {
+      const s1 = signs[i1]!, s2 = signs[i2]!, s3 = signs[i3]!, s4 = signs[i4]!;
+      return ((s1 | s2 | s3 | s4) & ~(s1 & s2 & s3 & s4) & 3) === 3;
     };
     for (let d = 0; d < k; d++) {
       if (digit(d) === 0) continue;
       const nbase = this.slot(slice - this.strides[d]!);
-      for (let ia = 0; ia < na; ia++) {
-        for (let ib = 0; ib < nb; ib++) {
-          if (!near[nbase0 + ia * nb + ib]) continue;
-          const p = 3 * (ia * nb + ib);
-          for (let side = 0; side < 2; side++) {
-            const q = side === 0 ? (ia + 1 < na ? p + 3 * nb : -1) : ib + 1 < nb ? p + 3 : -1;
-            if (q < 0 || !straddles(base + p, base + q, nbase + p, nbase + q)) continue;
-            this.push(st, base + p, base + q, nbase + q);
-            this.push(st, base + p, nbase + q, nbase + p);
-          }
+      for (let n = 0; n < nearCount; n++) {
+        const p = near[n]!, ia = Math.floor(p / nb), ib = p - ia * nb;
+        for (let side = 0; side < 2; side++) {
+          const q = side === 0 ? (ia + 1 < na ? p + nb : -1) : ib + 1 < nb ? p + 1 : -1;
+          if (q < 0 || !straddles(base + p, base + q, nbase + p, nbase + q)) continue;
+          this.push(base + p, base + q, nbase + q);
+          this.push(base + p, nbase + q, nbase + p);
         }
       }
       for (let e = d + 1; e < k; e++) {
         if (digit(e) === 0) continue;
         const b2 = this.slot(slice - this.strides[e]!), b12 = this.slot(slice - this.strides[d]! - this.strides[e]!);
-        for (let p = 0; p < 3 * np; p += 3) {
-          if (!near[nbase0 + p / 3] || !straddles(base + p, nbase + p, b12 + p, b2 + p)) continue;
-          this.push(st, base + p, nbase + p, b12 + p);
-          this.push(st, base + p, b12 + p, b2 + p);
+        for (let n = 0; n < nearCount; n++) {
+          const p = near[n]!;
+          if (!straddles(base + p, nbase + p, b12 + p, b2 + p)) continue;
+          this.push(base + p, nbase + p, b12 + p);
+          this.push(base + p, b12 + p, b2 + p);
         }
       }
     }

@@ -441,19 +441,17 @@ function revolvedVolume(side: RowCover, profile: PolarProfile, tLo: number, tHi:
     phiB[k] = arcsMeasure(sb);
     phiFB[k] = arcsMeasure(Float64Array.from([...sf, ...sb]));
   }
-  const phiAt = (k: number, cat: 0 | 1 | 2): number => {
-    if (full) return TWO_PI;
-    if (k >= rows || k < 0) return cat === 2 ? both : base;
-    return cat === 0 ? phiF[k]! : cat === 1 ? phiB[k]! : phiFB[k]!;
-  };
-  // ∫_a^b ρ Φ dρ split at the polar row boundaries ρ = k·Δρ
+  // ∫_a^b ρ Φ dρ split at the polar row boundaries ρ = k·Δρ (Φ of category cat in polar row k; beyond the profile,
+  // the joint 1 range alone). Runs once per polar row crossed: Φ is looked up inline.
   const integrate = (a: number, b: number, cat: 0 | 1 | 2): number => {
+    const phis = cat === 0 ? phiF : cat === 1 ? phiB : phiFB, outside = cat === 2 ? both : base;
     let sum = 0;
     let k = Math.floor(a / drho);
     let x = a;
     while (x < b) {
       const end = Math.min(b, (k + 1) * drho);
-      sum += ((end * end - x * x) / 2) * phiAt(k, cat);
+      const phi = full ? TWO_PI : k >= rows || k < 0 ? outside : phis[k]!;
+      sum += ((end * end - x * x) / 2) * phi;
       x = end;
       k++;
     }
