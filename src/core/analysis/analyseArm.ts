@@ -42,6 +42,12 @@ export interface AnalysisWarning {
 }
 
 const round = (x: number, decimals: number) => (Number.isFinite(x) ? Number(x.toFixed(decimals)) + 0 : null);
+/**
+ * round() for the per-cell map arrays (hundreds of thousands of values: toFixed is the slow part of writing them):
+ * the nearest multiple of 10^−decimals by Math.round on the scaled value. It can differ from toFixed by one unit
+ * in the last place kept, where the scaled value lands on a half by rounding.
+ */
+const roundCell = (x: number, scale: number) => (Number.isFinite(x) ? Math.round(x * scale) / scale + 0 : null);
 
 function shareAtLeast(map: ToolSpeedMap): Record<string, number> {
   const out: Record<string, number> = {};
@@ -82,9 +88,9 @@ function mapJson(map: ToolSpeedMap) {
     shareAtLeast: shareAtLeast(map),
     branchNames: map.branchNames,
     /** Row-major over `grid` (value(ix, iy) at ix + iy·nx); null where the pose cannot be reached. */
-    guaranteedMmPerS: pick(map.guaranteedMmPerS, (v) => round(v, 0)),
-    maxMmPerS: pick(map.maxMmPerS, (v) => round(v, 0)),
-    inverseCondition: pick(map.inverseCondition, (v) => round(v, 3)),
+    guaranteedMmPerS: pick(map.guaranteedMmPerS, (v) => roundCell(v, 1)),
+    maxMmPerS: pick(map.maxMmPerS, (v) => roundCell(v, 1)),
+    inverseCondition: pick(map.inverseCondition, (v) => roundCell(v, 1000)),
     detSign: pick(map.detSign, (v) => v),
     branch: pick(map.branch, (v) => v),
   };
