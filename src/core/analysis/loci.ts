@@ -21,8 +21,9 @@ export interface SheetData {
   readonly sheet: Int32Array;
   /** Scaled det J per cell·slots + slot (NaN when not defined). */
   readonly det: Float64Array;
-  /** Driven joint values per cell·slots + slot, m each (rad or m). */
+  /** Driven joint values, m each (rad or m): those of (cell, slot) start at jointsAt[cell·slots + slot]·m. */
   readonly joints: Float64Array;
+  readonly jointsAt: Int32Array;
   readonly m: number;
   /**
    * Largest joint change (rad or m) between the solution at a square's first corner and the one taken at another
@@ -79,7 +80,7 @@ function joinSegments(segments: [Pt, Pt][]): Pt[][] {
 
 /** Traces det J = 0 within each sheet; groups the polylines by kind. */
 export function traceSingularityLoci(d: SheetData): SingularityLocus[] {
-  const { grid, slots: K, count, sheet, det, joints, m } = d;
+  const { grid, slots: K, count, sheet, det, joints, jointsAt, m } = d;
   const { nx, ny, stepMm } = grid;
   const byKind = new Map<Exclude<SingularityKind, "none">, [Pt, Pt][]>();
   const corner = [0, 0, 0, 0];
@@ -99,14 +100,14 @@ export function traceSingularityLoci(d: SheetData): SingularityLocus[] {
         corner[0] = v0;
         slotAt[0] = k0;
         let complete = true;
-        const q0 = (c00 * K + k0) * m;
+        const q0 = jointsAt[c00 * K + k0]! * m;
         for (let c = 1; c < 4; c++) {
           const cell = cellOf[c]!;
           // The solution of the same sheet nearest to corner 0 in joint space, if within maxCornerJump.
           let found = -1, bestJump = d.maxCornerJump;
           for (let k = 0; k < count[cell]!; k++) {
             if (sheet[cell * K + k] !== root) continue;
-            const qk = (cell * K + k) * m;
+            const qk = jointsAt[cell * K + k]! * m;
             let jump = 0;
             for (let i = 0; i < m; i++) jump = Math.max(jump, Math.abs(joints[qk + i]! - joints[q0 + i]!));
             if (jump <= bestJump) {

@@ -294,7 +294,11 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
   const discoveryIk: IkOptions = { ...DISCOVERY_IK, task };
 
   const ws = workspace ?? createSpeedMapWorkspace();
-  const sol = ws.f64("sol", cells * K * m);
+  // Solutions: appended to a pool in the order found (most cells hold far fewer than K: a cells × K × m array was
+  // mostly empty, tens of MB for a large arm); at[cell·K + slot] is the solution's index in the pool.
+  let pool = ws.f64("pool", 2 * cells * m);
+  let pooled = 0;
+  const at = ws.i32("at", cells * K);
   const count = ws.u8("count", cells);
   count.fill(0);
   // Continuation thread that found each solution: a thread does not revisit a cell it already holds.
@@ -396,12 +400,13 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
   const wraps = Uint8Array.from(chain.drivenJoint, (k) => (chain.isPrismatic[k] ? 0 : 1));
   /** Stores q at `cell` unless an equal solution (revolute joints compared modulo 2π) is there; returns the slot or −1. */
   const storeQ = (cell: number, q: Float64Array): number => {
-    const base = cell * K * m, n = count[cell]!;
+    const n = count[cell]!;
     lastEqual = -1;
     for (let k = 0; k < n; k++) {
       let same = true;
+      const base = at[cell * K + k]! * m;
       for (let i = 0; i < m; i++) {
-        let d = Math.abs(sol[base + k * m + i]! - q[i]!);
+        let d = Math.abs(pool[base + i]! - q[i]!);
         if (wraps[i]) d = Math.abs(d - 2 * Math.PI * Math.round(d / (2 * Math.PI)));
         if (d > 1e-4) {
           same = false;
@@ -414,10 +419,19 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
       }
     }
     if (n >= K) return -1;
-    for (let i = 0; i < m; i++) sol[base + n * m + i] = q[i]!;
+    if ((pooled + 1) * m > pool.length) {
+      const old = pool;
+      pool = ws.f64("pool", Math.ceil(1.5 * (pooled + 1)) * m);
+      pool.set(old.subarray(0, pooled * m));
+    }
+    at[cell * K + n] = pooled;
+    for (let i = 0; i < m; i++) pool[pooled * m + i] = q[i]!;
+    pooled++;
     count[cell] = n + 1;
     return n;
   };
+  /** Offset in the pool of solution (cell·K + slot). */
+  const solAt = (idx: number) => at[idx]! * m;
   const store = (cell: number): number => storeQ(cell, qTry);
 
   // Wrist-flip twins: twinSlot[cell·K + slot] = the slot of the solution's twin in the same cell, −1 when none.
@@ -435,7 +449,7 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     if (!flip) return -1;
     const idx = cell * K + slot;
     if (twinSlot[idx]! >= 0) return twinSlot[idx]!;
-    if (!wristTwinInto(qTwin, sol, flip, chain, idx * m)) return -1;
+    if (!wristTwinInto(qTwin, pool, flip, chain, solAt(idx))) return -1;
     const stored = storeQ(cell, qTwin);
     const t = stored >= 0 ? stored : lastEqual;
     if (t < 0 || twinSlot[cell * K + t]! >= 0) return -1;
@@ -449,9 +463,9 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     const ca = (a / K) | 0, cb = (b / K) | 0;
     const ta = twinSlot[a]!, tb = twinSlot[b]!;
     if (ta < 0 || tb < 0) return;
-    const oa = (ca * K + ta) * m, ob = (cb * K + tb) * m;
+    const oa = solAt(ca * K + ta), ob = solAt(cb * K + tb);
     let jump = 0;
-    for (let i = 0; i < m; i++) jump = Math.max(jump, Math.abs(sol[oa + i]! - sol[ob + i]!));
+    for (let i = 0; i < m; i++) jump = Math.max(jump, Math.abs(pool[oa + i]! - pool[ob + i]!));
     if (jump < MAX_CONTINUATION_JUMP_RAD) union(ca * K + ta, cb * K + tb);
   };
 
@@ -522,9 +536,9 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     while (head < tail) {
       const cell = queue[head++]!, slot = queue[head++]!;
       const ix = cell % nx, iy = (cell - ix) / nx;
-      const from = (cell * K + slot) * m;
       const fromIdx = cell * K + slot;
-      for (let i = 0; i < m; i++) qSeed[i] = sol[from + i]!;
+      const from = solAt(fromIdx);
+      for (let i = 0; i < m; i++) qSeed[i] = pool[from + i]!;
       // A twin takes its figures from its partner (same guaranteed speed, det J negated), once the partner has them.
       const partner = flip ? twinSlot[fromIdx]! : -1;
       let poseReady = false, tangentReady = false;
@@ -537,11 +551,11 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
         // The check of a trusted last step (CONTINUATION_IK), from the forward kinematics just done.
         setTargetInto(popTarget, cell);
         if (!withinTolerance(seedPose.flange, popTarget) && solveIkInto(qFix, chain, popTarget, qSeed, ik, verifyIk, seedPose)) {
-          for (let i = 0; i < m; i++) sol[from + i] = qFix[i]!;
+          pool.set(qFix, from);
           qSeed.set(qFix);
           slotFigures(cell, slot, qSeed);
           const twin = flip ? twinSlot[fromIdx]! : -1;
-          if (twin >= 0 && wristTwinInto(qTwin, sol, flip!, chain, from)) sol.set(qTwin, (cell * K + twin) * m);
+          if (twin >= 0 && wristTwinInto(qTwin, pool, flip!, chain, from)) pool.set(qTwin, solAt(cell * K + twin));
         }
         // B, the joint rates per unit tool velocity at constant orientation, is the speed figure's by-product (none
         // at a singular pose, where the figure is 0): the tangent of the solution sheet along the plane.
@@ -660,8 +674,8 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
   const bestJ = new Float64Array(6 * m);
   /** Jacobian of solution (cell, slot) into `out` (forward kinematics into kin). */
   const slotJacobianInto = (out: Float64Array, cell: number, slot: number) => {
-    const off = (cell * K + slot) * m;
-    const t = forwardInto(chain, sol.subarray(off, off + m), kin);
+    const off = solAt(cell * K + slot);
+    const t = forwardInto(chain, pool.subarray(off, off + m), kin);
     jacobianInto(out, chain, kin, t[3]!, t[7]!, t[11]!);
   };
   let reachable = 0;
@@ -672,7 +686,7 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     let best = -1, bestG = -1, bestJReady = false;
     for (let k = 0; k < n; k++) {
       // Every stored solution went through the queue; computed here only if one had not.
-      if (Number.isNaN(guaranteedVal[cell * K + k]!)) slotFigures(cell, k, sol.subarray((cell * K + k) * m, (cell * K + k) * m + m));
+      if (Number.isNaN(guaranteedVal[cell * K + k]!)) slotFigures(cell, k, pool.subarray(solAt(cell * K + k), solAt(cell * K + k) + m));
       const g = guaranteedVal[cell * K + k]!;
       if (g > bestG + 1e-12 || best < 0) {
         best = k;
@@ -692,8 +706,8 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
         }
       }
     }
-    const off = (cell * K + best) * m;
-    const q = sol.subarray(off, off + m);
+    const off = solAt(cell * K + best);
+    const q = pool.subarray(off, off + m);
     const t = forwardInto(chain, q, kin);
     if (!bestJReady) jacobianInto(bestJ, chain, kin, t[3]!, t[7]!, t[11]!);
     const bestMax = maxToolSpeed(bestJ, m, chain.maxSpeedSi, sp);
@@ -728,13 +742,14 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     count,
     sheet,
     det: detVal,
-    joints: sol,
+    joints: pool,
+    jointsAt: at,
     m,
     maxCornerJump: 2 * MAX_CONTINUATION_JUMP_RAD,
     kindAt: (cellsAt, slotsAt, near) => {
-      if (labeller) return labeller((c) => sol.subarray((cellsAt[c]! * K + slotsAt[c]!) * m, (cellsAt[c]! * K + slotsAt[c]!) * m + m));
-      const off = (cellsAt[near]! * K + slotsAt[near]!) * m;
-      const t = forwardInto(chain, sol.subarray(off, off + m), kin);
+      if (labeller) return labeller((c) => pool.subarray(solAt(cellsAt[c]! * K + slotsAt[c]!), solAt(cellsAt[c]! * K + slotsAt[c]!) + m));
+      const off = solAt(cellsAt[near]! * K + slotsAt[near]!);
+      const t = forwardInto(chain, pool.subarray(off, off + m), kin);
       jacobianInto(j, chain, kin, t[3]!, t[7]!, t[11]!);
       scaledSingularValues(j, m, chain.characteristicLengthM, sg);
       return classifyNullVector(sg.v, m, Math.min(6, m) - 1, roles);
