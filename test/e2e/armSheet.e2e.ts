@@ -7,10 +7,10 @@
  */
 import { mkdirSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
-import type { Browser, Page } from "playwright-core";
+import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { readArmFiles } from "./helpers/armFiles";
-import { collectProblems, launchChromium, watchPage } from "./helpers/browser";
+import { launchChromium, openWatched, type WatchedPage } from "./helpers/browser";
 
 const root = new URL("../..", import.meta.url).pathname;
 const siteUrl = inject("siteUrl");
@@ -48,19 +48,10 @@ afterAll(async () => {
   await browser?.close();
 });
 
-async function openPage(path: string): Promise<{ page: Page; finish: () => Promise<string[]> }> {
-  const page = await browser.newPage({ viewport: { width: 1280, height: 900 } });
-  const problems = await watchPage(page, origin);
-  const res = await page.goto(`${siteUrl}${path}`, { waitUntil: "load" });
-  expect(res?.status(), `HTTP status of /${path}`).toBe(200);
-  return {
-    page,
-    async finish() {
-      const list = await collectProblems(page, problems);
-      await page.close();
-      return list;
-    },
-  };
+async function openPage(path: string): Promise<WatchedPage> {
+  const opened = await openWatched(() => browser.newPage({ viewport: { width: 1280, height: 900 } }), `${siteUrl}${path}`, origin);
+  expect(opened.status, `HTTP status of /${path}`).toBe(200);
+  return opened;
 }
 
 /** RFC 4180 reader, enough for our files: quoted fields with doubled quotes, CRLF records. */

@@ -15,7 +15,7 @@ import { join } from "node:path";
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { readArmFiles } from "./helpers/armFiles";
-import { collectProblems, launchChromium, watchPage } from "./helpers/browser";
+import { launchChromium, openWatched, type WatchedPage } from "./helpers/browser";
 
 const root = new URL("../..", import.meta.url).pathname;
 const siteUrl = inject("siteUrl");
@@ -60,20 +60,11 @@ afterAll(async () => {
   await browser?.close();
 });
 
-async function open(path: string, width = 1280): Promise<{ page: Page; finish(): Promise<string[]> }> {
-  const page = await browser.newPage({ viewport: { width, height: 900 } });
-  const problems = await watchPage(page, origin);
-  const response = await page.goto(`${siteUrl}${path}`, { waitUntil: "load" });
-  expect(response?.status()).toBe(200);
-  await page.waitForSelector("html[data-ready='true']", { timeout: 30_000 });
-  return {
-    page,
-    async finish() {
-      const list = await collectProblems(page, problems);
-      await page.close();
-      return list;
-    },
-  };
+async function open(path: string, width = 1280): Promise<WatchedPage> {
+  const opened = await openWatched(() => browser.newPage({ viewport: { width, height: 900 } }), `${siteUrl}${path}`, origin);
+  expect(opened.status).toBe(200);
+  await opened.page.waitForSelector("html[data-ready='true']", { timeout: 30_000 });
+  return opened;
 }
 
 /** Ids of the arms holding the best value (ties all), none when fewer than two values or all equal. */

@@ -14,7 +14,7 @@ import { join } from "node:path";
 import { promisify } from "node:util";
 import type { Browser, BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import { collectProblems, launchChromium, watchPage } from "./helpers/browser";
+import { launchChromium, openWatched, type WatchedPage } from "./helpers/browser";
 
 const run = promisify(execFile);
 const root = new URL("../..", import.meta.url).pathname;
@@ -78,23 +78,14 @@ afterAll(async () => {
   await browser?.close();
 });
 
-async function open(path: string): Promise<{ page: Page; finish: () => Promise<string[]> }> {
-  const page = await context.newPage();
-  const problems = await watchPage(page, origin);
-  const response = await page.goto(`${siteUrl}${path}`, { waitUntil: "load" });
-  expect(response?.status(), `HTTP status of ${siteUrl}${path}`).toBe(200);
+async function open(path: string): Promise<WatchedPage> {
+  const opened = await openWatched(() => context.newPage(), `${siteUrl}${path}`, origin);
+  expect(opened.status, `HTTP status of ${siteUrl}${path}`).toBe(200);
   expect(
-    await page.locator("#line-check").count(),
+    await opened.page.locator("#line-check").count(),
     `${path} has no #line-check section: the arm sheet must include <LineCheck> (src/components/LineCheck.astro)`,
   ).toBe(1);
-  return {
-    page,
-    async finish() {
-      const list = await collectProblems(page, problems);
-      await page.close();
-      return list;
-    },
-  };
+  return opened;
 }
 
 async function waitForResult(page: Page): Promise<void> {

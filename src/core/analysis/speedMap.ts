@@ -13,14 +13,13 @@
  */
 import type { Chain } from "../kinematics/chain";
 import { createScratch, forwardInto, jacobianInto, wristCentreInto } from "../kinematics/forward";
-import { createIkScratch, createIkSeedPose, holdsFullOrientation, ikSeedPoseInto, solveIkInto, type IkOptions } from "../kinematics/inverse";
+import { createIkScratch, createIkSeedPose, holdsFullOrientation, ikSeedPoseInto, solveIkInto, taskErrorInto, withinIkTolerance, type IkOptions } from "../kinematics/inverse";
 import { MAX_CLOSED_FORM_SOLUTIONS, solveSphericalWristInto, sphericalWristIk, wrapNear } from "../kinematics/closedForm";
 import { createSpeedScratch, guaranteedLineSpeed, maxToolSpeed } from "./speed";
 import { createSingularityScratch, scaledInverseCondition, scaledSingularValues } from "./singularity";
 import { createSvdScratch, svdInto } from "../math/svd";
 import { branchCode, branchFrame, branchName, type BranchFrame } from "./branches";
 import { mulberry32 } from "./random";
-import { rotationErrorInto } from "../math/so3";
 import { classifyNullVector, decoupledWristColumns, jointRoles } from "./singularity";
 import { traceSingularityLoci, type SingularityLocus } from "./loci";
 import { wristFlipOf, wristTwinInto } from "../kinematics/wristFlip";
@@ -91,8 +90,6 @@ export interface SpeedMapOptions {
    * (the nodes a coarser output grid keeps; NaN elsewhere). Default: every cell.
    */
   readonly conditionMaxColumns?: number;
-  /** Continuation solves start from the first-order predictor q + B·Δp (default true); false: from the neighbour q. */
-  readonly predictor?: boolean;
 }
 
 export const DEFAULT_SPEED_MAP: SpeedMapOptions = {
@@ -182,10 +179,6 @@ function sampledBounds(chain: Chain, plane: Plane, seed: number): { rMax: number
 /** Target flange pose (row-major 4×4, m) for a cell. */
 function targetInto(out: Float64Array, plane: Plane, rM: number, zM: number, orientation: ReferenceOrientation, gravity: readonly number[], outwardSign: number): Float64Array {
   const up = plane.up, rad = plane.radial;
-  // Position: axis-1 point + r·radial, then height measured along `up` from the base origin.
-  const px0 = plane.o[0]! + rM * rad[0]!, py0 = plane.o[1]! + rM * rad[1]!, pz0 = plane.o[2]! + rM * rad[2]!;
-  const h0 = px0 * up[0]! + py0 * up[1]! + pz0 * up[2]!;
-  const px = px0 + (zM - h0) * up[0]!, py = py0 + (zM - h0) * up[1]!, pz = pz0 + (zM - h0) * up[2]!;
   let xx: number, xy: number, xz: number, zx: number, zy: number, zz: number;
   const ox = rad[0]! * outwardSign, oy = rad[1]! * outwardSign, oz = rad[2]! * outwardSign;
   if (orientation === "down") {
@@ -227,10 +220,22 @@ function targetInto(out: Float64Array, plane: Plane, rM: number, zM: number, ori
     xz /= n;
   }
   const yx = zy * xz - zz * xy, yy = zz * xx - zx * xz, yz = zx * xy - zy * xx;
-  out[0] = xx; out[1] = yx; out[2] = zx; out[3] = px;
-  out[4] = xy; out[5] = yy; out[6] = zy; out[7] = py;
-  out[8] = xz; out[9] = yz; out[10] = zz; out[11] = pz;
+  out[0] = xx; out[1] = yx; out[2] = zx;
+  out[4] = xy; out[5] = yy; out[6] = zy;
+  out[8] = xz; out[9] = yz; out[10] = zz;
   out[12] = 0; out[13] = 0; out[14] = 0; out[15] = 1;
+  return targetPositionInto(out, plane, rM, zM);
+}
+
+/** The position column of a cell's target (out[3], out[7], out[11]): axis-1 point + r·radial, then the height
+ * measured along `up` from the base origin. Every cell of a map has the same orientation; only this changes. */
+function targetPositionInto(out: Float64Array, plane: Plane, rM: number, zM: number): Float64Array {
+  const up = plane.up, rad = plane.radial;
+  const px0 = plane.o[0]! + rM * rad[0]!, py0 = plane.o[1]! + rM * rad[1]!, pz0 = plane.o[2]! + rM * rad[2]!;
+  const h0 = px0 * up[0]! + py0 * up[1]! + pz0 * up[2]!;
+  out[3] = px0 + (zM - h0) * up[0]!;
+  out[7] = py0 + (zM - h0) * up[1]!;
+  out[11] = pz0 + (zM - h0) * up[2]!;
   return out;
 }
 
@@ -380,18 +385,11 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     return true;
   };
 
-  // Every cell's target has the same orientation: it is computed once; setTarget only moves the position (the
-  // same arithmetic as targetInto's).
+  // Every cell's target has the same orientation: it is computed once; setTarget only moves the position.
   const setTarget = (cell: number) => setTargetInto(target, cell);
-  const setTargetInto = (target: Float64Array, cell: number) => {
+  const setTargetInto = (out: Float64Array, cell: number) => {
     const ix = cell % nx, iy = (cell - ix) / nx;
-    const rM = (grid.rMinMm + ix * step) / 1000, zM = (zMinMm + iy * step) / 1000;
-    const up = plane.up, rad = plane.radial;
-    const px0 = plane.o[0]! + rM * rad[0]!, py0 = plane.o[1]! + rM * rad[1]!, pz0 = plane.o[2]! + rM * rad[2]!;
-    const h0 = px0 * up[0]! + py0 * up[1]! + pz0 * up[2]!;
-    target[3] = px0 + (zM - h0) * up[0]!;
-    target[7] = py0 + (zM - h0) * up[1]!;
-    target[11] = pz0 + (zM - h0) * up[2]!;
+    targetPositionInto(out, plane, (grid.rMinMm + ix * step) / 1000, (zMinMm + iy * step) / 1000);
   };
   targetInto(target, plane, 0, 0, orientation, options.gravity, 1);
   const popTarget = Float64Array.from(target);
@@ -492,22 +490,13 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
 
   const qFix = new Float64Array(m);
   const poseError = new Float64Array(6);
-  /** Whether flange pose t meets the continuation tolerances at the target (the solver's error measure). */
-  const withinTolerance = (t: Float64Array, goal: Float64Array): boolean => {
-    const ex = goal[3]! - t[3]!, ey = goal[7]! - t[7]!, ez = goal[11]! - t[11]!;
-    if (ex * ex + ey * ey + ez * ez > CONTINUATION_IK.toleranceM ** 2) return false;
-    if (task === "axis") {
-      const cx = t[6]! * goal[10]! - t[10]! * goal[6]!, cy = t[10]! * goal[2]! - t[2]! * goal[10]!, cz = t[2]! * goal[6]! - t[6]! * goal[2]!;
-      return t[2]! * goal[2]! + t[6]! * goal[6]! + t[10]! * goal[10]! > 0 && cx * cx + cy * cy + cz * cz <= CONTINUATION_IK.toleranceRad ** 2;
-    }
-    rotationErrorInto(poseError, 3, goal, 4, t);
-    return poseError[3]! ** 2 + poseError[4]! ** 2 + poseError[5]! ** 2 <= CONTINUATION_IK.toleranceRad ** 2;
-  };
+  /** Whether flange pose t meets the continuation tolerances at the target (the solver's own error measure). */
+  const withinTolerance = (t: Float64Array, goal: Float64Array): boolean => withinIkTolerance(taskErrorInto(poseError, goal, t, task === "axis"), continuationIk);
 
   // Continuation predictor (see flood): plane steps in the base frame, m: +r, −r, +z, −z.
   // Not for redundant arms: there the predictor's minimum-norm tangent and the damped solver's step move along the
   // self-motion differently, and the map follows the path taken.
-  const usePredictor = options.predictor !== false && m <= 6;
+  const usePredictor = m <= 6;
   const tangentB = new Float64Array(3 * m);
   const qPred = new Float64Array(m);
   const planeStep = [0, 1, 2, 3].map((d) => {

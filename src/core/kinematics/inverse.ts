@@ -102,6 +102,43 @@ export function ikSeedPoseInto(pose: IkSeedPose, chain: Chain, q: ArrayLike<numb
 }
 
 /**
+ * The solver's error of flange pose t against the target (both row-major 4×4, m): e[0..2] the position error (m),
+ * e[3..5] the rotation vector taking t's orientation onto the target's, or, with axisOnly, the one turning t's tool
+ * axis onto the target's (z × z_t, unit length when more than 90° away).
+ */
+export function taskErrorInto(e: Float64Array, target: ArrayLike<number>, t: ArrayLike<number>, axisOnly: boolean): Float64Array {
+  e[0] = target[3]! - t[3]!;
+  e[1] = target[7]! - t[7]!;
+  e[2] = target[11]! - t[11]!;
+  if (axisOnly) {
+    // ω that turns the current tool axis onto the target axis: z × z_t (small-angle form, exact direction).
+    const zx = t[2]!, zy = t[6]!, zz = t[10]!;
+    const tx = target[2]!, ty = target[6]!, tz = target[10]!;
+    e[3] = zy * tz - zz * ty;
+    e[4] = zz * tx - zx * tz;
+    e[5] = zx * ty - zy * tx;
+    if (zx * tx + zy * ty + zz * tz < 0) {
+      // More than 90° away: push along any perpendicular.
+      const n = Math.hypot(e[3]!, e[4]!, e[5]!) || 1;
+      e[3] = e[3]! / n;
+      e[4] = e[4]! / n;
+      e[5] = e[5]! / n;
+    }
+  } else {
+    rotationErrorInto(e, 3, target, 4, t);
+  }
+  return e;
+}
+
+/** Whether an error from taskErrorInto meets the options' position and orientation tolerances. */
+export function withinIkTolerance(e: Float64Array, options: IkOptions): boolean {
+  return (
+    e[0]! * e[0]! + e[1]! * e[1]! + e[2]! * e[2]! <= options.toleranceM * options.toleranceM &&
+    e[3]! * e[3]! + e[4]! * e[4]! + e[5]! * e[5]! <= options.toleranceRad * options.toleranceRad
+  );
+}
+
+/**
  * Solves for driven joints that put the flange at `baseFromFlangeTarget` (row-major 4×4, m), starting from `seed`,
  * keeping every joint inside its range. Writes the solution into `qOut` (may alias `seed`) and returns whether it
  * converged. Allocates nothing.
@@ -128,26 +165,7 @@ export function solveIkInto(
   for (let it = 0; it <= options.maxIterations; it++) {
     const seeded = it === 0 ? pose : undefined;
     const t = seeded ? seeded.flange : forwardInto(chain, q, s.kin);
-    e[0] = baseFromFlangeTarget[3]! - t[3]!;
-    e[1] = baseFromFlangeTarget[7]! - t[7]!;
-    e[2] = baseFromFlangeTarget[11]! - t[11]!;
-    if (axisOnly) {
-      // ω that turns the current tool axis onto the target axis: z × z_t (small-angle form, exact direction).
-      const zx = t[2]!, zy = t[6]!, zz = t[10]!;
-      const tx = baseFromFlangeTarget[2]!, ty = baseFromFlangeTarget[6]!, tz = baseFromFlangeTarget[10]!;
-      e[3] = zy * tz - zz * ty;
-      e[4] = zz * tx - zx * tz;
-      e[5] = zx * ty - zy * tx;
-      if (zx * tx + zy * ty + zz * tz < 0) {
-        // More than 90° away: push along any perpendicular.
-        const n = Math.hypot(e[3]!, e[4]!, e[5]!) || 1;
-        e[3] = e[3]! / n;
-        e[4] = e[4]! / n;
-        e[5] = e[5]! / n;
-      }
-    } else {
-      rotationErrorInto(e, 3, baseFromFlangeTarget, 4, t);
-    }
+    taskErrorInto(e, baseFromFlangeTarget, t, axisOnly);
     const ep2 = e[0]! * e[0]! + e[1]! * e[1]! + e[2]! * e[2]!;
     const er2 = e[3]! * e[3]! + e[4]! * e[4]! + e[5]! * e[5]!;
     if (ep2 <= tol2p && er2 <= tol2r) {

@@ -77,3 +77,28 @@ export async function collectProblems(page: Page, problems: PageProblems): Promi
     ...problems.foreignRequests.map((m) => `request to another host: ${m}`),
   ];
 }
+
+/** A page opened with openWatched. */
+export interface WatchedPage {
+  readonly page: Page;
+  /** HTTP status of the navigation (null when there was no response). */
+  readonly status: number | null;
+  /** Closes the page and returns its problems (collectProblems). */
+  finish(): Promise<string[]>;
+}
+
+/** Opens `url` in a new page (from `newPage`) with a problem watcher, waiting for the load event. */
+export async function openWatched(newPage: () => Promise<Page>, url: string, origin: string): Promise<WatchedPage> {
+  const page = await newPage();
+  const problems = await watchPage(page, origin);
+  const response = await page.goto(url, { waitUntil: "load" });
+  return {
+    page,
+    status: response?.status() ?? null,
+    async finish() {
+      const list = await collectProblems(page, problems);
+      await page.close();
+      return list;
+    },
+  };
+}
