@@ -14,7 +14,14 @@ import { fileURLToPath } from "node:url";
 import { dirname, join, resolve } from "node:path";
 import { threadId, Worker } from "node:worker_threads";
 import { availableParallelism } from "node:os";
-import { ANALYSIS_VERSION, DEFAULT_ANALYSIS, analyseArm, type AnalysisOptions, type ArmAnalysis, type ArmFacts } from "../core/analysis/analyseArm";
+import {
+  ANALYSIS_VERSION,
+  DEFAULT_ANALYSIS,
+  analyseArm,
+  type AnalysisOptions,
+  type ArmAnalysis,
+  type ArmFacts,
+} from "../core/analysis/analyseArm";
 import type { Arm } from "./load";
 
 export function cacheDir(): string {
@@ -57,7 +64,9 @@ export function sourceFingerprint(folders: readonly string[]): string {
   for (const folder of folders) {
     const root = join(srcDir(), folder);
     const prefix = folders.length === 1 ? "" : `${folder}/`;
-    const files = readdirSync(root, { recursive: true, encoding: "utf8" }).filter((f) => f.endsWith(".ts")).sort();
+    const files = readdirSync(root, { recursive: true, encoding: "utf8" })
+      .filter((f) => f.endsWith(".ts"))
+      .sort();
     for (const f of files) h.update(`${prefix}${f}\n`).update(readFileSync(join(root, f)));
   }
   const hex = h.digest("hex");
@@ -74,7 +83,10 @@ export function coreFingerprint(): string {
 }
 
 export function analysisKey(arm: Pick<Arm, "specHash">, options: AnalysisOptions = DEFAULT_ANALYSIS): string {
-  return createHash("sha256").update(`${arm.specHash}\n${ANALYSIS_VERSION}\n${coreFingerprint()}\n${JSON.stringify(options)}`).digest("hex").slice(0, 32);
+  return createHash("sha256")
+    .update(`${arm.specHash}\n${ANALYSIS_VERSION}\n${coreFingerprint()}\n${JSON.stringify(options)}`)
+    .digest("hex")
+    .slice(0, 32);
 }
 
 type SpeedMap = ArmAnalysis["speed"]["maps"][number];
@@ -90,9 +102,20 @@ export interface AnalysisSummary {
   readonly analysisVersion: ArmAnalysis["analysisVersion"];
   readonly reach: ArmAnalysis["reach"];
   readonly warnings: ArmAnalysis["warnings"];
-  readonly envelope: Pick<ArmAnalysis["envelope"], "layout" | "axis1"> & { readonly flange: Pick<ArmAnalysis["envelope"]["flange"], "top"> };
+  readonly envelope: Pick<ArmAnalysis["envelope"], "layout" | "axis1"> & {
+    readonly flange: Pick<ArmAnalysis["envelope"]["flange"], "top">;
+  };
   readonly speed: Pick<ArmAnalysis["speed"], "maxToolSpeedMmPerS" | "shareAtLeast"> & {
-    readonly maps: readonly Pick<SpeedMap, "orientation" | "grid" | "reachableCells" | "maxGuaranteedMmPerS" | "maxToolSpeedMmPerS" | "shareAtLeast" | "guaranteedMmPerS">[];
+    readonly maps: readonly Pick<
+      SpeedMap,
+      | "orientation"
+      | "grid"
+      | "reachableCells"
+      | "maxGuaranteedMmPerS"
+      | "maxToolSpeedMmPerS"
+      | "shareAtLeast"
+      | "guaranteedMmPerS"
+    >[];
   };
   readonly cycle: Pick<ArmAnalysis["cycle"], "standardCycleS">;
 }
@@ -141,13 +164,19 @@ export async function writeFileAtomic(path: string, text: string): Promise<void>
 }
 
 const belongsTo = (data: { specHash?: unknown; analysisVersion?: unknown } | null, arm: Pick<Arm, "specHash">) =>
-  data !== null && typeof data === "object" && data.specHash === arm.specHash && data.analysisVersion === ANALYSIS_VERSION;
+  data !== null &&
+  typeof data === "object" &&
+  data.specHash === arm.specHash &&
+  data.analysisVersion === ANALYSIS_VERSION;
 
 /**
  * The cached analysis of an arm as the cache file's text (the JSON `armdex analyze` prints), without parsing it;
  * null when there is none.
  */
-export async function readCachedAnalysisText(arm: Arm, options: AnalysisOptions = DEFAULT_ANALYSIS): Promise<string | null> {
+export async function readCachedAnalysisText(
+  arm: Arm,
+  options: AnalysisOptions = DEFAULT_ANALYSIS,
+): Promise<string | null> {
   try {
     return await readFile(entryPath(arm, options, ""), "utf8");
   } catch {
@@ -155,7 +184,10 @@ export async function readCachedAnalysisText(arm: Arm, options: AnalysisOptions 
   }
 }
 
-export async function readCachedAnalysis(arm: Arm, options: AnalysisOptions = DEFAULT_ANALYSIS): Promise<ArmAnalysis | null> {
+export async function readCachedAnalysis(
+  arm: Arm,
+  options: AnalysisOptions = DEFAULT_ANALYSIS,
+): Promise<ArmAnalysis | null> {
   try {
     const data = JSON.parse(await readFile(entryPath(arm, options, ""), "utf8")) as ArmAnalysis;
     return belongsTo(data, arm) ? data : null;
@@ -165,7 +197,10 @@ export async function readCachedAnalysis(arm: Arm, options: AnalysisOptions = DE
 }
 
 /** The cached summary of an arm's analysis; null when there is none or it is unreadable (it is then rebuilt). */
-export async function readCachedSummary(arm: Pick<Arm, "specHash">, options: AnalysisOptions = DEFAULT_ANALYSIS): Promise<AnalysisSummary | null> {
+export async function readCachedSummary(
+  arm: Pick<Arm, "specHash">,
+  options: AnalysisOptions = DEFAULT_ANALYSIS,
+): Promise<AnalysisSummary | null> {
   try {
     const data = JSON.parse(await readFile(entryPath(arm, options, ".summary"), "utf8")) as AnalysisSummary;
     return belongsTo(data, arm) ? data : null;
@@ -174,7 +209,11 @@ export async function readCachedSummary(arm: Pick<Arm, "specHash">, options: Ana
   }
 }
 
-export async function writeCachedAnalysis(arm: Arm, analysis: ArmAnalysis, options: AnalysisOptions = DEFAULT_ANALYSIS): Promise<void> {
+export async function writeCachedAnalysis(
+  arm: Arm,
+  analysis: ArmAnalysis,
+  options: AnalysisOptions = DEFAULT_ANALYSIS,
+): Promise<void> {
   // The analysis first: a summary on disk means its analysis is there too.
   await writeFileAtomic(entryPath(arm, options, ""), JSON.stringify(analysis));
   await writeFileAtomic(entryPath(arm, options, ".summary"), JSON.stringify(summariseAnalysis(analysis)));
@@ -184,7 +223,10 @@ export async function writeCachedAnalysis(arm: Arm, analysis: ArmAnalysis, optio
  * The summary of one arm's analysis: from the cache; else made from the cached analysis (and cached), else from a
  * new analysis (as getAnalysis).
  */
-export async function getAnalysisSummary(arm: Arm, options: AnalysisOptions = DEFAULT_ANALYSIS): Promise<AnalysisSummary> {
+export async function getAnalysisSummary(
+  arm: Arm,
+  options: AnalysisOptions = DEFAULT_ANALYSIS,
+): Promise<AnalysisSummary> {
   const cached = await readCachedSummary(arm, options);
   if (cached) return cached;
   const analysis = await getAnalysis(arm, options);
@@ -218,13 +260,20 @@ export interface AnalyseAllReport {
  * Makes sure every arm has a cache entry, analysing the missing ones in parallel worker threads
  * (one per core, at most `workers`).
  */
-export async function analyseCatalog(arms: readonly Arm[], options: { workers?: number; log?: (line: string) => void } = {}): Promise<AnalyseAllReport> {
+export async function analyseCatalog(
+  arms: readonly Arm[],
+  options: { workers?: number; log?: (line: string) => void } = {},
+): Promise<AnalyseAllReport> {
   const missing: Arm[] = [];
   const cached: string[] = [];
   // A readable summary stands for its analysis (written first); an arm with an analysis but no summary gets one
   // here, from the analysis. Neither parses every full analysis.
   for (const arm of arms) {
-    if ((await readCachedSummary(arm)) || (existsSync(entryPath(arm, DEFAULT_ANALYSIS, "")) && (await summaryFromAnalysis(arm)))) cached.push(arm.id);
+    if (
+      (await readCachedSummary(arm)) ||
+      (existsSync(entryPath(arm, DEFAULT_ANALYSIS, "")) && (await summaryFromAnalysis(arm)))
+    )
+      cached.push(arm.id);
     else missing.push(arm);
   }
   const analysed: { id: string; ms: number }[] = [];

@@ -13,6 +13,10 @@ parentPort?.on("message", async (msg: { file: string }) => {
     await writeCachedAnalysis(arm, analysis);
     parentPort?.postMessage({ ok: true, ms: performance.now() - t0 });
   } catch (e) {
-    parentPort?.postMessage({ ok: false, ms: performance.now() - t0, error: e instanceof Error ? e.message : String(e) });
+    parentPort?.postMessage({
+      ok: false,
+      ms: performance.now() - t0,
+      error: e instanceof Error ? e.message : String(e),
+    });
   }
 });

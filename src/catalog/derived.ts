@@ -30,10 +30,17 @@ export interface DerivedOptions {
 const KIND = /^[a-z0-9][a-z0-9-]*$/;
 
 /** The cache key of a derived value (32 hex digits). */
-export function derivedKey(arm: Pick<Arm, "specHash" | "file">, kind: string, inputs: DerivedInputs, options: DerivedOptions = {}): string {
+export function derivedKey(
+  arm: Pick<Arm, "specHash" | "file">,
+  kind: string,
+  inputs: DerivedInputs,
+  options: DerivedOptions = {},
+): string {
   if (!KIND.test(kind)) throw new RangeError(`invalid kind: ${kind}`);
   const code = options.codeFingerprint ?? sourceFingerprint(DERIVED_SOURCES);
-  const sortedInputs = Object.keys(inputs).sort().map((k) => [k, inputs[k] ?? null]);
+  const sortedInputs = Object.keys(inputs)
+    .sort()
+    .map((k) => [k, inputs[k] ?? null]);
   return createHash("sha256")
     .update(`${analysisKey(arm)}\n${arm.file}\n${code}\n${kind}\n${JSON.stringify(sortedInputs)}`)
     .digest("hex")
@@ -51,7 +58,8 @@ function exactJson(value: unknown): string {
   return JSON.stringify(value, function (this: unknown, _key: string, v: unknown) {
     if (typeof v === "number" && !Number.isFinite(v)) throw new NotJsonExact();
     if (v === undefined && Array.isArray(this)) throw new NotJsonExact();
-    if (ArrayBuffer.isView(v) || v instanceof Map || v instanceof Set || typeof v === "bigint") throw new NotJsonExact();
+    if (ArrayBuffer.isView(v) || v instanceof Map || v instanceof Set || typeof v === "bigint")
+      throw new NotJsonExact();
     return v;
   });
 }
@@ -63,7 +71,13 @@ function exactJson(value: unknown): string {
  * @param inputs what else the value depends on (base URL…); the arm's spec, analysis and file path always count
  * @example await cachedDerived(arm, "payload-csv", {}, async () => payloadCsv(await getAnalysis(arm)))
  */
-export async function cachedDerived<T>(arm: Pick<Arm, "specHash" | "file">, kind: string, inputs: DerivedInputs, derive: () => T | Promise<T>, options: DerivedOptions = {}): Promise<T> {
+export async function cachedDerived<T>(
+  arm: Pick<Arm, "specHash" | "file">,
+  kind: string,
+  inputs: DerivedInputs,
+  derive: () => T | Promise<T>,
+  options: DerivedOptions = {},
+): Promise<T> {
   const key = derivedKey(arm, kind, inputs, options);
   const path = derivedPath(kind, key);
   try {

@@ -71,7 +71,10 @@ export interface LoadedFile {
 /** Reads and validates one arm file. Never throws for bad data: problems come back as issues. */
 export async function loadArmFile(path: string): Promise<LoadedFile> {
   const file = relative(process.cwd(), path) || path;
-  const err = (p: string, message: string): LoadedFile => ({ arm: null, issues: [{ file, path: p, message, severity: "error" }] });
+  const err = (p: string, message: string): LoadedFile => ({
+    arm: null,
+    issues: [{ file, path: p, message, severity: "error" }],
+  });
   let bytes: Buffer;
   try {
     const info = await stat(path);
@@ -117,18 +120,28 @@ export async function loadArmFile(path: string): Promise<LoadedFile> {
   }
   const declared = (data as { id?: unknown } | null)?.id;
   const declaredId = typeof declared === "string" ? declared : null;
-  if (!result.ok || issues.some((i) => i.severity === "error")) return { arm: null, issues, declaredId, idMatchesFile: declaredId === fileId };
+  if (!result.ok || issues.some((i) => i.severity === "error"))
+    return { arm: null, issues, declaredId, idMatchesFile: declaredId === fileId };
   return {
     declaredId,
     idMatchesFile: true,
-    arm: { id: result.spec.id, file, spec: result.spec, chain: result.chain, specHash: specHashOf(data), warnings: issues.filter((i) => i.severity === "warning") },
+    arm: {
+      id: result.spec.id,
+      file,
+      spec: result.spec,
+      chain: result.chain,
+      specHash: specHashOf(data),
+      warnings: issues.filter((i) => i.severity === "warning"),
+    },
     issues,
   };
 }
 
 async function checkSchemaRef(ref: string, baseDir: string): Promise<string | null> {
   if (/^https?:\/\//.test(ref)) {
-    return ref.endsWith("/arm.schema.json") ? null : `expected a URL ending in /arm.schema.json, found ${JSON.stringify(ref)}`;
+    return ref.endsWith("/arm.schema.json")
+      ? null
+      : `expected a URL ending in /arm.schema.json, found ${JSON.stringify(ref)}`;
   }
   const target = resolve(baseDir, ref.replace(/^file:\/\//, "").split("#")[0]!);
   try {
@@ -171,7 +184,9 @@ export async function loadArms(paths: readonly string[]): Promise<LoadResult> {
   const results = await Promise.all(files.map((f) => loadArmFile(f)));
   const owner = new Map<string, string>();
   const duplicate = new Map<number, string>();
-  const claims = results.flatMap((r, k) => (r.declaredId ? [{ k, id: r.declaredId, mine: r.idMatchesFile === true }] : []));
+  const claims = results.flatMap((r, k) =>
+    r.declaredId ? [{ k, id: r.declaredId, mine: r.idMatchesFile === true }] : [],
+  );
   for (const c of claims.sort((a, b) => Number(b.mine) - Number(a.mine) || a.k - b.k)) {
     const first = owner.get(c.id);
     if (first === undefined) owner.set(c.id, files[c.k]!);
@@ -183,7 +198,12 @@ export async function loadArms(paths: readonly string[]): Promise<LoadResult> {
     const first = duplicate.get(k);
     if (first !== undefined) {
       const rel = (p: string) => relative(process.cwd(), p) || p;
-      issues.push({ file: rel(files[k]!), path: "id", message: `expected a unique id, found "${r.declaredId}" which ${rel(first)} already uses`, severity: "error" });
+      issues.push({
+        file: rel(files[k]!),
+        path: "id",
+        message: `expected a unique id, found "${r.declaredId}" which ${rel(first)} already uses`,
+        severity: "error",
+      });
     } else if (r.arm) arms.push(r.arm);
   });
   arms.sort((a, b) => (a.id < b.id ? -1 : a.id > b.id ? 1 : 0));
@@ -193,7 +213,9 @@ export async function loadArms(paths: readonly string[]): Promise<LoadResult> {
 export class CatalogError extends Error {
   constructor(readonly issues: readonly ArmIssue[]) {
     const errors = issues.filter((i) => i.severity === "error");
-    super(`${errors.length} error${errors.length === 1 ? "" : "s"} in the arm catalog:\n${errors.map(formatIssue).join("\n")}`);
+    super(
+      `${errors.length} error${errors.length === 1 ? "" : "s"} in the arm catalog:\n${errors.map(formatIssue).join("\n")}`,
+    );
     this.name = "CatalogError";
   }
 }

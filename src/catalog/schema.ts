@@ -64,8 +64,13 @@ export const JointSchema = z
     dh: DhParamsSchema.optional().describe("standard DH row (convention: dh): Aᵢ = Rz(θ)·Tz(d)·Tx(a)·Rx(α)"),
     mdh: DhParamsSchema.optional().describe("modified DH row (convention: mdh): Aᵢ = Rx(αᵢ₋₁)·Tx(aᵢ₋₁)·Rz(θᵢ)·Tz(dᵢ)"),
     origin: FrameSchema.optional().describe("joint frame in the previous joint's frame (convention: frames)"),
-    axis: z.tuple([finite(), finite(), finite()]).optional().describe("unit joint axis in the joint frame (convention: frames)"),
-    rangeDeg: orderedPair(ANGLE_LIMIT_DEG, "deg").optional().describe("[min, max] joint range of a revolute joint, deg"),
+    axis: z
+      .tuple([finite(), finite(), finite()])
+      .optional()
+      .describe("unit joint axis in the joint frame (convention: frames)"),
+    rangeDeg: orderedPair(ANGLE_LIMIT_DEG, "deg")
+      .optional()
+      .describe("[min, max] joint range of a revolute joint, deg"),
     rangeMm: orderedPair(LENGTH_LIMIT_MM, "mm").optional().describe("[min, max] stroke of a prismatic joint, mm"),
     maxSpeedDegPerS: positive(5000).optional().describe("maximum joint speed, deg/s"),
     maxSpeedMmPerS: positive(50_000).optional().describe("maximum joint speed, mm/s"),
@@ -99,7 +104,9 @@ export const ArmSpecSchema = z
       .describe("mountings the maker offers; the first is the one the envelope views assume"),
     massKg: positive(100_000).describe("arm mass without controller, kg"),
     ratedPayloadKg: positive(10_000).describe("rated payload at the flange, tooling included, kg"),
-    repeatabilityMm: positive(100).describe("pose repeatability RP as ISO 9283 defines it, as declared by the maker, mm"),
+    repeatabilityMm: positive(100).describe(
+      "pose repeatability RP as ISO 9283 defines it, as declared by the maker, mm",
+    ),
     protection: z
       .string()
       .regex(/^IP[0-6X][0-9X][A-D]?[HMSW]?$/, { message: "expected an IEC 60529 code such as IP54 or IP67" })
@@ -114,8 +121,14 @@ export const ArmSpecSchema = z
       .describe("joints whose axes define the wrist centre point, for layouts without a spherical wrist"),
     wrist: z
       .strictObject({
-        momentNm: z.record(z.string(), positive(1_000_000)).optional().describe("allowed load moment per wrist joint, N·m"),
-        inertiaKgM2: z.record(z.string(), positive(100_000)).optional().describe("allowed load inertia per wrist joint, kg·m²"),
+        momentNm: z
+          .record(z.string(), positive(1_000_000))
+          .optional()
+          .describe("allowed load moment per wrist joint, N·m"),
+        inertiaKgM2: z
+          .record(z.string(), positive(100_000))
+          .optional()
+          .describe("allowed load inertia per wrist joint, kg·m²"),
       })
       .optional(),
     links: z

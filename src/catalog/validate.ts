@@ -61,7 +61,11 @@ export function validateArm(data: unknown, file: string, fileId: string): Valida
       if (at === "" && !isObject(data)) continue;
       if (issue.code === "unrecognized_keys") {
         // One issue per unknown key, at the key's own path.
-        for (const key of issue.keys) error(toPath([...issue.path, key]), "unknown field: not part of the arm format (check the spelling and the unit in the name)");
+        for (const key of issue.keys)
+          error(
+            toPath([...issue.path, key]),
+            "unknown field: not part of the arm format (check the spelling and the unit in the name)",
+          );
       } else {
         error(toPath(issue.path), zodIssueMessage(issue));
       }
@@ -69,7 +73,10 @@ export function validateArm(data: unknown, file: string, fileId: string): Valida
   }
   for (const s of semanticIssues(data)) error(s.path, s.message);
   if (isObject(data) && typeof data.id === "string" && data.id !== fileId) {
-    error("id", `expected the file name "${fileId}", found ${describeValue(data.id)} (the id is the file name and the URL)`);
+    error(
+      "id",
+      `expected the file name "${fileId}", found ${describeValue(data.id)} (the id is the file name and the URL)`,
+    );
   }
   if (issues.length > 0 || !parsed.success) return { ok: false, issues: dedupe(issues) };
   let chain: Chain;
@@ -120,70 +127,133 @@ export function semanticIssues(data: unknown): PathMessage[] {
     const kind = typeof j.kind === "string" ? j.kind : undefined;
     kinds.push(kind);
     if (typeof j.name === "string") {
-      if (names.has(j.name)) out.push({ path: at("name"), message: `expected a unique joint name, found ${describeValue(j.name)} again (first at joints[${names.get(j.name)}])` });
+      if (names.has(j.name))
+        out.push({
+          path: at("name"),
+          message: `expected a unique joint name, found ${describeValue(j.name)} again (first at joints[${names.get(j.name)}])`,
+        });
       else names.set(j.name, i);
     }
     // Parameter block must match the convention.
     const blocks = { dh: "dh", mdh: "mdh", frames: "origin" } as const;
     if (convention === "dh" || convention === "mdh" || convention === "frames") {
       const want = blocks[convention];
-      if (j[want] === undefined) out.push({ path: at(want), message: `missing required field: convention "${convention}" needs "${want}" on every joint` });
-      if (convention === "frames" && j.axis === undefined) out.push({ path: at("axis"), message: `missing required field: convention "frames" needs a unit "axis" on every joint` });
+      if (j[want] === undefined)
+        out.push({
+          path: at(want),
+          message: `missing required field: convention "${convention}" needs "${want}" on every joint`,
+        });
+      if (convention === "frames" && j.axis === undefined)
+        out.push({
+          path: at("axis"),
+          message: `missing required field: convention "frames" needs a unit "axis" on every joint`,
+        });
       for (const other of ["dh", "mdh", "origin", "axis"] as const) {
         if (other === want || (convention === "frames" && other === "axis")) continue;
-        if (j[other] !== undefined) out.push({ path: at(other), message: `not used with convention "${convention}": expected ${convention === "frames" ? "origin and axis" : want}` });
+        if (j[other] !== undefined)
+          out.push({
+            path: at(other),
+            message: `not used with convention "${convention}": expected ${convention === "frames" ? "origin and axis" : want}`,
+          });
       }
     }
     if (Array.isArray(j.axis) && j.axis.length === 3 && j.axis.every(isNumber)) {
       const len = Math.hypot(j.axis[0] as number, j.axis[1] as number, j.axis[2] as number);
-      if (!(Math.abs(len - 1) <= 1e-3)) out.push({ path: at("axis"), message: `expected a unit vector (length 1 ± 0.001), found length ${len.toPrecision(4)}` });
+      if (!(Math.abs(len - 1) <= 1e-3))
+        out.push({
+          path: at("axis"),
+          message: `expected a unit vector (length 1 ± 0.001), found length ${len.toPrecision(4)}`,
+        });
     }
     // Fields must match the kind.
     const degFields = ["rangeDeg", "maxSpeedDegPerS", "maxAccelDegPerS2", "ratedTorqueNm"];
     const mmFields = ["rangeMm", "maxSpeedMmPerS", "maxAccelMmPerS2", "ratedForceN"];
     const wrong = kind === "revolute" ? mmFields : kind === "prismatic" ? degFields : [];
     for (const f of wrong) {
-      if (j[f] !== undefined) out.push({ path: at(f), message: `not used on a ${kind} joint: expected ${kind === "revolute" ? degFields[mmFields.indexOf(f)] : mmFields[degFields.indexOf(f)]}` });
+      if (j[f] !== undefined)
+        out.push({
+          path: at(f),
+          message: `not used on a ${kind} joint: expected ${kind === "revolute" ? degFields[mmFields.indexOf(f)] : mmFields[degFields.indexOf(f)]}`,
+        });
     }
     const rangeField = kind === "prismatic" ? "rangeMm" : "rangeDeg";
     const speedField = kind === "prismatic" ? "maxSpeedMmPerS" : "maxSpeedDegPerS";
     const coupling = j.coupling;
     const passive = coupling !== undefined && j[rangeField] === undefined;
     if (passive) {
-      for (const f of [speedField, kind === "prismatic" ? "maxAccelMmPerS2" : "maxAccelDegPerS2", kind === "prismatic" ? "ratedForceN" : "ratedTorqueNm"]) {
-        if (j[f] !== undefined) out.push({ path: at(f), message: `a passive joint (coupling and no ${rangeField}) has no ${f} of its own` });
+      for (const f of [
+        speedField,
+        kind === "prismatic" ? "maxAccelMmPerS2" : "maxAccelDegPerS2",
+        kind === "prismatic" ? "ratedForceN" : "ratedTorqueNm",
+      ]) {
+        if (j[f] !== undefined)
+          out.push({ path: at(f), message: `a passive joint (coupling and no ${rangeField}) has no ${f} of its own` });
       }
     } else if (kind === "revolute" || kind === "prismatic") {
       driven++;
-      if (j[rangeField] === undefined) out.push({ path: at(rangeField), message: `missing required field: a driven ${kind} joint needs ${rangeField} [min, max]` });
-      if (j[speedField] === undefined) out.push({ path: at(speedField), message: `missing required field: a driven ${kind} joint needs ${speedField}` });
+      if (j[rangeField] === undefined)
+        out.push({
+          path: at(rangeField),
+          message: `missing required field: a driven ${kind} joint needs ${rangeField} [min, max]`,
+        });
+      if (j[speedField] === undefined)
+        out.push({
+          path: at(speedField),
+          message: `missing required field: a driven ${kind} joint needs ${speedField}`,
+        });
     }
     if (isObject(coupling) && Array.isArray(coupling.terms)) {
       coupling.terms.forEach((t, k) => {
         if (!isObject(t) || typeof t.joint !== "string") return;
         const p = toPath(["joints", i, "coupling", "terms", k, "joint"]);
         const target = names.get(t.joint);
-        if (t.joint === j.name) out.push({ path: p, message: `a joint cannot follow itself, found ${describeValue(t.joint)}` });
+        if (t.joint === j.name)
+          out.push({ path: p, message: `a joint cannot follow itself, found ${describeValue(t.joint)}` });
         else if (target === undefined) {
           const later = joints.findIndex((o, idx) => idx > i && isObject(o) && o.name === t.joint);
-          out.push({ path: p, message: later >= 0 ? `expected an earlier joint, found ${describeValue(t.joint)} which comes later (joints[${later}]); couplings follow the chain from base to flange` : `expected the name of an earlier joint, found ${describeValue(t.joint)} which is not a joint of this arm` });
+          out.push({
+            path: p,
+            message:
+              later >= 0
+                ? `expected an earlier joint, found ${describeValue(t.joint)} which comes later (joints[${later}]); couplings follow the chain from base to flange`
+                : `expected the name of an earlier joint, found ${describeValue(t.joint)} which is not a joint of this arm`,
+          });
         } else if (kinds[target] !== kind) {
-          out.push({ path: p, message: `expected a ${kind} joint (gains are unitless), found ${describeValue(t.joint)} which is ${kinds[target]}` });
+          out.push({
+            path: p,
+            message: `expected a ${kind} joint (gains are unitless), found ${describeValue(t.joint)} which is ${kinds[target]}`,
+          });
         }
       });
-      if (kind === "revolute" && coupling.offsetMm !== undefined) out.push({ path: toPath(["joints", i, "coupling", "offsetMm"]), message: "not used on a revolute joint: expected offsetDeg" });
-      if (kind === "prismatic" && coupling.offsetDeg !== undefined) out.push({ path: toPath(["joints", i, "coupling", "offsetDeg"]), message: "not used on a prismatic joint: expected offsetMm" });
+      if (kind === "revolute" && coupling.offsetMm !== undefined)
+        out.push({
+          path: toPath(["joints", i, "coupling", "offsetMm"]),
+          message: "not used on a revolute joint: expected offsetDeg",
+        });
+      if (kind === "prismatic" && coupling.offsetDeg !== undefined)
+        out.push({
+          path: toPath(["joints", i, "coupling", "offsetDeg"]),
+          message: "not used on a prismatic joint: expected offsetMm",
+        });
     }
   });
   if (joints.length > 0 && driven === 0) {
-    out.push({ path: "joints", message: "expected at least one driven joint (with a range and a speed): with every joint passive the flange cannot move" });
+    out.push({
+      path: "joints",
+      message:
+        "expected at least one driven joint (with a range and a speed): with every joint passive the flange cannot move",
+    });
   }
   // Without a joints array the names used elsewhere cannot be checked (the joints error says enough).
   if (!Array.isArray(data.joints)) return out;
   const known = (name: unknown) => typeof name === "string" && names.has(name);
   if (isObject(data.wristCentre) && Array.isArray(data.wristCentre.joints)) {
     data.wristCentre.joints.forEach((name, k) => {
-      if (!known(name)) out.push({ path: toPath(["wristCentre", "joints", k]), message: `expected a joint name of this arm, found ${describeValue(name)}` });
+      if (!known(name))
+        out.push({
+          path: toPath(["wristCentre", "joints", k]),
+          message: `expected a joint name of this arm, found ${describeValue(name)}`,
+        });
     });
   }
   if (isObject(data.wrist)) {
@@ -191,13 +261,21 @@ export function semanticIssues(data: unknown): PathMessage[] {
       const rec = data.wrist[key];
       if (!isObject(rec)) continue;
       for (const name of Object.keys(rec)) {
-        if (!known(name)) out.push({ path: toPath(["wrist", key, name]), message: `expected a joint name of this arm, found ${describeValue(name)}` });
+        if (!known(name))
+          out.push({
+            path: toPath(["wrist", key, name]),
+            message: `expected a joint name of this arm, found ${describeValue(name)}`,
+          });
       }
     }
   }
   if (Array.isArray(data.links)) {
     data.links.forEach((l, k) => {
-      if (isObject(l) && l.after !== undefined && !known(l.after)) out.push({ path: toPath(["links", k, "after"]), message: `expected a joint name of this arm, found ${describeValue(l.after)}` });
+      if (isObject(l) && l.after !== undefined && !known(l.after))
+        out.push({
+          path: toPath(["links", k, "after"]),
+          message: `expected a joint name of this arm, found ${describeValue(l.after)}`,
+        });
     });
   }
   return out;
@@ -253,7 +331,10 @@ export function plausibilityWarnings(spec: ArmSpec, file = ""): ArmIssue[] {
   const [repLo, repHi] = PLAUSIBILITY.repeatabilityMm;
   if (spec.repeatabilityMm < repLo || spec.repeatabilityMm > repHi) {
     const r = spec.repeatabilityMm;
-    const hint = r < repLo ? `typed in metres? ${fmt(r)} m = ${fmt(r * 1000)} mm` : `typed in µm? ${fmt(r)} µm = ${fmt(r / 1000)} mm`;
+    const hint =
+      r < repLo
+        ? `typed in metres? ${fmt(r)} m = ${fmt(r * 1000)} mm`
+        : `typed in µm? ${fmt(r)} µm = ${fmt(r / 1000)} mm`;
     warn("repeatabilityMm", `expected a repeatability between ${repLo} and ${repHi} mm, found ${fmt(r)} (${hint})`);
   }
   const [speedLo, speedHi] = PLAUSIBILITY.revoluteSpeedDegPerS;
@@ -261,27 +342,45 @@ export function plausibilityWarnings(spec: ArmSpec, file = ""): ArmIssue[] {
     const v = j.maxSpeedDegPerS;
     if (j.kind !== "revolute" || v === undefined) return;
     if (v < speedLo) {
-      warn(toPath(["joints", i, "maxSpeedDegPerS"]), `expected a revolute joint speed between ${speedLo} and ${speedHi} deg/s, found ${fmt(v)} (if it was typed in rad/s it is ${fmt((v * 180) / Math.PI)} deg/s; in rev/s, ${fmt(v * 360)} deg/s)`);
+      warn(
+        toPath(["joints", i, "maxSpeedDegPerS"]),
+        `expected a revolute joint speed between ${speedLo} and ${speedHi} deg/s, found ${fmt(v)} (if it was typed in rad/s it is ${fmt((v * 180) / Math.PI)} deg/s; in rev/s, ${fmt(v * 360)} deg/s)`,
+      );
     } else if (v > speedHi) {
-      warn(toPath(["joints", i, "maxSpeedDegPerS"]), `expected a revolute joint speed between ${speedLo} and ${speedHi} deg/s, found ${fmt(v)} (a motor speed before the gearbox, or rpm?)`);
+      warn(
+        toPath(["joints", i, "maxSpeedDegPerS"]),
+        `expected a revolute joint speed between ${speedLo} and ${speedHi} deg/s, found ${fmt(v)} (a motor speed before the gearbox, or rpm?)`,
+      );
     }
   });
   if (spec.links && spec.links.length > 0) {
     const total = spec.links.reduce((s, l) => s + l.massKg, 0);
     if (total > spec.massKg * (1 + 1e-9)) {
-      warn("links", `expected the link masses to add up to at most massKg (${fmt(spec.massKg)} kg), found ${fmt(total)} kg`);
+      warn(
+        "links",
+        `expected the link masses to add up to at most massKg (${fmt(spec.massKg)} kg), found ${fmt(total)} kg`,
+      );
     }
   }
   const maxPayload = spec.massKg * PLAUSIBILITY.payloadPerMass;
   if (spec.ratedPayloadKg > maxPayload) {
-    warn("ratedPayloadKg", `expected at most ${PLAUSIBILITY.payloadPerMass} × massKg (${fmt(maxPayload)} kg), found ${fmt(spec.ratedPayloadKg)} kg (check the units of ratedPayloadKg and massKg)`);
+    warn(
+      "ratedPayloadKg",
+      `expected at most ${PLAUSIBILITY.payloadPerMass} × massKg (${fmt(maxPayload)} kg), found ${fmt(spec.ratedPayloadKg)} kg (check the units of ratedPayloadKg and massKg)`,
+    );
   }
   if (spec.reachMm !== undefined) {
     const bound = linkLengthSumMm(spec);
     if (spec.reachMm < PLAUSIBILITY.minReachMm) {
-      warn("reachMm", `expected a reach of at least ${PLAUSIBILITY.minReachMm} mm, found ${fmt(spec.reachMm)}: was it typed in metres? (${fmt(spec.reachMm)} m = ${fmt(spec.reachMm * 1000)} mm)`);
+      warn(
+        "reachMm",
+        `expected a reach of at least ${PLAUSIBILITY.minReachMm} mm, found ${fmt(spec.reachMm)}: was it typed in metres? (${fmt(spec.reachMm)} m = ${fmt(spec.reachMm * 1000)} mm)`,
+      );
     } else if (bound !== null && spec.reachMm > bound * PLAUSIBILITY.reachOverLinkSum) {
-      warn("reachMm", `expected at most ${fmt(bound)} mm (the sum of the arm's link lengths: no pose reaches farther), found ${fmt(spec.reachMm)} (check the unit, mm, and the link dimensions)`);
+      warn(
+        "reachMm",
+        `expected at most ${fmt(bound)} mm (the sum of the arm's link lengths: no pose reaches farther), found ${fmt(spec.reachMm)} (check the unit, mm, and the link dimensions)`,
+      );
     }
   }
   return out;

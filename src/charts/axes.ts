@@ -55,16 +55,24 @@ export function axisBottomSvg(scale: ScaleLinear<number, number>, area: PlotArea
   for (const t of ticks) {
     const x = scale(t.value);
     if (x < area.left - 0.5 || x > area.left + area.width + 0.5) continue;
-    if (options.grid) parts.push(el("line", { class: "grid-line", x1: fmt(x), x2: fmt(x), y1: fmt(area.top), y2: fmt(y0) }));
+    if (options.grid)
+      parts.push(el("line", { class: "grid-line", x1: fmt(x), x2: fmt(x), y1: fmt(area.top), y2: fmt(y0) }));
     parts.push(el("line", { class: "tick", x1: fmt(x), x2: fmt(x), y1: fmt(y0), y2: fmt(y0 + 5) }));
     parts.push(textEl(t.text, { class: "tick-label", x: fmt(x), y: fmt(y0 + 17), "text-anchor": "middle" }));
   }
-  parts.push(el("line", { class: "domain", x1: fmt(area.left), x2: fmt(area.left + area.width), y1: fmt(y0), y2: fmt(y0) }));
+  parts.push(
+    el("line", { class: "domain", x1: fmt(area.left), x2: fmt(area.left + area.width), y1: fmt(y0), y2: fmt(y0) }),
+  );
   const title = axisTitle(options.label, options.unit);
   parts.push(
     options.labelAt === "end"
       ? textEl(title, { class: "axis-label", x: fmt(area.left + area.width), y: fmt(y0 + 34), "text-anchor": "end" })
-      : textEl(title, { class: "axis-label", x: fmt(area.left + area.width / 2), y: fmt(y0 + 34), "text-anchor": "middle" }),
+      : textEl(title, {
+          class: "axis-label",
+          x: fmt(area.left + area.width / 2),
+          y: fmt(y0 + 34),
+          "text-anchor": "middle",
+        }),
   );
   return el("g", { class: "axis axis-x" }, ...parts);
 }
@@ -77,11 +85,14 @@ export function axisLeftSvg(scale: ScaleLinear<number, number>, area: PlotArea, 
   for (const t of ticks) {
     const y = scale(t.value);
     if (y < area.top - 0.5 || y > area.top + area.height + 0.5) continue;
-    if (options.grid) parts.push(el("line", { class: "grid-line", x1: fmt(x0), x2: fmt(x0 + area.width), y1: fmt(y), y2: fmt(y) }));
+    if (options.grid)
+      parts.push(el("line", { class: "grid-line", x1: fmt(x0), x2: fmt(x0 + area.width), y1: fmt(y), y2: fmt(y) }));
     parts.push(el("line", { class: "tick", x1: fmt(x0 - 5), x2: fmt(x0), y1: fmt(y), y2: fmt(y) }));
     parts.push(textEl(t.text, { class: "tick-label", x: fmt(x0 - 8), y: fmt(y + 4), "text-anchor": "end" }));
   }
-  parts.push(el("line", { class: "domain", x1: fmt(x0), x2: fmt(x0), y1: fmt(area.top), y2: fmt(area.top + area.height) }));
+  parts.push(
+    el("line", { class: "domain", x1: fmt(x0), x2: fmt(x0), y1: fmt(area.top), y2: fmt(area.top + area.height) }),
+  );
   const cx = x0 - 50;
   const cy = area.top + area.height / 2;
   parts.push(

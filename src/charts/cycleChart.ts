@@ -33,7 +33,12 @@ export function cycleChart(input: CycleChartInput): ChartResult {
   const widthPx = input.widthPx ?? 600;
   const margins = { ...DEFAULT_MARGINS, top: 34, left: 112, right: 110 };
   const heightPx = margins.top + input.moves.length * ROW_PX + margins.bottom + 6;
-  const area = { left: margins.left, top: margins.top, width: widthPx - margins.left - margins.right, height: input.moves.length * ROW_PX };
+  const area = {
+    left: margins.left,
+    top: margins.top,
+    width: widthPx - margins.left - margins.right,
+    height: input.moves.length * ROW_PX,
+  };
   const tMax = Math.max(...input.moves.map((m) => m.timeS), 1e-3);
   const x = scaleLinear([0, tMax], [area.left, area.left + area.width]).nice();
   const keys = input.moves.map((m, i) => `${i}`);
@@ -43,9 +48,30 @@ export function cycleChart(input: CycleChartInput): ChartResult {
   input.moves.forEach((m, i) => {
     const y0 = band(`${i}`)!;
     const across = m.from.endsWith("up") && m.to.endsWith("up");
-    parts.push(el("rect", { class: across ? "cycle-bar across" : "cycle-bar", x: fmt(area.left), y: fmt(y0), width: fmt(Math.max(1, x(m.timeS) - area.left)), height: fmt(band.bandwidth()) }));
-    parts.push(textEl(`${m.from} \u2192 ${m.to}`, { class: "bar-label", x: fmt(area.left - 8), y: fmt(y0 + band.bandwidth() / 2 + 4), "text-anchor": "end" }));
-    parts.push(textEl(`${label(m.timeS, 3)} s, ${m.limitingJoint}`, { class: "bar-label", x: fmt(x(m.timeS) + 6), y: fmt(y0 + band.bandwidth() / 2 + 4) }));
+    parts.push(
+      el("rect", {
+        class: across ? "cycle-bar across" : "cycle-bar",
+        x: fmt(area.left),
+        y: fmt(y0),
+        width: fmt(Math.max(1, x(m.timeS) - area.left)),
+        height: fmt(band.bandwidth()),
+      }),
+    );
+    parts.push(
+      textEl(`${m.from} \u2192 ${m.to}`, {
+        class: "bar-label",
+        x: fmt(area.left - 8),
+        y: fmt(y0 + band.bandwidth() / 2 + 4),
+        "text-anchor": "end",
+      }),
+    );
+    parts.push(
+      textEl(`${label(m.timeS, 3)} s, ${m.limitingJoint}`, {
+        class: "bar-label",
+        x: fmt(x(m.timeS) + 6),
+        y: fmt(y0 + band.bandwidth() / 2 + 4),
+      }),
+    );
   });
 
   const title = `${input.armName}: standard cycle, ${label(input.totalS, 2)} s`;

@@ -33,7 +33,9 @@ export const ENVELOPE_CHART_WIDTH_PX = 600;
 
 function axisNames(layout: EnvelopeLayoutKind, view: "side" | "top"): { x: string; y: string } {
   if (view === "top") return { x: "base x", y: "base y" };
-  return layout === "revolute-base" ? { x: "distance from axis 1, r", y: "height along axis 1, z" } : { x: "base x", y: "height, base z" };
+  return layout === "revolute-base"
+    ? { x: "distance from axis 1, r", y: "height along axis 1, z" }
+    : { x: "base x", y: "height, base z" };
 }
 
 /**
@@ -51,16 +53,21 @@ export function envelopeChart(input: EnvelopeChartInput): ChartResult {
   const axisTop = side ? null : (input.axis1TopMm ?? null);
 
   const legend: LegendItem[] = [];
-  if (input.wcp && input.wcp.length > 0) legend.push({ kind: "fill", className: "env-wcp", label: "wrist centre point (WCP)" });
+  if (input.wcp && input.wcp.length > 0)
+    legend.push({ kind: "fill", className: "env-wcp", label: "wrist centre point (WCP)" });
   legend.push({ kind: "line", className: "env-flange", label: "flange centre" });
-  if (revolute && (side || axisTop)) legend.push({ kind: "line", className: "axis1", label: side ? "axis 1" : "axis 1 (centre mark)" });
+  if (revolute && (side || axisTop))
+    legend.push({ kind: "line", className: "axis1", label: side ? "axis 1" : "axis 1 (centre mark)" });
   if (drawStated) legend.push({ kind: "line", className: "stated-reach", label: `stated reach ${label(stated)} mm` });
   const rows = legendRows(legend, widthPx - 16);
   const margins = { ...DEFAULT_MARGINS, top: 30 + rows * 17 + 10 };
 
   // Extent: every region, axis 1 and the stated reach.
   const all = [...(input.wcp ?? []), ...input.flange];
-  const box = polygonsExtent(all) ?? [[0, 1], [0, 1]];
+  const box = polygonsExtent(all) ?? [
+    [0, 1],
+    [0, 1],
+  ];
   let [x0, x1] = box[0];
   let [y0, y1] = box[1];
   if (side && revolute) {
@@ -98,12 +105,23 @@ export function envelopeChart(input: EnvelopeChartInput): ChartResult {
   }
   if (side && revolute) {
     const ax = x(0);
-    parts.push(el("line", { class: "axis1", x1: fmt(ax), x2: fmt(ax), y1: fmt(area.top), y2: fmt(area.top + area.height) }));
+    parts.push(
+      el("line", { class: "axis1", x1: fmt(ax), x2: fmt(ax), y1: fmt(area.top), y2: fmt(area.top + area.height) }),
+    );
     parts.push(textEl("axis 1", { class: "mark-label", x: fmt(ax + 4), y: fmt(area.top + 12) }));
     if (x0 < -0.05 * (x1 - x0)) {
-      parts.push(textEl("\u2190 behind axis 1", { class: "mark-label muted", x: fmt(ax - 4), y: fmt(area.top + area.height - 6), "text-anchor": "end" }));
+      parts.push(
+        textEl("\u2190 behind axis 1", {
+          class: "mark-label muted",
+          x: fmt(ax - 4),
+          y: fmt(area.top + area.height - 6),
+          "text-anchor": "end",
+        }),
+      );
     }
-    parts.push(textEl("in front \u2192", { class: "mark-label muted", x: fmt(ax + 4), y: fmt(area.top + area.height - 6) }));
+    parts.push(
+      textEl("in front \u2192", { class: "mark-label muted", x: fmt(ax + 4), y: fmt(area.top + area.height - 6) }),
+    );
   }
   if (!side && axisTop && revolute) {
     const cx = x(axisTop[0]);
@@ -114,8 +132,23 @@ export function envelopeChart(input: EnvelopeChartInput): ChartResult {
   if (drawStated) {
     if (side) {
       const sx = x(stated);
-      parts.push(el("line", { class: "stated-reach", x1: fmt(sx), x2: fmt(sx), y1: fmt(area.top), y2: fmt(area.top + area.height) }));
-      parts.push(textEl(`stated ${label(stated)} mm`, { class: "mark-label", x: fmt(sx - 4), y: fmt(area.top + 12), "text-anchor": "end" }));
+      parts.push(
+        el("line", {
+          class: "stated-reach",
+          x1: fmt(sx),
+          x2: fmt(sx),
+          y1: fmt(area.top),
+          y2: fmt(area.top + area.height),
+        }),
+      );
+      parts.push(
+        textEl(`stated ${label(stated)} mm`, {
+          class: "mark-label",
+          x: fmt(sx - 4),
+          y: fmt(area.top + 12),
+          "text-anchor": "end",
+        }),
+      );
     } else {
       const [ax, ay] = axisTop ?? [0, 0];
       const r = stated * layout.pxPerUnit;
@@ -147,7 +180,10 @@ export function envelopeChart(input: EnvelopeChartInput): ChartResult {
     title,
     description,
     caption,
-    svg: svgRoot({ id: input.id, title, description, widthPx, heightPx: layout.heightPx, className: "chart-envelope" }, parts.join("")),
+    svg: svgRoot(
+      { id: input.id, title, description, widthPx, heightPx: layout.heightPx, className: "chart-envelope" },
+      parts.join(""),
+    ),
     widthPx,
     heightPx: layout.heightPx,
   };

@@ -92,9 +92,16 @@ export function simplifyRing(ring: readonly PointData[], tolerance: number): Poi
   return [...a, ...b.slice(1, -1)];
 }
 
-const pathLine = line<PointData>((p) => p[0], (p) => p[1]).digits(1);
+const pathLine = line<PointData>(
+  (p) => p[0],
+  (p) => p[1],
+).digits(1);
 
-function toPx(points: readonly PointData[], x: ScaleLinear<number, number>, y: ScaleLinear<number, number>): PointData[] {
+function toPx(
+  points: readonly PointData[],
+  x: ScaleLinear<number, number>,
+  y: ScaleLinear<number, number>,
+): PointData[] {
   return points.map((p) => [x(p[0]), y(p[1])] as const);
 }
 
@@ -133,7 +140,10 @@ export function polylinesPath(
 
 /** Bounding box [[xMin, xMax], [yMin, yMax]] of polygons' outer rings; null when empty. */
 export function polygonsExtent(polygons: readonly PolygonData[]): [[number, number], [number, number]] | null {
-  let x0 = Infinity, x1 = -Infinity, y0 = Infinity, y1 = -Infinity;
+  let x0 = Infinity,
+    x1 = -Infinity,
+    y0 = Infinity,
+    y1 = -Infinity;
   for (const p of polygons) {
     for (const [px, py] of p.outer) {
       if (px < x0) x0 = px;
@@ -142,7 +152,12 @@ export function polygonsExtent(polygons: readonly PolygonData[]): [[number, numb
       if (py > y1) y1 = py;
     }
   }
-  return x0 <= x1 ? [[x0, x1], [y0, y1]] : null;
+  return x0 <= x1
+    ? [
+        [x0, x1],
+        [y0, y1],
+      ]
+    : null;
 }
 
 /**
@@ -151,7 +166,11 @@ export function polygonsExtent(polygons: readonly PolygonData[]): [[number, numb
  * as below every threshold, and d3-contour puts the edge toward them through the last valid centre: use
  * `presentRegion` for the outline of the valid cells and `dilateGrid` before contouring values that are clipped to it.
  */
-export function gridBands(grid: GridData, values: readonly (number | null)[], thresholds: readonly number[]): { threshold: number; polygons: PolygonData[] }[] {
+export function gridBands(
+  grid: GridData,
+  values: readonly (number | null)[],
+  thresholds: readonly number[],
+): { threshold: number; polygons: PolygonData[] }[] {
   const { nx, ny, rMinMm, zMinMm, stepMm } = grid;
   if (values.length !== nx * ny) throw new RangeError(`invalid grid: ${values.length} values for ${nx}×${ny}`);
   const numeric = values.map((v) => (v === null ? NaN : v));

@@ -43,7 +43,11 @@ export interface EqualScaleLayout {
  * @example equalScale([0, 1000], [0, 500], { widthPx: 600, maxHeightPx: 600, minHeightPx: 200, margins: m, padShare: 0 })
  *   // pxPerUnit = (600 − m.left − m.right) / 1000; heightPx = 500·pxPerUnit + m.top + m.bottom
  */
-export function equalScale(xExtent: readonly [number, number], yExtent: readonly [number, number], options: EqualScaleOptions): EqualScaleLayout {
+export function equalScale(
+  xExtent: readonly [number, number],
+  yExtent: readonly [number, number],
+  options: EqualScaleOptions,
+): EqualScaleLayout {
   const { maxHeightPx, minHeightPx, margins: m, padShare } = options;
   let widthPx = options.widthPx;
   let [x0, x1] = xExtent;

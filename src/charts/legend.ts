@@ -24,7 +24,12 @@ const ROW_PX = 17;
  * Keys from (x, y) (y = the first row's text baseline) to the right, wrapping within maxWidthPx.
  * @returns the SVG group and the height used, px
  */
-export function legendSvg(items: readonly LegendItem[], x: number, y: number, maxWidthPx: number): { svg: string; heightPx: number } {
+export function legendSvg(
+  items: readonly LegendItem[],
+  x: number,
+  y: number,
+  maxWidthPx: number,
+): { svg: string; heightPx: number } {
   const parts: string[] = [];
   let cx = x;
   let row = 0;
@@ -37,8 +42,21 @@ export function legendSvg(items: readonly LegendItem[], x: number, y: number, ma
     const by = y + row * ROW_PX;
     parts.push(
       item.kind === "fill"
-        ? el("rect", { class: `legend-swatch ${item.className}`, x: fmt(cx), y: fmt(by - 9), width: 22, height: 11, fill: item.patternId ? `url(#${item.patternId})` : undefined })
-        : el("line", { class: `legend-line ${item.className}`, x1: fmt(cx), x2: fmt(cx + 24), y1: fmt(by - 4), y2: fmt(by - 4) }),
+        ? el("rect", {
+            class: `legend-swatch ${item.className}`,
+            x: fmt(cx),
+            y: fmt(by - 9),
+            width: 22,
+            height: 11,
+            fill: item.patternId ? `url(#${item.patternId})` : undefined,
+          })
+        : el("line", {
+            class: `legend-line ${item.className}`,
+            x1: fmt(cx),
+            x2: fmt(cx + 24),
+            y1: fmt(by - 4),
+            y2: fmt(by - 4),
+          }),
     );
     parts.push(textEl(item.label, { class: "legend-label", x: fmt(cx + 30), y: fmt(by) }));
     cx += w;
@@ -86,8 +104,23 @@ export function stepScaleSvg(o: StepScaleOptions): { svg: string; heightPx: numb
   const parts: string[] = [textEl(o.title, { class: "legend-title", x: fmt(o.x), y: fmt(o.y) })];
   const top = o.y + 6;
   for (let i = 0; i < n; i++) {
-    parts.push(el("rect", { class: `scale-box ${o.bandClass(i)}`, x: fmt(o.x + i * boxW), y: fmt(top), width: fmt(boxW), height: 12 }));
-    parts.push(textEl(o.edgeLabel(o.edges[i]!), { class: "tick-label", x: fmt(o.x + i * boxW), y: fmt(top + 25), "text-anchor": i === 0 ? "start" : "middle" }));
+    parts.push(
+      el("rect", {
+        class: `scale-box ${o.bandClass(i)}`,
+        x: fmt(o.x + i * boxW),
+        y: fmt(top),
+        width: fmt(boxW),
+        height: 12,
+      }),
+    );
+    parts.push(
+      textEl(o.edgeLabel(o.edges[i]!), {
+        class: "tick-label",
+        x: fmt(o.x + i * boxW),
+        y: fmt(top + 25),
+        "text-anchor": i === 0 ? "start" : "middle",
+      }),
+    );
   }
   parts.push(textEl("and above", { class: "tick-label", x: fmt(o.x + o.widthPx + 5), y: fmt(top + 10) }));
   return { svg: el("g", { class: "legend step-scale" }, ...parts), heightPx: 36 };

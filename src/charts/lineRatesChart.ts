@@ -63,7 +63,8 @@ export function lineRateClass(i: number): string {
   return `lr-joint lr-joint-${i % LINE_RATE_STYLES}`;
 }
 
-const n = (tag: string, attrs: Readonly<Record<string, AttrValue>>, children?: readonly SvgNode[]): SvgNode => (children ? { tag, attrs, children } : { tag, attrs });
+const n = (tag: string, attrs: Readonly<Record<string, AttrValue>>, children?: readonly SvgNode[]): SvgNode =>
+  children ? { tag, attrs, children } : { tag, attrs };
 const t = (text: string, attrs: Readonly<Record<string, AttrValue>>): SvgNode => ({ tag: "text", attrs, text });
 
 interface Area {
@@ -82,8 +83,12 @@ function axisBottom(x: ScaleLinear<number, number>, area: Area, title: string): 
     parts.push(n("line", { class: "tick", x1: fmt(px), x2: fmt(px), y1: fmt(y0), y2: fmt(y0 + 5) }));
     parts.push(t(tick.text, { class: "tick-label", x: fmt(px), y: fmt(y0 + 17), "text-anchor": "middle" }));
   }
-  parts.push(n("line", { class: "domain", x1: fmt(area.left), x2: fmt(area.left + area.width), y1: fmt(y0), y2: fmt(y0) }));
-  parts.push(t(title, { class: "axis-label", x: fmt(area.left + area.width / 2), y: fmt(y0 + 34), "text-anchor": "middle" }));
+  parts.push(
+    n("line", { class: "domain", x1: fmt(area.left), x2: fmt(area.left + area.width), y1: fmt(y0), y2: fmt(y0) }),
+  );
+  parts.push(
+    t(title, { class: "axis-label", x: fmt(area.left + area.width / 2), y: fmt(y0 + 34), "text-anchor": "middle" }),
+  );
   return n("g", { class: "axis axis-x" }, parts);
 }
 
@@ -91,13 +96,32 @@ function axisLeft(y: ScaleLinear<number, number>, area: Area, title: string): Sv
   const parts: SvgNode[] = [];
   for (const tick of ticksOf(y, 6)) {
     const py = y(tick.value);
-    parts.push(n("line", { class: "grid-line", x1: fmt(area.left), x2: fmt(area.left + area.width), y1: fmt(py), y2: fmt(py) }));
+    parts.push(
+      n("line", { class: "grid-line", x1: fmt(area.left), x2: fmt(area.left + area.width), y1: fmt(py), y2: fmt(py) }),
+    );
     parts.push(n("line", { class: "tick", x1: fmt(area.left - 5), x2: fmt(area.left), y1: fmt(py), y2: fmt(py) }));
     parts.push(t(tick.text, { class: "tick-label", x: fmt(area.left - 8), y: fmt(py + 4), "text-anchor": "end" }));
   }
-  parts.push(n("line", { class: "domain", x1: fmt(area.left), x2: fmt(area.left), y1: fmt(area.top), y2: fmt(area.top + area.height) }));
-  const cx = area.left - 46, cy = area.top + area.height / 2;
-  parts.push(t(title, { class: "axis-label", x: fmt(cx), y: fmt(cy), "text-anchor": "middle", transform: `rotate(-90 ${fmt(cx)} ${fmt(cy)})` }));
+  parts.push(
+    n("line", {
+      class: "domain",
+      x1: fmt(area.left),
+      x2: fmt(area.left),
+      y1: fmt(area.top),
+      y2: fmt(area.top + area.height),
+    }),
+  );
+  const cx = area.left - 46,
+    cy = area.top + area.height / 2;
+  parts.push(
+    t(title, {
+      class: "axis-label",
+      x: fmt(cx),
+      y: fmt(cy),
+      "text-anchor": "middle",
+      transform: `rotate(-90 ${fmt(cx)} ${fmt(cy)})`,
+    }),
+  );
   return n("g", { class: "axis axis-y" }, parts);
 }
 
@@ -105,9 +129,15 @@ function axisLeft(y: ScaleLinear<number, number>, area: Area, title: string): Sv
 const textWidth = (s: string) => s.length * 11.5 * 0.56;
 
 /** Legend of line samples, wrapping within maxWidth; returns the group and the rows used. */
-function legend(items: readonly { className: string; label: string }[], x: number, y: number, maxWidth: number): { node: SvgNode; rows: number } {
+function legend(
+  items: readonly { className: string; label: string }[],
+  x: number,
+  y: number,
+  maxWidth: number,
+): { node: SvgNode; rows: number } {
   const parts: SvgNode[] = [];
-  let cx = x, row = 0;
+  let cx = x,
+    row = 0;
   for (const item of items) {
     const w = 30 + textWidth(item.label) + 14;
     if (cx > x && cx + w > x + maxWidth) {
@@ -115,7 +145,15 @@ function legend(items: readonly { className: string; label: string }[], x: numbe
       cx = x;
     }
     const by = y + row * 17;
-    parts.push(n("line", { class: `legend-line ${item.className}`, x1: fmt(cx), x2: fmt(cx + 24), y1: fmt(by - 4), y2: fmt(by - 4) }));
+    parts.push(
+      n("line", {
+        class: `legend-line ${item.className}`,
+        x1: fmt(cx),
+        x2: fmt(cx + 24),
+        y1: fmt(by - 4),
+        y2: fmt(by - 4),
+      }),
+    );
     parts.push(t(item.label, { class: "legend-label", x: fmt(cx + 30), y: fmt(by) }));
     cx += w;
   }
@@ -123,7 +161,8 @@ function legend(items: readonly { className: string; label: string }[], x: numbe
 }
 
 function legendRowCount(items: readonly { label: string }[], maxWidth: number): number {
-  let cx = 0, rows = items.length ? 1 : 0;
+  let cx = 0,
+    rows = items.length ? 1 : 0;
   for (const item of items) {
     const w = 30 + textWidth(item.label) + 14;
     if (cx > 0 && cx + w > maxWidth) {
@@ -144,7 +183,10 @@ function describe(input: LineRatesChartInput): string {
     return best >= 0 ? `${s.joint} up to ${label(best, 2)}` : `${s.joint} no value`;
   });
   const b = input.bottleneck;
-  const feasible = input.feasibleMmPerS === null ? "not limited by a joint speed" : `${label(input.feasibleMmPerS, input.feasibleMmPerS < 100 ? 1 : 0)} mm/s`;
+  const feasible =
+    input.feasibleMmPerS === null
+      ? "not limited by a joint speed"
+      : `${label(input.feasibleMmPerS, input.feasibleMmPerS < 100 ? 1 : 0)} mm/s`;
   return (
     `Needed joint rate divided by the joint's speed limit at ${speed}, along a ${label(input.lengthMm)} mm line. ` +
     `${peaks.join("; ")}. Largest constant speed ${feasible}` +
@@ -170,7 +212,12 @@ export function lineRatesChartNode(input: LineRatesChartInput): SvgNode {
   const rows = legendRowCount(items, widthPx - 16);
   const margin = { top: 30 + rows * 17 + 12, right: 20, bottom: 46, left: 62 };
   const heightPx = (input.heightPx ?? LINE_RATES_CHART_SIZE.heightPx) + (rows - 1) * 17;
-  const area: Area = { left: margin.left, top: margin.top, width: widthPx - margin.left - margin.right, height: heightPx - margin.top - margin.bottom };
+  const area: Area = {
+    left: margin.left,
+    top: margin.top,
+    width: widthPx - margin.left - margin.right,
+    height: heightPx - margin.top - margin.bottom,
+  };
   if (!(area.width > 0) || !(area.height > 0)) throw new RangeError(`invalid chart size: ${widthPx}×${heightPx}`);
 
   let peak = 0;
@@ -184,16 +231,43 @@ export function lineRatesChartNode(input: LineRatesChartInput): SvgNode {
   const parts: SvgNode[] = [];
   // Out-of-reach stretches first, under everything.
   for (const [a, b] of input.gapsMm) {
-    const x0 = x(Math.max(0, a)), x1 = x(Math.min(input.lengthMm, b));
-    parts.push(n("rect", { class: "lr-gap", x: fmt(x0), y: fmt(area.top), width: fmt(Math.max(1, x1 - x0)), height: fmt(area.height) }));
-    parts.push(t("out of reach", { class: "mark-label muted", x: fmt((x0 + x1) / 2), y: fmt(area.top + 14), "text-anchor": "middle" }));
+    const x0 = x(Math.max(0, a)),
+      x1 = x(Math.min(input.lengthMm, b));
+    parts.push(
+      n("rect", {
+        class: "lr-gap",
+        x: fmt(x0),
+        y: fmt(area.top),
+        width: fmt(Math.max(1, x1 - x0)),
+        height: fmt(area.height),
+      }),
+    );
+    parts.push(
+      t("out of reach", {
+        class: "mark-label muted",
+        x: fmt((x0 + x1) / 2),
+        y: fmt(area.top + 14),
+        "text-anchor": "middle",
+      }),
+    );
   }
   parts.push(axisBottom(x, area, "distance along the line (mm)"));
   parts.push(axisLeft(y, area, `needed rate at ${label(input.speedMmPerS)} mm/s (× limit)`));
   const limitY = y(1);
-  parts.push(n("line", { class: "lr-limit", x1: fmt(area.left), x2: fmt(area.left + area.width), y1: fmt(limitY), y2: fmt(limitY) }));
+  parts.push(
+    n("line", {
+      class: "lr-limit",
+      x1: fmt(area.left),
+      x2: fmt(area.left + area.width),
+      y1: fmt(limitY),
+      y2: fmt(limitY),
+    }),
+  );
 
-  const path = line<number>((_, k) => x(input.positionsMm[k]!), (v) => clampY(v))
+  const path = line<number>(
+    (_, k) => x(input.positionsMm[k]!),
+    (v) => clampY(v),
+  )
     .defined((v) => v !== null && Number.isFinite(v))
     .digits(1);
   let offScale = false;
@@ -203,13 +277,28 @@ export function lineRatesChartNode(input: LineRatesChartInput): SvgNode {
     if (d) parts.push(n("path", { class: lineRateClass(i), d, "data-joint": s.joint }));
   });
   if (offScale) {
-    parts.push(t(`above ${label(yTop, 1)} × limit: off the scale`, { class: "mark-label muted", x: fmt(area.left + area.width - 4), y: fmt(area.top - 4), "text-anchor": "end" }));
+    parts.push(
+      t(`above ${label(yTop, 1)} × limit: off the scale`, {
+        class: "mark-label muted",
+        x: fmt(area.left + area.width - 4),
+        y: fmt(area.top - 4),
+        "text-anchor": "end",
+      }),
+    );
   }
 
   const b = input.bottleneck;
   if (b) {
     const bx = x(Math.min(input.lengthMm, Math.max(0, b.positionMm)));
-    parts.push(n("line", { class: "lr-bottleneck-rule", x1: fmt(bx), x2: fmt(bx), y1: fmt(area.top), y2: fmt(area.top + area.height) }));
+    parts.push(
+      n("line", {
+        class: "lr-bottleneck-rule",
+        x1: fmt(bx),
+        x2: fmt(bx),
+        y1: fmt(area.top),
+        y2: fmt(area.top + area.height),
+      }),
+    );
     const by = b.rateRatio !== null ? clampY(b.rateRatio) : limitY;
     parts.push(n("circle", { class: "lr-bottleneck", cx: fmt(bx), cy: fmt(by), r: 5 }));
     const rightHalf = bx > area.left + area.width / 2;
@@ -249,14 +338,16 @@ export function lineRatesChartNode(input: LineRatesChartInput): SvgNode {
 
 /** Writes a node tree as an SVG string (attributes and text escaped). */
 export function svgNodeToString(node: SvgNode): string {
-  if (node.text !== undefined) return node.tag === "text" ? textEl(node.text, node.attrs) : el(node.tag, node.attrs, escapeXml(node.text));
+  if (node.text !== undefined)
+    return node.tag === "text" ? textEl(node.text, node.attrs) : el(node.tag, node.attrs, escapeXml(node.text));
   return el(node.tag, node.attrs, ...(node.children ?? []).map(svgNodeToString));
 }
 
 /** The chart as the site's other charts return it (build time). */
 export function lineRatesChart(input: LineRatesChartInput, caption: string): ChartResult {
   const node = lineRatesChartNode(input);
-  const widthPx = Number(node.attrs.width), heightPx = Number(node.attrs.height);
+  const widthPx = Number(node.attrs.width),
+    heightPx = Number(node.attrs.height);
   return {
     id: input.id,
     title: input.title,

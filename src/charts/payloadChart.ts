@@ -45,7 +45,11 @@ export const PAYLOAD_CHART_SIZE = { widthPx: 600, heightPx: 360 } as const;
 export function payloadChart(input: PayloadChartInput): ChartResult {
   const widthPx = input.widthPx ?? PAYLOAD_CHART_SIZE.widthPx;
   const offsets = [...new Set(input.rows.map((r) => r.offsetMm))].sort((a, b) => a - b);
-  const legend: LegendItem[] = offsets.map((o, i) => ({ kind: "line", className: seriesClass(i), label: `CG offset ${label(o)} mm` }));
+  const legend: LegendItem[] = offsets.map((o, i) => ({
+    kind: "line",
+    className: seriesClass(i),
+    label: `CG offset ${label(o)} mm`,
+  }));
   legend.push({ kind: "line", className: "rated-line", label: `rated payload ${label(input.ratedPayloadKg, 2)} kg` });
   const rows = legendRows(legend, widthPx - 16);
   const margins = { ...DEFAULT_MARGINS, top: 30 + rows * 17 + 10, right: 70 };
@@ -63,8 +67,13 @@ export function payloadChart(input: PayloadChartInput): ChartResult {
   parts.push(axisBottomSvg(x, area, { label: `flange centre ${reachWords}`, unit: "mm", ticks: 8, grid: true }));
   parts.push(axisLeftSvg(y, area, { label: "payload", unit: "kg", ticks: 6, grid: true }));
   const ry = y(input.ratedPayloadKg);
-  parts.push(el("line", { class: "rated-line", x1: fmt(area.left), x2: fmt(area.left + area.width), y1: fmt(ry), y2: fmt(ry) }));
-  const path = line<PayloadRowData>((r) => x(r.reachMm), (r) => y(r.payloadKg))
+  parts.push(
+    el("line", { class: "rated-line", x1: fmt(area.left), x2: fmt(area.left + area.width), y1: fmt(ry), y2: fmt(ry) }),
+  );
+  const path = line<PayloadRowData>(
+    (r) => x(r.reachMm),
+    (r) => y(r.payloadKg),
+  )
     .defined((r) => r.limitedBy !== "unreachable")
     .digits(1);
   const ends: { y: number; text: string; i: number }[] = [];
@@ -78,11 +87,17 @@ export function payloadChart(input: PayloadChartInput): ChartResult {
   // End labels right of the plot, pushed apart so they do not overlap.
   ends.sort((a, b) => a.y - b.y);
   for (let k = 1; k < ends.length; k++) if (ends[k]!.y - ends[k - 1]!.y < 12) ends[k]!.y = ends[k - 1]!.y + 12;
-  for (const e of ends) parts.push(textEl(e.text, { class: "series-label", x: fmt(area.left + area.width + 6), y: fmt(e.y + 4) }));
+  for (const e of ends)
+    parts.push(textEl(e.text, { class: "series-label", x: fmt(area.left + area.width + 6), y: fmt(e.y + 4) }));
   const allRated = reachable.length > 0 && reachable.every((r) => Math.abs(r.payloadKg - input.ratedPayloadKg) < 1e-9);
   if (allRated) {
     parts.push(
-      textEl("every reach and offset: capped at the rated payload", { class: "mark-label", x: fmt(area.left + area.width / 2), y: fmt(ry + 22), "text-anchor": "middle" }),
+      textEl("every reach and offset: capped at the rated payload", {
+        class: "mark-label",
+        x: fmt(area.left + area.width / 2),
+        y: fmt(ry + 22),
+        "text-anchor": "middle",
+      }),
     );
   }
   parts.push(legendSvg(legend, 8, 40, widthPx - 16).svg);

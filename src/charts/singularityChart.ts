@@ -3,7 +3,15 @@
  * its own colour and dash pattern with a legend, and the cells close to a singularity (low inverse condition) hatched.
  */
 import { axisBottomSvg, axisLeftSvg } from "./axes";
-import { dilateGrid, gridBands, polygonsPath, polylinesPath, presentRegion, type GridData, type PointData } from "./geometry";
+import {
+  dilateGrid,
+  gridBands,
+  polygonsPath,
+  polylinesPath,
+  presentRegion,
+  type GridData,
+  type PointData,
+} from "./geometry";
 import type { EnvelopeLayoutKind } from "./envelopeChart";
 import { MIN_MAP_WIDTH_PX, mappedBox, mappedRect } from "./speedMapChart";
 import { DEFAULT_MARGINS, equalScale } from "./layout";
@@ -65,14 +73,28 @@ export function singularityChart(input: SingularityChartInput): ChartResult {
   const kinds = LOCUS_KINDS.filter((k) => (byKind.get(k)?.length ?? 0) > 0);
 
   const near = input.inverseCondition
-    ? (gridBands(g, dilateGrid(g, input.inverseCondition.map((v) => (v === null ? null : -v))), [-NEAR_SINGULAR_INVERSE_CONDITION])[0]?.polygons ?? [])
+    ? (gridBands(
+        g,
+        dilateGrid(
+          g,
+          input.inverseCondition.map((v) => (v === null ? null : -v)),
+        ),
+        [-NEAR_SINGULAR_INVERSE_CONDITION],
+      )[0]?.polygons ?? [])
     : [];
   const reachedPolys = presentRegion(g, input.reached);
   const reachId = `${input.id}-reached`;
 
-  const legend: LegendItem[] = [{ kind: "fill", className: "reached-region", label: `reached with the ${input.orientationLabel}` }];
+  const legend: LegendItem[] = [
+    { kind: "fill", className: "reached-region", label: `reached with the ${input.orientationLabel}` },
+  ];
   if (near.length > 0) {
-    legend.push({ kind: "fill", className: "near-singular", patternId: hatchId, label: `near a singularity (inverse condition < ${label(NEAR_SINGULAR_INVERSE_CONDITION, 2)})` });
+    legend.push({
+      kind: "fill",
+      className: "near-singular",
+      patternId: hatchId,
+      label: `near a singularity (inverse condition < ${label(NEAR_SINGULAR_INVERSE_CONDITION, 2)})`,
+    });
   }
   for (const k of kinds) legend.push({ kind: "line", className: locusClass(k), label: `${LOCUS_LABEL[k]}` });
   const box = mappedBox(g);
@@ -98,31 +120,68 @@ export function singularityChart(input: SingularityChartInput): ChartResult {
       `${el("line", { class: "hatch-line", x1: 0, y1: 0, x2: 0, y2: 6 })}</pattern>` +
       `<clipPath id="${reachId}">${el("path", { d: reachedD || "M0 0", "clip-rule": "evenodd" })}</clipPath></defs>`,
   );
-  parts.push(axisBottomSvg(x, area, { label: revolute ? "distance from axis 1, r" : "base x", unit: "mm", ticks: 7, grid: true }));
-  parts.push(axisLeftSvg(y, area, { label: revolute ? "height along axis 1, z" : "height, base z", unit: "mm", ticks: 7, grid: true }));
+  parts.push(
+    axisBottomSvg(x, area, {
+      label: revolute ? "distance from axis 1, r" : "base x",
+      unit: "mm",
+      ticks: 7,
+      grid: true,
+    }),
+  );
+  parts.push(
+    axisLeftSvg(y, area, {
+      label: revolute ? "height along axis 1, z" : "height, base z",
+      unit: "mm",
+      ticks: 7,
+      grid: true,
+    }),
+  );
   if (reachedD) parts.push(el("path", { class: "reached-region", d: reachedD, "fill-rule": "evenodd" }));
   const nearD = polygonsPath(near, x, y);
-  if (nearD) parts.push(el("path", { class: "near-singular", d: nearD, "fill-rule": "evenodd", fill: `url(#${hatchId})`, "clip-path": `url(#${reachId})` }));
+  if (nearD)
+    parts.push(
+      el("path", {
+        class: "near-singular",
+        d: nearD,
+        "fill-rule": "evenodd",
+        fill: `url(#${hatchId})`,
+        "clip-path": `url(#${reachId})`,
+      }),
+    );
   if (showAxis1) {
     const ax = x(0);
-    parts.push(el("line", { class: "axis1", x1: fmt(ax), x2: fmt(ax), y1: fmt(area.top), y2: fmt(area.top + area.height) }));
+    parts.push(
+      el("line", { class: "axis1", x1: fmt(ax), x2: fmt(ax), y1: fmt(area.top), y2: fmt(area.top + area.height) }),
+    );
   }
   for (const k of kinds) {
     const d = polylinesPath(byKind.get(k)!, x, y);
     if (d) parts.push(el("path", { class: locusClass(k), d, "data-kind": k }));
   }
   if (kinds.length === 0) {
-    parts.push(textEl("no singular loci inside the reached region", { class: "mark-label", x: fmt(area.left + area.width / 2), y: fmt(area.top + 16), "text-anchor": "middle" }));
+    parts.push(
+      textEl("no singular loci inside the reached region", {
+        class: "mark-label",
+        x: fmt(area.left + area.width / 2),
+        y: fmt(area.top + 16),
+        "text-anchor": "middle",
+      }),
+    );
   }
   parts.push(mappedRect(box, x, y, "mapped-area"));
   parts.push(legendSvg(legend, 8, 40, MIN_MAP_WIDTH_PX - 16).svg);
 
   const title = `${input.armName}: singularities, ${input.orientationShort}`;
-  const kindWords = kinds.length > 0 ? `Loci drawn: ${kinds.map((k) => LOCUS_LABEL[k]).join("; ")}.` : "No singular loci lie inside the reached region.";
+  const kindWords =
+    kinds.length > 0
+      ? `Loci drawn: ${kinds.map((k) => LOCUS_LABEL[k]).join("; ")}.`
+      : "No singular loci lie inside the reached region.";
   const description =
     `Side view of the region the flange centre reaches with the ${input.orientationLabel}. ${kindWords}` +
     (near.length > 0 ? ` Hatched cells are close to a singularity.` : "");
-  const scaleWords = input.lengthScaleMm ? ` (linear rows of the Jacobian divided by ${label(input.lengthScaleMm)} mm)` : "";
+  const scaleWords = input.lengthScaleMm
+    ? ` (linear rows of the Jacobian divided by ${label(input.lengthScaleMm)} mm)`
+    : "";
   const caption =
     `Loci: where det J changes sign along continuous inverse-kinematics solutions, named by the joints that move without moving the tool. ` +
     `Hatched: inverse condition σmin/σmax below ${label(NEAR_SINGULAR_INVERSE_CONDITION, 2)}${scaleWords}, where straight-line speed falls. ` +
@@ -132,7 +191,17 @@ export function singularityChart(input: SingularityChartInput): ChartResult {
     title,
     description,
     caption,
-    svg: svgRoot({ id: input.id, title, description, widthPx: finalWidthPx, heightPx: layout.heightPx, className: "chart-singularity" }, parts.join("")),
+    svg: svgRoot(
+      {
+        id: input.id,
+        title,
+        description,
+        widthPx: finalWidthPx,
+        heightPx: layout.heightPx,
+        className: "chart-singularity",
+      },
+      parts.join(""),
+    ),
     widthPx: finalWidthPx,
     heightPx: layout.heightPx,
   };

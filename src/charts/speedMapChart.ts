@@ -38,12 +38,28 @@ export const MIN_MAP_WIDTH_PX = 470;
 /** The area a grid covers: each cell's square around its node, mm. */
 export function mappedBox(g: GridData): { x0: number; x1: number; y0: number; y1: number } {
   const half = g.stepMm / 2;
-  return { x0: g.rMinMm - half, x1: g.rMinMm + (g.nx - 1) * g.stepMm + half, y0: g.zMinMm - half, y1: g.zMinMm + (g.ny - 1) * g.stepMm + half };
+  return {
+    x0: g.rMinMm - half,
+    x1: g.rMinMm + (g.nx - 1) * g.stepMm + half,
+    y0: g.zMinMm - half,
+    y1: g.zMinMm + (g.ny - 1) * g.stepMm + half,
+  };
 }
 
 /** The mapped area as a <rect> in px. */
-export function mappedRect(box: { x0: number; x1: number; y0: number; y1: number }, x: ScaleLinear<number, number>, y: ScaleLinear<number, number>, className: string): string {
-  return el("rect", { class: className || undefined, x: fmt(x(box.x0)), y: fmt(y(box.y1)), width: fmt(x(box.x1) - x(box.x0)), height: fmt(y(box.y0) - y(box.y1)) });
+export function mappedRect(
+  box: { x0: number; x1: number; y0: number; y1: number },
+  x: ScaleLinear<number, number>,
+  y: ScaleLinear<number, number>,
+  className: string,
+): string {
+  return el("rect", {
+    class: className || undefined,
+    x: fmt(x(box.x0)),
+    y: fmt(y(box.y1)),
+    width: fmt(x(box.x1) - x(box.x0)),
+    height: fmt(y(box.y0) - y(box.y1)),
+  });
 }
 
 /** Edge label of a band: "0.25", "1", "2". */
@@ -70,8 +86,11 @@ export function speedMapChart(input: SpeedMapChartInput): ChartResult {
   const g = input.grid;
   const revolute = input.layout === "revolute-base";
   const box = mappedBox(g);
-  const keys: LegendItem[] = [{ kind: "fill", className: "unreached", label: `blank: not reached with the ${input.orientationLabel}` }];
-  if (input.flangeSide && input.flangeSide.length > 0) keys.push({ kind: "line", className: "env-outline", label: "flange envelope, any orientation" });
+  const keys: LegendItem[] = [
+    { kind: "fill", className: "unreached", label: `blank: not reached with the ${input.orientationLabel}` },
+  ];
+  if (input.flangeSide && input.flangeSide.length > 0)
+    keys.push({ kind: "line", className: "env-outline", label: "flange envelope, any orientation" });
   if (revolute && box.x0 <= 0 && box.x1 >= 0) keys.push({ kind: "line", className: "axis1", label: "axis 1" });
   const keyRows = legendRows(keys, MIN_MAP_WIDTH_PX - 16);
   const margins = { ...DEFAULT_MARGINS, top: 40 + 36 + 10 + keyRows * 17 + 4 };
@@ -94,8 +113,22 @@ export function speedMapChart(input: SpeedMapChartInput): ChartResult {
     `<defs><clipPath id="${clipId}">${mappedRect(box, x, y, "")}</clipPath>` +
       `<clipPath id="${reachId}">${el("path", { d: reachedD || "M0 0", "clip-rule": "evenodd" })}</clipPath></defs>`,
   );
-  parts.push(axisBottomSvg(x, area, { label: revolute ? "distance from axis 1, r" : "base x", unit: "mm", ticks: 7, grid: true }));
-  parts.push(axisLeftSvg(y, area, { label: revolute ? "height along axis 1, z" : "height, base z", unit: "mm", ticks: 7, grid: true }));
+  parts.push(
+    axisBottomSvg(x, area, {
+      label: revolute ? "distance from axis 1, r" : "base x",
+      unit: "mm",
+      ticks: 7,
+      grid: true,
+    }),
+  );
+  parts.push(
+    axisLeftSvg(y, area, {
+      label: revolute ? "height along axis 1, z" : "height, base z",
+      unit: "mm",
+      ticks: 7,
+      grid: true,
+    }),
+  );
 
   const thresholds = SPEED_BANDS_M_PER_S.map((v) => v * 1000);
   // Contours of the values spread one cell outward, clipped to the reached cells: bands run to the cells' borders.
@@ -103,7 +136,15 @@ export function speedMapChart(input: SpeedMapChartInput): ChartResult {
   const bandPaths: string[] = [];
   bands.forEach((band, i) => {
     const d = polygonsPath(band.polygons, x, y);
-    if (d) bandPaths.push(el("path", { class: `speed-band ${speedBandClass(i)}`, d, "fill-rule": "evenodd", "data-band-m-per-s": speedEdgeLabel(SPEED_BANDS_M_PER_S[i]!) }));
+    if (d)
+      bandPaths.push(
+        el("path", {
+          class: `speed-band ${speedBandClass(i)}`,
+          d,
+          "fill-rule": "evenodd",
+          "data-band-m-per-s": speedEdgeLabel(SPEED_BANDS_M_PER_S[i]!),
+        }),
+      );
   });
   const reached = bandPaths.length > 0;
   parts.push(el("g", { class: "speed-bands", "clip-path": `url(#${reachId})` }, ...bandPaths));
@@ -113,7 +154,9 @@ export function speedMapChart(input: SpeedMapChartInput): ChartResult {
   }
   if (revolute && box.x0 <= 0 && box.x1 >= 0) {
     const ax = x(0);
-    parts.push(el("line", { class: "axis1", x1: fmt(ax), x2: fmt(ax), y1: fmt(area.top), y2: fmt(area.top + area.height) }));
+    parts.push(
+      el("line", { class: "axis1", x1: fmt(ax), x2: fmt(ax), y1: fmt(area.top), y2: fmt(area.top + area.height) }),
+    );
   }
   parts.push(mappedRect(box, x, y, "mapped-area"));
 
@@ -133,7 +176,9 @@ export function speedMapChart(input: SpeedMapChartInput): ChartResult {
   for (const v of input.guaranteedMmPerS) if (v !== null && v > max) max = v;
   const title = `${input.armName}: guaranteed line speed, ${input.orientationShort}`;
   const shareText =
-    input.shareAtLeast1 !== undefined && input.shareAtLeast1 !== null ? ` ${label(input.shareAtLeast1 * 100, 1)} % of the reached cells allow at least 1 m/s.` : "";
+    input.shareAtLeast1 !== undefined && input.shareAtLeast1 !== null
+      ? ` ${label(input.shareAtLeast1 * 100, 1)} % of the reached cells allow at least 1 m/s.`
+      : "";
   const description = reached
     ? `Colour map over the side view of the straight-line speed the flange centre reaches in every direction with the ${input.orientationLabel}, in bands from 0 to ${speedEdgeLabel(SPEED_BANDS_M_PER_S.at(-1)!)} m/s and above; highest value ${label(max / 1000, 2)} m/s.${shareText} Blank cells are not reached with this orientation.`
     : `No cell of the side view is reached with the ${input.orientationLabel}.`;
@@ -145,7 +190,10 @@ export function speedMapChart(input: SpeedMapChartInput): ChartResult {
     title,
     description,
     caption,
-    svg: svgRoot({ id: input.id, title, description, widthPx: finalWidthPx, heightPx: layout.heightPx, className: "chart-speed" }, parts.join("")),
+    svg: svgRoot(
+      { id: input.id, title, description, widthPx: finalWidthPx, heightPx: layout.heightPx, className: "chart-speed" },
+      parts.join(""),
+    ),
     widthPx: finalWidthPx,
     heightPx: layout.heightPx,
   };

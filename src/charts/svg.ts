@@ -8,7 +8,9 @@
  * @example escapeXml(`a < b & "c"`) // "a &lt; b &amp; &quot;c&quot;"
  */
 export function escapeXml(text: string): string {
-  return text.replace(/[&<>"']/g, (c) => (c === "&" ? "&amp;" : c === "<" ? "&lt;" : c === ">" ? "&gt;" : c === '"' ? "&quot;" : "&#39;"));
+  return text.replace(/[&<>"']/g, (c) =>
+    c === "&" ? "&amp;" : c === "<" ? "&lt;" : c === ">" ? "&gt;" : c === '"' ? "&quot;" : "&#39;",
+  );
 }
 
 /**
@@ -46,7 +48,11 @@ export function attrs(record: Readonly<Record<string, AttrValue>>): string {
 /**
  * One element: `el("path", { class: "a", d })` → `<path class="a" d="…"/>`; children are SVG strings (not escaped).
  */
-export function el(tag: string, attributes: Readonly<Record<string, AttrValue>>, ...children: readonly string[]): string {
+export function el(
+  tag: string,
+  attributes: Readonly<Record<string, AttrValue>>,
+  ...children: readonly string[]
+): string {
   const body = children.join("");
   return body === "" ? `<${tag}${attrs(attributes)}/>` : `<${tag}${attrs(attributes)}>${body}</${tag}>`;
 }
@@ -93,7 +99,8 @@ export function checkId(id: string): string {
  */
 export function svgRoot(frame: ChartFrame, body: string): string {
   const id = checkId(frame.id);
-  if (!(frame.widthPx > 0) || !(frame.heightPx > 0)) throw new RangeError(`invalid size: ${frame.widthPx}×${frame.heightPx}`);
+  if (!(frame.widthPx > 0) || !(frame.heightPx > 0))
+    throw new RangeError(`invalid size: ${frame.widthPx}×${frame.heightPx}`);
   return (
     `<svg${attrs({
       xmlns: "http://www.w3.org/2000/svg",

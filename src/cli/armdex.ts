@@ -77,7 +77,11 @@ export async function main(argv: string[]): Promise<number> {
   }
   switch (command) {
     case "check": {
-      const { values, positionals } = parseArgs({ args: rest, allowPositionals: true, options: { json: { type: "boolean" } } });
+      const { values, positionals } = parseArgs({
+        args: rest,
+        allowPositionals: true,
+        options: { json: { type: "boolean" } },
+      });
       return check(positionals, values.json ?? false);
     }
     case "pose": {
@@ -103,7 +107,11 @@ export async function main(argv: string[]): Promise<number> {
     }
     case "analyze":
     case "analyse": {
-      const { values, positionals } = parseArgs({ args: rest, allowPositionals: true, options: { all: { type: "boolean" }, workers: { type: "string" } } });
+      const { values, positionals } = parseArgs({
+        args: rest,
+        allowPositionals: true,
+        options: { all: { type: "boolean" }, workers: { type: "string" } },
+      });
       const { analyseCatalog, getAnalysis, getAnalysisSummary } = await import("../catalog/analysis");
       if (values.all) {
         const { arms, issues } = await loadArms(positionals.length ? positionals : [defaultArmsDir()]);
@@ -113,10 +121,16 @@ export async function main(argv: string[]): Promise<number> {
           return 1;
         }
         const t0 = performance.now();
-        const report = await analyseCatalog(arms, { workers: values.workers ? Number(values.workers) : undefined, log: (l) => process.stdout.write(`${l}\n`) });
-        process.stdout.write(`${report.analysed.length} analysed, ${report.cached.length} from the cache, in ${((performance.now() - t0) / 1000).toFixed(1)} s\n`);
+        const report = await analyseCatalog(arms, {
+          workers: values.workers ? Number(values.workers) : undefined,
+          log: (l) => process.stdout.write(`${l}\n`),
+        });
+        process.stdout.write(
+          `${report.analysed.length} analysed, ${report.cached.length} from the cache, in ${((performance.now() - t0) / 1000).toFixed(1)} s\n`,
+        );
         for (const arm of arms) {
-          for (const w of (await getAnalysisSummary(arm)).warnings) process.stdout.write(`warning: ${arm.file}: ${w.message}\n`);
+          for (const w of (await getAnalysisSummary(arm)).warnings)
+            process.stdout.write(`warning: ${arm.file}: ${w.message}\n`);
         }
         return 0;
       }
@@ -134,8 +148,13 @@ export async function main(argv: string[]): Promise<number> {
         args: joinNegativeValues(rest),
         allowPositionals: true,
         options: {
-          from: { type: "string" }, to: { type: "string" }, orientation: { type: "string" }, speed: { type: "string" },
-          "start-joints": { type: "string" }, tool: { type: "string" }, samples: { type: "string" },
+          from: { type: "string" },
+          to: { type: "string" },
+          orientation: { type: "string" },
+          speed: { type: "string" },
+          "start-joints": { type: "string" },
+          tool: { type: "string" },
+          samples: { type: "string" },
         },
       });
       if (positionals.length !== 1) throw new UsageError("line needs exactly one arm file");
@@ -164,7 +183,10 @@ main(process.argv.slice(2)).then(
     process.exitCode = code;
   },
   (e: unknown) => {
-    if (e instanceof UsageError || (e instanceof TypeError && (e as { code?: string }).code?.startsWith("ERR_PARSE_ARGS"))) {
+    if (
+      e instanceof UsageError ||
+      (e instanceof TypeError && (e as { code?: string }).code?.startsWith("ERR_PARSE_ARGS"))
+    ) {
       process.stderr.write(`error: ${e.message}\n\n${HELP}`);
       process.exitCode = 2;
     } else {

@@ -44,7 +44,9 @@ async function cleanup(): Promise<void> {
 async function removeStaleFolders(): Promise<void> {
   const parent = dirname(outDir);
   if (!existsSync(parent)) return;
-  const pattern = new RegExp(`^${basename(outDir).replace(/[.*+?^${}()|[\]\\]/g, "\\$&")}\\.(building|previous)-(\\d+)$`);
+  const pattern = new RegExp(
+    `^${basename(outDir).replace(/[.*+?^${}()|[\]\\]/g, "\\$&")}\\.(building|previous)-(\\d+)$`,
+  );
   for (const name of await readdir(parent)) {
     const m = pattern.exec(name);
     if (!m || Number(m[2]) === process.pid || isAlive(Number(m[2]))) continue;
@@ -90,7 +92,9 @@ async function main(): Promise<number> {
     const code = await run(tsx, [cli, ...step]);
     stepTime(`armdex ${step.join(" ")}`, t0);
     if (code !== 0 || interrupted) {
-      process.stderr.write(`build stopped at "armdex ${step.join(" ")}"; ${existsSync(outDir) ? "the previous site in dist/ is unchanged" : "nothing was published"}\n`);
+      process.stderr.write(
+        `build stopped at "armdex ${step.join(" ")}"; ${existsSync(outDir) ? "the previous site in dist/ is unchanged" : "nothing was published"}\n`,
+      );
       return interrupted ? 130 : code || 1;
     }
   }
@@ -100,7 +104,9 @@ async function main(): Promise<number> {
   stepTime("astro build", t0);
   if (code !== 0 || interrupted) {
     await cleanup();
-    process.stderr.write(`astro build ${interrupted ? "interrupted" : "failed"}; ${existsSync(outDir) ? "the previous site in dist/ is unchanged" : "nothing was published"}\n`);
+    process.stderr.write(
+      `astro build ${interrupted ? "interrupted" : "failed"}; ${existsSync(outDir) ? "the previous site in dist/ is unchanged" : "nothing was published"}\n`,
+    );
     return interrupted ? 130 : code || 1;
   }
   // Swap: the old site moves aside, the new one takes its name, the old one is removed.

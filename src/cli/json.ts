@@ -1,6 +1,7 @@
 /** JSON for people: indented objects, but arrays of numbers (vectors, matrix rows) kept on one line. */
 export function stringifyCompact(value: unknown, indent = "  ", depth = 0): string {
-  const pad = indent.repeat(depth + 1), end = indent.repeat(depth);
+  const pad = indent.repeat(depth + 1),
+    end = indent.repeat(depth);
   if (Array.isArray(value)) {
     if (value.every((v) => typeof v === "number" || v === null)) return JSON.stringify(value);
     if (value.length === 0) return "[]";

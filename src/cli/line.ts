@@ -32,7 +32,8 @@ const VALUE_OPTIONS = new Set(["--from", "--to", "--orientation", "--speed", "--
 export function joinNegativeValues(args: readonly string[]): string[] {
   const out: string[] = [];
   for (let i = 0; i < args.length; i++) {
-    const a = args[i]!, next = args[i + 1];
+    const a = args[i]!,
+      next = args[i + 1];
     if (VALUE_OPTIONS.has(a) && next !== undefined && /^-[\d.]/.test(next)) {
       out.push(`${a}=${next}`);
       i++;
@@ -45,7 +46,8 @@ export function joinNegativeValues(args: readonly string[]): string[] {
 
 /** Rounds every number to 9 significant digits (display only; removes float noise such as 1e-13 mm). */
 function roundDeep(value: unknown): unknown {
-  if (typeof value === "number") return Number.isFinite(value) ? (Math.abs(value) < 1e-9 ? 0 : Number(value.toPrecision(9)) + 0) : null;
+  if (typeof value === "number")
+    return Number.isFinite(value) ? (Math.abs(value) < 1e-9 ? 0 : Number(value.toPrecision(9)) + 0) : null;
   if (Array.isArray(value)) return value.map(roundDeep);
   if (value !== null && typeof value === "object") {
     return Object.fromEntries(Object.entries(value as Record<string, unknown>).map(([k, v]) => [k, roundDeep(v)]));
@@ -73,7 +75,8 @@ export function lineCommand(arm: Arm, args: LineArgs): CommandResult<Record<stri
   if (typeof toMm === "string") return usage(toMm);
   if (fromMm.every((v, i) => v === toMm[i])) return usage("--from and --to are the same point: the line has no length");
   const speed = Number(args.speed.trim());
-  if (args.speed.trim() === "" || !Number.isFinite(speed) || speed <= 0) return usage(`--speed: expected a positive number of mm/s, found ${JSON.stringify(args.speed)}`);
+  if (args.speed.trim() === "" || !Number.isFinite(speed) || speed <= 0)
+    return usage(`--speed: expected a positive number of mm/s, found ${JSON.stringify(args.speed)}`);
   let toolMm = [0, 0, 0];
   if (args.tool !== undefined) {
     const t = parseNumberList(args.tool, "--tool", 3);
@@ -83,15 +86,18 @@ export function lineCommand(arm: Arm, args: LineArgs): CommandResult<Record<stri
   let samples = DEFAULT_LINE_SAMPLES;
   if (args.samples !== undefined) {
     samples = Number(args.samples.trim());
-    if (!Number.isInteger(samples) || samples < 2 || samples > 10_001) return usage(`--samples: expected a whole number from 2 to 10001, found ${JSON.stringify(args.samples)}`);
+    if (!Number.isInteger(samples) || samples < 2 || samples > 10_001)
+      return usage(`--samples: expected a whole number from 2 to 10001, found ${JSON.stringify(args.samples)}`);
   }
   let startJointsSi: number[] | undefined;
   if (args.startJoints !== undefined) {
     const q = parseNumberList(args.startJoints, "--start-joints", m);
-    if (typeof q === "string") return usage(`${q} (driven joints of ${arm.id}: ${driven.map((j) => j.name).join(", ")}; deg or mm)`);
+    if (typeof q === "string")
+      return usage(`${q} (driven joints of ${arm.id}: ${driven.map((j) => j.name).join(", ")}; deg or mm)`);
     startJointsSi = q.map((v, i) => (driven[i]!.kind === "prismatic" ? mmToM(v) : degToRad(v)));
   }
-  const startM = fromMm.map(mmToM), endM = toMm.map(mmToM);
+  const startM = fromMm.map(mmToM),
+    endM = toMm.map(mmToM);
   const mounting = arm.spec.mountings[0] ?? "floor";
   const gravity = gravityDirectionInBase(mounting);
   const text = args.orientation.trim();
@@ -114,7 +120,14 @@ export function lineCommand(arm: Arm, args: LineArgs): CommandResult<Record<stri
   }
   const result: LineCheckResult = lineCheck(
     chain,
-    { startM, endM, baseFromToolRotation: rotation, speedMPerS: mmToM(speed), toolInFlangeM: toolMm.map(mmToM), startJointsSi },
+    {
+      startM,
+      endM,
+      baseFromToolRotation: rotation,
+      speedMPerS: mmToM(speed),
+      toolInFlangeM: toolMm.map(mmToM),
+      startJointsSi,
+    },
     { samples, gravity },
   );
   return {
@@ -124,7 +137,10 @@ export function lineCommand(arm: Arm, args: LineArgs): CommandResult<Record<stri
       specHash: arm.specHash,
       fromMm,
       toMm,
-      orientation: { ...orientation, rotation: [0, 1, 2].map((r) => [rotation[r * 3]!, rotation[r * 3 + 1]!, rotation[r * 3 + 2]!]) },
+      orientation: {
+        ...orientation,
+        rotation: [0, 1, 2].map((r) => [rotation[r * 3]!, rotation[r * 3 + 1]!, rotation[r * 3 + 2]!]),
+      },
       toolMm,
       ...result,
       notes: [

@@ -10,21 +10,34 @@ export function parseNumberList(text: string, label: string, count?: number): nu
   const parts = text.split(",").map((s) => s.trim());
   const values = parts.map(Number);
   const bad = parts.findIndex((p, i) => p === "" || !Number.isFinite(values[i]!));
-  if (bad >= 0) return `${label}: expected numbers separated by commas, found ${JSON.stringify(parts[bad])} at position ${bad + 1}`;
-  if (count !== undefined && values.length !== count) return `${label}: expected ${count} values, found ${values.length}`;
+  if (bad >= 0)
+    return `${label}: expected numbers separated by commas, found ${JSON.stringify(parts[bad])} at position ${bad + 1}`;
+  if (count !== undefined && values.length !== count)
+    return `${label}: expected ${count} values, found ${values.length}`;
   return values;
 }
 
 /** Rounds to a multiple of `step` (removes float noise such as 1e-13 mm without losing meaningful digits). */
-const round = (x: number, step = 1e-9) => (Number.isFinite(x) ? Number(x.toFixed(Math.round(-Math.log10(step)))) + 0 : x);
+const round = (x: number, step = 1e-9) =>
+  Number.isFinite(x) ? Number(x.toFixed(Math.round(-Math.log10(step)))) + 0 : x;
 const roundSig = (x: number) => (Number.isFinite(x) ? Number(x.toPrecision(12)) : x);
 
-export function poseCommand(arm: Arm, jointsText: string, toolText: string | undefined, allowOutside: boolean): CommandResult<Record<string, unknown>> {
+export function poseCommand(
+  arm: Arm,
+  jointsText: string,
+  toolText: string | undefined,
+  allowOutside: boolean,
+): CommandResult<Record<string, unknown>> {
   const chain = arm.chain;
   const m = chain.drivenCount;
   const driven = Array.from(chain.drivenJoint, (k) => arm.spec.joints[k]!);
   const q = parseNumberList(jointsText, "--joints", m);
-  if (typeof q === "string") return { ok: false, usage: true, message: `${q} (driven joints of ${arm.id}: ${driven.map((j) => j.name).join(", ")})` };
+  if (typeof q === "string")
+    return {
+      ok: false,
+      usage: true,
+      message: `${q} (driven joints of ${arm.id}: ${driven.map((j) => j.name).join(", ")})`,
+    };
   let toolMm = [0, 0, 0];
   if (toolText !== undefined) {
     const t = parseNumberList(toolText, "--tool", 3);
@@ -36,19 +49,30 @@ export function poseCommand(arm: Arm, jointsText: string, toolText: string | und
     const j = driven[i]!;
     const prismatic = j.kind === "prismatic";
     const range = prismatic ? j.rangeMm : j.rangeDeg;
-    if (range && (v < range[0] || v > range[1])) outside.push(`${j.name} = ${v} ${prismatic ? "mm" : "deg"} is outside [${range[0]}, ${range[1]}]`);
+    if (range && (v < range[0] || v > range[1]))
+      outside.push(`${j.name} = ${v} ${prismatic ? "mm" : "deg"} is outside [${range[0]}, ${range[1]}]`);
     return prismatic ? mmToM(v) : degToRad(v);
   });
-  if (outside.length && !allowOutside) return { ok: false, message: `${outside.join("; ")} (use --allow-outside to compute anyway)` };
+  if (outside.length && !allowOutside)
+    return { ok: false, message: `${outside.join("; ")} (use --allow-outside to compute anyway)` };
   const r = poseReport(chain, qSi, toolMm.map(mmToM));
   const t = r.baseFromFlange;
   const rpy = rpyOfInto([0, 0, 0], t) as number[];
   const jointFrames = chain.jointNames.map((name, i) => {
     const f = r.linkFrames.subarray(16 * i, 16 * i + 16);
-    return { name, positionMm: [f[3]!, f[7]!, f[11]!].map((v) => round(mToMm(v))), rotation: [0, 1, 2].map((row) => [0, 1, 2].map((c) => round(f[row * 4 + c]!, 1e-12))) };
+    return {
+      name,
+      positionMm: [f[3]!, f[7]!, f[11]!].map((v) => round(mToMm(v))),
+      rotation: [0, 1, 2].map((row) => [0, 1, 2].map((c) => round(f[row * 4 + c]!, 1e-12))),
+    };
   });
   const hasTool = toolMm.some((v) => v !== 0);
-  const sing = singularityReport(chain, r.jacobian, SINGULAR_INVERSE_CONDITION, r.wcpM ? Array.from(r.wcpM, (v, i) => v - r.tcpM[i]!) : undefined);
+  const sing = singularityReport(
+    chain,
+    r.jacobian,
+    SINGULAR_INVERSE_CONDITION,
+    r.wcpM ? Array.from(r.wcpM, (v, i) => v - r.tcpM[i]!) : undefined,
+  );
   return {
     ok: true,
     value: {
@@ -63,15 +87,23 @@ export function poseCommand(arm: Arm, jointsText: string, toolText: string | und
       },
       ...(hasTool ? { tool: { offsetMm: toolMm, positionMm: Array.from(r.tcpM, (v) => round(mToMm(v))) } } : {}),
       ...(r.wcpM ? { wcp: { positionMm: Array.from(r.wcpM, (v) => round(mToMm(v))) } } : {}),
-      jacobian: [0, 1, 2, 3, 4, 5].map((row) => Array.from(r.jacobian.subarray(row * m, row * m + m), (v) => round(v, 1e-12))),
+      jacobian: [0, 1, 2, 3, 4, 5].map((row) =>
+        Array.from(r.jacobian.subarray(row * m, row * m + m), (v) => round(v, 1e-12)),
+      ),
       jacobianNote:
         `6×${m} geometric Jacobian of the ${hasTool ? "tool point" : "flange origin"} in the base frame; rows vx, vy, vz, ωx, ωy, ωz; ` +
         "SI: linear rows in m/s per rad/s (revolute) or per m/s (prismatic), angular rows in rad/s per rad/s.",
       singularValues: Array.from(r.singularValues, (v) => roundSig(v)),
       manipulability: roundSig(r.manipulability),
-      manipulabilityNote: m >= 6 ? "Yoshikawa: sqrt(det(J·Jᵀ)) of the SI Jacobian" : `product of the ${m} singular values, sqrt(det(Jᵀ·J)), since the arm has fewer than 6 driven joints`,
+      manipulabilityNote:
+        m >= 6
+          ? "Yoshikawa: sqrt(det(J·Jᵀ)) of the SI Jacobian"
+          : `product of the ${m} singular values, sqrt(det(Jᵀ·J)), since the arm has fewer than 6 driven joints`,
       conditionNumber: Number.isFinite(r.conditionNumber) ? roundSig(r.conditionNumber) : null,
-      guaranteedLineSpeedMmPerS: round(mToMm(guaranteedLineSpeed(r.jacobian, m, chain.maxSpeedSi, createSpeedScratch(m))), 1e-6),
+      guaranteedLineSpeedMmPerS: round(
+        mToMm(guaranteedLineSpeed(r.jacobian, m, chain.maxSpeedSi, createSpeedScratch(m))),
+        1e-6,
+      ),
       maxToolSpeedMmPerS: round(mToMm(maxToolSpeed(r.jacobian, m, chain.maxSpeedSi, createSpeedScratch(m))), 1e-6),
       speedNote:
         "guaranteed: the straight-line speed of the tool point reachable in every direction at constant orientation with every joint within its speed limit" +

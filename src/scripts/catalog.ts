@@ -68,14 +68,23 @@ function optionValues(form: HTMLFormElement, name: string): string[] {
   return select instanceof HTMLSelectElement ? Array.from(select.options, (o) => o.value).filter((v) => v !== "") : [];
 }
 
-const FILTER_FIELDS: readonly (keyof CatalogFilter)[] = ["class", "mounting", "minPayloadKg", "minReachMm", "heightFromMm", "heightToMm", "minLineSpeedMPerS"];
+const FILTER_FIELDS: readonly (keyof CatalogFilter)[] = [
+  "class",
+  "mounting",
+  "minPayloadKg",
+  "minReachMm",
+  "heightFromMm",
+  "heightToMm",
+  "minLineSpeedMPerS",
+];
 
 /** The form's fields as a query, read by the same parser as the address (one set of rules for both). */
 function formQuery(form: HTMLFormElement): URLSearchParams {
   const q = new URLSearchParams();
   for (const field of FILTER_FIELDS) {
     const el = form.elements.namedItem(CATALOG_QUERY_KEYS[field]);
-    if ((el instanceof HTMLInputElement || el instanceof HTMLSelectElement) && el.value.trim() !== "") q.set(CATALOG_QUERY_KEYS[field], el.value.trim());
+    if ((el instanceof HTMLInputElement || el instanceof HTMLSelectElement) && el.value.trim() !== "")
+      q.set(CATALOG_QUERY_KEYS[field], el.value.trim());
   }
   return q;
 }
@@ -140,7 +149,8 @@ export function mountCatalog(doc: Document): void {
     }
     const sort = state.sort;
     for (const th of headers) {
-      if (sort !== null && sort.key === th.dataset.key) th.setAttribute("aria-sort", sort.dir === "asc" ? "ascending" : "descending");
+      if (sort !== null && sort.key === th.dataset.key)
+        th.setAttribute("aria-sort", sort.dir === "asc" ? "ascending" : "descending");
       else th.removeAttribute("aria-sort");
     }
     if (count) count.textContent = shownText(shown, rows.length);
@@ -150,7 +160,9 @@ export function mountCatalog(doc: Document): void {
     if (pickStatus) {
       const n = state.pick.length;
       pickStatus.textContent =
-        n === 0 ? "No arm ticked." : `${n} arm${n === 1 ? "" : "s"} ticked${hiddenTicks > 0 ? ` (${hiddenTicks} hidden by the filters)` : ""}.`;
+        n === 0
+          ? "No arm ticked."
+          : `${n} arm${n === 1 ? "" : "s"} ticked${hiddenTicks > 0 ? ` (${hiddenTicks} hidden by the filters)` : ""}.`;
     }
     const problem = pickProblem(state.pick);
     if (openButton) openButton.disabled = problem !== null;

@@ -9,7 +9,12 @@
  * State in the address (history.replaceState): arms, the requirements (need-*), the chart choices (point,
  * chart-offset). When everything is drawn (or an error is shown) the <html> element gets data-ready="true".
  */
-import { envelopeOverlayNode, payloadOverlayNode, type EnvelopeOverlayArm, type PayloadOverlayArm } from "../charts/compareCharts";
+import {
+  envelopeOverlayNode,
+  payloadOverlayNode,
+  type EnvelopeOverlayArm,
+  type PayloadOverlayArm,
+} from "../charts/compareCharts";
 import type { SvgNode } from "../charts/nodes";
 import type { CompareArmSummary } from "../view/compareData";
 import { parseArmIds, specRows, speedRows, type CompareRow } from "../view/compareModel";
@@ -28,7 +33,12 @@ import { appendSvgNode, h } from "./dom";
 
 /** Settings from the page (data-compare attribute, JSON). */
 export interface CompareClientConfig {
-  readonly arms: readonly { readonly id: string; readonly name: string; readonly summaryHref: string; readonly sheetHref: string }[];
+  readonly arms: readonly {
+    readonly id: string;
+    readonly name: string;
+    readonly summaryHref: string;
+    readonly sheetHref: string;
+  }[];
 }
 
 const POINT_KEY = "point";
@@ -50,10 +60,24 @@ function chartWidth(container: HTMLElement): number {
 // ---------------------------------------------------------------------------------------------------------------
 // Tables
 
-function compareTable(caption: string, arms: readonly CompareArmSummary[], rows: readonly CompareRow[], className: string): HTMLElement {
+function compareTable(
+  caption: string,
+  arms: readonly CompareArmSummary[],
+  rows: readonly CompareRow[],
+  className: string,
+): HTMLElement {
   const table = h("table", { className: `data-table compare-table ${className}` }, h("caption", { text: caption }));
   const headRow = h("tr", {}, h("th", { text: "", attrs: { scope: "col" } }));
-  arms.forEach((a, i) => headRow.append(h("th", { attrs: { scope: "col", "data-arm": a.id } }, h("span", { className: `arm-key arm-key-${i}`, attrs: { "aria-hidden": "true" } }), a.name)));
+  arms.forEach((a, i) =>
+    headRow.append(
+      h(
+        "th",
+        { attrs: { scope: "col", "data-arm": a.id } },
+        h("span", { className: `arm-key arm-key-${i}`, attrs: { "aria-hidden": "true" } }),
+        a.name,
+      ),
+    ),
+  );
   const body = h("tbody");
   for (const r of rows) {
     const th = h("th", { attrs: { scope: "row" } }, r.label);
@@ -72,46 +96,111 @@ function compareTable(caption: string, arms: readonly CompareArmSummary[], rows:
     body.append(tr);
   }
   table.append(h("thead", {}, headRow), body);
-  return h("div", { className: "table-scroll", attrs: { tabindex: "0", role: "region", "aria-label": caption } }, table);
+  return h(
+    "div",
+    { className: "table-scroll", attrs: { tabindex: "0", role: "region", "aria-label": caption } },
+    table,
+  );
 }
 
 const VERDICT_WORDS: Record<Verdict["status"], string> = { pass: "✓ pass", fail: "✗ fail", undecided: "? not decided" };
-const REQUIREMENT_LABELS: Record<Verdict["key"], string> = { mounting: "Mounting", payload: "Payload at reach", reach: "Reach and height band", speed: "Guaranteed line speed" };
+const REQUIREMENT_LABELS: Record<Verdict["key"], string> = {
+  mounting: "Mounting",
+  payload: "Payload at reach",
+  reach: "Reach and height band",
+  speed: "Guaranteed line speed",
+};
 
 function verdictTable(arms: readonly CompareArmSummary[], verdicts: readonly Verdict[][]): HTMLElement {
   const keys = verdicts[0]?.map((v) => v.key) ?? [];
-  const table = h("table", { className: "data-table compare-table verdict-table" }, h("caption", { text: "Each arm against the requirements" }));
+  const table = h(
+    "table",
+    { className: "data-table compare-table verdict-table" },
+    h("caption", { text: "Each arm against the requirements" }),
+  );
   const headRow = h("tr", {}, h("th", { text: "Requirement", attrs: { scope: "col" } }));
-  arms.forEach((a, i) => headRow.append(h("th", { attrs: { scope: "col", "data-arm": a.id } }, h("span", { className: `arm-key arm-key-${i}`, attrs: { "aria-hidden": "true" } }), a.name)));
+  arms.forEach((a, i) =>
+    headRow.append(
+      h(
+        "th",
+        { attrs: { scope: "col", "data-arm": a.id } },
+        h("span", { className: `arm-key arm-key-${i}`, attrs: { "aria-hidden": "true" } }),
+        a.name,
+      ),
+    ),
+  );
   const body = h("tbody");
   keys.forEach((key, k) => {
-    const tr = h("tr", { attrs: { "data-requirement": key } }, h("th", { text: REQUIREMENT_LABELS[key], attrs: { scope: "row" } }));
+    const tr = h(
+      "tr",
+      { attrs: { "data-requirement": key } },
+      h("th", { text: REQUIREMENT_LABELS[key], attrs: { scope: "row" } }),
+    );
     arms.forEach((a, i) => {
       const v = verdicts[i]![k]!;
-      tr.append(h("td", { className: `verdict verdict-${v.status}`, attrs: { "data-arm": a.id, "data-status": v.status } }, h("strong", { className: "verdict-word", text: VERDICT_WORDS[v.status] }), h("span", { className: "verdict-reason", text: v.reason })));
+      tr.append(
+        h(
+          "td",
+          { className: `verdict verdict-${v.status}`, attrs: { "data-arm": a.id, "data-status": v.status } },
+          h("strong", { className: "verdict-word", text: VERDICT_WORDS[v.status] }),
+          h("span", { className: "verdict-reason", text: v.reason }),
+        ),
+      );
     });
     body.append(tr);
   });
-  const all = h("tr", { className: "verdict-all", attrs: { "data-requirement": "all" } }, h("th", { text: "All asked", attrs: { scope: "row" } }));
+  const all = h(
+    "tr",
+    { className: "verdict-all", attrs: { "data-requirement": "all" } },
+    h("th", { text: "All asked", attrs: { scope: "row" } }),
+  );
   arms.forEach((a, i) => {
     const vs = verdicts[i]!;
-    const status = vs.some((v) => v.status === "fail") ? "fail" : vs.every((v) => v.status === "pass") ? "pass" : "undecided";
-    all.append(h("td", { className: `verdict verdict-${status}`, attrs: { "data-arm": a.id, "data-status": status } }, h("strong", { className: "verdict-word", text: VERDICT_WORDS[status] })));
+    const status = vs.some((v) => v.status === "fail")
+      ? "fail"
+      : vs.every((v) => v.status === "pass")
+        ? "pass"
+        : "undecided";
+    all.append(
+      h(
+        "td",
+        { className: `verdict verdict-${status}`, attrs: { "data-arm": a.id, "data-status": status } },
+        h("strong", { className: "verdict-word", text: VERDICT_WORDS[status] }),
+      ),
+    );
   });
   body.append(all);
   table.append(h("thead", {}, headRow), body);
-  return h("div", { className: "table-scroll", attrs: { tabindex: "0", role: "region", "aria-label": "Requirements, pass or fail per arm" } }, table);
+  return h(
+    "div",
+    {
+      className: "table-scroll",
+      attrs: { tabindex: "0", role: "region", "aria-label": "Requirements, pass or fail per arm" },
+    },
+    table,
+  );
 }
 
 // ---------------------------------------------------------------------------------------------------------------
 // Form
 
-const FIELD_NAMES = ["payload", "cg", "reach-min", "reach-max", "height-min", "height-max", "speed", "tool", "mounting"] as const;
+const FIELD_NAMES = [
+  "payload",
+  "cg",
+  "reach-min",
+  "reach-max",
+  "height-min",
+  "height-max",
+  "speed",
+  "tool",
+  "mounting",
+] as const;
 type FieldName = (typeof FIELD_NAMES)[number];
 
 function field(form: HTMLFormElement, name: FieldName): HTMLInputElement | HTMLSelectElement {
   const el = form.elements.namedItem(name);
-  if (!(el instanceof HTMLInputElement || el instanceof HTMLSelectElement)) throw new Error(`requirements form: no field ${name}`);
+  if (!(el instanceof HTMLInputElement || el instanceof HTMLSelectElement))
+    throw new Error(`requirements form: no field ${name}`);
   return el;
 }
 
@@ -131,7 +220,8 @@ function formPairs(form: HTMLFormElement): Map<string, string> {
 }
 
 function fillForm(form: HTMLFormElement, r: Requirements): void {
-  const set = (name: FieldName, value: number | string | null) => (field(form, name).value = value === null ? "" : String(value));
+  const set = (name: FieldName, value: number | string | null) =>
+    (field(form, name).value = value === null ? "" : String(value));
   set("payload", r.payloadKg);
   set("cg", r.cgOffsetMm === 0 && r.payloadKg === null ? "" : r.cgOffsetMm);
   set("reach-min", r.reachMm?.[0] ?? null);
@@ -178,9 +268,20 @@ function drawEnvelope(root: HTMLElement, state: PageState): void {
   const useWcp = state.point === "wcp";
   const arms: EnvelopeOverlayArm[] = state.arms.map((a) => {
     const wcp = useWcp && a.envelope.wcp && a.envelope.wcp.length > 0 ? a.envelope.wcp : null;
-    return { id: a.id, name: a.name, polygons: wcp ?? a.envelope.flange, ...(useWcp && !wcp ? { note: "(flange centre: no WCP)" } : {}) };
+    return {
+      id: a.id,
+      name: a.name,
+      polygons: wcp ?? a.envelope.flange,
+      ...(useWcp && !wcp ? { note: "(flange centre: no WCP)" } : {}),
+    };
   });
-  const chart = envelopeOverlayNode({ id: "compare-envelope-chart", pointWords: useWcp ? "wrist centre point" : "flange centre", arms, band: band(state.requirements), widthPx: chartWidth(figure) });
+  const chart = envelopeOverlayNode({
+    id: "compare-envelope-chart",
+    pointWords: useWcp ? "wrist centre point" : "flange centre",
+    arms,
+    band: band(state.requirements),
+    widthPx: chartWidth(figure),
+  });
   figure.replaceChildren();
   appendSvgNode(figure, chart);
   figure.append(
@@ -194,7 +295,9 @@ function drawEnvelope(root: HTMLElement, state: PageState): void {
 }
 
 function payloadMountingOf(a: CompareArmSummary, r: Requirements): string {
-  return r.mounting !== null && a.declared.mountings.includes(r.mounting) ? r.mounting : (a.declared.mountings[0] ?? "floor");
+  return r.mounting !== null && a.declared.mountings.includes(r.mounting)
+    ? r.mounting
+    : (a.declared.mountings[0] ?? "floor");
 }
 
 function drawPayload(root: HTMLElement, state: PageState): void {
@@ -208,7 +311,14 @@ function drawPayload(root: HTMLElement, state: PageState): void {
     return { id: a.id, name: a.name, reachMm: s?.reachMm ?? [], payloadKg: s?.payloadKg ?? [], note: `(${mounting})` };
   });
   const r = state.requirements;
-  const chart = payloadOverlayNode({ id: "compare-payload-chart", offsetMm: state.offsetMm, arms, needKg: r.payloadKg, bandMm: r.reachMm, widthPx: chartWidth(figure) });
+  const chart = payloadOverlayNode({
+    id: "compare-payload-chart",
+    offsetMm: state.offsetMm,
+    arms,
+    needKg: r.payloadKg,
+    bandMm: r.reachMm,
+    widthPx: chartWidth(figure),
+  });
   figure.replaceChildren();
   appendSvgNode(figure, chart);
   figure.append(
@@ -225,25 +335,44 @@ function drawVerdicts(root: HTMLElement, state: PageState): void {
   const out = root.querySelector<HTMLElement>("[data-compare-verdicts]");
   if (!out) return;
   if (isEmptyRequirements(state.requirements)) {
-    out.replaceChildren(h("p", { className: "verdict-empty", text: "Fill in what the cell needs and press “Check the arms”: each arm then passes or fails each requirement, with the figures." }));
+    out.replaceChildren(
+      h("p", {
+        className: "verdict-empty",
+        text: "Fill in what the cell needs and press “Check the arms”: each arm then passes or fails each requirement, with the figures.",
+      }),
+    );
     return;
   }
-  const verdicts = state.arms.map((a) => checkRequirements(requirementsArmOf(a), state.requirements, a.speed.mapMounting));
+  const verdicts = state.arms.map((a) =>
+    checkRequirements(requirementsArmOf(a), state.requirements, a.speed.mapMounting),
+  );
   if (verdicts[0]?.length === 0) {
-    out.replaceChildren(h("p", { className: "verdict-empty", text: "The values given do not make a complete requirement yet: payload needs the reach band; reach needs both bands; speed needs both bands." }));
+    out.replaceChildren(
+      h("p", {
+        className: "verdict-empty",
+        text: "The values given do not make a complete requirement yet: payload needs the reach band; reach needs both bands; speed needs both bands.",
+      }),
+    );
     return;
   }
   out.replaceChildren(verdictTable(state.arms, verdicts));
 }
 
-async function loadSummary(href: string, name: string, early: ReadonlyMap<string, Promise<Response>>): Promise<CompareArmSummary> {
+async function loadSummary(
+  href: string,
+  name: string,
+  early: ReadonlyMap<string, Promise<Response>>,
+): Promise<CompareArmSummary> {
   const res = await (early.get(href) ?? fetch(href));
   if (!res.ok) throw new Error(`the figures of ${name} could not be loaded (HTTP ${res.status})`);
   return (await res.json()) as CompareArmSummary;
 }
 
 /** Wires the page. `early`: summary fetches already started by compareStart.ts, by address. */
-export async function mountCompare(root: HTMLElement, early: ReadonlyMap<string, Promise<Response>> = new Map()): Promise<void> {
+export async function mountCompare(
+  root: HTMLElement,
+  early: ReadonlyMap<string, Promise<Response>> = new Map(),
+): Promise<void> {
   const config = JSON.parse(root.dataset.compare ?? "{}") as CompareClientConfig;
   const status = root.querySelector<HTMLElement>("[data-compare-status]");
   const say = (text: string, kind: "info" | "error") => {
@@ -252,7 +381,10 @@ export async function mountCompare(root: HTMLElement, early: ReadonlyMap<string,
     status.dataset.kind = kind;
   };
   const params = new URLSearchParams(location.search);
-  const parsed = parseArmIds(params.get("arms"), config.arms.map((a) => a.id));
+  const parsed = parseArmIds(
+    params.get("arms"),
+    config.arms.map((a) => a.id),
+  );
   if (!parsed.ok) {
     say(parsed.message, "error");
     markReady(root, "error");
@@ -283,7 +415,14 @@ export async function mountCompare(root: HTMLElement, early: ReadonlyMap<string,
   const list = root.querySelector<HTMLElement>("[data-compare-arms]");
   if (list) {
     list.replaceChildren(
-      ...arms.map((a, i) => h("li", { attrs: { "data-arm": a.id } }, h("span", { className: `arm-key arm-key-${i}`, attrs: { "aria-hidden": "true" } }), h("a", { text: a.name, attrs: { href: refs[i]!.sheetHref } }))),
+      ...arms.map((a, i) =>
+        h(
+          "li",
+          { attrs: { "data-arm": a.id } },
+          h("span", { className: `arm-key arm-key-${i}`, attrs: { "aria-hidden": "true" } }),
+          h("a", { text: a.name, attrs: { href: refs[i]!.sheetHref } }),
+        ),
+      ),
     );
   }
 
@@ -299,7 +438,9 @@ export async function mountCompare(root: HTMLElement, early: ReadonlyMap<string,
   }
   const offsetSelect = root.querySelector<HTMLSelectElement>("select[name='chart-offset']");
   if (offsetSelect) {
-    offsetSelect.replaceChildren(...offsets.map((o) => h("option", { text: `${formatNumber(o)} mm`, attrs: { value: String(o) } })));
+    offsetSelect.replaceChildren(
+      ...offsets.map((o) => h("option", { text: `${formatNumber(o)} mm`, attrs: { value: String(o) } })),
+    );
     offsetSelect.value = String(state.offsetMm);
     offsetSelect.addEventListener("change", () => {
       state.offsetMm = Number(offsetSelect.value);
@@ -335,7 +476,8 @@ export async function mountCompare(root: HTMLElement, early: ReadonlyMap<string,
       }, 0);
     });
   }
-  if (formStatus && req.errors.length) formStatus.textContent = `The requirements in the address could not all be read: ${req.errors.join("; ")}.`;
+  if (formStatus && req.errors.length)
+    formStatus.textContent = `The requirements in the address could not all be read: ${req.errors.join("; ")}.`;
 
   // Shown before drawing, so the charts are sized to their figures' widths (a hidden figure measures 0).
   for (const el of root.querySelectorAll<HTMLElement>("[data-compare-section]")) el.hidden = false;
@@ -343,7 +485,9 @@ export async function mountCompare(root: HTMLElement, early: ReadonlyMap<string,
   drawEnvelope(root, state);
   drawPayload(root, state);
   const speedOut = root.querySelector<HTMLElement>("[data-compare-speed]");
-  speedOut?.replaceChildren(compareTable("Speed figures (flange centre, no tool)", arms, speedRows(arms), "speed-table"));
+  speedOut?.replaceChildren(
+    compareTable("Speed figures (flange centre, no tool)", arms, speedRows(arms), "speed-table"),
+  );
   const specOut = root.querySelector<HTMLElement>("[data-compare-spec]");
   specOut?.replaceChildren(compareTable("Declared and computed figures", arms, specRows(arms), "spec-table"));
   say(`${arms.length} arms side by side.`, "info");

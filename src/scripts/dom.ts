@@ -20,7 +20,11 @@ export function appendSvgNode(parent: Element, node: SvgNode): Element {
 }
 
 /** An HTML element with an optional class, text (as textContent), attributes and children. */
-export function h<K extends keyof HTMLElementTagNameMap>(tag: K, props: { className?: string; text?: string; attrs?: Record<string, string> } = {}, ...children: (Node | string)[]): HTMLElementTagNameMap[K] {
+export function h<K extends keyof HTMLElementTagNameMap>(
+  tag: K,
+  props: { className?: string; text?: string; attrs?: Record<string, string> } = {},
+  ...children: (Node | string)[]
+): HTMLElementTagNameMap[K] {
   const el = document.createElement(tag);
   if (props.className) el.className = props.className;
   if (props.text !== undefined) el.textContent = props.text;

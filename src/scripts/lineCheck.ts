@@ -66,7 +66,13 @@ function chainOf(spec: LineCheckSpec): Chain {
 export function runLineCheckForArms(arms: readonly LineCheckArm[], query: LineQuery): ArmLineOutcome[] {
   return arms.map((arm) => {
     const started = performance.now();
-    const fail = (error: string): ArmLineOutcome => ({ id: arm.id, name: arm.name, result: null, error, ms: performance.now() - started });
+    const fail = (error: string): ArmLineOutcome => ({
+      id: arm.id,
+      name: arm.name,
+      result: null,
+      error,
+      ms: performance.now() - started,
+    });
     let chain: Chain;
     try {
       chain = chainOf(arm.spec);
@@ -74,7 +80,9 @@ export function runLineCheckForArms(arms: readonly LineCheckArm[], query: LineQu
       return fail(`The arm description could not be compiled: ${e instanceof Error ? e.message : String(e)}`);
     }
     if (!orientationKindsFor(chain.drivenCount).includes(query.orientation.kind)) {
-      return fail(`This arm has ${chain.drivenCount} driven joints: its tool turns about one axis only, so only the "down" orientation can be checked.`);
+      return fail(
+        `This arm has ${chain.drivenCount} driven joints: its tool turns about one axis only, so only the "down" orientation can be checked.`,
+      );
     }
     try {
       const result = runLineQuery(chain, arm.spec.mountings ?? ["floor"], query);
@@ -88,14 +96,25 @@ export function runLineCheckForArms(arms: readonly LineCheckArm[], query: LineQu
 // ---------------------------------------------------------------------------------------------------------------
 // DOM
 
-function figureRow(term: string, value: string, key: string, extra: Record<string, string> = {}, caveat: string | null = null): HTMLElement {
+function figureRow(
+  term: string,
+  value: string,
+  key: string,
+  extra: Record<string, string> = {},
+  caveat: string | null = null,
+): HTMLElement {
   const dd = h("dd", { text: value, attrs: { "data-key": key, ...extra } });
   if (caveat) dd.append(" ", h("span", { className: "line-caveat", text: `(${caveat})` }));
   return h("div", { className: "line-figure-row" }, h("dt", { text: term }), dd);
 }
 
 /** The result block of one arm. */
-function outcomeBlock(o: ArmLineOutcome, query: LineQuery, ref: LineCheckArmRef | undefined, several: boolean): HTMLElement {
+function outcomeBlock(
+  o: ArmLineOutcome,
+  query: LineQuery,
+  ref: LineCheckArmRef | undefined,
+  several: boolean,
+): HTMLElement {
   const block = h("article", { className: "line-result", attrs: { "data-arm": o.id } });
   if (several) block.append(h("h4", { text: o.name }));
   if (!o.result) {
@@ -104,7 +123,8 @@ function outcomeBlock(o: ArmLineOutcome, query: LineQuery, ref: LineCheckArmRef 
   }
   const r = o.result;
   const f = lineFigures(r);
-  const feasibleExtra: Record<string, string> = f.feasibleMmPerS === null ? {} : { "data-value": String(f.feasibleMmPerS) };
+  const feasibleExtra: Record<string, string> =
+    f.feasibleMmPerS === null ? {} : { "data-value": String(f.feasibleMmPerS) };
   block.append(
     h(
       "dl",
@@ -116,41 +136,82 @@ function outcomeBlock(o: ArmLineOutcome, query: LineQuery, ref: LineCheckArmRef 
       figureRow("Start posture", f.startText, "start"),
     ),
   );
-  if (f.problems.length > 0) block.append(h("ul", { className: "line-problems" }, ...f.problems.map((p) => h("li", { text: p }))));
+  if (f.problems.length > 0)
+    block.append(h("ul", { className: "line-problems" }, ...f.problems.map((p) => h("li", { text: p }))));
   const figure = h("figure", { className: "chart-figure line-chart" });
   const title = several ? `${o.name}: joint rates along the line` : "Joint rates along the line";
   appendSvgNode(figure, lineRatesChartNode(lineRatesChartInput(r, `line-rates-check-${o.id}`, title)));
   figure.append(
-    h(
-      "figcaption",
-      { text: `${orientationWords(query.orientation)}; flange centre as the tool point; ratios at ${formatQuantity(query.speedMmPerS, "mm/s")}. Computed in this browser in ${Math.max(1, Math.round(o.ms))} ms.` },
-    ),
+    h("figcaption", {
+      text: `${orientationWords(query.orientation)}; flange centre as the tool point; ratios at ${formatQuantity(query.speedMmPerS, "mm/s")}. Computed in this browser in ${Math.max(1, Math.round(o.ms))} ms.`,
+    }),
   );
   block.append(figure);
-  if (ref) block.append(h("p", { className: "line-command" }, document.createTextNode("Full JSON: "), h("code", { text: lineCommandText(ref.file, query) })));
+  if (ref)
+    block.append(
+      h(
+        "p",
+        { className: "line-command" },
+        document.createTextNode("Full JSON: "),
+        h("code", { text: lineCommandText(ref.file, query) }),
+      ),
+    );
   return block;
 }
 
 /** Summary table of several arms. */
 function summaryTable(outcomes: readonly ArmLineOutcome[]): HTMLElement {
-  const table = h("table", { className: "data-table line-summary" }, h("caption", { text: "Largest constant speed per arm" }));
-  const head = h("thead", {}, h("tr", {}, h("th", { text: "Arm", attrs: { scope: "col" } }), h("th", { text: "Largest constant speed", attrs: { scope: "col" } }), h("th", { text: "Bottleneck", attrs: { scope: "col" } })));
+  const table = h(
+    "table",
+    { className: "data-table line-summary" },
+    h("caption", { text: "Largest constant speed per arm" }),
+  );
+  const head = h(
+    "thead",
+    {},
+    h(
+      "tr",
+      {},
+      h("th", { text: "Arm", attrs: { scope: "col" } }),
+      h("th", { text: "Largest constant speed", attrs: { scope: "col" } }),
+      h("th", { text: "Bottleneck", attrs: { scope: "col" } }),
+    ),
+  );
   const body = h("tbody");
   for (const o of outcomes) {
     const f = o.result ? lineFigures(o.result) : null;
     body.append(
-      h("tr", { attrs: { "data-arm": o.id } }, h("th", { text: o.name, attrs: { scope: "row" } }), h("td", { text: f ? f.feasibleText : "not checked" }), h("td", { text: f ? f.bottleneckText : (o.error ?? "") })),
+      h(
+        "tr",
+        { attrs: { "data-arm": o.id } },
+        h("th", { text: o.name, attrs: { scope: "row" } }),
+        h("td", { text: f ? f.feasibleText : "not checked" }),
+        h("td", { text: f ? f.bottleneckText : (o.error ?? "") }),
+      ),
     );
   }
   table.append(head, body);
   return h("div", { className: "table-scroll" }, table);
 }
 
-const FIELDS = ["from-x", "from-y", "from-z", "to-x", "to-y", "to-z", "orientation", "roll", "pitch", "yaw", "speed"] as const;
+const FIELDS = [
+  "from-x",
+  "from-y",
+  "from-z",
+  "to-x",
+  "to-y",
+  "to-z",
+  "orientation",
+  "roll",
+  "pitch",
+  "yaw",
+  "speed",
+] as const;
 
 function field(form: HTMLFormElement, name: (typeof FIELDS)[number]): HTMLInputElement | HTMLSelectElement {
   const el = form.elements.namedItem(name);
-  if (!(el instanceof HTMLInputElement || el instanceof HTMLSelectElement)) throw new Error(`line check form: no field ${name}`);
+  if (!(el instanceof HTMLInputElement || el instanceof HTMLSelectElement))
+    throw new Error(`line check form: no field ${name}`);
   return el;
 }
 
@@ -219,7 +280,10 @@ export function mountLineCheck(root: HTMLElement): void {
   let arms: readonly LineCheckArmRef[] = config.arms;
   let skipped = "";
   if (config.armsFromQuery) {
-    const ids = (params.get(COMPARE_ARMS_KEY) ?? "").split(",").map((x) => x.trim()).filter((x) => x !== "");
+    const ids = (params.get(COMPARE_ARMS_KEY) ?? "")
+      .split(",")
+      .map((x) => x.trim())
+      .filter((x) => x !== "");
     const unknown = ids.filter((id) => !config.arms.some((a) => a.id === id));
     arms = [...new Set(ids)].flatMap((id) => config.arms.filter((a) => a.id === id));
     if (unknown.length > 0) skipped = ` No arm has the id ${unknown.map((u) => `"${u}"`).join(", ")}: left out.`;
@@ -257,10 +321,21 @@ export function mountLineCheck(root: HTMLElement): void {
     const started = performance.now();
     const outcomes = runLineCheckForArms(loaded, q);
     const ms = performance.now() - started;
-    const link = h("a", { text: "Link to this check", attrs: { href: urlWithLine(location.href, q, root.id || "line-check"), "data-line-link": "" } });
+    const link = h("a", {
+      text: "Link to this check",
+      attrs: { href: urlWithLine(location.href, q, root.id || "line-check"), "data-line-link": "" },
+    });
     const blocks: Node[] = [h("p", { className: "line-permalink" }, link)];
     if (several) blocks.push(summaryTable(outcomes));
-    for (const o of outcomes) blocks.push(outcomeBlock(o, q, arms.find((a) => a.id === o.id), several));
+    for (const o of outcomes)
+      blocks.push(
+        outcomeBlock(
+          o,
+          q,
+          arms.find((a) => a.id === o.id),
+          several,
+        ),
+      );
     results.replaceChildren(...blocks);
     const failed = outcomes.filter((o) => !o.result).length;
     say(

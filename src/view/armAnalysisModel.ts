@@ -53,7 +53,13 @@ export function reachCheck(analysis: Pick<ArmAnalysis, "reach">): ReachCheck {
   const computedMm = wcp ?? analysis.reach.flangeMaxMm ?? 0;
   const statedMm = analysis.reach.statedMm ?? null;
   const deviation = statedMm !== null && computedMm > 0 ? statedMm / computedMm - 1 : null;
-  return { computedMm, basis: wcp !== null ? "wcp" : "flange", statedMm, deviation, mismatch: deviation !== null && Math.abs(deviation) > REACH_MISMATCH_LIMIT };
+  return {
+    computedMm,
+    basis: wcp !== null ? "wcp" : "flange",
+    statedMm,
+    deviation,
+    mismatch: deviation !== null && Math.abs(deviation) > REACH_MISMATCH_LIMIT,
+  };
 }
 
 /** "+5.2 %", "−0.3 %". */
@@ -102,7 +108,11 @@ export interface ArmAnalysisModel {
     readonly reachText: string;
     readonly notes: readonly string[];
   };
-  readonly speed: { readonly charts: readonly ChartResult[]; readonly table: TableModel; readonly notes: readonly string[] };
+  readonly speed: {
+    readonly charts: readonly ChartResult[];
+    readonly table: TableModel;
+    readonly notes: readonly string[];
+  };
   readonly singularities: { readonly charts: readonly ChartResult[]; readonly notes: readonly string[] };
   readonly payload: {
     readonly basisText: string;
@@ -124,11 +134,14 @@ export interface ArmAnalysisModel {
 }
 
 export const PAYLOAD_BASIS_TEXT: Readonly<Record<string, string>> = {
-  computed: "Computed from the joint torque ratings and link masses in the arm file (\u03c4 = J\u1d40\u00b7F for the payload plus the links\u2019 own weight).",
+  computed:
+    "Computed from the joint torque ratings and link masses in the arm file (\u03c4 = J\u1d40\u00b7F for the payload plus the links\u2019 own weight).",
   "upper-bound-no-link-masses":
     "Upper bound: computed from the joint torque ratings without the links\u2019 own weight, because the arm file gives no link masses.",
-  "upper-bound-missing-torques": "Upper bound: some joints have no torque rating in the arm file, so they do not limit the figures.",
-  "as-rated": "As rated by the maker: the arm file gives no joint torque ratings, so the rated payload is shown over the whole envelope.",
+  "upper-bound-missing-torques":
+    "Upper bound: some joints have no torque rating in the arm file, so they do not limit the figures.",
+  "as-rated":
+    "As rated by the maker: the arm file gives no joint torque ratings, so the rated payload is shown over the whole envelope.",
 };
 
 const LIMITED_BY_TEXT: Readonly<Record<string, string>> = {
@@ -158,7 +171,15 @@ function envelopeSection(arm: Arm, a: ArmAnalysis, name: string): ArmAnalysisMod
   const charts: ChartResult[] = [];
   const stated = a.reach.statedMm ?? null;
   charts.push(
-    envelopeChart({ id: "envelope-side", armName: name, view: "side", layout, wcp: e.wcp?.side ?? null, flange: e.flange.side, statedReachMm: stated }),
+    envelopeChart({
+      id: "envelope-side",
+      armName: name,
+      view: "side",
+      layout,
+      wcp: e.wcp?.side ?? null,
+      flange: e.flange.side,
+      statedReachMm: stated,
+    }),
   );
   const axis = e.axis1;
   const vertical = axis !== null && Math.abs(Math.abs(axis.direction[2]) - 1) < 1e-9;
@@ -177,7 +198,10 @@ function envelopeSection(arm: Arm, a: ArmAnalysis, name: string): ArmAnalysisMod
   const from = revolute ? "from axis 1" : "from the base z axis";
   type Point = NonNullable<typeof e.wcp> | typeof e.flange;
   const points: Point[] = e.wcp ? [e.wcp, e.flange] : [e.flange];
-  const row = (key: string, label: string, f: (p: Point) => TableCell): TableRow => ({ key, cells: [cell(label), ...points.map(f)] });
+  const row = (key: string, label: string, f: (p: Point) => TableCell): TableRow => ({
+    key,
+    cells: [cell(label), ...points.map(f)],
+  });
   const table: TableModel = {
     id: "envelope-table",
     caption: "Envelope figures, computed from the kinematic parameters and joint limits",
@@ -190,12 +214,19 @@ function envelopeSection(arm: Arm, a: ArmAnalysis, name: string): ArmAnalysisMod
     rows: [
       row("max-reach", `Largest reach, ${from}`, (p) => numCell(p.maxReachMm, 0, "mm")),
       row("min-reach", `Smallest reach, ${from}`, (p) => numCell(p.minReachMm, 0, "mm")),
-      row("max-height", revolute ? "Highest point along axis 1" : "Highest point", (p) => numCell(p.maxHeightMm, 0, "mm")),
-      row("min-height", revolute ? "Lowest point along axis 1" : "Lowest point", (p) => numCell(p.minHeightMm, 0, "mm")),
+      row("max-height", revolute ? "Highest point along axis 1" : "Highest point", (p) =>
+        numCell(p.maxHeightMm, 0, "mm"),
+      ),
+      row("min-height", revolute ? "Lowest point along axis 1" : "Lowest point", (p) =>
+        numCell(p.minHeightMm, 0, "mm"),
+      ),
       row("side-area", "Side-view area", (p) => numCell(p.sideAreaM2, 2, "m\u00b2")),
       row("top-area", "Top-view area", (p) => numCell(p.topAreaM2, 2, "m\u00b2")),
       row("volume", revolute ? "Volume swept about axis 1" : "Volume", (p) => numCell(p.volumeM3, 2, "m\u00b3")),
-      row("tolerance", "Boundary accuracy", (p) => ({ text: `\u00b1${formatQuantity(p.toleranceMm, "mm", 1)}`, sortValue: p.toleranceMm })),
+      row("tolerance", "Boundary accuracy", (p) => ({
+        text: `\u00b1${formatQuantity(p.toleranceMm, "mm", 1)}`,
+        sortValue: p.toleranceMm,
+      })),
     ],
   };
   const rc = reachCheck(a);
@@ -207,9 +238,13 @@ function envelopeSection(arm: Arm, a: ArmAnalysis, name: string): ArmAnalysisMod
         `(${formatSignedPercent(rc.deviation ?? 0)}${rc.mismatch ? ", more than 2\u00a0%: check the arm file" : ", within 2\u00a0%"}).`;
   const classNote =
     arm.spec.class === "scara"
-      ? ["SCARA: the side view is the vertical stroke across the band of distances the forearm reaches; the top view is the area the arm sweeps."]
+      ? [
+          "SCARA: the side view is the vertical stroke across the band of distances the forearm reaches; the top view is the area the arm sweeps.",
+        ]
       : layout === "prismatic-base"
-        ? ["The first joint slides: the side view is the projection on the base x\u2013z plane, the top view the projection on the base x\u2013y plane."]
+        ? [
+            "The first joint slides: the side view is the projection on the base x\u2013z plane, the top view the projection on the base x\u2013y plane.",
+          ]
         : [];
   const intro = e.wcp
     ? "Where the wrist centre point and the flange centre can be, within the joint limits of the arm file."
@@ -224,7 +259,11 @@ function sentence(text: string): string {
   return /[.!?]$/.test(first) ? first : `${first}.`;
 }
 
-function speedSection(a: ArmAnalysis, name: string, layout: ArmAnalysis["envelope"]["layout"]): ArmAnalysisModel["speed"] {
+function speedSection(
+  a: ArmAnalysis,
+  name: string,
+  layout: ArmAnalysis["envelope"]["layout"],
+): ArmAnalysisModel["speed"] {
   const maps = a.speed.maps;
   const charts = maps.map((m) => {
     const w = orientationWords(m.orientation);
@@ -241,16 +280,35 @@ function speedSection(a: ArmAnalysis, name: string, layout: ArmAnalysis["envelop
     });
   });
   const share = (key: "0.5" | "1" | "2") => (m: (typeof maps)[number]) => numShare(m.shareAtLeast[key]);
-  const numShare = (v: number | undefined): TableCell => (v === undefined ? { text: NOT_STATED } : { text: formatShare(v), sortValue: v });
-  const rowOf = (key: string, label: string, f: (m: (typeof maps)[number]) => TableCell): TableRow => ({ key, cells: [cell(label), ...maps.map(f)] });
+  const numShare = (v: number | undefined): TableCell =>
+    v === undefined ? { text: NOT_STATED } : { text: formatShare(v), sortValue: v };
+  const rowOf = (key: string, label: string, f: (m: (typeof maps)[number]) => TableCell): TableRow => ({
+    key,
+    cells: [cell(label), ...maps.map(f)],
+  });
   const table: TableModel = {
     id: "speed-table",
     caption: "Speed figures per reference tool orientation, computed from the joint speed limits",
     rowHeaders: true,
-    columns: [{ key: "figure", label: "Figure", numeric: false }, ...maps.map((m) => ({ key: m.orientation, label: sentence(orientationWords(m.orientation).short).replace(/\.$/, ""), numeric: true }))],
+    columns: [
+      { key: "figure", label: "Figure", numeric: false },
+      ...maps.map((m) => ({
+        key: m.orientation,
+        label: sentence(orientationWords(m.orientation).short).replace(/\.$/, ""),
+        numeric: true,
+      })),
+    ],
     rows: [
-      rowOf("max-guaranteed", "Highest guaranteed straight-line speed", (m) => (m.maxGuaranteedMmPerS === null ? dashCell() : { text: formatSpeedMPerS(m.maxGuaranteedMmPerS), sortValue: m.maxGuaranteedMmPerS })),
-      rowOf("max-tool", "Highest tool speed (best direction)", (m) => (m.maxToolSpeedMmPerS === null ? dashCell() : { text: formatSpeedMPerS(m.maxToolSpeedMmPerS), sortValue: m.maxToolSpeedMmPerS })),
+      rowOf("max-guaranteed", "Highest guaranteed straight-line speed", (m) =>
+        m.maxGuaranteedMmPerS === null
+          ? dashCell()
+          : { text: formatSpeedMPerS(m.maxGuaranteedMmPerS), sortValue: m.maxGuaranteedMmPerS },
+      ),
+      rowOf("max-tool", "Highest tool speed (best direction)", (m) =>
+        m.maxToolSpeedMmPerS === null
+          ? dashCell()
+          : { text: formatSpeedMPerS(m.maxToolSpeedMmPerS), sortValue: m.maxToolSpeedMmPerS },
+      ),
       rowOf("share-05", "Share of reached cells, guaranteed \u2265 0.5 m/s", share("0.5")),
       rowOf("share-1", "Share of reached cells, guaranteed \u2265 1 m/s", share("1")),
       rowOf("share-2", "Share of reached cells, guaranteed \u2265 2 m/s", share("2")),
@@ -264,21 +322,34 @@ function speedSection(a: ArmAnalysis, name: string, layout: ArmAnalysis["envelop
     `Maximum tool speed over every map: ${a.speed.maxToolSpeedMmPerS === null ? NOT_STATED : formatSpeedMPerS(a.speed.maxToolSpeedMmPerS)} (the largest speed of the flange centre when every joint runs at its rated speed in the best direction).`,
     `Guaranteed straight-line speed: the speed the flange centre reaches in every direction at constant orientation with every joint within its rated speed; it falls to zero at a singularity.`,
     sentence(a.speed.shareBasis),
-    ...maps.map((m) => `Inverse-kinematics branches kept, ${orientationWords(m.orientation).short}: ${m.branchNames.length > 0 ? m.branchNames.join("; ") : "\u2014"} (the best per cell).`),
+    ...maps.map(
+      (m) =>
+        `Inverse-kinematics branches kept, ${orientationWords(m.orientation).short}: ${m.branchNames.length > 0 ? m.branchNames.join("; ") : "\u2014"} (the best per cell).`,
+    ),
     ...(a.speed.redundancy ? [sentence(`joint rates: ${a.speed.redundancy}`)] : []),
     `Tool point: ${a.speed.tcp}. Maps are drawn on a ${formatNumber(maps[0]?.grid.stepMm ?? a.options.mapStepMm)}\u00a0mm grid; figures use the ${formatNumber(a.options.mapStepMm)}\u00a0mm computation grid.`,
   ];
   return { charts, table, notes };
 }
 
-function singularitySection(a: ArmAnalysis, name: string, layout: ArmAnalysis["envelope"]["layout"]): ArmAnalysisModel["singularities"] {
+function singularitySection(
+  a: ArmAnalysis,
+  name: string,
+  layout: ArmAnalysis["envelope"]["layout"],
+): ArmAnalysisModel["singularities"] {
   const charts = a.speed.maps.map((m) => {
     const w = orientationWords(m.orientation);
     const loci: LocusData[] = a.singularities.loci
       .filter((l) => l.orientation === m.orientation)
       .map((l) => ({
         kind: l.kind,
-        polylinesMm: l.polylinesMm.map((pl) => pl.filter((p): p is [number, number] => p[0] !== null && p[1] !== null && p[0] !== undefined && p[1] !== undefined).map((p) => [p[0], p[1]] as PointData)),
+        polylinesMm: l.polylinesMm.map((pl) =>
+          pl
+            .filter(
+              (p): p is [number, number] => p[0] !== null && p[1] !== null && p[0] !== undefined && p[1] !== undefined,
+            )
+            .map((p) => [p[0], p[1]] as PointData),
+        ),
       }));
     return singularityChart({
       id: `singularity-${m.orientation}`,
@@ -295,7 +366,9 @@ function singularitySection(a: ArmAnalysis, name: string, layout: ArmAnalysis["e
   });
   const notes = [
     ...a.singularities.notes.map(sentence),
-    sentence(`proximity: ${a.singularities.proximity}; length scale ${a.singularities.lengthScaleMm === null ? NOT_STATED : formatQuantity(a.singularities.lengthScaleMm, "mm")}`),
+    sentence(
+      `proximity: ${a.singularities.proximity}; length scale ${a.singularities.lengthScaleMm === null ? NOT_STATED : formatQuantity(a.singularities.lengthScaleMm, "mm")}`,
+    ),
   ];
   return { charts, notes };
 }
@@ -328,9 +401,19 @@ function payloadSection(arm: Arm, a: ArmAnalysis, name: string): ArmAnalysisMode
       rowHeaders: true,
       columns: [
         { key: "reach", label: `Flange centre ${reachWords}`, unit: "mm", numeric: true },
-        ...offsets.map((o) => ({ key: `offset-${o}`, label: `Payload, CG offset ${formatNumber(o)} mm`, unit: "kg", numeric: true })),
+        ...offsets.map((o) => ({
+          key: `offset-${o}`,
+          label: `Payload, CG offset ${formatNumber(o)} mm`,
+          unit: "kg",
+          numeric: true,
+        })),
         { key: "limited-by", label: `What limits it (offset ${formatNumber(first)} mm)`, numeric: false },
-        { key: "ratings-limit", label: `Joint ratings alone (offset ${formatNumber(first)} mm)`, unit: "kg", numeric: true },
+        {
+          key: "ratings-limit",
+          label: `Joint ratings alone (offset ${formatNumber(first)} mm)`,
+          unit: "kg",
+          numeric: true,
+        },
       ],
       rows: mergedPayloadRows(rows, offsets, reaches, first),
       footnote:
@@ -339,17 +422,27 @@ function payloadSection(arm: Arm, a: ArmAnalysis, name: string): ArmAnalysisMode
     };
   });
   const ld = p.loadDiagram;
-  const curves = ld.curves.map((c) => ({ massKg: c.massKg, fractionOfRated: c.fractionOfRated, openEnded: c.openEnded, pointsMm: c.pointsMm.map((q) => [q[0], q[1]] as const) }));
-  const loadDiagram = ld.basis === "wrist-ratings" && curves.some((c) => c.pointsMm.length >= 2)
-    ? loadDiagramChart({ id: "load-diagram", armName: name, curves, ratedPayloadKg: ld.ratedPayloadKg })
-    : null;
+  const curves = ld.curves.map((c) => ({
+    massKg: c.massKg,
+    fractionOfRated: c.fractionOfRated,
+    openEnded: c.openEnded,
+    pointsMm: c.pointsMm.map((q) => [q[0], q[1]] as const),
+  }));
+  const loadDiagram =
+    ld.basis === "wrist-ratings" && curves.some((c) => c.pointsMm.length >= 2)
+      ? loadDiagramChart({ id: "load-diagram", armName: name, curves, ratedPayloadKg: ld.ratedPayloadKg })
+      : null;
   const loadDiagramText =
     ld.basis === "as-rated"
       ? "The arm file gives no wrist moment or inertia ratings: no load diagram; the payload is as rated by the maker."
       : ld.wristAllowsAtZeroOffsetKg === null
         ? "The wrist ratings do not limit the mass with the centre of gravity at the flange centre; the rated payload caps it."
         : `With the centre of gravity at the flange centre, the wrist ratings allow ${formatQuantity(ld.wristAllowsAtZeroOffsetKg, "kg", 1)} (before the cap at the rated ${formatQuantity(ld.ratedPayloadKg, "kg", 2)}).`;
-  const notes = [sentence(p.atReachDetail.convention), ...p.atReachDetail.notes.map(sentence), ...(ld.basis === "wrist-ratings" ? [sentence(ld.convention)] : [])];
+  const notes = [
+    sentence(p.atReachDetail.convention),
+    ...p.atReachDetail.notes.map(sentence),
+    ...(ld.basis === "wrist-ratings" ? [sentence(ld.convention)] : []),
+  ];
   return { basisText, statement: p.statement, charts, tables, loadDiagram, loadDiagramText, notes };
 }
 
@@ -357,20 +450,29 @@ type PayloadRow = ArmAnalysis["payload"]["atReach"][number];
 
 function limitedText(r: PayloadRow | undefined): string {
   if (!r) return "\u2014";
-  return r.limitedBy === "joint-rating" ? `${r.limitingJoint ?? "joint"} rating` : (LIMITED_BY_TEXT[r.limitedBy] ?? r.limitedBy);
+  return r.limitedBy === "joint-rating"
+    ? `${r.limitingJoint ?? "joint"} rating`
+    : (LIMITED_BY_TEXT[r.limitedBy] ?? r.limitedBy);
 }
 
 /**
  * Table rows of payload at reach for one mounting: consecutive reaches whose payloads (every offset) and limit agree
  * are merged into one row "from to mm"; the joint-ratings column then gives its range.
  */
-function mergedPayloadRows(rows: readonly PayloadRow[], offsets: readonly number[], reaches: readonly number[], first: number): TableRow[] {
+function mergedPayloadRows(
+  rows: readonly PayloadRow[],
+  offsets: readonly number[],
+  reaches: readonly number[],
+  first: number,
+): TableRow[] {
   const at = (reach: number, o: number) => rows.find((r) => r.reachMm === reach && r.offsetMm === o);
   const signature = (reach: number) =>
-    offsets.map((o) => {
-      const r = at(reach, o);
-      return r && r.limitedBy !== "unreachable" ? r.payloadKg.toFixed(2) : "-";
-    }).join("|") + `|${limitedText(at(reach, first))}`;
+    offsets
+      .map((o) => {
+        const r = at(reach, o);
+        return r && r.limitedBy !== "unreachable" ? r.payloadKg.toFixed(2) : "-";
+      })
+      .join("|") + `|${limitedText(at(reach, first))}`;
   const groups: number[][] = [];
   for (const reach of reaches) {
     const last = groups.at(-1);
@@ -380,7 +482,9 @@ function mergedPayloadRows(rows: readonly PayloadRow[], offsets: readonly number
   return groups.map((g): TableRow => {
     const r0 = g[0]!;
     const r1 = g.at(-1)!;
-    const limits = g.map((reach) => at(reach, first)).filter((r): r is PayloadRow => r !== undefined && r.torqueLimitKg !== null);
+    const limits = g
+      .map((reach) => at(reach, first))
+      .filter((r): r is PayloadRow => r !== undefined && r.torqueLimitKg !== null);
     const lo = Math.min(...limits.map((r) => r.torqueLimitKg!));
     const hi = Math.max(...limits.map((r) => r.torqueLimitKg!));
     const joints = [...new Set(limits.map((r) => r.torqueLimitJoint).filter((j): j is string => j !== null))];
@@ -397,7 +501,9 @@ function mergedPayloadRows(rows: readonly PayloadRow[], offsets: readonly number
         { text: r0 === r1 ? formatNumber(r0) : `${formatNumber(r0)} to ${formatNumber(r1)}`, sortValue: r0 },
         ...offsets.map((o) => {
           const r = at(r0, o);
-          return r && r.limitedBy !== "unreachable" ? { text: formatNumber(r.payloadKg, 2), sortValue: r.payloadKg } : dashCell();
+          return r && r.limitedBy !== "unreachable"
+            ? { text: formatNumber(r.payloadKg, 2), sortValue: r.payloadKg }
+            : dashCell();
         }),
         { text: limitedText(at(r0, first)) },
         ratings,
@@ -409,11 +515,15 @@ function mergedPayloadRows(rows: readonly PayloadRow[], offsets: readonly number
 function cycleSection(a: ArmAnalysis, name: string): ArmAnalysisModel["cycle"] {
   const c = a.cycle;
   const computed = c.standardCycleS !== null && c.moves.length > 0;
-  const where = c.location ? `centre of the across move at ${formatQuantity(c.location.rMm, "mm")} from axis 1, ${formatQuantity(c.location.zMm, "mm")} high` : null;
+  const where = c.location
+    ? `centre of the across move at ${formatQuantity(c.location.rMm, "mm")} from axis 1, ${formatQuantity(c.location.zMm, "mm")} high`
+    : null;
   const valueText = computed
     ? `${formatQuantity(c.standardCycleS!, "s", 2)} per cycle, set by ${c.limitingJoint ?? "\u2014"}${where ? `; ${where}` : ""}.`
     : `Not computed: ${c.reason ?? "no reason given"}.`;
-  const chart = computed ? cycleChart({ id: "cycle-moves", armName: name, moves: c.moves, totalS: c.standardCycleS! }) : null;
+  const chart = computed
+    ? cycleChart({ id: "cycle-moves", armName: name, moves: c.moves, totalS: c.standardCycleS! })
+    : null;
   const table: TableModel | null = computed
     ? {
         id: "cycle-table",
@@ -426,15 +536,29 @@ function cycleSection(a: ArmAnalysis, name: string): ArmAnalysisModel["cycle"] {
         ],
         rows: c.moves.map((m, i) => ({
           key: `move-${i}`,
-          cells: [{ text: `${m.from} \u2192 ${m.to}` }, { text: formatNumber(m.timeS, 3), sortValue: m.timeS }, { text: m.limitingJoint }],
+          cells: [
+            { text: `${m.from} \u2192 ${m.to}` },
+            { text: formatNumber(m.timeS, 3), sortValue: m.timeS },
+            { text: m.limitingJoint },
+          ],
         })),
       }
     : null;
-  return { valueText, chart, table, assumptions: c.assumptions.map(sentence), reason: computed ? null : (c.reason ?? null) };
+  return {
+    valueText,
+    chart,
+    table,
+    assumptions: c.assumptions.map(sentence),
+    reason: computed ? null : (c.reason ?? null),
+  };
 }
 
 /** Everything the computed sections of an arm sheet show. */
-export function armAnalysisModel(arm: Arm, analysis: ArmAnalysis, options: { readonly baseUrl: string }): ArmAnalysisModel {
+export function armAnalysisModel(
+  arm: Arm,
+  analysis: ArmAnalysis,
+  options: { readonly baseUrl: string },
+): ArmAnalysisModel {
   // Chart titles carry the model name only: the page heading names the maker, and long titles do not fit a chart.
   const name = arm.spec.model;
   const layout = analysis.envelope.layout;
@@ -462,7 +586,8 @@ export function armAnalysisModel(arm: Arm, analysis: ArmAnalysis, options: { rea
     {
       key: "max-tool-speed",
       label: "Maximum tool speed",
-      value: analysis.speed.maxToolSpeedMmPerS === null ? NOT_STATED : formatSpeedMPerS(analysis.speed.maxToolSpeedMmPerS),
+      value:
+        analysis.speed.maxToolSpeedMmPerS === null ? NOT_STATED : formatSpeedMPerS(analysis.speed.maxToolSpeedMmPerS),
       note: "flange centre, every joint at its rated speed, best direction and pose",
       flag: false,
       href: "#speed",
@@ -478,7 +603,8 @@ export function armAnalysisModel(arm: Arm, analysis: ArmAnalysis, options: { rea
     {
       key: "cycle",
       label: "Standard cycle estimate",
-      value: analysis.cycle.standardCycleS === null ? "not computed" : formatQuantity(analysis.cycle.standardCycleS, "s", 2),
+      value:
+        analysis.cycle.standardCycleS === null ? "not computed" : formatQuantity(analysis.cycle.standardCycleS, "s", 2),
       note:
         analysis.cycle.standardCycleS === null
           ? (analysis.cycle.reason ?? "")
@@ -501,9 +627,24 @@ export function armAnalysisModel(arm: Arm, analysis: ArmAnalysis, options: { rea
   ];
   const paths = armDataPaths(arm.id);
   const downloads: DownloadLink[] = [
-    { key: "json", label: "Analysis (JSON)", href: siteHref(options.baseUrl, paths.json), description: "every computed figure, map and curve of this arm, with the spec fingerprint and analysis version" },
-    { key: "payload-csv", label: "Payload at reach (CSV)", href: siteHref(options.baseUrl, paths.payloadCsv), description: "one row per mounting, reach and CG offset" },
-    { key: "joints-csv", label: "Joint table (CSV)", href: siteHref(options.baseUrl, paths.jointsCsv), description: "ranges, speeds, accelerations and ratings as declared" },
+    {
+      key: "json",
+      label: "Analysis (JSON)",
+      href: siteHref(options.baseUrl, paths.json),
+      description: "every computed figure, map and curve of this arm, with the spec fingerprint and analysis version",
+    },
+    {
+      key: "payload-csv",
+      label: "Payload at reach (CSV)",
+      href: siteHref(options.baseUrl, paths.payloadCsv),
+      description: "one row per mounting, reach and CG offset",
+    },
+    {
+      key: "joints-csv",
+      label: "Joint table (CSV)",
+      href: siteHref(options.baseUrl, paths.jointsCsv),
+      description: "ranges, speeds, accelerations and ratings as declared",
+    },
   ];
   return {
     summary,

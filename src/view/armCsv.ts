@@ -10,7 +10,11 @@ import { csvRound, toCsv, type CsvCell } from "./csv";
 /** Site paths of an arm's downloads (relative to the site base). */
 export function armDataPaths(id: string): { json: string; payloadCsv: string; jointsCsv: string } {
   const e = encodeURIComponent(id);
-  return { json: `data/arms/${e}.json`, payloadCsv: `data/arms/${e}/payload.csv`, jointsCsv: `data/arms/${e}/joints.csv` };
+  return {
+    json: `data/arms/${e}.json`,
+    payloadCsv: `data/arms/${e}/payload.csv`,
+    jointsCsv: `data/arms/${e}/joints.csv`,
+  };
 }
 
 export const JOINTS_CSV_HEADER = [

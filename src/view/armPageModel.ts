@@ -4,7 +4,15 @@ import type { ArmAnalysis } from "../core/analysis/analyseArm";
 import { armAnalysisModel, type ArmAnalysisModel } from "./armAnalysisModel";
 import { CAUTIONS, type Cautions } from "./cautions";
 import type { ViewOptions } from "./catalogPageModel";
-import { formatList, formatNumber, formatOptionalQuantity, formatPrice, formatQuantity, formatVector, NOT_STATED } from "./format";
+import {
+  formatList,
+  formatNumber,
+  formatOptionalQuantity,
+  formatPrice,
+  formatQuantity,
+  formatVector,
+  NOT_STATED,
+} from "./format";
 import { jointTable, parameterTable } from "./jointTables";
 import { CLASS_LABEL, CONVENTION_LABEL, MOUNTING_LABEL } from "./labels";
 import { absoluteUrl, armPath, siteHref } from "./links";
@@ -85,7 +93,8 @@ function specTable(arm: Arm): TableModel {
   const wrist = wristDescription(arm);
   return {
     id: "spec-table",
-    caption: "Key figures, each with its basis: declared in the source document, counted from the joint list, or computed from the geometry",
+    caption:
+      "Key figures, each with its basis: declared in the source document, counted from the joint list, or computed from the geometry",
     rowHeaders: true,
     columns: [
       { key: "property", label: "Property", numeric: false },
@@ -99,12 +108,19 @@ function specTable(arm: Arm): TableModel {
       specRow(
         "axes",
         "Driven axes",
-        passive > 0 ? `${formatNumber(arm.chain.drivenCount)} (and ${formatNumber(passive)} passive joint${passive === 1 ? "" : "s"})` : formatNumber(arm.chain.drivenCount),
+        passive > 0
+          ? `${formatNumber(arm.chain.drivenCount)} (and ${formatNumber(passive)} passive joint${passive === 1 ? "" : "s"})`
+          : formatNumber(arm.chain.drivenCount),
         "counted",
       ),
       specRow("payload", "Rated payload", formatQuantity(s.ratedPayloadKg, "kg", 2), "declared"),
       specRow("reach", "Stated reach", formatOptionalQuantity(s.reachMm, "mm"), "declared"),
-      specRow("repeatability", "Pose repeatability RP (ISO 9283)", formatQuantity(s.repeatabilityMm, "mm", 3), "declared"),
+      specRow(
+        "repeatability",
+        "Pose repeatability RP (ISO 9283)",
+        formatQuantity(s.repeatabilityMm, "mm", 3),
+        "declared",
+      ),
       specRow("mass", "Arm mass", formatQuantity(s.massKg, "kg", 1), "declared"),
       specRow("mountings", "Mountings", formatList(s.mountings.map((m) => MOUNTING_LABEL[m])), "declared"),
       specRow("protection", "Protection (IEC 60529)", s.protection, "declared"),
@@ -143,8 +159,17 @@ function wristTable(arm: Arm): TableModel | null {
 function commercialTable(arm: Arm): TableModel | null {
   const c = arm.spec.commercial;
   if (!c) return null;
-  const rows: TableRow[] = [{ key: "price", cells: [{ text: "List price" }, { text: formatPrice(c.listPrice, c.currency) }] }];
-  if (c.leadTimeWeeks !== undefined) rows.push({ key: "lead-time", cells: [{ text: "Lead time" }, { text: formatQuantity(c.leadTimeWeeks, c.leadTimeWeeks === 1 ? "week" : "weeks", 1) }] });
+  const rows: TableRow[] = [
+    { key: "price", cells: [{ text: "List price" }, { text: formatPrice(c.listPrice, c.currency) }] },
+  ];
+  if (c.leadTimeWeeks !== undefined)
+    rows.push({
+      key: "lead-time",
+      cells: [
+        { text: "Lead time" },
+        { text: formatQuantity(c.leadTimeWeeks, c.leadTimeWeeks === 1 ? "week" : "weeks", 1) },
+      ],
+    });
   if (c.quoteRef !== undefined) rows.push({ key: "quote", cells: [{ text: "Quote reference" }, { text: c.quoteRef }] });
   return {
     id: "commercial-table",
@@ -172,7 +197,11 @@ function linkTable(arm: Arm): TableModel | null {
     ],
     rows: links.map((l, i) => ({
       key: `${l.after}-${i}`,
-      cells: [{ text: l.after }, { text: formatNumber(l.massKg, 2), sortValue: l.massKg }, { text: formatVector(l.comMm, 1) }],
+      cells: [
+        { text: l.after },
+        { text: formatNumber(l.massKg, 2), sortValue: l.massKg },
+        { text: formatVector(l.comMm, 1) },
+      ],
     })),
   };
 }

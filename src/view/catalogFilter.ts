@@ -204,7 +204,8 @@ export function rowPasses(row: CatalogRowData, f: CatalogFilter): boolean {
   if (f.mounting !== null && !row.mountings.includes(f.mounting)) return false;
   if (f.minPayloadKg !== null && !(row.payloadKg >= f.minPayloadKg)) return false;
   if (f.minReachMm !== null && !(row.computedReachMm !== null && row.computedReachMm >= f.minReachMm)) return false;
-  if (f.minLineSpeedMPerS !== null && !(row.lineSpeedMPerS !== null && row.lineSpeedMPerS >= f.minLineSpeedMPerS)) return false;
+  if (f.minLineSpeedMPerS !== null && !(row.lineSpeedMPerS !== null && row.lineSpeedMPerS >= f.minLineSpeedMPerS))
+    return false;
   if (f.heightFromMm !== null || f.heightToMm !== null) {
     const a = f.heightFromMm ?? f.heightToMm!;
     const b = f.heightToMm ?? f.heightFromMm!;
@@ -225,11 +226,14 @@ function missing(v: number | string | null | undefined): boolean {
  * numbers); a missing value ("not stated", "not computed") is last in both directions; equal values tie (0).
  */
 export function compareRows(a: CatalogRowData, b: CatalogRowData, sort: CatalogSort): number {
-  const va = a.sort[sort.key], vb = b.sort[sort.key];
-  const ma = missing(va), mb = missing(vb);
+  const va = a.sort[sort.key],
+    vb = b.sort[sort.key];
+  const ma = missing(va),
+    mb = missing(vb);
   if (ma || mb) return ma === mb ? 0 : ma ? 1 : -1;
   const sign = sort.dir === "desc" ? -1 : 1;
-  const ga = a.sortGroup?.[sort.key] ?? "", gb = b.sortGroup?.[sort.key] ?? "";
+  const ga = a.sortGroup?.[sort.key] ?? "",
+    gb = b.sortGroup?.[sort.key] ?? "";
   if (ga !== gb) return collator.compare(ga, gb);
   if (typeof va === "number" && typeof vb === "number") return sign * (va - vb);
   return sign * collator.compare(String(va), String(vb));

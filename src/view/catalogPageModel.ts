@@ -40,7 +40,12 @@ const COLUMNS: readonly TableColumn[] = [
 ];
 
 /** Computed columns, shown when the analyses are given: after the stated reach, and after the mass. */
-const COMPUTED_REACH_COLUMN: TableColumn = { key: "computed-reach", label: "Computed reach", unit: "mm", numeric: true };
+const COMPUTED_REACH_COLUMN: TableColumn = {
+  key: "computed-reach",
+  label: "Computed reach",
+  unit: "mm",
+  numeric: true,
+};
 const COMPUTED_COLUMNS: readonly TableColumn[] = [
   { key: "max-tool-speed", label: "Max tool speed", unit: "m/s", numeric: true },
   { key: "line-speed", label: "Best guaranteed line speed, tool down", unit: "m/s", numeric: true },
@@ -58,13 +63,21 @@ export function bestGuaranteedLineSpeedDownMPerS(analysis: AnalysisSummary): num
   return v === null || v === undefined ? null : v / 1000;
 }
 
-function computedCells(analysis: AnalysisSummary | undefined): { reach: TableCell; stated: TableCell | null; rest: TableCell[] } {
+function computedCells(analysis: AnalysisSummary | undefined): {
+  reach: TableCell;
+  stated: TableCell | null;
+  rest: TableCell[];
+} {
   if (!analysis) {
     const none = { text: "not computed" };
     return { reach: none, stated: null, rest: [none, none, none, none] };
   }
   const rc = reachCheck(analysis);
-  const reach: TableCell = { text: formatNumber(rc.computedMm), note: rc.basis === "wcp" ? "WCP" : "flange", sortValue: rc.computedMm };
+  const reach: TableCell = {
+    text: formatNumber(rc.computedMm),
+    note: rc.basis === "wcp" ? "WCP" : "flange",
+    sortValue: rc.computedMm,
+  };
   const stated: TableCell | null =
     rc.statedMm === null || rc.deviation === null
       ? null
@@ -103,14 +116,21 @@ function plural(n: number, word: string): string {
  * columns (reach, maximum tool speed, share of guaranteed line speed ≥ 1 m/s with the tool down, standard cycle) only
  * when `analyses` (by arm id; summaries or full analyses) is given.
  */
-export function catalogPageModel(arms: readonly Arm[], options: ViewOptions, analyses?: ReadonlyMap<string, AnalysisSummary>): CatalogPageModel {
+export function catalogPageModel(
+  arms: readonly Arm[],
+  options: ViewOptions,
+  analyses?: ReadonlyMap<string, AnalysisSummary>,
+): CatalogPageModel {
   const withPrice = arms.some((a) => a.spec.commercial !== undefined);
   const withComputed = analyses !== undefined;
   const rows: TableRow[] = arms.map((arm) => {
     const s = arm.spec;
     const c = s.commercial;
     const computed = withComputed ? computedCells(analyses.get(arm.id)) : null;
-    const statedCell: TableCell = s.reachMm === undefined ? { text: NOT_STATED } : (computed?.stated ?? { text: formatNumber(s.reachMm), sortValue: s.reachMm });
+    const statedCell: TableCell =
+      s.reachMm === undefined
+        ? { text: NOT_STATED }
+        : (computed?.stated ?? { text: formatNumber(s.reachMm), sortValue: s.reachMm });
     const analysis = analyses?.get(arm.id);
     const line = analysis ? bestGuaranteedLineSpeedDownMPerS(analysis) : null;
     const data: Record<string, string> = {
@@ -141,7 +161,13 @@ export function catalogPageModel(arms: readonly Arm[], options: ViewOptions, ana
         ...(computed ? computed.rest : []),
         { text: formatList(s.mountings.map((m) => MOUNTING_LABEL[m])), sortValue: s.mountings.join(" ") },
         { text: s.protection, sortValue: s.protection },
-        ...(withPrice ? [c ? { text: formatPrice(c.listPrice, c.currency), sortValue: c.listPrice, sortGroup: c.currency } : { text: NOT_STATED }] : []),
+        ...(withPrice
+          ? [
+              c
+                ? { text: formatPrice(c.listPrice, c.currency), sortValue: c.listPrice, sortGroup: c.currency }
+                : { text: NOT_STATED },
+            ]
+          : []),
       ],
     };
   });
@@ -154,7 +180,9 @@ export function catalogPageModel(arms: readonly Arm[], options: ViewOptions, ana
     title: "Catalog",
     countText: `${plural(arms.length, "arm")} from ${plural(makers, "maker")}`,
     filterChoices: {
-      classes: (Object.keys(CLASS_LABEL) as ArmSpec["class"][]).filter((k) => arms.some((a) => a.spec.class === k)).map((k) => ({ value: k, label: CLASS_LABEL[k] })),
+      classes: (Object.keys(CLASS_LABEL) as ArmSpec["class"][])
+        .filter((k) => arms.some((a) => a.spec.class === k))
+        .map((k) => ({ value: k, label: CLASS_LABEL[k] })),
       mountings: (Object.keys(MOUNTING_LABEL) as ArmSpec["mountings"][number][])
         .filter((k) => arms.some((a) => a.spec.mountings.includes(k)))
         .map((k) => ({ value: k, label: MOUNTING_LABEL[k] })),

@@ -30,8 +30,14 @@ export const CAUTIONS: Cautions = {
     "ISO 12100 and ISO/TS 15066; local codes and qualified safety practice decide.",
   standards: [
     { code: "ISO 10218-1", title: "Robotics \u2014 Safety requirements \u2014 Part 1: Industrial robots" },
-    { code: "ISO 10218-2", title: "Robotics \u2014 Safety requirements \u2014 Part 2: Industrial robot applications and robot cells" },
-    { code: "ISO 12100", title: "Safety of machinery \u2014 General principles for design \u2014 Risk assessment and risk reduction" },
+    {
+      code: "ISO 10218-2",
+      title: "Robotics \u2014 Safety requirements \u2014 Part 2: Industrial robot applications and robot cells",
+    },
+    {
+      code: "ISO 12100",
+      title: "Safety of machinery \u2014 General principles for design \u2014 Risk assessment and risk reduction",
+    },
     { code: "ISO/TS 15066", title: "Robots and robotic devices \u2014 Collaborative robots" },
   ],
 };

@@ -42,7 +42,13 @@ export interface CompareSpeedMap {
   /** Share of the reached cells with a guaranteed speed at least 0.5, 1, 2 m/s (keys "0.5", "1", "2"). */
   readonly shareAtLeast: Readonly<Record<string, number>>;
   /** Map nodes: value (ix, iy) at r = rMinMm + ix·stepMm, z = zMinMm + iy·stepMm. */
-  readonly nodes: { readonly nx: number; readonly ny: number; readonly rMinMm: number; readonly zMinMm: number; readonly stepMm: number };
+  readonly nodes: {
+    readonly nx: number;
+    readonly ny: number;
+    readonly rMinMm: number;
+    readonly zMinMm: number;
+    readonly stepMm: number;
+  };
   /** Per node row iy: inclusive column runs [ixFirst, ixLast] of nodes the flange reaches with this orientation. */
   readonly reachedRuns: readonly (readonly (readonly [number, number])[])[];
   readonly blocks: CompareSpeedBlocks;
@@ -104,31 +110,47 @@ export interface CompareArmSummary {
     readonly mapMounting: string;
     readonly maps: readonly CompareSpeedMap[];
   };
-  readonly cycle: { readonly standardCycleS: number | null; readonly limitingJoint: string | null; readonly reason: string | null };
+  readonly cycle: {
+    readonly standardCycleS: number | null;
+    readonly limitingJoint: string | null;
+    readonly reason: string | null;
+  };
 }
 
 const mm = (v: number) => Math.round(v) + 0;
 
-function simplifyPolygons(polygons: readonly { outer: readonly PointData[]; holes: readonly (readonly PointData[])[] }[]): PolygonData[] {
+function simplifyPolygons(
+  polygons: readonly { outer: readonly PointData[]; holes: readonly (readonly PointData[])[] }[],
+): PolygonData[] {
   const ring = (r: readonly PointData[]): PointData[] => {
     const s = simplifyRing(r, COMPARE_ENVELOPE_TOLERANCE_MM).map((p) => [mm(p[0]), mm(p[1])] as const);
     return s.length > 0 ? [...s, s[0]!] : s;
   };
-  return polygons.map((p) => ({ outer: ring(p.outer), holes: p.holes.map(ring).filter((h) => h.length >= 4) })).filter((p) => p.outer.length >= 4);
+  return polygons
+    .map((p) => ({ outer: ring(p.outer), holes: p.holes.map(ring).filter((h) => h.length >= 4) }))
+    .filter((p) => p.outer.length >= 4);
 }
 
 function payloadSeries(rows: ArmAnalysis["payload"]["atReach"]): ComparePayloadSeries[] {
   const keys = [...new Set(rows.map((r) => `${r.mounting}|${r.offsetMm}`))];
   return keys.map((key) => {
     const [mounting = "", offset = "0"] = key.split("|");
-    const own = rows.filter((r) => r.mounting === mounting && r.offsetMm === Number(offset)).sort((p, q) => p.reachMm - q.reachMm);
+    const own = rows
+      .filter((r) => r.mounting === mounting && r.offsetMm === Number(offset))
+      .sort((p, q) => p.reachMm - q.reachMm);
     return {
       mounting,
       offsetMm: Number(offset),
       reachMm: own.map((r) => r.reachMm),
       // Rounded down to the gram: a rounded table never promises more than the analysis.
-      payloadKg: own.map((r) => (r.limitedBy === "unreachable" ? null : Math.floor(r.payloadKg * 1000 + 1e-9) / 1000 + 0)),
-      limit: own.map((r) => (r.limitedBy === "unreachable" ? null : (r.limitingJoint ?? (r.limitedBy === "rated-payload" ? "rated payload" : r.limitedBy)))),
+      payloadKg: own.map((r) =>
+        r.limitedBy === "unreachable" ? null : Math.floor(r.payloadKg * 1000 + 1e-9) / 1000 + 0,
+      ),
+      limit: own.map((r) =>
+        r.limitedBy === "unreachable"
+          ? null
+          : (r.limitingJoint ?? (r.limitedBy === "rated-payload" ? "rated payload" : r.limitedBy)),
+      ),
     };
   });
 }
@@ -155,7 +177,8 @@ export function compactSpeedMap(map: MapJson, blockTargetMm = COMPARE_SPEED_BLOC
     reachedRuns.push(runs);
   }
   const per = Math.max(1, Math.ceil(blockTargetMm / g.stepMm));
-  const bnx = Math.ceil(g.nx / per), bny = Math.ceil(g.ny / per);
+  const bnx = Math.ceil(g.nx / per),
+    bny = Math.ceil(g.ny / per);
   const minMmPerS: (number | null)[] = new Array<number | null>(bnx * bny).fill(null);
   for (let iy = 0; iy < g.ny; iy++) {
     for (let ix = 0; ix < g.nx; ix++) {

@@ -8,23 +8,34 @@ import { formatNumber, formatQuantity, NOT_STATED } from "./format";
 export const MIN_COMPARE_ARMS = 2;
 export const MAX_COMPARE_ARMS = 6;
 
-export type ParsedArmIds = { readonly ok: true; readonly ids: readonly string[] } | { readonly ok: false; readonly message: string; readonly ids: readonly string[] };
+export type ParsedArmIds =
+  | { readonly ok: true; readonly ids: readonly string[] }
+  | { readonly ok: false; readonly message: string; readonly ids: readonly string[] };
 
 /**
  * The arm ids of `?arms=a,b,c`: known ids in the address's order, duplicates dropped; 2 to 6 of them.
  * @example parseArmIds("a,b", ["a", "b", "c"]) // { ok: true, ids: ["a", "b"] }
  */
 export function parseArmIds(text: string | null, validIds: readonly string[]): ParsedArmIds {
-  const asked = (text ?? "").split(",").map((s) => s.trim()).filter((s) => s !== "");
+  const asked = (text ?? "")
+    .split(",")
+    .map((s) => s.trim())
+    .filter((s) => s !== "");
   const ids = [...new Set(asked)];
   const unknown = ids.filter((id) => !validIds.includes(id));
   const known = ids.filter((id) => validIds.includes(id));
   const valid = `Valid ids: ${validIds.join(", ")}.`;
   const problems: string[] = [];
   if (unknown.length > 0) problems.push(`No arm has the id ${unknown.map((u) => `"${u}"`).join(", ")}.`);
-  if (ids.length < MIN_COMPARE_ARMS) problems.push(`Choose at least ${MIN_COMPARE_ARMS} arms (the address names ${ids.length === 0 ? "none" : ids.length}): ?arms=<id>,<id>.`);
-  if (ids.length > MAX_COMPARE_ARMS) problems.push(`Choose at most ${MAX_COMPARE_ARMS} arms (the address names ${ids.length}).`);
-  return problems.length > 0 ? { ok: false, message: `${problems.join(" ")} ${valid}`, ids: known } : { ok: true, ids: known };
+  if (ids.length < MIN_COMPARE_ARMS)
+    problems.push(
+      `Choose at least ${MIN_COMPARE_ARMS} arms (the address names ${ids.length === 0 ? "none" : ids.length}): ?arms=<id>,<id>.`,
+    );
+  if (ids.length > MAX_COMPARE_ARMS)
+    problems.push(`Choose at most ${MAX_COMPARE_ARMS} arms (the address names ${ids.length}).`);
+  return problems.length > 0
+    ? { ok: false, message: `${problems.join(" ")} ${valid}`, ids: known }
+    : { ok: true, ids: known };
 }
 
 export type Better = "higher" | "lower";
@@ -56,33 +67,137 @@ export function bestFlags(values: readonly (number | null)[], better: Better | n
   return values.map((v) => v !== null && v === best);
 }
 
-function row(key: string, label: string, better: Better | null, bestMeans: string | null, values: readonly (number | null)[], text: (v: number | null, i: number) => string): CompareRow {
+function row(
+  key: string,
+  label: string,
+  better: Better | null,
+  bestMeans: string | null,
+  values: readonly (number | null)[],
+  text: (v: number | null, i: number) => string,
+): CompareRow {
   const flags = bestFlags(values, better);
-  return { key, label, bestMeans: better ? bestMeans : null, cells: values.map((v, i) => ({ text: text(v, i), value: v, best: flags[i]! })) };
+  return {
+    key,
+    label,
+    bestMeans: better ? bestMeans : null,
+    cells: values.map((v, i) => ({ text: text(v, i), value: v, best: flags[i]! })),
+  };
 }
 
-const q = (unit: string, digits = 0) => (v: number | null) => (v === null ? NOT_STATED : formatQuantity(v, unit, digits));
+const q =
+  (unit: string, digits = 0) =>
+  (v: number | null) =>
+    v === null ? NOT_STATED : formatQuantity(v, unit, digits);
 
 /** The declared and computed figures, one column per arm. */
 export function specRows(arms: readonly CompareArmSummary[]): CompareRow[] {
   const d = arms.map((a) => a.declared);
   const sameCurrency = new Set(d.map((x) => x.currency).filter((c) => c !== null)).size === 1;
   return [
-    row("maker", "Maker", null, null, arms.map(() => null), (_, i) => arms[i]!.maker),
-    row("class", "Class", null, null, arms.map(() => null), (_, i) => arms[i]!.class),
-    row("axes", "Driven axes", null, null, arms.map((a) => a.drivenAxes), (v) => formatNumber(v ?? 0)),
-    row("payload", "Rated payload", "higher", "highest rated payload", d.map((x) => x.ratedPayloadKg), q("kg", 2)),
-    row("reach", "Stated reach", null, null, d.map((x) => x.reachMm), q("mm")),
-    row("computed-reach", "Computed reach", null, null, arms.map((a) => a.reach.computedMm), (v, i) => (v === null ? NOT_STATED : `${formatQuantity(v, "mm")} (${arms[i]!.reach.basis.startsWith("wrist") ? "WCP" : "flange"})`)),
-    row("height", "Height range", null, null, arms.map(() => null), (_, i) => {
-      const r = arms[i]!.reach;
-      return r.minHeightMm === null || r.maxHeightMm === null ? NOT_STATED : `${formatNumber(r.minHeightMm)} to ${formatQuantity(r.maxHeightMm, "mm")}`;
-    }),
-    row("repeatability", "Repeatability (declared, ISO 9283 RP)", "lower", "lowest (tightest) repeatability figure", d.map((x) => x.repeatabilityMm), (v) => (v === null ? NOT_STATED : `±${formatQuantity(v, "mm", 3)}`)),
-    row("mass", "Arm mass", "lower", "lightest arm", d.map((x) => x.massKg), q("kg", 1)),
-    row("protection", "Protection", null, null, arms.map(() => null), (_, i) => d[i]!.protection ?? NOT_STATED),
-    row("mountings", "Mountings", null, null, arms.map(() => null), (_, i) => d[i]!.mountings.join(", ")),
-    row("price", "List price", sameCurrency ? "lower" : null, "lowest list price (one currency)", d.map((x) => x.listPrice), (v, i) => (v === null ? NOT_STATED : `${formatNumber(v)} ${d[i]!.currency ?? ""}`.trim())),
+    row(
+      "maker",
+      "Maker",
+      null,
+      null,
+      arms.map(() => null),
+      (_, i) => arms[i]!.maker,
+    ),
+    row(
+      "class",
+      "Class",
+      null,
+      null,
+      arms.map(() => null),
+      (_, i) => arms[i]!.class,
+    ),
+    row(
+      "axes",
+      "Driven axes",
+      null,
+      null,
+      arms.map((a) => a.drivenAxes),
+      (v) => formatNumber(v ?? 0),
+    ),
+    row(
+      "payload",
+      "Rated payload",
+      "higher",
+      "highest rated payload",
+      d.map((x) => x.ratedPayloadKg),
+      q("kg", 2),
+    ),
+    row(
+      "reach",
+      "Stated reach",
+      null,
+      null,
+      d.map((x) => x.reachMm),
+      q("mm"),
+    ),
+    row(
+      "computed-reach",
+      "Computed reach",
+      null,
+      null,
+      arms.map((a) => a.reach.computedMm),
+      (v, i) =>
+        v === null
+          ? NOT_STATED
+          : `${formatQuantity(v, "mm")} (${arms[i]!.reach.basis.startsWith("wrist") ? "WCP" : "flange"})`,
+    ),
+    row(
+      "height",
+      "Height range",
+      null,
+      null,
+      arms.map(() => null),
+      (_, i) => {
+        const r = arms[i]!.reach;
+        return r.minHeightMm === null || r.maxHeightMm === null
+          ? NOT_STATED
+          : `${formatNumber(r.minHeightMm)} to ${formatQuantity(r.maxHeightMm, "mm")}`;
+      },
+    ),
+    row(
+      "repeatability",
+      "Repeatability (declared, ISO 9283 RP)",
+      "lower",
+      "lowest (tightest) repeatability figure",
+      d.map((x) => x.repeatabilityMm),
+      (v) => (v === null ? NOT_STATED : `±${formatQuantity(v, "mm", 3)}`),
+    ),
+    row(
+      "mass",
+      "Arm mass",
+      "lower",
+      "lightest arm",
+      d.map((x) => x.massKg),
+      q("kg", 1),
+    ),
+    row(
+      "protection",
+      "Protection",
+      null,
+      null,
+      arms.map(() => null),
+      (_, i) => d[i]!.protection ?? NOT_STATED,
+    ),
+    row(
+      "mountings",
+      "Mountings",
+      null,
+      null,
+      arms.map(() => null),
+      (_, i) => d[i]!.mountings.join(", "),
+    ),
+    row(
+      "price",
+      "List price",
+      sameCurrency ? "lower" : null,
+      "lowest list price (one currency)",
+      d.map((x) => x.listPrice),
+      (v, i) => (v === null ? NOT_STATED : `${formatNumber(v)} ${d[i]!.currency ?? ""}`.trim()),
+    ),
   ];
 }
 
@@ -92,22 +207,50 @@ const share = (v: number | null) => (v === null ? "no map" : `${formatNumber(v *
 /** Speed figures: maximum tool speed, shares of the side view at ≥ 0.5, 1, 2 m/s per orientation, standard cycle. */
 export function speedRows(arms: readonly CompareArmSummary[]): CompareRow[] {
   const rows: CompareRow[] = [
-    row("max-tool-speed", "Maximum tool speed (any pose, all joints at their limits)", "higher", "highest maximum tool speed", arms.map((a) => a.speed.maxToolSpeedMmPerS), mPerS),
+    row(
+      "max-tool-speed",
+      "Maximum tool speed (any pose, all joints at their limits)",
+      "higher",
+      "highest maximum tool speed",
+      arms.map((a) => a.speed.maxToolSpeedMmPerS),
+      mPerS,
+    ),
   ];
   for (const orientation of ["down", "outward"] as const) {
     const maps = arms.map((a) => a.speed.maps.find((m) => m.orientation === orientation) ?? null);
     if (maps.every((m) => m === null)) continue;
     const words = orientation === "down" ? "tool down" : "tool outward";
-    rows.push(row(`max-guaranteed-${orientation}`, `Highest guaranteed line speed, ${words}`, "higher", "highest", maps.map((m) => m?.maxGuaranteedMmPerS ?? null), mPerS));
+    rows.push(
+      row(
+        `max-guaranteed-${orientation}`,
+        `Highest guaranteed line speed, ${words}`,
+        "higher",
+        "highest",
+        maps.map((m) => m?.maxGuaranteedMmPerS ?? null),
+        mPerS,
+      ),
+    );
     for (const key of ["0.5", "1", "2"]) {
       rows.push(
-        row(`share-${key}-${orientation}`, `Share of the side view with guaranteed ≥ ${key} m/s, ${words}`, "higher", "largest share", maps.map((m) => (m ? (m.shareAtLeast[key] ?? null) : null)), share),
+        row(
+          `share-${key}-${orientation}`,
+          `Share of the side view with guaranteed ≥ ${key} m/s, ${words}`,
+          "higher",
+          "largest share",
+          maps.map((m) => (m ? (m.shareAtLeast[key] ?? null) : null)),
+          share,
+        ),
       );
     }
   }
   rows.push(
-    row("cycle", "Standard cycle (25/300/25 mm, lower bound)", "lower", "shortest cycle time", arms.map((a) => a.cycle.standardCycleS), (v, i) =>
-      v === null ? (arms[i]!.cycle.reason ? "not computed" : NOT_STATED) : formatQuantity(v, "s", 2),
+    row(
+      "cycle",
+      "Standard cycle (25/300/25 mm, lower bound)",
+      "lower",
+      "shortest cycle time",
+      arms.map((a) => a.cycle.standardCycleS),
+      (v, i) => (v === null ? (arms[i]!.cycle.reason ? "not computed" : NOT_STATED) : formatQuantity(v, "s", 2)),
     ),
   );
   return rows;

@@ -40,7 +40,8 @@ export function csvLine(cells: readonly CsvCell[]): string {
 export function toCsv(header: readonly string[], rows: readonly (readonly CsvCell[])[]): string {
   let out = `${csvLine(header)}\r\n`;
   rows.forEach((row, i) => {
-    if (row.length !== header.length) throw new RangeError(`invalid row ${i}: ${row.length} cells for ${header.length} columns`);
+    if (row.length !== header.length)
+      throw new RangeError(`invalid row ${i}: ${row.length} cells for ${header.length} columns`);
     out += `${csvLine(row)}\r\n`;
   });
   return out;

@@ -40,17 +40,35 @@ function limitCells(joint: JointSpec): TableCell[] {
     const [min, max] = joint.rangeMm ?? [NaN, NaN];
     return [
       joint.rangeMm ? { text: formatRange(min, max, "mm", 1), sortValue: max - min } : { text: NOT_STATED },
-      { text: formatOptionalQuantity(joint.maxSpeedMmPerS, "mm/s", 1), ...(joint.maxSpeedMmPerS !== undefined && { sortValue: joint.maxSpeedMmPerS }) },
-      { text: formatOptionalQuantity(joint.maxAccelMmPerS2, "mm/s\u00b2"), ...(joint.maxAccelMmPerS2 !== undefined && { sortValue: joint.maxAccelMmPerS2 }) },
-      { text: formatOptionalQuantity(joint.ratedForceN, "N", 1), ...(joint.ratedForceN !== undefined && { sortValue: joint.ratedForceN }) },
+      {
+        text: formatOptionalQuantity(joint.maxSpeedMmPerS, "mm/s", 1),
+        ...(joint.maxSpeedMmPerS !== undefined && { sortValue: joint.maxSpeedMmPerS }),
+      },
+      {
+        text: formatOptionalQuantity(joint.maxAccelMmPerS2, "mm/s\u00b2"),
+        ...(joint.maxAccelMmPerS2 !== undefined && { sortValue: joint.maxAccelMmPerS2 }),
+      },
+      {
+        text: formatOptionalQuantity(joint.ratedForceN, "N", 1),
+        ...(joint.ratedForceN !== undefined && { sortValue: joint.ratedForceN }),
+      },
     ];
   }
   const [min, max] = joint.rangeDeg ?? [NaN, NaN];
   return [
     joint.rangeDeg ? { text: formatRange(min, max, "°", 1), sortValue: max - min } : { text: NOT_STATED },
-    { text: formatOptionalQuantity(joint.maxSpeedDegPerS, "°/s", 1), ...(joint.maxSpeedDegPerS !== undefined && { sortValue: joint.maxSpeedDegPerS }) },
-    { text: formatOptionalQuantity(joint.maxAccelDegPerS2, "°/s\u00b2"), ...(joint.maxAccelDegPerS2 !== undefined && { sortValue: joint.maxAccelDegPerS2 }) },
-    { text: formatOptionalQuantity(joint.ratedTorqueNm, "N\u00b7m", 1), ...(joint.ratedTorqueNm !== undefined && { sortValue: joint.ratedTorqueNm }) },
+    {
+      text: formatOptionalQuantity(joint.maxSpeedDegPerS, "°/s", 1),
+      ...(joint.maxSpeedDegPerS !== undefined && { sortValue: joint.maxSpeedDegPerS }),
+    },
+    {
+      text: formatOptionalQuantity(joint.maxAccelDegPerS2, "°/s\u00b2"),
+      ...(joint.maxAccelDegPerS2 !== undefined && { sortValue: joint.maxAccelDegPerS2 }),
+    },
+    {
+      text: formatOptionalQuantity(joint.ratedTorqueNm, "N\u00b7m", 1),
+      ...(joint.ratedTorqueNm !== undefined && { sortValue: joint.ratedTorqueNm }),
+    },
   ];
 }
 
@@ -154,7 +172,9 @@ export function parameterTable(spec: ArmSpec): TableModel {
         key: j.name,
         cells: [
           { text: j.name },
-          ...(p ? dhCells(p) : [{ text: NOT_STATED }, { text: NOT_STATED }, { text: NOT_STATED }, { text: NOT_STATED }]),
+          ...(p
+            ? dhCells(p)
+            : [{ text: NOT_STATED }, { text: NOT_STATED }, { text: NOT_STATED }, { text: NOT_STATED }]),
           { text: j.kind === "revolute" ? "adds to \u03b8" : "adds to d" },
         ],
       };

@@ -36,8 +36,7 @@ export const LINE_SAMPLES = 101;
 export const MAX_LINE_COORDINATE_MM = 20_000;
 
 export type ParsedLineQuery =
-  | { readonly ok: true; readonly query: LineQuery }
-  | { readonly ok: false; readonly errors: readonly string[] };
+  { readonly ok: true; readonly query: LineQuery } | { readonly ok: false; readonly errors: readonly string[] };
 
 /** A number as the URL and the form write it: plain ASCII, at most 3 decimals, no exponent. */
 function plain(value: number): string {
@@ -48,10 +47,12 @@ function plain(value: number): string {
 /** "450,-250,400" → [450, −250, 400]; a message naming the field otherwise. */
 export function parseTriple(text: string, field: string): readonly [number, number, number] | string {
   const parts = text.split(",").map((p) => p.trim());
-  if (parts.length !== 3 || parts.some((p) => p === "")) return `${field}: expected three numbers x, y, z (mm), found "${text}"`;
+  if (parts.length !== 3 || parts.some((p) => p === ""))
+    return `${field}: expected three numbers x, y, z (mm), found "${text}"`;
   const values = parts.map(Number);
   if (!values.every(Number.isFinite)) return `${field}: expected three numbers x, y, z (mm), found "${text}"`;
-  if (values.some((v) => Math.abs(v) > MAX_LINE_COORDINATE_MM)) return `${field}: coordinates above ${formatNumber(MAX_LINE_COORDINATE_MM)} mm are not accepted, found "${text}"`;
+  if (values.some((v) => Math.abs(v) > MAX_LINE_COORDINATE_MM))
+    return `${field}: coordinates above ${formatNumber(MAX_LINE_COORDINATE_MM)} mm are not accepted, found "${text}"`;
   return [values[0]!, values[1]!, values[2]!];
 }
 
@@ -94,16 +95,22 @@ export function parseLineQuery(get: (key: string) => string | null): ParsedLineQ
   const [fromText = null, toText = null, orientationTextValue = null, speedText = null] = raw;
   const from = fromText === null ? "from: missing (x, y, z in mm)" : parseTriple(fromText, "from");
   const to = toText === null ? "to: missing (x, y, z in mm)" : parseTriple(toText, "to");
-  const orientation = orientationTextValue === null ? "orientation: missing (down, outward or roll,pitch,yaw)" : parseOrientation(orientationTextValue);
+  const orientation =
+    orientationTextValue === null
+      ? "orientation: missing (down, outward or roll,pitch,yaw)"
+      : parseOrientation(orientationTextValue);
   if (typeof from === "string") errors.push(from);
   if (typeof to === "string") errors.push(to);
   if (typeof orientation === "string") errors.push(orientation);
   const speed = speedText === null ? NaN : Number(speedText.trim());
   if (speedText === null) errors.push("speed: missing (mm/s)");
-  else if (speedText.trim() === "" || !Number.isFinite(speed) || speed <= 0) errors.push(`speed: expected a positive number of mm/s, found "${speedText}"`);
+  else if (speedText.trim() === "" || !Number.isFinite(speed) || speed <= 0)
+    errors.push(`speed: expected a positive number of mm/s, found "${speedText}"`);
   else if (speed > 100_000) errors.push(`speed: above 100,000 mm/s is not accepted, found "${speedText}"`);
-  if (typeof from !== "string" && typeof to !== "string" && from.every((v, i) => v === to[i])) errors.push("from and to are the same point: the line has no length");
-  if (errors.length > 0 || typeof from === "string" || typeof to === "string" || typeof orientation === "string") return { ok: false, errors };
+  if (typeof from !== "string" && typeof to !== "string" && from.every((v, i) => v === to[i]))
+    errors.push("from and to are the same point: the line has no length");
+  if (errors.length > 0 || typeof from === "string" || typeof to === "string" || typeof orientation === "string")
+    return { ok: false, errors };
   return { ok: true, query: { fromMm: from, toMm: to, orientation, speedMmPerS: speed } };
 }
 
@@ -143,15 +150,25 @@ export function orientationKindsFor(drivenCount: number): readonly LineOrientati
  * @param mountings the arm file's mountings; the first decides gravity and so the meaning of "down"
  * @throws RangeError from lineCheck on invalid input (the form validates first)
  */
-export function runLineQuery(chain: Chain, mountings: readonly Mounting[], q: LineQuery, samples = LINE_SAMPLES): LineCheckResult {
+export function runLineQuery(
+  chain: Chain,
+  mountings: readonly Mounting[],
+  q: LineQuery,
+  samples = LINE_SAMPLES,
+): LineCheckResult {
   const gravity = gravityDirectionInBase(mountings[0] ?? "floor");
-  const startM = q.fromMm.map(mmToM), endM = q.toMm.map(mmToM);
+  const startM = q.fromMm.map(mmToM),
+    endM = q.toMm.map(mmToM);
   const o = q.orientation;
   const rotation =
     o.kind === "rpy"
       ? rpyToolRotation(degToRad(o.rpyDeg[0]), degToRad(o.rpyDeg[1]), degToRad(o.rpyDeg[2]))
       : referenceToolRotation(chain, o.kind, startM, gravity);
-  return lineCheck(chain, { startM, endM, baseFromToolRotation: rotation, speedMPerS: mmToM(q.speedMmPerS), toolInFlangeM: [0, 0, 0] }, { samples, gravity });
+  return lineCheck(
+    chain,
+    { startM, endM, baseFromToolRotation: rotation, speedMPerS: mmToM(q.speedMmPerS), toolInFlangeM: [0, 0, 0] },
+    { samples, gravity },
+  );
 }
 
 // ---------------------------------------------------------------------------------------------------------------
@@ -187,11 +204,13 @@ export interface LineFigures {
 export const NEAR_SINGULAR_LINE_INVERSE_CONDITION = 0.05;
 
 const percent = (fraction: number) => `${formatNumber(fraction * 100, 0)} %`;
-const along = (fraction: number, lengthMm: number) => `${formatQuantity(fraction * lengthMm, "mm")} from the start (${percent(fraction)} along)`;
+const along = (fraction: number, lengthMm: number) =>
+  `${formatQuantity(fraction * lengthMm, "mm")} from the start (${percent(fraction)} along)`;
 
 /** True when joint i's rate ratio is the same at every reached sample (a gantry axis on a straight line). */
 function constantRatio(r: LineCheckResult, i: number): boolean {
-  let lo = Infinity, hi = -Infinity;
+  let lo = Infinity,
+    hi = -Infinity;
   for (const s of r.samples) {
     const v = s.rateRatios?.[i];
     if (v === null || v === undefined) continue;
@@ -215,10 +234,13 @@ export function lineFigures(r: LineCheckResult): LineFigures {
     const where = along(b.fraction, r.lengthMm);
     if (b.reason === "joint rate") {
       const needing = `needing ${formatNumber(b.rateRatio ?? 0, 2)} × its speed limit at ${commanded}`;
-      bottleneckText = b.jointIndex !== null && constantRatio(r, b.jointIndex) ? `${b.joint ?? "a joint"}, the same all along the line, ${needing}` : `${b.joint ?? "a joint"} at ${where}, ${needing}`;
-    }
-    else if (b.reason === "out of reach") bottleneckText = `out of reach at ${where}`;
-    else if (b.reason === "jump") bottleneckText = `${b.joint ?? "the joints"} must jump at ${where} (no continuous motion: the arm stops and changes posture)`;
+      bottleneckText =
+        b.jointIndex !== null && constantRatio(r, b.jointIndex)
+          ? `${b.joint ?? "a joint"}, the same all along the line, ${needing}`
+          : `${b.joint ?? "a joint"} at ${where}, ${needing}`;
+    } else if (b.reason === "out of reach") bottleneckText = `out of reach at ${where}`;
+    else if (b.reason === "jump")
+      bottleneckText = `${b.joint ?? "the joints"} must jump at ${where} (no continuous motion: the arm stops and changes posture)`;
     else bottleneckText = `${b.joint ?? "a joint"} would need an unbounded rate at ${where} (singular pose)`;
   }
   const s = r.nearestSingularity;
@@ -233,15 +255,26 @@ export function lineFigures(r: LineCheckResult): LineFigures {
     ? `${r.startBranch.branch}${r.startBranches.length > 1 ? ` (best of ${r.startBranches.length} start postures)` : ""}`
     : "no posture reaches the start";
   const problems: string[] = [];
-  for (const g of r.outOfReach) problems.push(`Out of reach from ${formatQuantity(g.fromFraction * r.lengthMm, "mm")} to ${formatQuantity(g.toFraction * r.lengthMm, "mm")} along the line.`);
+  for (const g of r.outOfReach)
+    problems.push(
+      `Out of reach from ${formatQuantity(g.fromFraction * r.lengthMm, "mm")} to ${formatQuantity(g.toFraction * r.lengthMm, "mm")} along the line.`,
+    );
   for (const v of r.jointLimitViolations) {
-    problems.push(`${v.joint} passes its ${v.bound} limit (${formatQuantity(v.limitValue, v.unit === "deg" ? "°" : "mm", 1)}, reaching ${formatQuantity(v.extremeValue, v.unit === "deg" ? "°" : "mm", 1)}) from ${formatQuantity(v.fromFraction * r.lengthMm, "mm")} to ${formatQuantity(v.toFraction * r.lengthMm, "mm")}.`);
+    problems.push(
+      `${v.joint} passes its ${v.bound} limit (${formatQuantity(v.limitValue, v.unit === "deg" ? "°" : "mm", 1)}, reaching ${formatQuantity(v.extremeValue, v.unit === "deg" ? "°" : "mm", 1)}) from ${formatQuantity(v.fromFraction * r.lengthMm, "mm")} to ${formatQuantity(v.toFraction * r.lengthMm, "mm")}.`,
+    );
   }
   for (const c of r.branchChanges) {
-    problems.push(`Posture change (${c.kind}${c.continuous ? ", continuous" : ", a jump"}) at ${formatQuantity(c.fraction * r.lengthMm, "mm")}: ${c.from} → ${c.to}.`);
+    problems.push(
+      `Posture change (${c.kind}${c.continuous ? ", continuous" : ", a jump"}) at ${formatQuantity(c.fraction * r.lengthMm, "mm")}: ${c.from} → ${c.to}.`,
+    );
   }
-  if (r.orientationHeld === "tool axis") problems.push("Only the tool axis is held: the arm cannot keep the full orientation, so the rotation about the tool axis is left free.");
-  if (r.jointsWithoutSpeedLimit.length > 0) problems.push(`No speed limit in the file for ${r.jointsWithoutSpeedLimit.join(", ")}: not counted.`);
+  if (r.orientationHeld === "tool axis")
+    problems.push(
+      "Only the tool axis is held: the arm cannot keep the full orientation, so the rotation about the tool axis is left free.",
+    );
+  if (r.jointsWithoutSpeedLimit.length > 0)
+    problems.push(`No speed limit in the file for ${r.jointsWithoutSpeedLimit.join(", ")}: not counted.`);
   const ranges = [...new Set(r.jointLimitViolations.map((v) => v.joint))];
   const feasibleCaveat =
     ranges.length > 0 && r.outOfReach.length === 0

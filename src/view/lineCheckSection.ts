@@ -9,7 +9,12 @@ import type { Chain } from "../core/kinematics/chain";
 import type { Mounting } from "../core/analysis/mounting";
 import { siteHref } from "./links";
 import { lineQueryPairs, orientationKindsFor, type LineOrientation, type LineQuery } from "./lineCheckModel";
-import { STANDARD_LINE_SPEED_MM_PER_S, standardLineQueries, standardLinesModel, type StandardLinesModel } from "./standardLines";
+import {
+  STANDARD_LINE_SPEED_MM_PER_S,
+  standardLineQueries,
+  standardLinesModel,
+  type StandardLinesModel,
+} from "./standardLines";
 
 /** What the section needs of an arm (the catalog's Arm has these). */
 export interface LineCheckSectionArm {
@@ -79,20 +84,30 @@ function armRef(arm: LineCheckSectionArm, baseUrl: string, defaults: LineQuery):
 
 /** An arm's default line: its first standard line (chosen without running the check), else a fallback. */
 function defaultQuery(arm: LineCheckSectionArm, analysis: AnalysisSummary | null): LineQuery {
-  return (analysis ? standardLineQueries(analysis, arm.spec.mountings[0] ?? "floor").lines[0]?.query : undefined) ?? fallbackQuery(analysis);
+  return (
+    (analysis ? standardLineQueries(analysis, arm.spec.mountings[0] ?? "floor").lines[0]?.query : undefined) ??
+    fallbackQuery(analysis)
+  );
 }
 
 /** Form field values of a query (names as in LineCheck.astro). */
 export function lineFieldValues(q: LineQuery): Record<string, string> {
   const [, , orientation] = lineQueryPairs(q);
   const out: Record<string, string> = {
-    "from-x": String(q.fromMm[0]), "from-y": String(q.fromMm[1]), "from-z": String(q.fromMm[2]),
-    "to-x": String(q.toMm[0]), "to-y": String(q.toMm[1]), "to-z": String(q.toMm[2]),
+    "from-x": String(q.fromMm[0]),
+    "from-y": String(q.fromMm[1]),
+    "from-z": String(q.fromMm[2]),
+    "to-x": String(q.toMm[0]),
+    "to-y": String(q.toMm[1]),
+    "to-z": String(q.toMm[2]),
     orientation: q.orientation.kind,
-    roll: "180", pitch: "0", yaw: "0",
+    roll: "180",
+    pitch: "0",
+    yaw: "0",
     speed: String(q.speedMmPerS),
   };
-  if (q.orientation.kind === "rpy") [out.roll, out.pitch, out.yaw] = orientation![1].split(",") as [string, string, string];
+  if (q.orientation.kind === "rpy")
+    [out.roll, out.pitch, out.yaw] = orientation![1].split(",") as [string, string, string];
   return out;
 }
 
@@ -106,10 +121,20 @@ function orientationChoices(arms: readonly LineCheckArmRef[]): { kinds: LineOrie
       : arms.length === 1
         ? `This arm has ${downOnly[0]!.drivenCount} driven joints: its tool turns about one axis only, so the check holds the tool pointing down.`
         : `Arms with fewer than six driven joints hold the tool pointing down only: ${downOnly.map((a) => a.name).join(", ")}.`;
-  return { kinds: ["down", "outward", "rpy"].filter((k) => kinds.has(k as LineOrientation["kind"])) as LineOrientation["kind"][], note };
+  return {
+    kinds: ["down", "outward", "rpy"].filter((k) =>
+      kinds.has(k as LineOrientation["kind"]),
+    ) as LineOrientation["kind"][],
+    note,
+  };
 }
 
-function section(arms: readonly LineCheckArmRef[], standard: StandardLinesModel | null, defaults: LineQuery, armsFromQuery: boolean): LineCheckSectionModel {
+function section(
+  arms: readonly LineCheckArmRef[],
+  standard: StandardLinesModel | null,
+  defaults: LineQuery,
+  armsFromQuery: boolean,
+): LineCheckSectionModel {
   const { kinds, note } = orientationChoices(arms);
   const several = arms.length > 1;
   const config: LineCheckClientConfig = { arms, armsFromQuery };
@@ -132,16 +157,26 @@ function section(arms: readonly LineCheckArmRef[], standard: StandardLinesModel 
 /** A fallback line when an arm has no standard line: level, in front of the base at half the stated or computed reach. */
 function fallbackQuery(analysis: Pick<AnalysisSummary, "reach"> | null): LineQuery {
   const reach = analysis?.reach.flangeMaxMm ?? 1000;
-  const r = Math.round((reach * 0.5) / 5) * 5, h = Math.round((reach * 0.2) / 5) * 5;
+  const r = Math.round((reach * 0.5) / 5) * 5,
+    h = Math.round((reach * 0.2) / 5) * 5;
   const z = Math.round(((analysis?.reach.maxHeightMm ?? reach) * 0.4) / 5) * 5;
-  return { fromMm: [r, -h, z], toMm: [r, h, z], orientation: { kind: "down" }, speedMmPerS: STANDARD_LINE_SPEED_MM_PER_S };
+  return {
+    fromMm: [r, -h, z],
+    toMm: [r, h, z],
+    orientation: { kind: "down" },
+    speedMmPerS: STANDARD_LINE_SPEED_MM_PER_S,
+  };
 }
 
 /**
  * The section of an arm sheet: standard lines (lineCheck runs now, at build time) and the form for this arm.
  * @param baseUrl import.meta.env.BASE_URL
  */
-export function lineCheckSectionModel(arm: LineCheckSectionArm, analysis: ArmAnalysis | null, baseUrl: string): LineCheckSectionModel {
+export function lineCheckSectionModel(
+  arm: LineCheckSectionArm,
+  analysis: ArmAnalysis | null,
+  baseUrl: string,
+): LineCheckSectionModel {
   const standard = analysis ? standardLinesModel(arm, analysis) : null;
   const defaults = standard?.lines[0]?.query ?? fallbackQuery(analysis);
   return section([armRef(arm, baseUrl, defaults)], standard, defaults, false);

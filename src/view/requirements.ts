@@ -102,23 +102,34 @@ export function checkPayload(arm: RequirementsArm, req: Requirements): Verdict |
   const mounting = req.mounting ?? arm.mountings[0] ?? "floor";
   const series = arm.payload.filter((s) => s.mounting === mounting).sort((a, b) => a.offsetMm - b.offsetMm);
   const needs = `needs ${kg(req.payloadKg)}`;
-  if (series.length === 0) return { key, status: "undecided", reason: `no payload rows for ${mounting} mounting; ${needs}` };
+  if (series.length === 0)
+    return { key, status: "undecided", reason: `no payload rows for ${mounting} mounting; ${needs}` };
   const cg = req.cgOffsetMm;
   const lower = [...series].reverse().find((s) => s.offsetMm <= cg);
   const upper = series.find((s) => s.offsetMm >= cg);
   if (!upper || !lower) {
     const top = series[series.length - 1]!.offsetMm;
-    return { key, status: "undecided", reason: `payload rows go up to a CG offset of ${mmText(top)}; asked ${mmText(cg)}; ${needs}` };
+    return {
+      key,
+      status: "undecided",
+      reason: `payload rows go up to a CG offset of ${mmText(top)}; asked ${mmText(cg)}; ${needs}`,
+    };
   }
   const columns = lower === upper ? [lower] : [lower, upper];
   const [a, b] = req.reachMm;
   let worst: { kg: number; reachMm: number; offsetMm: number; limit: string | null } | null = null;
   for (const col of columns) {
     const reach = col.reachMm;
-    const first = reach[0], last = reach[reach.length - 1];
-    if (first === undefined || last === undefined) return { key, status: "undecided", reason: `no payload rows; ${needs}` };
+    const first = reach[0],
+      last = reach[reach.length - 1];
+    if (first === undefined || last === undefined)
+      return { key, status: "undecided", reason: `no payload rows; ${needs}` };
     if (a < first || b > last) {
-      return { key, status: "fail", reason: `payload rows cover ${n0(first)}–${mmText(last)} of reach; the band ${band(req.reachMm)} is not covered; ${needs}` };
+      return {
+        key,
+        status: "fail",
+        reason: `payload rows cover ${n0(first)}–${mmText(last)} of reach; the band ${band(req.reachMm)} is not covered; ${needs}`,
+      };
     }
     let i0 = 0;
     for (let i = 0; i < reach.length; i++) if (reach[i]! <= a) i0 = i;
@@ -128,9 +139,14 @@ export function checkPayload(arm: RequirementsArm, req: Requirements): Verdict |
       const r = reach[i]!;
       const p = col.payloadKg[i];
       if (p === null || p === undefined) {
-        return { key, status: "fail", reason: `out of reach at ${mmText(r)} with the tool along gravity (${mounting} mounting); ${needs}` };
+        return {
+          key,
+          status: "fail",
+          reason: `out of reach at ${mmText(r)} with the tool along gravity (${mounting} mounting); ${needs}`,
+        };
       }
-      if (worst === null || p < worst.kg) worst = { kg: p, reachMm: r, offsetMm: col.offsetMm, limit: col.limit[i] ?? null };
+      if (worst === null || p < worst.kg)
+        worst = { kg: p, reachMm: r, offsetMm: col.offsetMm, limit: col.limit[i] ?? null };
     }
   }
   if (worst === null) return { key, status: "undecided", reason: `no payload rows in the band; ${needs}` };
@@ -171,10 +187,24 @@ export function insideEvenOdd(polygons: readonly PolygonData[], x: number, y: nu
  * The part of segment p→q inside the closed box [x0, x1] × [y0, y1] (Liang–Barsky clipping), or null.
  * @see Liang & Barsky, "A new concept and method for line clipping", ACM TOG 3(1), 1984
  */
-export function clipSegment(p: PointData, q: PointData, x0: number, x1: number, y0: number, y1: number): [PointData, PointData] | null {
-  const dx = q[0] - p[0], dy = q[1] - p[1];
-  let t0 = 0, t1 = 1;
-  const tests: [number, number][] = [[-dx, p[0] - x0], [dx, x1 - p[0]], [-dy, p[1] - y0], [dy, y1 - p[1]]];
+export function clipSegment(
+  p: PointData,
+  q: PointData,
+  x0: number,
+  x1: number,
+  y0: number,
+  y1: number,
+): [PointData, PointData] | null {
+  const dx = q[0] - p[0],
+    dy = q[1] - p[1];
+  let t0 = 0,
+    t1 = 1;
+  const tests: [number, number][] = [
+    [-dx, p[0] - x0],
+    [dx, x1 - p[0]],
+    [-dy, p[1] - y0],
+    [dy, y1 - p[1]],
+  ];
   for (const [pp, qq] of tests) {
     if (pp === 0) {
       if (qq < 0) return null;
@@ -189,18 +219,32 @@ export function clipSegment(p: PointData, q: PointData, x0: number, x1: number, 
       }
     }
   }
-  return [[p[0] + t0 * dx, p[1] + t0 * dy], [p[0] + t1 * dx, p[1] + t1 * dy]];
+  return [
+    [p[0] + t0 * dx, p[1] + t0 * dy],
+    [p[0] + t1 * dx, p[1] + t1 * dy],
+  ];
 }
 
 /**
  * Whether the closed rectangle lies inside the polygons (even–odd), and if not a point of it that does not.
  * @returns null when covered; else a witness point [r, z] in the rectangle outside (or on the edge of) the region
  */
-export function uncoveredPoint(polygons: readonly PolygonData[], r: readonly [number, number], z: readonly [number, number]): PointData | null {
-  const [x0, x1] = r, [y0, y1] = z;
+export function uncoveredPoint(
+  polygons: readonly PolygonData[],
+  r: readonly [number, number],
+  z: readonly [number, number],
+): PointData | null {
+  const [x0, x1] = r,
+    [y0, y1] = z;
   // A sampled point outside makes the clearest reason; corners first, then a 21 × 21 lattice.
-  const samples: PointData[] = [[x0, y0], [x1, y0], [x0, y1], [x1, y1]];
-  for (let i = 0; i <= 20; i++) for (let j = 0; j <= 20; j++) samples.push([x0 + ((x1 - x0) * i) / 20, y0 + ((y1 - y0) * j) / 20]);
+  const samples: PointData[] = [
+    [x0, y0],
+    [x1, y0],
+    [x0, y1],
+    [x1, y1],
+  ];
+  for (let i = 0; i <= 20; i++)
+    for (let j = 0; j <= 20; j++) samples.push([x0 + ((x1 - x0) * i) / 20, y0 + ((y1 - y0) * j) / 20]);
   for (const s of samples) if (!insideEvenOdd(polygons, s[0], s[1])) return s;
   // Exact part: no boundary edge may meet the rectangle.
   for (const p of polygons) {
@@ -215,7 +259,10 @@ export function uncoveredPoint(polygons: readonly PolygonData[], r: readonly [nu
 }
 
 function extentOf(polygons: readonly PolygonData[]): { r: [number, number]; z: [number, number] } | null {
-  let r0 = Infinity, r1 = -Infinity, z0 = Infinity, z1 = -Infinity;
+  let r0 = Infinity,
+    r1 = -Infinity,
+    z0 = Infinity,
+    z1 = -Infinity;
   for (const p of polygons) {
     for (const [x, y] of p.outer) {
       r0 = Math.min(r0, x);
@@ -235,7 +282,9 @@ export function checkReach(arm: RequirementsArm, req: Requirements): Verdict | n
   const witness = uncoveredPoint(arm.flange, req.reachMm, req.heightMm);
   if (witness === null) return { key, status: "pass", reason: `the flange centre reaches all of ${where}` };
   const ext = extentOf(arm.flange);
-  const extWords = ext ? ` (its envelope spans ${band([Math.round(ext.r[0]), Math.round(ext.r[1])])} × ${band([Math.round(ext.z[0]), Math.round(ext.z[1])])} height)` : "";
+  const extWords = ext
+    ? ` (its envelope spans ${band([Math.round(ext.r[0]), Math.round(ext.r[1])])} × ${band([Math.round(ext.z[0]), Math.round(ext.z[1])])} height)`
+    : "";
   return {
     key,
     status: "fail",
@@ -269,7 +318,12 @@ export function checkSpeed(arm: RequirementsArm, req: Requirements, mapMounting:
     return { key, status: "undecided", reason: `speed maps are computed for ${mapMounting} mounting only; ${needs}` };
   }
   const map = arm.maps.find((m) => m.orientation === req.tool);
-  if (!map) return { key, status: "undecided", reason: `no speed map with the ${toolWords} (only ${arm.maps.map((m) => m.orientation).join(", ") || "none"}); ${needs}` };
+  if (!map)
+    return {
+      key,
+      status: "undecided",
+      reason: `no speed map with the ${toolWords} (only ${arm.maps.map((m) => m.orientation).join(", ") || "none"}); ${needs}`,
+    };
   const g = map.nodes;
   const [ix0, ix1] = nodeSpan(req.reachMm[0], req.reachMm[1], g.rMinMm, g.stepMm);
   const [iy0, iy1] = nodeSpan(req.heightMm[0], req.heightMm[1], g.zMinMm, g.stepMm);
@@ -298,7 +352,8 @@ export function checkSpeed(arm: RequirementsArm, req: Requirements, mapMounting:
   }
   if (worst === null) return { key, status: "undecided", reason: `no speed figure in the band; ${needs}` };
   const pass = worst.v >= req.minSpeedMPerS * 1000;
-  const r0 = b.rMinMm + worst.bx * b.blockMm, z0 = b.zMinMm + worst.by * b.blockMm;
+  const r0 = b.rMinMm + worst.bx * b.blockMm,
+    z0 = b.zMinMm + worst.by * b.blockMm;
   const blockWords = `${n0(r0)}–${mmText(r0 + b.blockMm)} from axis 1, ${n0(z0)}–${mmText(z0 + b.blockMm)} height`;
   return {
     key,
@@ -318,13 +373,24 @@ export function checkMounting(arm: RequirementsArm, req: Requirements): Verdict 
   return {
     key: "mounting",
     status: ok ? "pass" : "fail",
-    reason: ok ? `${req.mounting} mounting is listed` : `listed mountings: ${arm.mountings.join(", ")}; needs ${req.mounting}`,
+    reason: ok
+      ? `${req.mounting} mounting is listed`
+      : `listed mountings: ${arm.mountings.join(", ")}; needs ${req.mounting}`,
   };
 }
 
 /** Every asked requirement's verdict, in the panel's order (mounting, payload, reach, speed). */
-export function checkRequirements(arm: RequirementsArm, req: Requirements, mapMounting = arm.mountings[0] ?? "floor"): Verdict[] {
-  return [checkMounting(arm, req), checkPayload(arm, req), checkReach(arm, req), checkSpeed(arm, req, mapMounting)].filter((v): v is Verdict => v !== null);
+export function checkRequirements(
+  arm: RequirementsArm,
+  req: Requirements,
+  mapMounting = arm.mountings[0] ?? "floor",
+): Verdict[] {
+  return [
+    checkMounting(arm, req),
+    checkPayload(arm, req),
+    checkReach(arm, req),
+    checkSpeed(arm, req, mapMounting),
+  ].filter((v): v is Verdict => v !== null);
 }
 
 // ---------------------------------------------------------------------------------------------------------------
@@ -370,7 +436,9 @@ export function parseRequirements(get: (key: string) => string | null): ParsedRe
     if (text === null) return null;
     const v = parseNumber(text);
     if (v === null || v < min || v > max || (exclusiveMin && v === min)) {
-      errors.push(`${what}: expected a number ${exclusiveMin ? "above" : "from"} ${formatNumber(min)} to ${formatNumber(max)}, found "${text}"`);
+      errors.push(
+        `${what}: expected a number ${exclusiveMin ? "above" : "from"} ${formatNumber(min)} to ${formatNumber(max)}, found "${text}"`,
+      );
       return null;
     }
     return v;
@@ -380,16 +448,27 @@ export function parseRequirements(get: (key: string) => string | null): ParsedRe
     if (text === null) return null;
     const parts = text.split(",").map(parseNumber);
     const [a, b] = parts;
-    if (parts.length !== 2 || a === null || b === null || a === undefined || b === undefined || Math.abs(a) > MAX_REQUIREMENT_MM || Math.abs(b) > MAX_REQUIREMENT_MM || a > b) {
+    if (
+      parts.length !== 2 ||
+      a === null ||
+      b === null ||
+      a === undefined ||
+      b === undefined ||
+      Math.abs(a) > MAX_REQUIREMENT_MM ||
+      Math.abs(b) > MAX_REQUIREMENT_MM ||
+      a > b
+    ) {
       errors.push(`${what}: expected "min,max" in mm with min ≤ max, found "${text}"`);
       return null;
     }
     return [a, b];
   };
   const tool = value(REQUIREMENT_KEYS.tool);
-  if (tool !== null && !TOOL_ORIENTATIONS.includes(tool as ToolOrientation)) errors.push(`tool orientation: expected down or outward, found "${tool}"`);
+  if (tool !== null && !TOOL_ORIENTATIONS.includes(tool as ToolOrientation))
+    errors.push(`tool orientation: expected down or outward, found "${tool}"`);
   const mounting = value(REQUIREMENT_KEYS.mounting);
-  if (mounting !== null && !(MOUNTINGS as readonly string[]).includes(mounting)) errors.push(`mounting: expected ${MOUNTINGS.join(", ")}, found "${mounting}"`);
+  if (mounting !== null && !(MOUNTINGS as readonly string[]).includes(mounting))
+    errors.push(`mounting: expected ${MOUNTINGS.join(", ")}, found "${mounting}"`);
   return {
     requirements: {
       payloadKg: num(REQUIREMENT_KEYS.payloadKg, "payload", 0, 10_000, true),

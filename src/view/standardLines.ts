@@ -17,7 +17,15 @@ import type { LineCheckResult } from "../core/analysis/line";
 import { lineRatesChart } from "../charts/lineRatesChart";
 import type { ChartResult } from "../charts/svg";
 import { formatQuantity } from "./format";
-import { lineCommandText, lineFigures, lineQueryString, lineRatesChartInput, runLineQuery, type LineFigures, type LineQuery } from "./lineCheckModel";
+import {
+  lineCommandText,
+  lineFigures,
+  lineQueryString,
+  lineRatesChartInput,
+  runLineQuery,
+  type LineFigures,
+  type LineQuery,
+} from "./lineCheckModel";
 
 export type StandardLineKey = "front" | "axis1" | "edge";
 
@@ -48,7 +56,11 @@ interface Plane {
 }
 
 const dot = (a: readonly number[], b: readonly number[]) => a[0]! * b[0]! + a[1]! * b[1]! + a[2]! * b[2]!;
-const cross = (a: readonly number[], b: readonly number[]): Vec3 => [a[1]! * b[2]! - a[2]! * b[1]!, a[2]! * b[0]! - a[0]! * b[2]!, a[0]! * b[1]! - a[1]! * b[0]!];
+const cross = (a: readonly number[], b: readonly number[]): Vec3 => [
+  a[1]! * b[2]! - a[2]! * b[1]!,
+  a[2]! * b[0]! - a[0]! * b[2]!,
+  a[0]! * b[1]! - a[1]! * b[0]!,
+];
 
 function planeOf(analysis: AnalysisSummary): Plane {
   const axis = analysis.envelope.axis1;
@@ -106,7 +118,8 @@ function levelWord(gravity: readonly number[]): string {
   return Math.abs(Math.abs(gravity[2]!) - 1) < 1e-9 ? "Level" : "Parallel to the base plate";
 }
 
-const lengthOf = (q: LineQuery) => Math.hypot(q.toMm[0] - q.fromMm[0], q.toMm[1] - q.fromMm[1], q.toMm[2] - q.fromMm[2]);
+const lengthOf = (q: LineQuery) =>
+  Math.hypot(q.toMm[0] - q.fromMm[0], q.toMm[1] - q.fromMm[1], q.toMm[2] - q.fromMm[2]);
 
 /**
  * Chooses the standard lines of an arm from its analysis (see the module comment). Lines that cannot be placed are
@@ -114,19 +127,32 @@ const lengthOf = (q: LineQuery) => Math.hypot(q.toMm[0] - q.fromMm[0], q.toMm[1]
  * @param mounting the arm's primary mounting (gravity: "down" and the words above/below)
  * @example standardLineQueries(analysisOf("corvell-tern-7"), "floor").lines.map((l) => l.key) // ["front", "axis1", "edge"]
  */
-export function standardLineQueries(analysis: AnalysisSummary, mounting: Mounting): { lines: StandardLine[]; notes: string[] } {
+export function standardLineQueries(
+  analysis: AnalysisSummary,
+  mounting: Mounting,
+): { lines: StandardLine[]; notes: string[] } {
   const gravity = gravityDirectionInBase(mounting);
   const map = analysis.speed.maps.find((m) => m.orientation === "down");
   const notes: string[] = [];
-  if (!map || map.reachableCells === 0) return { lines: [], notes: ["No flange position with the tool pointing down was found, so no standard line is drawn."] };
+  if (!map || map.reachableCells === 0)
+    return {
+      lines: [],
+      notes: ["No flange position with the tool pointing down was found, so no standard line is drawn."],
+    };
   const g = map.grid;
   const reach = analysis.reach.flangeMaxMm ?? g.rMinMm + g.nx * g.stepMm;
   const speed = STANDARD_LINE_SPEED_MM_PER_S;
   const plane = planeOf(analysis);
   const zOf = (iy: number) => g.zMinMm + iy * g.stepMm;
-  const rows = Array.from({ length: g.ny }, (_, iy) => ({ iy, z: zOf(iy), runs: rowRuns(map, iy).filter(([a, b]) => b - a >= 2 * g.stepMm) })).filter((r) => r.runs.length > 0);
+  const rows = Array.from({ length: g.ny }, (_, iy) => ({
+    iy,
+    z: zOf(iy),
+    runs: rowRuns(map, iy).filter(([a, b]) => b - a >= 2 * g.stepMm),
+  })).filter((r) => r.runs.length > 0);
   if (rows.length === 0) return { lines: [], notes: ["The tool-down region is too small for a standard line."] };
-  const zLo = rows[0]!.z, zHi = rows[rows.length - 1]!.z, zMid = (zLo + zHi) / 2;
+  const zLo = rows[0]!.z,
+    zHi = rows[rows.length - 1]!.z,
+    zMid = (zLo + zHi) / 2;
   const margin = Math.max(g.stepMm, 0.02 * reach);
   const level = levelWord(gravity);
   const lines: StandardLine[] = [];
@@ -142,16 +168,30 @@ export function standardLineQueries(analysis: AnalysisSummary, mounting: Mountin
   if (analysis.envelope.layout !== "revolute-base") {
     // Gantry-like: the top view of the flange gives the working area; heights from the map.
     const pts = (analysis.envelope.flange?.top ?? []).flatMap((p) => p.outer);
-    const xs = pts.map((p) => p[0]), ys = pts.map((p) => p[1]);
+    const xs = pts.map((p) => p[0]),
+      ys = pts.map((p) => p[1]);
     if (xs.length === 0) return { lines: [], notes: ["No top view of the reach, so no standard line is drawn."] };
     const [x0, x1, y0, y1] = [Math.min(...xs), Math.max(...xs), Math.min(...ys), Math.max(...ys)];
     const m = Math.max(g.stepMm, 0.02 * Math.max(x1 - x0, y1 - y0));
     const z = roundTo(zMid, 5);
-    const xc = roundTo((x0 + x1) / 2, 5), yc = roundTo((y0 + y1) / 2, 5);
-    make("front", "Across the working area", (q) => `${level}, ${formatQuantity(lengthOf(q), "mm")} long along base y at x = ${formatQuantity(xc, "mm")}, ${heightWords(z, gravity)} (mid height).`,
-      [xc, ceilTo(y0 + m, 5), z], [xc, floorTo(y1 - m, 5), z]);
-    make("edge", "Out to the edge of the reach", (q) => `${level}, ${formatQuantity(lengthOf(q), "mm")} long along base x, from the middle to ${formatQuantity(m, "mm")} inside the end of the travel, ${heightWords(z, gravity)}.`,
-      [xc, yc, z], [floorTo(x1 - m, 5), yc, z]);
+    const xc = roundTo((x0 + x1) / 2, 5),
+      yc = roundTo((y0 + y1) / 2, 5);
+    make(
+      "front",
+      "Across the working area",
+      (q) =>
+        `${level}, ${formatQuantity(lengthOf(q), "mm")} long along base y at x = ${formatQuantity(xc, "mm")}, ${heightWords(z, gravity)} (mid height).`,
+      [xc, ceilTo(y0 + m, 5), z],
+      [xc, floorTo(y1 - m, 5), z],
+    );
+    make(
+      "edge",
+      "Out to the edge of the reach",
+      (q) =>
+        `${level}, ${formatQuantity(lengthOf(q), "mm")} long along base x, from the middle to ${formatQuantity(m, "mm")} inside the end of the travel, ${heightWords(z, gravity)}.`,
+      [xc, yc, z],
+      [floorTo(x1 - m, 5), yc, z],
+    );
     notes.push("The first joint is linear: there is no axis 1, so the line close to axis 1 is left out.");
     return { lines, notes };
   }
@@ -167,12 +207,25 @@ export function standardLineQueries(analysis: AnalysisSummary, mounting: Mountin
     const half = floorTo(Math.min(outer > rc ? Math.sqrt(outer * outer - rc * rc) : 0, 0.4 * reach, rc), 5);
     const z = frontRow.z;
     if (half >= 2 * g.stepMm) {
-      make("front", "Across the front", (q) => `${level}, ${formatQuantity(lengthOf(q), "mm")} long, crossing in front of the arm ${formatQuantity(rc, "mm")} from axis 1, ${heightWords(z, gravity)} (mid height of the tool-down region).`,
-        pointAt(plane, rc, -half, z), pointAt(plane, rc, half, z));
+      make(
+        "front",
+        "Across the front",
+        (q) =>
+          `${level}, ${formatQuantity(lengthOf(q), "mm")} long, crossing in front of the arm ${formatQuantity(rc, "mm")} from axis 1, ${heightWords(z, gravity)} (mid height of the tool-down region).`,
+        pointAt(plane, rc, -half, z),
+        pointAt(plane, rc, half, z),
+      );
     } else {
-      const r0 = ceilTo(a + margin, 5), r1 = floorTo(b - margin, 5);
-      make("front", "Across the front", (q) => `${level}, ${formatQuantity(lengthOf(q), "mm")} long, straight out in front of the arm, ${heightWords(z, gravity)} (mid height of the tool-down region).`,
-        pointAt(plane, r0, 0, z), pointAt(plane, r1, 0, z));
+      const r0 = ceilTo(a + margin, 5),
+        r1 = floorTo(b - margin, 5);
+      make(
+        "front",
+        "Across the front",
+        (q) =>
+          `${level}, ${formatQuantity(lengthOf(q), "mm")} long, straight out in front of the arm, ${heightWords(z, gravity)} (mid height of the tool-down region).`,
+        pointAt(plane, r0, 0, z),
+        pointAt(plane, r1, 0, z),
+      );
     }
   }
 
@@ -204,8 +257,14 @@ export function standardLineQueries(analysis: AnalysisSummary, mounting: Mountin
       const good = found.filter((c) => c.half >= 0.95 * bestHalf);
       const pick = good[Math.floor((good.length - 1) / 2)]!;
       const closeWords = pick.close ? "" : " (the closest the arm reaches there with the tool down)";
-      make("axis1", "Close to axis 1", (q) => `${level}, ${formatQuantity(lengthOf(q), "mm")} long, passing ${formatQuantity(pick.d, "mm")} from axis 1${closeWords}, ${heightWords(pick.z, gravity)}.`,
-        pointAt(plane, pick.d, -pick.half, pick.z), pointAt(plane, pick.d, pick.half, pick.z));
+      make(
+        "axis1",
+        "Close to axis 1",
+        (q) =>
+          `${level}, ${formatQuantity(lengthOf(q), "mm")} long, passing ${formatQuantity(pick.d, "mm")} from axis 1${closeWords}, ${heightWords(pick.z, gravity)}.`,
+        pointAt(plane, pick.d, -pick.half, pick.z),
+        pointAt(plane, pick.d, pick.half, pick.z),
+      );
     } else {
       notes.push("No level line close to axis 1 is reachable with the tool down, so that line is left out.");
     }
@@ -220,8 +279,14 @@ export function standardLineQueries(analysis: AnalysisSummary, mounting: Mountin
     const run = row.runs.reduce((best, x) => (x[1] > best[1] ? x : best));
     const end = floorTo(run[1] - g.stepMm, 5);
     const start = ceilTo(Math.max(run[0] + margin, end - 0.3 * reach), 5);
-    make("edge", "Out to the edge of the reach", (q) => `${level}, ${formatQuantity(lengthOf(q), "mm")} long, straight out from axis 1 to ${formatQuantity(end, "mm")} from it, about ${formatQuantity(rMax - end, "mm")} inside the edge of the tool-down reach, ${heightWords(row.z, gravity)}.`,
-      pointAt(plane, start, 0, row.z), pointAt(plane, end, 0, row.z));
+    make(
+      "edge",
+      "Out to the edge of the reach",
+      (q) =>
+        `${level}, ${formatQuantity(lengthOf(q), "mm")} long, straight out from axis 1 to ${formatQuantity(end, "mm")} from it, about ${formatQuantity(rMax - end, "mm")} inside the edge of the tool-down reach, ${heightWords(row.z, gravity)}.`,
+      pointAt(plane, start, 0, row.z),
+      pointAt(plane, end, 0, row.z),
+    );
   }
   return { lines, notes };
 }
@@ -254,7 +319,11 @@ export interface StandardLinesArm {
  * Chooses and checks the standard lines of an arm (lineCheck runs here, at build time).
  * @param run the check (default: the site's runLineQuery); a test may pass a recording one
  */
-export function standardLinesModel(arm: StandardLinesArm, analysis: ArmAnalysis, run: (q: LineQuery) => LineCheckResult = (q) => runLineQuery(arm.chain, arm.spec.mountings, q)): StandardLinesModel {
+export function standardLinesModel(
+  arm: StandardLinesArm,
+  analysis: ArmAnalysis,
+  run: (q: LineQuery) => LineCheckResult = (q) => runLineQuery(arm.chain, arm.spec.mountings, q),
+): StandardLinesModel {
   const { lines, notes } = standardLineQueries(analysis, arm.spec.mountings[0] ?? "floor");
   const checked = lines.map((line): CheckedStandardLine => {
     const result = run(line.query);
@@ -263,7 +332,13 @@ export function standardLinesModel(arm: StandardLinesArm, analysis: ArmAnalysis,
       lineRatesChartInput(result, `line-rates-${line.key}`, `${arm.spec.model}: ${line.title.toLowerCase()}`),
       `${line.summary} Tool pointing down, flange centre as the tool point; ratios at ${formatQuantity(STANDARD_LINE_SPEED_MM_PER_S, "mm/s")}.`,
     );
-    return { ...line, figures, chart, formHref: `?${lineQueryString(line.query)}#line-check`, command: lineCommandText(arm.file, line.query) };
+    return {
+      ...line,
+      figures,
+      chart,
+      formHref: `?${lineQueryString(line.query)}#line-check`,
+      command: lineCommandText(arm.file, line.query),
+    };
   });
   return { speedMmPerS: STANDARD_LINE_SPEED_MM_PER_S, lines: checked, notes };
 }

@@ -16,7 +16,12 @@ import { loadArms } from "../../src/catalog";
 import { fastKernel, baselineKernel } from "./kernel";
 import { mulberry32 } from "../../src/core/analysis/random";
 import { workspaceEnvelope } from "../../src/core/analysis/envelope";
-import { createSpeedMapWorkspace, referenceOrientations, toolSpeedMap, DEFAULT_SPEED_MAP } from "../../src/core/analysis/speedMap";
+import {
+  createSpeedMapWorkspace,
+  referenceOrientations,
+  toolSpeedMap,
+  DEFAULT_SPEED_MAP,
+} from "../../src/core/analysis/speedMap";
 import { payloadAtReach, payloadInputOf, loadDiagram } from "../../src/core/analysis/payload";
 import { analyseArm, MAX_OUTPUT_COLUMNS } from "../../src/core/analysis/analyseArm";
 import { gravityDirectionInBase } from "../../src/core/analysis/mounting";
@@ -29,7 +34,14 @@ import { runFuzz } from "../fuzz/longRun";
 import { median } from "./stats";
 
 const { values } = parseArgs({
-  options: { arms: { type: "string" }, quick: { type: "boolean" }, only: { type: "string" }, "scale-arms": { type: "string" }, "no-scale": { type: "boolean" }, "fuzz-runs": { type: "string" } },
+  options: {
+    arms: { type: "string" },
+    quick: { type: "boolean" },
+    only: { type: "string" },
+    "scale-arms": { type: "string" },
+    "no-scale": { type: "boolean" },
+    "fuzz-runs": { type: "string" },
+  },
 });
 const reps = values.quick ? 3 : 7;
 
@@ -49,10 +61,17 @@ console.log("kernel: FK + Jacobian + singular values + guaranteed line speed + m
 console.log("arm                          ours poses/s   ml-matrix poses/s   ratio");
 const ratios: number[] = [];
 for (const arm of chosen) {
-  const c = arm.chain, m = c.drivenCount;
+  const c = arm.chain,
+    m = c.drivenCount;
   const rnd = mulberry32(7);
-  const poses = Array.from({ length: 2000 }, () => Float64Array.from({ length: m }, (_, i) => Math.max(c.lowerSi[i]!, -3) + (Math.min(c.upperSi[i]!, 3) - Math.max(c.lowerSi[i]!, -3)) * rnd()));
-  const fast = fastKernel(c), base = baselineKernel(c);
+  const poses = Array.from({ length: 2000 }, () =>
+    Float64Array.from(
+      { length: m },
+      (_, i) => Math.max(c.lowerSi[i]!, -3) + (Math.min(c.upperSi[i]!, 3) - Math.max(c.lowerSi[i]!, -3)) * rnd(),
+    ),
+  );
+  const fast = fastKernel(c),
+    base = baselineKernel(c);
   let sink = 0;
   const run = (k: (q: Float64Array) => number, count: number) => () => {
     for (let i = 0; i < count; i++) sink += k(poses[i % poses.length]!);
@@ -62,7 +81,9 @@ for (const arm of chosen) {
   const fastRate = median(Array.from({ length: reps }, () => 50000 / (timeMs(run(fast, 50000)) / 1000)));
   const baseRate = median(Array.from({ length: reps }, () => 2000 / (timeMs(run(base, 2000)) / 1000)));
   ratios.push(fastRate / baseRate);
-  console.log(`${arm.id.padEnd(28)} ${fastRate.toFixed(0).padStart(12)} ${baseRate.toFixed(0).padStart(19)} ${(fastRate / baseRate).toFixed(1).padStart(7)}×${sink === 0 ? "" : ""}`);
+  console.log(
+    `${arm.id.padEnd(28)} ${fastRate.toFixed(0).padStart(12)} ${baseRate.toFixed(0).padStart(19)} ${(fastRate / baseRate).toFixed(1).padStart(7)}×${sink === 0 ? "" : ""}`,
+  );
 }
 console.log(`median ratio ${median(ratios).toFixed(1)}×\n`);
 
@@ -71,30 +92,45 @@ console.log("analysis stages, ms (single thread):");
 console.log("arm                          envelope  speed maps  payload  full analysis (medians of 3)");
 const fullByArm: { id: string; axes: number; ms: number }[] = [];
 for (const arm of chosen) {
-  const c = arm.chain, facts = armFacts(arm);
+  const c = arm.chain,
+    facts = armFacts(arm);
   const gravity = gravityDirectionInBase(facts.mountings[0] ?? "floor");
   const env = median(Array.from({ length: Math.min(reps, 3) }, () => timeMs(() => workspaceEnvelope(c))));
   // The maps as the analysis makes them: one workspace for both, the inverse condition on the published nodes.
-  const maps = median(Array.from({ length: Math.min(reps, 3) }, () => timeMs(() => {
-    const workspace = createSpeedMapWorkspace();
-    return referenceOrientations(c).map((o) => toolSpeedMap(c, o, { ...DEFAULT_SPEED_MAP, gravity, conditionMaxColumns: MAX_OUTPUT_COLUMNS }, workspace));
-  })));
-  const pay = median(Array.from({ length: Math.min(reps, 3) }, () => timeMs(() => {
-    const input = payloadInputOf(facts, c);
-    payloadAtReach(c, input);
-    loadDiagram(input);
-  })));
+  const maps = median(
+    Array.from({ length: Math.min(reps, 3) }, () =>
+      timeMs(() => {
+        const workspace = createSpeedMapWorkspace();
+        return referenceOrientations(c).map((o) =>
+          toolSpeedMap(c, o, { ...DEFAULT_SPEED_MAP, gravity, conditionMaxColumns: MAX_OUTPUT_COLUMNS }, workspace),
+        );
+      }),
+    ),
+  );
+  const pay = median(
+    Array.from({ length: Math.min(reps, 3) }, () =>
+      timeMs(() => {
+        const input = payloadInputOf(facts, c);
+        payloadAtReach(c, input);
+        loadDiagram(input);
+      }),
+    ),
+  );
   const fullRuns = Array.from({ length: Math.min(reps, 3) }, () => timeMs(() => analyseArm(c, facts)));
   const full = median(fullRuns);
   fullByArm.push({ id: arm.id, axes: c.drivenCount, ms: full });
-  console.log(`${arm.id.padEnd(28)} ${env.toFixed(0).padStart(8)} ${maps.toFixed(0).padStart(11)} ${pay.toFixed(0).padStart(8)} ${full.toFixed(0).padStart(14)}`);
+  console.log(
+    `${arm.id.padEnd(28)} ${env.toFixed(0).padStart(8)} ${maps.toFixed(0).padStart(11)} ${pay.toFixed(0).padStart(8)} ${full.toFixed(0).padStart(14)}`,
+  );
 }
 
 {
   const six = fullByArm.filter((a) => a.axes === 6);
   if (six.length > 0) {
     const over = six.filter((a) => a.ms > 2000);
-    console.log(`six-axis arms, full analysis: median ${median(six.map((a) => a.ms)).toFixed(0)} ms, slowest ${Math.max(...six.map((a) => a.ms)).toFixed(0)} ms; target 2000 ms each${over.length ? `; over: ${over.map((a) => a.id).join(", ")}` : ", met by all"}`);
+    console.log(
+      `six-axis arms, full analysis: median ${median(six.map((a) => a.ms)).toFixed(0)} ms, slowest ${Math.max(...six.map((a) => a.ms)).toFixed(0)} ms; target 2000 ms each${over.length ? `; over: ${over.map((a) => a.id).join(", ")}` : ", met by all"}`,
+    );
   }
 }
 
@@ -103,16 +139,34 @@ for (const arm of chosen) {
   const base = "/tools/armdex/";
   const outDir = join(process.cwd(), "test-results", "bench-dist");
   console.log(`\ndemo site (${values.arms ?? "arms"}, base ${base}):`);
-  const build = await timedBuild(process.cwd(), { ...process.env, ARMDEX_BASE: base, ARMDEX_OUT_DIR: outDir, ASTRO_TELEMETRY_DISABLED: "1", ...(values.arms ? { ARMDEX_ARMS_DIR: values.arms } : {}) });
+  const build = await timedBuild(process.cwd(), {
+    ...process.env,
+    ARMDEX_BASE: base,
+    ARMDEX_OUT_DIR: outDir,
+    ASTRO_TELEMETRY_DISABLED: "1",
+    ...(values.arms ? { ARMDEX_ARMS_DIR: values.arms } : {}),
+  });
   if (build.exitCode !== 0) throw new Error(`demo build failed:\n${build.output.slice(-3000)}`);
-  console.log(`  build ${build.seconds.toFixed(1)} s (analyses from the cache where present), peak memory ${build.peakRssMb.toFixed(0)} MB`);
-  const sheets = readdirSync(join(outDir, "arms")).map((id) => ({ id, kb: statSync(join(outDir, "arms", id, "index.html")).size / 1024 }));
+  console.log(
+    `  build ${build.seconds.toFixed(1)} s (analyses from the cache where present), peak memory ${build.peakRssMb.toFixed(0)} MB`,
+  );
+  const sheets = readdirSync(join(outDir, "arms")).map((id) => ({
+    id,
+    kb: statSync(join(outDir, "arms", id, "index.html")).size / 1024,
+  }));
   const heaviest = sheets.reduce((a, b) => (b.kb > a.kb ? b : a));
-  console.log(`  arm sheet HTML+SVG: median ${median(sheets.map((s) => s.kb)).toFixed(0)} KB, largest ${heaviest.kb.toFixed(0)} KB (${heaviest.id}); limit 300 KB`);
-  const four = arms.filter((a) => a.chain.drivenCount >= 4).slice(0, 4).map((a) => a.id);
+  console.log(
+    `  arm sheet HTML+SVG: median ${median(sheets.map((s) => s.kb)).toFixed(0)} KB, largest ${heaviest.kb.toFixed(0)} KB (${heaviest.id}); limit 300 KB`,
+  );
+  const four = arms
+    .filter((a) => a.chain.drivenCount >= 4)
+    .slice(0, 4)
+    .map((a) => a.id);
   const r = await measureCompareInteractive({ distDir: outDir, base, arms: four, runs: reps });
-  console.log(`  side by side, 4 arms (${four.join(", ")}): drawn in median ${r.medianMs.toFixed(0)} ms over ${reps} cold loads ` +
-    `(min ${Math.min(...r.runsMs).toFixed(0)} ms); target 1000 ms`);
+  console.log(
+    `  side by side, 4 arms (${four.join(", ")}): drawn in median ${r.medianMs.toFixed(0)} ms over ${reps} cold loads ` +
+      `(min ${Math.min(...r.runsMs).toFixed(0)} ms); target 1000 ms`,
+  );
 }
 
 // 4. Longer fuzz run.
@@ -120,7 +174,9 @@ for (const arm of chosen) {
   const runs = Number(values["fuzz-runs"] ?? (values.quick ? 50 : 500));
   console.log(`\nfuzz: ${runs} random valid arms through the whole analysis (seed 1)`);
   const r = runFuzz({ seed: 1, runs });
-  console.log(`  outcomes ${JSON.stringify(r.counts)}, per arm median ${r.medianMs.toFixed(0)} ms, max ${r.maxMs.toFixed(0)} ms`);
+  console.log(
+    `  outcomes ${JSON.stringify(r.counts)}, per arm median ${r.medianMs.toFixed(0)} ms, max ${r.maxMs.toFixed(0)} ms`,
+  );
   console.log(`  arms violating a property: ${r.failures.length}`);
   for (const f of r.failures.slice(0, 5)) console.log(`    arm ${f.index}: ${f.violations[0] ?? ""}`);
 }

@@ -20,7 +20,12 @@ export interface CompareInteractiveOptions {
   readonly runs: number;
 }
 
-export async function measureCompareInteractive(opts: { distDir: string; base: string; arms: string[]; runs: number }): Promise<{ medianMs: number; runsMs: number[] }> {
+export async function measureCompareInteractive(opts: {
+  distDir: string;
+  base: string;
+  arms: string[];
+  runs: number;
+}): Promise<{ medianMs: number; runsMs: number[] }> {
   if (!(opts.runs >= 1)) throw new RangeError(`invalid runs: ${opts.runs}`);
   const server = await serveStatic(opts.distDir, opts.base);
   const browser = await launchChromium();
@@ -50,5 +55,7 @@ if (entry === resolve(new URL(import.meta.url).pathname)) {
   const [distDir = "dist", base = process.env.ARMDEX_BASE ?? "/", runs = "7"] = process.argv.slice(2);
   const arms = ["corvell-tern-7", "brandmoor-lyra-c12", "corvell-tern-25", "corvell-heron-210l"];
   const result = await measureCompareInteractive({ distDir, base, arms, runs: Number(runs) });
-  console.log(`compare page, ${arms.length} arms: interactive in ${result.medianMs.toFixed(0)} ms (median of ${result.runsMs.length}: ${result.runsMs.map((v) => v.toFixed(0)).join(", ")} ms)`);
+  console.log(
+    `compare page, ${arms.length} arms: interactive in ${result.medianMs.toFixed(0)} ms (median of ${result.runsMs.length}: ${result.runsMs.map((v) => v.toFixed(0)).join(", ")} ms)`,
+  );
 }

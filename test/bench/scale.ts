@@ -17,7 +17,16 @@ import { median } from "./stats";
 
 type Json = Record<string, any>;
 
-const LENGTH_KEYS = new Set(["aMm", "dMm", "reachMm", "comMm", "xyzMm", "rangeMm", "maxSpeedMmPerS", "maxAccelMmPerS2"]);
+const LENGTH_KEYS = new Set([
+  "aMm",
+  "dMm",
+  "reachMm",
+  "comMm",
+  "xyzMm",
+  "rangeMm",
+  "maxSpeedMmPerS",
+  "maxAccelMmPerS2",
+]);
 
 /** Multiplies every length in the arm (DH lengths, frame offsets, centres of mass, strokes, stated reach) by `f`. */
 function scaleLengths(value: unknown, f: number, key = ""): unknown {
@@ -43,14 +52,21 @@ export function variant(base: Json, i: number, rnd: () => number): Json {
     if (j.maxSpeedDegPerS) j.maxSpeedDegPerS = Math.round(j.maxSpeedDegPerS / f);
   }
   if (arm.links) for (const l of arm.links as Json[]) l.massKg = Math.round(l.massKg * f ** 3 * 100) / 100;
-  if (arm.wrist?.momentNm) for (const k of Object.keys(arm.wrist.momentNm)) arm.wrist.momentNm[k] = Math.round(arm.wrist.momentNm[k] * f ** 3 * 10) / 10;
-  if (arm.wrist?.inertiaKgM2) for (const k of Object.keys(arm.wrist.inertiaKgM2)) arm.wrist.inertiaKgM2[k] = Math.round(arm.wrist.inertiaKgM2[k] * f ** 5 * 1000) / 1000 || 0.001;
+  if (arm.wrist?.momentNm)
+    for (const k of Object.keys(arm.wrist.momentNm))
+      arm.wrist.momentNm[k] = Math.round(arm.wrist.momentNm[k] * f ** 3 * 10) / 10;
+  if (arm.wrist?.inertiaKgM2)
+    for (const k of Object.keys(arm.wrist.inertiaKgM2))
+      arm.wrist.inertiaKgM2[k] = Math.round(arm.wrist.inertiaKgM2[k] * f ** 5 * 1000) / 1000 || 0.001;
   return arm;
 }
 
 /** Writes `count` variants of the arms in `demoDir` into `dir`; returns their ids. */
 export function generateCatalog(demoDir: string, dir: string, count: number, seed = 300): string[] {
-  const demos = readdirSync(demoDir).filter((f) => f.endsWith(".json")).sort().map((f) => JSON.parse(readFileSync(join(demoDir, f), "utf8")) as Json);
+  const demos = readdirSync(demoDir)
+    .filter((f) => f.endsWith(".json"))
+    .sort()
+    .map((f) => JSON.parse(readFileSync(join(demoDir, f), "utf8")) as Json);
   const rnd = mulberry32(seed);
   mkdirSync(dir, { recursive: true });
   const ids: string[] = [];
@@ -114,8 +130,18 @@ export function timedBuild(root: string, env: NodeJS.ProcessEnv): Promise<BuildR
     child.on("exit", (code) => {
       clearInterval(timer);
       const analysedS = [...output.matchAll(/analysed \S+ in ([\d.]+) s/g)].map((m) => Number(m[1]));
-      const steps = [...output.matchAll(/^step (.+): ([\d.]+) s$/gm)].map((m) => ({ name: m[1]!, seconds: Number(m[2]) }));
-      done({ seconds: (performance.now() - t0) / 1000, peakRssMb: peak / 2 ** 20, exitCode: code, analysedS, steps, output });
+      const steps = [...output.matchAll(/^step (.+): ([\d.]+) s$/gm)].map((m) => ({
+        name: m[1]!,
+        seconds: Number(m[2]),
+      }));
+      done({
+        seconds: (performance.now() - t0) / 1000,
+        peakRssMb: peak / 2 ** 20,
+        exitCode: code,
+        analysedS,
+        steps,
+        output,
+      });
     });
   });
 }
@@ -130,7 +156,12 @@ export interface ScaleReport {
   readonly warm: BuildRun;
 }
 
-export async function runScaleBench(opts: { root: string; arms: number; keep?: boolean; log?: (line: string) => void }): Promise<ScaleReport> {
+export async function runScaleBench(opts: {
+  root: string;
+  arms: number;
+  keep?: boolean;
+  log?: (line: string) => void;
+}): Promise<ScaleReport> {
   const log = opts.log ?? ((l: string) => console.log(l));
   const scratch = join(opts.root, "test-results", `scale-${opts.arms}`);
   rmSync(scratch, { recursive: true, force: true });
@@ -147,8 +178,10 @@ export async function runScaleBench(opts: { root: string; arms: number; keep?: b
   const cold = await timedBuild(opts.root, env);
   if (opts.keep) writeFileSync(join(scratch, "cold.log"), cold.output);
   if (cold.exitCode !== 0) throw new Error(`cold build failed:\n${cold.output.slice(-3000)}`);
-  log(`  cold build ${cold.seconds.toFixed(0)} s, peak memory ${cold.peakRssMb.toFixed(0)} MB, ${cold.analysedS.length} arms analysed, ` +
-    `per arm median ${median(cold.analysedS).toFixed(2)} s, max ${Math.max(...cold.analysedS).toFixed(2)} s`);
+  log(
+    `  cold build ${cold.seconds.toFixed(0)} s, peak memory ${cold.peakRssMb.toFixed(0)} MB, ${cold.analysedS.length} arms analysed, ` +
+      `per arm median ${median(cold.analysedS).toFixed(2)} s, max ${Math.max(...cold.analysedS).toFixed(2)} s`,
+  );
   log(`    steps: ${stepsText(cold)}`);
   // Add one arm, a variant not in the catalog yet, and rebuild.
   // (the same generator one step further: variant number N, an id the catalog does not have yet)
@@ -159,10 +192,14 @@ export async function runScaleBench(opts: { root: string; arms: number; keep?: b
   const warm = await timedBuild(opts.root, env);
   if (opts.keep) writeFileSync(join(scratch, "warm.log"), warm.output);
   if (warm.exitCode !== 0) throw new Error(`warm build failed:\n${warm.output.slice(-3000)}`);
-  log(`  warm build ${warm.seconds.toFixed(0)} s, peak memory ${warm.peakRssMb.toFixed(0)} MB, ${warm.analysedS.length} arm(s) analysed`);
+  log(
+    `  warm build ${warm.seconds.toFixed(0)} s, peak memory ${warm.peakRssMb.toFixed(0)} MB, ${warm.analysedS.length} arm(s) analysed`,
+  );
   log(`    steps: ${stepsText(warm)}`);
-  log(`  targets: cold ≤ 600 s ${cold.seconds <= 600 ? "met" : "MISSED"}, warm ≤ 60 s ${warm.seconds <= 60 ? "met" : "MISSED"}, ` +
-    `peak ≤ 2048 MB ${Math.max(cold.peakRssMb, warm.peakRssMb) <= 2048 ? "met" : "MISSED"}`);
+  log(
+    `  targets: cold ≤ 600 s ${cold.seconds <= 600 ? "met" : "MISSED"}, warm ≤ 60 s ${warm.seconds <= 60 ? "met" : "MISSED"}, ` +
+      `peak ≤ 2048 MB ${Math.max(cold.peakRssMb, warm.peakRssMb) <= 2048 ? "met" : "MISSED"}`,
+  );
   if (!opts.keep) rmSync(scratch, { recursive: true, force: true });
   return { arms: ids.length + 1, cold, warm };
 }
@@ -170,5 +207,9 @@ export async function runScaleBench(opts: { root: string; arms: number; keep?: b
 if (import.meta.url === `file://${process.argv[1]}`) {
   const { parseArgs } = await import("node:util");
   const { values } = parseArgs({ options: { arms: { type: "string" }, keep: { type: "boolean" } } });
-  await runScaleBench({ root: resolve(new URL("../..", import.meta.url).pathname), arms: Number(values.arms ?? 300), keep: values.keep });
+  await runScaleBench({
+    root: resolve(new URL("../..", import.meta.url).pathname),
+    arms: Number(values.arms ?? 300),
+    keep: values.keep,
+  });
 }

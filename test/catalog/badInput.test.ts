@@ -24,9 +24,16 @@ interface Expected {
 const run = promisify(execFile);
 
 /** Runs the CLI through tsx like the build script does; resolves with the exit code instead of rejecting. */
-async function armdex(args: string[], env: NodeJS.ProcessEnv = process.env): Promise<{ code: number; stdout: string; stderr: string }> {
+async function armdex(
+  args: string[],
+  env: NodeJS.ProcessEnv = process.env,
+): Promise<{ code: number; stdout: string; stderr: string }> {
   try {
-    const { stdout, stderr } = await run("npx", ["tsx", "src/cli/armdex.ts", ...args], { cwd: root, env, maxBuffer: 16 * 1024 * 1024 });
+    const { stdout, stderr } = await run("npx", ["tsx", "src/cli/armdex.ts", ...args], {
+      cwd: root,
+      env,
+      maxBuffer: 16 * 1024 * 1024,
+    });
     return { code: 0, stdout, stderr };
   } catch (e) {
     const err = e as { code?: unknown; stdout?: string; stderr?: string };
@@ -73,17 +80,26 @@ describe("the bad-input corpus", () => {
 
   it("reports every expected error with its file, JSON path and message", () => {
     const missing = manifest.filter(
-      (e) => !(byFile.get(reported(e.file)) ?? []).some((i) => i.severity === "error" && i.path === e.path && i.message.includes(e.messageIncludes)),
+      (e) =>
+        !(byFile.get(reported(e.file)) ?? []).some(
+          (i) => i.severity === "error" && i.path === e.path && i.message.includes(e.messageIncludes),
+        ),
     );
     const found = (e: Expected) => (byFile.get(reported(e.file)) ?? []).map(formatIssue).join("\n    ");
-    expect(missing.map((e) => `${e.file} ${e.path || "(whole file)"}: ${e.messageIncludes}\n    got: ${found(e)}`)).toEqual([]);
+    expect(
+      missing.map((e) => `${e.file} ${e.path || "(whole file)"}: ${e.messageIncludes}\n    got: ${found(e)}`),
+    ).toEqual([]);
   });
 
   it("names a copied file that kept another file's id as a duplicate", () => {
     const second = byFile.get(reported("duplicate-id-2.json")) ?? [];
-    expect(second.map((i) => i.message)).toContain(`expected a unique id, found "duplicate-id" which ${reported("duplicate-id-1.json")} already uses`);
+    expect(second.map((i) => i.message)).toContain(
+      `expected a unique id, found "duplicate-id" which ${reported("duplicate-id-1.json")} already uses`,
+    );
     // The first claimant is not called a duplicate of the second.
-    expect((byFile.get(reported("duplicate-id-1.json")) ?? []).filter((i) => i.message.includes("unique id"))).toEqual([]);
+    expect((byFile.get(reported("duplicate-id-1.json")) ?? []).filter((i) => i.message.includes("unique id"))).toEqual(
+      [],
+    );
   });
 });
 
@@ -93,11 +109,17 @@ describe("armdex check on the corpus", () => {
     expect(code).toBe(1);
     const lines = stderr.split("\n").filter((l) => l.startsWith("error: "));
     for (const file of files) {
-      expect(lines.some((l) => l.startsWith(`error: ${CORPUS}/${file}: `)), `stderr names ${file}`).toBe(true);
+      expect(
+        lines.some((l) => l.startsWith(`error: ${CORPUS}/${file}: `)),
+        `stderr names ${file}`,
+      ).toBe(true);
     }
     for (const e of manifest) {
       const prefix = `error: ${CORPUS}/${e.file}: ${e.path ? `${e.path}: ` : ""}`;
-      expect(lines.some((l) => l.startsWith(prefix) && l.includes(e.messageIncludes)), `${prefix}${e.messageIncludes}`).toBe(true);
+      expect(
+        lines.some((l) => l.startsWith(prefix) && l.includes(e.messageIncludes)),
+        `${prefix}${e.messageIncludes}`,
+      ).toBe(true);
     }
     const errorCount = result.issues.filter((i) => i.severity === "error").length;
     expect(lines.length).toBe(errorCount);
@@ -118,7 +140,8 @@ describe("the build on a catalog with one bad file (ARMDEX_ARMS_DIR)", () => {
     await mkdir(armsDir);
     await mkdir(join(tmp, "public", "schema"), { recursive: true });
     await copyFile(join(root, "public", "schema", "arm.schema.json"), join(tmp, "public", "schema", "arm.schema.json"));
-    for (const f of await readdir(join(root, "arms"))) if (f.endsWith(".json")) await copyFile(join(root, "arms", f), join(armsDir, f));
+    for (const f of await readdir(join(root, "arms")))
+      if (f.endsWith(".json")) await copyFile(join(root, "arms", f), join(armsDir, f));
   });
 
   afterAll(async () => {
@@ -139,7 +162,9 @@ describe("the build on a catalog with one bad file (ARMDEX_ARMS_DIR)", () => {
     expect(lines.length).toBeGreaterThan(0);
     for (const l of lines) expect(l).toContain("range-reversed.json: ");
     expect(broken.stderr).toContain("joints[1].rangeDeg: expected [min, max] with min < max (deg), found [140,-110]");
-    expect(broken.stdout).toContain(`${demoCount} arms valid; ${lines.length} error${lines.length === 1 ? "" : "s"} in 1 file(s)`);
+    expect(broken.stdout).toContain(
+      `${demoCount} arms valid; ${lines.length} error${lines.length === 1 ? "" : "s"} in 1 file(s)`,
+    );
   }, 60_000);
 
   it("npm run build stops at the check with a non-zero exit, before Astro, and leaves the previous site untouched", async () => {
@@ -150,14 +175,20 @@ describe("the build on a catalog with one bad file (ARMDEX_ARMS_DIR)", () => {
     let code = 0;
     let stderr = "";
     try {
-      await run("npm", ["run", "build"], { cwd: root, env: { ...process.env, ARMDEX_ARMS_DIR: armsDir, ARMDEX_OUT_DIR: outDir }, maxBuffer: 16 * 1024 * 1024 });
+      await run("npm", ["run", "build"], {
+        cwd: root,
+        env: { ...process.env, ARMDEX_ARMS_DIR: armsDir, ARMDEX_OUT_DIR: outDir },
+        maxBuffer: 16 * 1024 * 1024,
+      });
     } catch (e) {
       const err = e as { code?: unknown; stderr?: string };
       code = typeof err.code === "number" ? err.code : -1;
       stderr = err.stderr ?? "";
     }
     expect(code).not.toBe(0);
-    expect(stderr).toContain("range-reversed.json: joints[1].rangeDeg: expected [min, max] with min < max (deg), found [140,-110]");
+    expect(stderr).toContain(
+      "range-reversed.json: joints[1].rangeDeg: expected [min, max] with min < max (deg), found [140,-110]",
+    );
     expect(stderr).toContain('build stopped at "armdex check"');
     expect(await readdir(outDir)).toEqual(["index.html"]);
     expect(await readFile(join(outDir, "index.html"), "utf8")).toBe("previous site\n");

@@ -54,24 +54,41 @@ describe("derivedKey", () => {
   const base = derivedKey(fakeArm, "arm-sheet", { baseUrl: "/", site: undefined }, { codeFingerprint: "code-1" });
 
   it("is the same for the same arm, kind, inputs and code, whatever the order of the inputs", () => {
-    expect(derivedKey(fakeArm, "arm-sheet", { site: undefined, baseUrl: "/" }, { codeFingerprint: "code-1" })).toBe(base);
+    expect(derivedKey(fakeArm, "arm-sheet", { site: undefined, baseUrl: "/" }, { codeFingerprint: "code-1" })).toBe(
+      base,
+    );
     expect(base).toMatch(/^[0-9a-f]{32}$/);
   });
 
   it("changes when the chart and view code changes", () => {
-    expect(derivedKey(fakeArm, "arm-sheet", { baseUrl: "/", site: undefined }, { codeFingerprint: "code-2" })).not.toBe(base);
+    expect(derivedKey(fakeArm, "arm-sheet", { baseUrl: "/", site: undefined }, { codeFingerprint: "code-2" })).not.toBe(
+      base,
+    );
   });
 
   it("changes when the analysis changes (another spec hash, hence another analysis key)", () => {
     const other = { ...fakeArm, specHash: "b".repeat(64) };
     expect(analysisKey(other)).not.toBe(analysisKey(fakeArm));
-    expect(derivedKey(other, "arm-sheet", { baseUrl: "/", site: undefined }, { codeFingerprint: "code-1" })).not.toBe(base);
+    expect(derivedKey(other, "arm-sheet", { baseUrl: "/", site: undefined }, { codeFingerprint: "code-1" })).not.toBe(
+      base,
+    );
   });
 
   it("changes with the inputs, the kind and the arm file's path", () => {
-    expect(derivedKey(fakeArm, "arm-sheet", { baseUrl: "/tools/armdex/", site: undefined }, { codeFingerprint: "code-1" })).not.toBe(base);
-    expect(derivedKey(fakeArm, "payload-csv", { baseUrl: "/", site: undefined }, { codeFingerprint: "code-1" })).not.toBe(base);
-    expect(derivedKey({ ...fakeArm, file: "other/invented-arm.json" }, "arm-sheet", { baseUrl: "/", site: undefined }, { codeFingerprint: "code-1" })).not.toBe(base);
+    expect(
+      derivedKey(fakeArm, "arm-sheet", { baseUrl: "/tools/armdex/", site: undefined }, { codeFingerprint: "code-1" }),
+    ).not.toBe(base);
+    expect(
+      derivedKey(fakeArm, "payload-csv", { baseUrl: "/", site: undefined }, { codeFingerprint: "code-1" }),
+    ).not.toBe(base);
+    expect(
+      derivedKey(
+        { ...fakeArm, file: "other/invented-arm.json" },
+        "arm-sheet",
+        { baseUrl: "/", site: undefined },
+        { codeFingerprint: "code-1" },
+      ),
+    ).not.toBe(base);
   });
 
   it("rejects a kind that is not a lowercase slug (it becomes part of a file name)", () => {
@@ -111,7 +128,12 @@ describe("cachedDerived", () => {
   });
 
   it("does not cache a value JSON cannot carry exactly (NaN, typed arrays): it derives it every time", async () => {
-    const values: unknown[] = [{ x: Number.NaN }, { x: Number.POSITIVE_INFINITY }, { x: new Float64Array([1, 2]) }, { x: [1, undefined] }];
+    const values: unknown[] = [
+      { x: Number.NaN },
+      { x: Number.POSITIVE_INFINITY },
+      { x: new Float64Array([1, 2]) },
+      { x: [1, undefined] },
+    ];
     for (const [i, value] of values.entries()) {
       const { calls, derive } = counting(value);
       expect(await cachedDerived(fakeArm, "arm-sheet", {}, derive, { codeFingerprint: `code-${i}` })).toBe(value);
@@ -125,11 +147,20 @@ describe("cachedDerived", () => {
     const key = derivedKey(fakeArm, "payload-csv", {}, { codeFingerprint: "code-1" });
     const path = derivedPath("payload-csv", key);
     mkdirSync(join(dir, "derived"), { recursive: true });
-    const bad = ['{"key":"' + key + '","value":"trunc', "", "null", "[1,2]", JSON.stringify({ key: "another-key", value: "stale" }), JSON.stringify({ key })];
+    const bad = [
+      '{"key":"' + key + '","value":"trunc',
+      "",
+      "null",
+      "[1,2]",
+      JSON.stringify({ key: "another-key", value: "stale" }),
+      JSON.stringify({ key }),
+    ];
     for (const text of bad) {
       writeFileSync(path, text);
       const { calls, derive } = counting("reach,payload\n");
-      expect(await cachedDerived(fakeArm, "payload-csv", {}, derive, { codeFingerprint: "code-1" })).toBe("reach,payload\n");
+      expect(await cachedDerived(fakeArm, "payload-csv", {}, derive, { codeFingerprint: "code-1" })).toBe(
+        "reach,payload\n",
+      );
       expect(calls.n).toBe(1);
       expect(JSON.parse(readFileSync(path, "utf8"))).toEqual({ key, value: "reach,payload\n" });
     }
@@ -179,16 +210,24 @@ describe("analysis summaries", () => {
     expect(summary).toEqual(JSON.parse(JSON.stringify(summariseAnalysis(analysis))));
     // Every value is the analysis' own.
     expect(summary!.reach).toEqual(analysis.reach);
-    expect(summary!.speed.maps.map((m) => m.guaranteedMmPerS)).toEqual(analysis.speed.maps.map((m) => m.guaranteedMmPerS));
+    expect(summary!.speed.maps.map((m) => m.guaranteedMmPerS)).toEqual(
+      analysis.speed.maps.map((m) => m.guaranteedMmPerS),
+    );
     expect(summary!.cycle.standardCycleS).toBe(analysis.cycle.standardCycleS);
     // and it is much smaller than the analysis
-    expect(readFileSync(join(dir, `${key}.summary.json`)).length).toBeLessThan(readFileSync(join(dir, `${key}.json`)).length);
+    expect(readFileSync(join(dir, `${key}.summary.json`)).length).toBeLessThan(
+      readFileSync(join(dir, `${key}.json`)).length,
+    );
   });
 
   it("a corrupt or foreign summary is ignored and made again from the cached analysis", async () => {
     await writeCachedAnalysis(arm, analysis);
     const path = join(dir, `${analysisKey(arm)}.summary.json`);
-    for (const text of ['{"id":', JSON.stringify({ ...summariseAnalysis(analysis), specHash: "0".repeat(64) }), JSON.stringify({ ...summariseAnalysis(analysis), analysisVersion: "0" })]) {
+    for (const text of [
+      '{"id":',
+      JSON.stringify({ ...summariseAnalysis(analysis), specHash: "0".repeat(64) }),
+      JSON.stringify({ ...summariseAnalysis(analysis), analysisVersion: "0" }),
+    ]) {
       writeFileSync(path, text);
       expect(await readCachedSummary(arm)).toBeNull();
       expect(await getAnalysisSummary(arm)).toEqual(JSON.parse(JSON.stringify(summariseAnalysis(analysis))));
@@ -198,8 +237,12 @@ describe("analysis summaries", () => {
 
   it("give the same catalog table, data/catalog.json row and side-by-side defaults as the full analysis", () => {
     const summary = JSON.parse(JSON.stringify(summariseAnalysis(analysis))) as ReturnType<typeof summariseAnalysis>;
-    expect(catalogPageModel([arm], { baseUrl: "/" }, new Map([[arm.id, summary]]))).toEqual(catalogPageModel([arm], { baseUrl: "/" }, new Map([[arm.id, analysis]])));
+    expect(catalogPageModel([arm], { baseUrl: "/" }, new Map([[arm.id, summary]]))).toEqual(
+      catalogPageModel([arm], { baseUrl: "/" }, new Map([[arm.id, analysis]])),
+    );
     expect(catalogSummaryRow(arm, summary)).toEqual(catalogSummaryRow(arm, analysis));
-    expect(lineCheckCompareModel([{ arm, analysis: summary }], "/")).toEqual(lineCheckCompareModel([{ arm, analysis }], "/"));
+    expect(lineCheckCompareModel([{ arm, analysis: summary }], "/")).toEqual(
+      lineCheckCompareModel([{ arm, analysis }], "/"),
+    );
   });
 });

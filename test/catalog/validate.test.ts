@@ -24,7 +24,14 @@ function validArm(): Record<string, unknown> {
     repeatabilityMm: 0.03,
     protection: "IP54",
     convention: "dh",
-    joints: [joint("J1", 100, -90, 400), joint("J2", 500, 0, 0), joint("J3", 50, -90, 0), joint("J4", 0, 90, 450), joint("J5", 0, -90, 0), joint("J6", 0, 0, 80)],
+    joints: [
+      joint("J1", 100, -90, 400),
+      joint("J2", 500, 0, 0),
+      joint("J3", 50, -90, 0),
+      joint("J4", 0, 90, 450),
+      joint("J5", 0, -90, 0),
+      joint("J6", 0, 0, 80),
+    ],
     flange: { xyzMm: [0, 0, 0], rpyDeg: [0, 0, 0] },
     source: { document: "Test sheet", revision: "A", date: "2026-01-01" },
   };
@@ -71,7 +78,9 @@ describe("validateArm", () => {
   });
 
   it("catches an id that differs from the file name", () => {
-    expect(messages(validArm(), "other-name")).toContain('id: expected the file name "other-name", found "test-arm" (the id is the file name and the URL)');
+    expect(messages(validArm(), "other-name")).toContain(
+      'id: expected the file name "other-name", found "test-arm" (the id is the file name and the URL)',
+    );
   });
 
   it("catches couplings to unknown and later joints, and joints of another kind", () => {
@@ -80,8 +89,15 @@ describe("validateArm", () => {
     joints[2]!.coupling = { terms: [{ joint: "J5", gain: -1 }] };
     joints[3]!.coupling = { terms: [{ joint: "J9", gain: 1 }] };
     const list = messages(a);
-    expect(list.some((m) => m.startsWith("joints[2].coupling.terms[0].joint: expected an earlier joint") && m.includes("comes later"))).toBe(true);
-    expect(list.some((m) => m.startsWith("joints[3].coupling.terms[0].joint: expected the name of an earlier joint"))).toBe(true);
+    expect(
+      list.some(
+        (m) =>
+          m.startsWith("joints[2].coupling.terms[0].joint: expected an earlier joint") && m.includes("comes later"),
+      ),
+    ).toBe(true);
+    expect(
+      list.some((m) => m.startsWith("joints[3].coupling.terms[0].joint: expected the name of an earlier joint")),
+    ).toBe(true);
   });
 
   it("catches a chain whose flange cannot move (every joint passive)", () => {
@@ -91,7 +107,9 @@ describe("validateArm", () => {
       return { ...rest, coupling: { terms: [{ joint: i === 0 ? "J6" : `J${i}`, gain: 1 }] } };
     });
     a.joints = joints;
-    expect(messages(a)).toContain("joints: expected at least one driven joint (with a range and a speed): with every joint passive the flange cannot move");
+    expect(messages(a)).toContain(
+      "joints: expected at least one driven joint (with a range and a speed): with every joint passive the flange cannot move",
+    );
   });
 
   it("catches a zero or non-unit axis in the frames convention", () => {
@@ -99,7 +117,11 @@ describe("validateArm", () => {
     a.convention = "frames";
     a.joints = (a.joints as Record<string, unknown>[]).map((j, i) => {
       const { dh: _dh, ...rest } = j;
-      return { ...rest, origin: { xyzMm: [0, 0, 100], rpyDeg: [0, 0, 0] }, axis: i === 0 ? [0, 0, 0] : i === 1 ? [0, 2, 0] : [0, 0, 1] };
+      return {
+        ...rest,
+        origin: { xyzMm: [0, 0, 100], rpyDeg: [0, 0, 0] },
+        axis: i === 0 ? [0, 0, 0] : i === 1 ? [0, 2, 0] : [0, 0, 1],
+      };
     });
     const list = messages(a);
     expect(list).toContain("joints[0].axis: expected a unit vector (length 1 ± 0.001), found length 0.000");
@@ -122,7 +144,10 @@ describe("loadArms", () => {
     await writeFile(join(dir, "truncated.json"), JSON.stringify(good).slice(0, 80));
     await writeFile(join(dir, "empty.json"), "");
     await writeFile(join(dir, "latin1.json"), Buffer.from([0x7b, 0x22, 0xe9, 0x22, 0x7d]));
-    await writeFile(join(dir, "schema-ref.json"), JSON.stringify({ ...good, id: "schema-ref", $schema: "../nowhere/arm.schema.json" }));
+    await writeFile(
+      join(dir, "schema-ref.json"),
+      JSON.stringify({ ...good, id: "schema-ref", $schema: "../nowhere/arm.schema.json" }),
+    );
     await mkdir(join(dir, "folder.json"));
     const { arms, issues } = await loadArms([dir, join(dir, "test-arm.json")]);
     const text = issues.map(formatIssue).join("\n");
@@ -130,7 +155,9 @@ describe("loadArms", () => {
     expect(text).toMatch(/truncated\.json: expected valid JSON, found a syntax error.*\(the file looks truncated\)/);
     expect(text).toMatch(/empty\.json: expected a JSON object describing one arm, found an empty file/);
     expect(text).toMatch(/latin1\.json: expected UTF-8 text/);
-    expect(text).toMatch(/schema-ref\.json: \$schema: expected a path to the arm JSON Schema .* which points to no file/);
+    expect(text).toMatch(
+      /schema-ref\.json: \$schema: expected a path to the arm JSON Schema .* which points to no file/,
+    );
     expect(text).toMatch(/folder\.json: expected a JSON file, found a directory/);
     expect(text).toMatch(/test-arm\.json: id: expected a unique id, found "test-arm"/);
   });
@@ -151,6 +178,22 @@ describe("armJsonSchema", () => {
   it("forbids unknown keys and requires the contract fields", () => {
     const schema = armJsonSchema() as { additionalProperties?: boolean; required?: string[] };
     expect(schema.additionalProperties).toBe(false);
-    expect(schema.required).toEqual(expect.arrayContaining(["id", "maker", "model", "class", "mountings", "massKg", "ratedPayloadKg", "repeatabilityMm", "protection", "convention", "joints", "flange", "source"]));
+    expect(schema.required).toEqual(
+      expect.arrayContaining([
+        "id",
+        "maker",
+        "model",
+        "class",
+        "mountings",
+        "massKg",
+        "ratedPayloadKg",
+        "repeatabilityMm",
+        "protection",
+        "convention",
+        "joints",
+        "flange",
+        "source",
+      ]),
+    );
   });
 });

@@ -39,8 +39,18 @@ const warningsOf = (spec: ArmSpec) => plausibilityWarnings(spec, "arms/x.json").
 describe("plausibilityWarnings", () => {
   it("returns nothing for a plausible arm, and only warnings, each with file and path", () => {
     expect(warningsOf(tern())).toEqual([]);
-    const issues = plausibilityWarnings(tern((s) => (s.repeatabilityMm = 20)), "arms/x.json");
-    expect(issues).toEqual([{ file: "arms/x.json", path: "repeatabilityMm", severity: "warning", message: expect.stringContaining("found 20") }]);
+    const issues = plausibilityWarnings(
+      tern((s) => (s.repeatabilityMm = 20)),
+      "arms/x.json",
+    );
+    expect(issues).toEqual([
+      {
+        file: "arms/x.json",
+        path: "repeatabilityMm",
+        severity: "warning",
+        message: expect.stringContaining("found 20"),
+      },
+    ]);
   });
 
   it("repeatability: warns outside 0.005–2 mm, with the likely unit slip", () => {
@@ -57,7 +67,9 @@ describe("plausibilityWarnings", () => {
 
   it("revolute joint speed: warns below 10 or above 1000 deg/s, naming the joint", () => {
     expect(PLAUSIBILITY.revoluteSpeedDegPerS).toEqual([10, 1000]);
-    expect(warningsOf(tern((s) => ((s.joints[0]!.maxSpeedDegPerS = 10), (s.joints[5]!.maxSpeedDegPerS = 1000))))).toEqual([]);
+    expect(
+      warningsOf(tern((s) => ((s.joints[0]!.maxSpeedDegPerS = 10), (s.joints[5]!.maxSpeedDegPerS = 1000)))),
+    ).toEqual([]);
     expect(warningsOf(tern((s) => (s.joints[0]!.maxSpeedDegPerS = 4)))).toEqual([
       "joints[0].maxSpeedDegPerS: expected a revolute joint speed between 10 and 1000 deg/s, found 4 (if it was typed in rad/s it is 229.2 deg/s; in rev/s, 1440 deg/s)",
     ]);
@@ -79,7 +91,9 @@ describe("plausibilityWarnings", () => {
   it("link masses: warns when they add up to more than massKg", () => {
     const total = tern().links!.reduce((s, l) => s + l.massKg, 0);
     expect(warningsOf(tern((s) => (s.massKg = total)))).toEqual([]);
-    expect(warningsOf(tern((s) => (s.massKg = 19)))).toEqual([`links: expected the link masses to add up to at most massKg (19 kg), found ${total} kg`]);
+    expect(warningsOf(tern((s) => (s.massKg = 19)))).toEqual([
+      `links: expected the link masses to add up to at most massKg (19 kg), found ${total} kg`,
+    ]);
   });
 
   it("rated payload: warns above 3 × massKg", () => {
@@ -93,7 +107,9 @@ describe("plausibilityWarnings", () => {
   it("stated reach: warns below 50 mm (metres typed) and above the summed link lengths", () => {
     expect(PLAUSIBILITY.minReachMm).toBe(50);
     expect(warningsOf(tern((s) => (s.reachMm = 50)))).toEqual([]);
-    expect(warningsOf(tern((s) => (s.reachMm = 0.84)))).toEqual(["reachMm: expected a reach of at least 50 mm, found 0.84: was it typed in metres? (0.84 m = 840 mm)"]);
+    expect(warningsOf(tern((s) => (s.reachMm = 0.84)))).toEqual([
+      "reachMm: expected a reach of at least 50 mm, found 0.84: was it typed in metres? (0.84 m = 840 mm)",
+    ]);
     const bound = linkLengthSumMm(tern())!;
     // Tern 7 rows: hypot(75, 340) + 360 + 45 + 400 + 80 (standard DH: each row translates by hypot(a, d)).
     expect(bound).toBeCloseTo(Math.hypot(75, 340) + 360 + 45 + 400 + 80, 9);
@@ -132,20 +148,49 @@ describe("plausibilityWarnings", () => {
 
 describe("warnings through the loader and the CLI", () => {
   const cases: readonly [file: string, path: string, includes: string][] = [
-    ["link-masses-exceed-arm.json", "links", "expected the link masses to add up to at most massKg (19 kg), found 21.8 kg"],
+    [
+      "link-masses-exceed-arm.json",
+      "links",
+      "expected the link masses to add up to at most massKg (19 kg), found 21.8 kg",
+    ],
     ["payload-above-mass.json", "ratedPayloadKg", "expected at most 3 × massKg (93 kg), found 120 kg"],
-    ["reach-in-metres.json", "reachMm", "expected a reach of at least 50 mm, found 0.88: was it typed in metres? (0.88 m = 880 mm)"],
-    ["reach-ten-times.json", "reachMm", "expected at most 1304 mm (the sum of the arm's link lengths: no pose reaches farther), found 8800"],
-    ["repeatability-in-micrometres.json", "repeatabilityMm", "expected a repeatability between 0.005 and 2 mm, found 20 (typed in µm?"],
-    ["speed-in-rad-per-s.json", "joints[0].maxSpeedDegPerS", "expected a revolute joint speed between 10 and 1000 deg/s, found 4 (if it was typed in rad/s it is 229.2 deg/s"],
-    ["speed-motor-rpm.json", "joints[5].maxSpeedDegPerS", "expected a revolute joint speed between 10 and 1000 deg/s, found 3000"],
+    [
+      "reach-in-metres.json",
+      "reachMm",
+      "expected a reach of at least 50 mm, found 0.88: was it typed in metres? (0.88 m = 880 mm)",
+    ],
+    [
+      "reach-ten-times.json",
+      "reachMm",
+      "expected at most 1304 mm (the sum of the arm's link lengths: no pose reaches farther), found 8800",
+    ],
+    [
+      "repeatability-in-micrometres.json",
+      "repeatabilityMm",
+      "expected a repeatability between 0.005 and 2 mm, found 20 (typed in µm?",
+    ],
+    [
+      "speed-in-rad-per-s.json",
+      "joints[0].maxSpeedDegPerS",
+      "expected a revolute joint speed between 10 and 1000 deg/s, found 4 (if it was typed in rad/s it is 229.2 deg/s",
+    ],
+    [
+      "speed-motor-rpm.json",
+      "joints[5].maxSpeedDegPerS",
+      "expected a revolute joint speed between 10 and 1000 deg/s, found 3000",
+    ],
   ];
 
   it.each(cases)("%s loads as a valid arm carrying its warning at %s", async (file, path, includes) => {
     const { arm, issues } = await loadArmFile(join(root, IMPLAUSIBLE, file));
     expect(issues.filter((i) => i.severity === "error")).toEqual([]);
     expect(arm).not.toBeNull();
-    const expected = { file: relative(process.cwd(), join(root, IMPLAUSIBLE, file)), path, severity: "warning", message: expect.stringContaining(includes) };
+    const expected = {
+      file: relative(process.cwd(), join(root, IMPLAUSIBLE, file)),
+      path,
+      severity: "warning",
+      message: expect.stringContaining(includes),
+    };
     expect(issues).toEqual([expected]);
     expect(arm!.warnings).toEqual([expected]);
   });
@@ -157,9 +202,12 @@ describe("warnings through the loader and the CLI", () => {
   });
 
   it("armdex check prints every warning and still exits 0", async () => {
-    const { stdout, stderr } = await promisify(execFile)("npx", ["tsx", "src/cli/armdex.ts", "check", IMPLAUSIBLE], { cwd: root });
+    const { stdout, stderr } = await promisify(execFile)("npx", ["tsx", "src/cli/armdex.ts", "check", IMPLAUSIBLE], {
+      cwd: root,
+    });
     expect(stderr).toBe("");
-    for (const [file, path, includes] of cases) expect(stdout).toContain(`warning: ${IMPLAUSIBLE}/${file}: ${path}: ${includes}`);
+    for (const [file, path, includes] of cases)
+      expect(stdout).toContain(`warning: ${IMPLAUSIBLE}/${file}: ${path}: ${includes}`);
     expect(stdout).toContain(`${cases.length} arms valid; 0 errors, ${cases.length} warnings`);
   }, 60_000);
 });

@@ -24,7 +24,13 @@ describe("axes", () => {
   it("labels decimals when the step needs them, with a true minus sign", () => {
     expect(tickDecimals([0, 1], 5)).toBe(1);
     expect(tickDecimals([0, 2000], 5)).toBe(0);
-    expect(ticksOf(scaleLinear([-0.5, 0.5], [0, 1]), 4).map((t) => t.text)).toEqual(["\u22120.4", "\u22120.2", "0", "0.2", "0.4"]);
+    expect(ticksOf(scaleLinear([-0.5, 0.5], [0, 1]), 4).map((t) => t.text)).toEqual([
+      "\u22120.4",
+      "\u22120.2",
+      "0",
+      "0.2",
+      "0.4",
+    ]);
   });
 
   it("turns the left axis title to read upward", () => {
@@ -38,20 +44,39 @@ describe("axes", () => {
 describe("equalScale", () => {
   const margins = { top: 10, right: 10, bottom: 10, left: 10 };
   it("draws one millimetre the same length on both axes", () => {
-    const l = equalScale([0, 1000], [0, 500], { widthPx: 520, maxHeightPx: 2000, minHeightPx: 100, margins, padShare: 0 });
+    const l = equalScale([0, 1000], [0, 500], {
+      widthPx: 520,
+      maxHeightPx: 2000,
+      minHeightPx: 100,
+      margins,
+      padShare: 0,
+    });
     expect(l.pxPerUnit).toBeCloseTo(0.5, 12);
     expect(l.x(1000) - l.x(0)).toBeCloseTo(500, 9);
     expect(l.y(0) - l.y(500)).toBeCloseTo(250, 9);
     expect(l.heightPx).toBeCloseTo(270, 9);
   });
   it("fits tall data to the height limit and widens x about its centre", () => {
-    const l = equalScale([0, 100], [0, 1000], { widthPx: 520, maxHeightPx: 520, minHeightPx: 100, margins, padShare: 0 });
+    const l = equalScale([0, 100], [0, 1000], {
+      widthPx: 520,
+      maxHeightPx: 520,
+      minHeightPx: 100,
+      margins,
+      padShare: 0,
+    });
     expect(l.pxPerUnit).toBeCloseTo(0.5, 12);
     expect(l.x(50)).toBeCloseTo(10 + 250, 9); // centre of the data at the centre of the plot
     expect(l.y(1000)).toBeCloseTo(10, 9);
   });
   it("narrows the chart to the data down to minWidthPx", () => {
-    const l = equalScale([0, 100], [0, 1000], { widthPx: 520, maxHeightPx: 520, minHeightPx: 100, margins, padShare: 0, minWidthPx: 200 });
+    const l = equalScale([0, 100], [0, 1000], {
+      widthPx: 520,
+      maxHeightPx: 520,
+      minHeightPx: 100,
+      margins,
+      padShare: 0,
+      minWidthPx: 200,
+    });
     expect(l.widthPx).toBe(200);
     expect(l.pxPerUnit).toBeCloseTo(0.5, 12);
   });

@@ -3,7 +3,13 @@ import { envelopeChart } from "../../src/charts/envelopeChart";
 import { attr, bounds, elements, expectAccessible, pathPoints, texts } from "./helpers";
 
 const square = (x0: number, x1: number, y0: number, y1: number) => ({
-  outer: [[x0, y0], [x1, y0], [x1, y1], [x0, y1], [x0, y0]] as [number, number][],
+  outer: [
+    [x0, y0],
+    [x1, y0],
+    [x1, y1],
+    [x0, y1],
+    [x0, y0],
+  ] as [number, number][],
   holes: [],
 });
 
@@ -41,13 +47,27 @@ describe("envelopeChart, side view", () => {
     expect(Number(attr(axis, "x1"))).toBeCloseTo(px100 - 100 * pxPerMm, 0);
     const stated = elements(chart.svg, "line", "stated-reach")[0]!;
     expect(Number(attr(stated, "x1"))).toBeCloseTo(px500, 0);
-    expect(texts(chart.svg, "legend-label")).toEqual(["wrist centre point (WCP)", "flange centre", "axis 1", "stated reach 500 mm"]);
+    expect(texts(chart.svg, "legend-label")).toEqual([
+      "wrist centre point (WCP)",
+      "flange centre",
+      "axis 1",
+      "stated reach 500 mm",
+    ]);
   });
 });
 
 describe("envelopeChart, top view and other layouts", () => {
   it("draws the stated reach as a circle about axis 1 in the top view", () => {
-    const chart = envelopeChart({ id: "env-top", armName: "Demo", view: "top", layout: "revolute-base", wcp: null, flange: [square(-500, 500, -500, 500)], statedReachMm: 400, axis1TopMm: [0, 0] });
+    const chart = envelopeChart({
+      id: "env-top",
+      armName: "Demo",
+      view: "top",
+      layout: "revolute-base",
+      wcp: null,
+      flange: [square(-500, 500, -500, 500)],
+      statedReachMm: 400,
+      axis1TopMm: [0, 0],
+    });
     expectAccessible(chart.svg, expect);
     const flange = pathPoints(attr(elements(chart.svg, "path", "env-flange")[0]!, "d")!);
     const [x0, x1] = bounds(flange);
@@ -57,7 +77,15 @@ describe("envelopeChart, top view and other layouts", () => {
   });
 
   it("draws no axis 1 and no stated reach for a gantry", () => {
-    const chart = envelopeChart({ id: "g", armName: "Gantry", view: "side", layout: "prismatic-base", wcp: null, flange: [square(0, 3000, 500, 1500)], statedReachMm: 3000 });
+    const chart = envelopeChart({
+      id: "g",
+      armName: "Gantry",
+      view: "side",
+      layout: "prismatic-base",
+      wcp: null,
+      flange: [square(0, 3000, 500, 1500)],
+      statedReachMm: 3000,
+    });
     expect(elements(chart.svg, "line", "axis1")).toHaveLength(0);
     expect(elements(chart.svg, "line", "stated-reach")).toHaveLength(0);
     expect(texts(chart.svg, "axis-label")).toEqual(["base x (mm)", "height, base z (mm)"]);

@@ -1,15 +1,58 @@
 import { scaleLinear } from "d3-scale";
 import { describe, expect, it } from "vitest";
-import { dilateGrid, gridBands, polygonsPath, polylinesPath, presentRegion, simplifyPolyline, simplifyRing } from "../../src/charts/geometry";
+import {
+  dilateGrid,
+  gridBands,
+  polygonsPath,
+  polylinesPath,
+  presentRegion,
+  simplifyPolyline,
+  simplifyRing,
+} from "../../src/charts/geometry";
 import { bounds, pathPoints, subpaths } from "./helpers";
 
 describe("simplification", () => {
   it("drops points closer than the tolerance to the line and keeps the ends", () => {
-    expect(simplifyPolyline([[0, 0], [1, 0.01], [2, 0]], 0.1)).toEqual([[0, 0], [2, 0]]);
-    expect(simplifyPolyline([[0, 0], [1, 1], [2, 0]], 0.1)).toEqual([[0, 0], [1, 1], [2, 0]]);
+    expect(
+      simplifyPolyline(
+        [
+          [0, 0],
+          [1, 0.01],
+          [2, 0],
+        ],
+        0.1,
+      ),
+    ).toEqual([
+      [0, 0],
+      [2, 0],
+    ]);
+    expect(
+      simplifyPolyline(
+        [
+          [0, 0],
+          [1, 1],
+          [2, 0],
+        ],
+        0.1,
+      ),
+    ).toEqual([
+      [0, 0],
+      [1, 1],
+      [2, 0],
+    ]);
   });
   it("keeps the corners of a closed square with extra points on its sides", () => {
-    const ring: [number, number][] = [[0, 0], [5, 0], [10, 0], [10, 5], [10, 10], [5, 10], [0, 10], [0, 5], [0, 0]];
+    const ring: [number, number][] = [
+      [0, 0],
+      [5, 0],
+      [10, 0],
+      [10, 5],
+      [10, 10],
+      [5, 10],
+      [0, 10],
+      [0, 5],
+      [0, 0],
+    ];
     const s = simplifyRing(ring, 0.1);
     expect(s).toHaveLength(4);
     expect(bounds(s)).toEqual([0, 10, 0, 10]);
@@ -21,7 +64,26 @@ describe("paths", () => {
   const y = scaleLinear([0, 100], [200, 0]);
   it("writes each ring of a polygon as a closed subpath in pixels", () => {
     const d = polygonsPath(
-      [{ outer: [[0, 0], [100, 0], [100, 100], [0, 100], [0, 0]], holes: [[[25, 25], [25, 75], [75, 75], [75, 25], [25, 25]]] }],
+      [
+        {
+          outer: [
+            [0, 0],
+            [100, 0],
+            [100, 100],
+            [0, 100],
+            [0, 0],
+          ],
+          holes: [
+            [
+              [25, 25],
+              [25, 75],
+              [75, 75],
+              [75, 25],
+              [25, 25],
+            ],
+          ],
+        },
+      ],
       x,
       y,
     );
@@ -30,7 +92,20 @@ describe("paths", () => {
     expect(bounds(pathPoints(d))).toEqual([0, 200, 0, 200]);
   });
   it("writes polylines with one decimal at most", () => {
-    const d = polylinesPath([[[0, 0], [33.333, 33.333]], [[50, 50], [60, 60]]], x, y);
+    const d = polylinesPath(
+      [
+        [
+          [0, 0],
+          [33.333, 33.333],
+        ],
+        [
+          [50, 50],
+          [60, 60],
+        ],
+      ],
+      x,
+      y,
+    );
     expect(subpaths(d)).toBe(2);
     expect(d).toContain("66.7");
     expect(d).not.toMatch(/\d\.\d\d/);

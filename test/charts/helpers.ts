@@ -21,7 +21,14 @@ export function texts(svg: string, cls?: string): string[] {
   for (const m of svg.matchAll(/<text\b([^>]*)>([^<]*)<\/text>/g)) {
     const classes = (m[1]!.match(/class="([^"]*)"/)?.[1] ?? "").split(/\s+/);
     if (cls && !classes.includes(cls)) continue;
-    out.push(m[2]!.replace(/&lt;/g, "<").replace(/&gt;/g, ">").replace(/&quot;/g, '"').replace(/&#39;/g, "'").replace(/&amp;/g, "&"));
+    out.push(
+      m[2]!
+        .replace(/&lt;/g, "<")
+        .replace(/&gt;/g, ">")
+        .replace(/&quot;/g, '"')
+        .replace(/&#39;/g, "'")
+        .replace(/&amp;/g, "&"),
+    );
   }
   return out;
 }
@@ -46,7 +53,10 @@ export function bounds(points: readonly (readonly [number, number])[]): [number,
 }
 
 /** Checks every chart must pass: accessible name and description, no style attributes, well-formed root. */
-export function expectAccessible(svg: string, expect: (v: unknown) => { toBe(x: unknown): void; toMatch(x: RegExp): void; not: { toMatch(x: RegExp): void } }): void {
+export function expectAccessible(
+  svg: string,
+  expect: (v: unknown) => { toBe(x: unknown): void; toMatch(x: RegExp): void; not: { toMatch(x: RegExp): void } },
+): void {
   expect(svg.startsWith("<svg")).toBe(true);
   expect(svg.endsWith("</svg>")).toBe(true);
   expect(svg).toMatch(/^<svg[^>]* role="img"/);

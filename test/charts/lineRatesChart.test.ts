@@ -4,7 +4,13 @@
  * top edge, no style attribute, text escaped; the node tree and the string say the same.
  */
 import { describe, expect, it } from "vitest";
-import { lineRatesChart, lineRatesChartNode, svgNodeToString, type LineRatesChartInput, type SvgNode } from "../../src/charts/lineRatesChart";
+import {
+  lineRatesChart,
+  lineRatesChartNode,
+  svgNodeToString,
+  type LineRatesChartInput,
+  type SvgNode,
+} from "../../src/charts/lineRatesChart";
 import { attr, elements, pathPoints, texts } from "./helpers";
 
 const input: LineRatesChartInput = {
@@ -47,7 +53,9 @@ describe("lineRatesChart", () => {
     expect(Number(attr(c!, "cx"))).toBeCloseTo(j1[2]![0], 0);
     expect(Number(attr(c!, "cy"))).toBeCloseTo(j1[2]![1], 0);
     // y of ratio 1 vs ratio 0.8 and 0.4 (linear axis: equal steps in ratio, equal steps in px).
-    const y1 = Number(attr(limit[0]!, "y1")), y08 = j1[2]![1], y04 = j1[1]![1];
+    const y1 = Number(attr(limit[0]!, "y1")),
+      y08 = j1[2]![1],
+      y04 = j1[1]![1];
     expect((y04 - y08) / 0.4).toBeCloseTo((y08 - y1) / 0.2, 0);
     expect(texts(svg, "mark-label")).toContain("bottleneck J1");
   });
@@ -62,7 +70,12 @@ describe("lineRatesChart", () => {
 
   it("holds values above the scale at the top edge and says so; shades out-of-reach stretches", () => {
     const tall = lineRatesChart(
-      { ...input, series: [{ joint: "J1", values: [0.5, 9, 40, 9, 0.5] }], bottleneck: { positionMm: 200, jointIndex: 0, rateRatio: 40, label: "bottleneck J1" }, gapsMm: [[300, 400]] },
+      {
+        ...input,
+        series: [{ joint: "J1", values: [0.5, 9, 40, 9, 0.5] }],
+        bottleneck: { positionMm: 200, jointIndex: 0, rateRatio: 40, label: "bottleneck J1" },
+        gapsMm: [[300, 400]],
+      },
       "",
     ).svg;
     const pts = pathPoints(attr(elements(tall, "path", "lr-joint-0")[0]!, "d")!);

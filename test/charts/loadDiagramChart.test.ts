@@ -3,10 +3,11 @@ import { loadDiagramChart } from "../../src/charts/loadDiagramChart";
 import { attr, bounds, elements, expectAccessible, pathPoints, texts } from "./helpers";
 
 // Quarter circles of radius L = M / (m·g): 10 N·m gives 204 mm for 5 kg and 102 mm for 10 kg.
-const arc = (radiusMm: number) => Array.from({ length: 13 }, (_, i) => {
-  const t = (i / 12) * (Math.PI / 2);
-  return [radiusMm * Math.cos(t), radiusMm * Math.sin(t)] as const;
-});
+const arc = (radiusMm: number) =>
+  Array.from({ length: 13 }, (_, i) => {
+    const t = (i / 12) * (Math.PI / 2);
+    return [radiusMm * Math.cos(t), radiusMm * Math.sin(t)] as const;
+  });
 
 describe("loadDiagramChart", () => {
   const chart = loadDiagramChart({
@@ -22,7 +23,10 @@ describe("loadDiagramChart", () => {
 
   it("is accessible, with CG offset axes in mm and a caption naming the ratings used", () => {
     expectAccessible(chart.svg, expect);
-    expect(texts(chart.svg, "axis-label")).toEqual(["CG offset across the flange axis, Lxy (mm)", "CG offset along the flange axis, Lz (mm)"]);
+    expect(texts(chart.svg, "axis-label")).toEqual([
+      "CG offset across the flange axis, Lxy (mm)",
+      "CG offset along the flange axis, Lz (mm)",
+    ]);
     expect(chart.caption).toMatch(/M ≥ m·g·L/);
     expect(chart.description).toMatch(/Not allowed even at zero offset: 20 kg/);
   });

@@ -6,12 +6,25 @@ const rows: PayloadRowData[] = [];
 for (const offsetMm of [0, 100, 200]) {
   for (const reachMm of [100, 200, 300, 400]) {
     const payloadKg = reachMm === 300 && offsetMm === 200 ? 0 : Math.min(10, 12 - reachMm / 100 - offsetMm / 100);
-    rows.push({ reachMm, offsetMm, payloadKg, limitedBy: reachMm === 300 && offsetMm === 200 ? "unreachable" : payloadKg >= 10 ? "rated-payload" : "joint-rating" });
+    rows.push({
+      reachMm,
+      offsetMm,
+      payloadKg,
+      limitedBy:
+        reachMm === 300 && offsetMm === 200 ? "unreachable" : payloadKg >= 10 ? "rated-payload" : "joint-rating",
+    });
   }
 }
 
 describe("payloadChart", () => {
-  const chart = payloadChart({ id: "payload-floor", armName: "Demo", mountingLabel: "floor", rows, ratedPayloadKg: 10, basisText: "Computed." });
+  const chart = payloadChart({
+    id: "payload-floor",
+    armName: "Demo",
+    mountingLabel: "floor",
+    rows,
+    ratedPayloadKg: 10,
+    basisText: "Computed.",
+  });
 
   it("is accessible, with axis labels and units and a caption that says static", () => {
     expectAccessible(chart.svg, expect);
@@ -26,7 +39,12 @@ describe("payloadChart", () => {
     expect(lines.map((l) => attr(l, "data-offset-mm"))).toEqual(["0", "100", "200"]);
     expect(lines.map((l) => attr(l, "class"))).toEqual(["series series-0", "series series-1", "series series-2"]);
     expect(subpaths(attr(lines[2]!, "d")!)).toBe(2);
-    expect(texts(chart.svg, "legend-label")).toEqual(["CG offset 0 mm", "CG offset 100 mm", "CG offset 200 mm", "rated payload 10 kg"]);
+    expect(texts(chart.svg, "legend-label")).toEqual([
+      "CG offset 0 mm",
+      "CG offset 100 mm",
+      "CG offset 200 mm",
+      "rated payload 10 kg",
+    ]);
   });
 
   it("maps payloads to pixels on one linear scale, the rated line at 10 kg", () => {

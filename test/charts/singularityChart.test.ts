@@ -17,10 +17,46 @@ describe("singularityChart", () => {
     reached,
     inverseCondition,
     loci: [
-      { kind: "wrist", polylinesMm: [[[500, 0], [500, 900]], [[600, 0], [600, 300]]] },
-      { kind: "shoulder", polylinesMm: [[[0, 0], [0, 900]]] },
-      { kind: "elbow", polylinesMm: [[[0, 450], [900, 450]]] },
-      { kind: "twist", polylinesMm: [[[100, 100], [800, 800]]] },
+      {
+        kind: "wrist",
+        polylinesMm: [
+          [
+            [500, 0],
+            [500, 900],
+          ],
+          [
+            [600, 0],
+            [600, 300],
+          ],
+        ],
+      },
+      {
+        kind: "shoulder",
+        polylinesMm: [
+          [
+            [0, 0],
+            [0, 900],
+          ],
+        ],
+      },
+      {
+        kind: "elbow",
+        polylinesMm: [
+          [
+            [0, 450],
+            [900, 450],
+          ],
+        ],
+      },
+      {
+        kind: "twist",
+        polylinesMm: [
+          [
+            [100, 100],
+            [800, 800],
+          ],
+        ],
+      },
     ],
     lengthScaleMm: 900,
   });
@@ -36,7 +72,12 @@ describe("singularityChart", () => {
   it("draws one path per locus kind, each with its own class; unknown kinds count as other", () => {
     const loci = elements(chart.svg, "path", "locus");
     expect(loci.map((l) => attr(l, "data-kind"))).toEqual(["wrist", "shoulder", "elbow", "other"]);
-    expect(loci.map((l) => attr(l, "class"))).toEqual(["locus locus-wrist", "locus locus-shoulder", "locus locus-elbow", "locus locus-other"]);
+    expect(loci.map((l) => attr(l, "class"))).toEqual([
+      "locus locus-wrist",
+      "locus locus-shoulder",
+      "locus locus-elbow",
+      "locus locus-other",
+    ]);
     expect(subpaths(attr(loci[0]!, "d")!)).toBe(2);
   });
 
@@ -64,7 +105,16 @@ describe("singularityChart", () => {
   });
 
   it("says so when no locus lies inside the region", () => {
-    const none = singularityChart({ id: "s2", armName: "Demo", orientationLabel: "tool pointing down", orientationShort: "tool down", layout: "revolute-base", grid, reached, loci: [] });
+    const none = singularityChart({
+      id: "s2",
+      armName: "Demo",
+      orientationLabel: "tool pointing down",
+      orientationShort: "tool down",
+      layout: "revolute-base",
+      grid,
+      reached,
+      loci: [],
+    });
     expect(elements(none.svg, "path", "locus")).toHaveLength(0);
     expect(texts(none.svg, "mark-label")).toContain("no singular loci inside the reached region");
     expect(none.description).toMatch(/No singular loci/);

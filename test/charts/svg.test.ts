@@ -44,7 +44,10 @@ describe("attrs and elements", () => {
 
 describe("svgRoot", () => {
   it("gives the chart role img, an aria-label, a title and a description, all escaped", () => {
-    const svg = svgRoot({ id: "demo", title: 'Arm "A" & <B>', description: "A chart.", widthPx: 300, heightPx: 200 }, "");
+    const svg = svgRoot(
+      { id: "demo", title: 'Arm "A" & <B>', description: "A chart.", widthPx: 300, heightPx: 200 },
+      "",
+    );
     expect(svg).toContain('role="img"');
     expect(svg).toContain('aria-label="Arm &quot;A&quot; &amp; &lt;B&gt;"');
     expect(svg).toContain('<title id="demo-title">Arm &quot;A&quot; &amp; &lt;B&gt;</title>');

@@ -47,14 +47,29 @@ await writeFile(file, JSON.stringify(armJson, null, 2));
 await writeFile(badFile, JSON.stringify({ ...armJson, id: "generic-6r-line-bad", massKg: -1 }, null, 2));
 afterAll(() => rm(dir, { recursive: true, force: true }));
 
-const LINE = ["--from", "1200,-400,300", "--to", "1200,400,300", "--orientation", "down", "--speed", "500", "--samples", "11"];
+const LINE = [
+  "--from",
+  "1200,-400,300",
+  "--to",
+  "1200,400,300",
+  "--orientation",
+  "down",
+  "--speed",
+  "500",
+  "--samples",
+  "11",
+];
 
 describe("armdex line (end to end, npx tsx src/cli/armdex.ts)", () => {
   const run = promisify(execFile);
   const cli = (path: string, args: string[]) =>
     run("npx", ["tsx", "src/cli/armdex.ts", "line", path, ...args], { cwd: REPO, timeout: 90_000 }).then(
       (r) => ({ code: 0, stdout: r.stdout, stderr: r.stderr }),
-      (e: { code?: number; stdout?: string; stderr?: string }) => ({ code: e.code ?? -1, stdout: e.stdout ?? "", stderr: e.stderr ?? "" }),
+      (e: { code?: number; stdout?: string; stderr?: string }) => ({
+        code: e.code ?? -1,
+        stdout: e.stdout ?? "",
+        stderr: e.stderr ?? "",
+      }),
     );
   // The three runs start together (each pays the tsx start-up once).
   const runs = Promise.all([cli(file, LINE), cli(file, [...LINE.slice(0, 6), "--speed", "fast"]), cli(badFile, LINE)]);
@@ -63,7 +78,16 @@ describe("armdex line (end to end, npx tsx src/cli/armdex.ts)", () => {
     const [ok] = await runs;
     expect(ok.code, ok.stderr).toBe(0);
     const out = JSON.parse(ok.stdout) as Record<string, any>;
-    for (const key of ["feasibleConstantSpeedMmPerS", "bottleneck", "nearestSingularity", "branchChanges", "outOfReach", "samples", "speedProfile", "jointLimitViolations"]) {
+    for (const key of [
+      "feasibleConstantSpeedMmPerS",
+      "bottleneck",
+      "nearestSingularity",
+      "branchChanges",
+      "outOfReach",
+      "samples",
+      "speedProfile",
+      "jointLimitViolations",
+    ]) {
       expect(out, key).toHaveProperty(key);
     }
     for (const key of ["joint", "positionMm", "fraction"]) expect(out.bottleneck).toHaveProperty(key);
@@ -71,13 +95,19 @@ describe("armdex line (end to end, npx tsx src/cli/armdex.ts)", () => {
     expect(out.samples).toHaveLength(11);
     for (const key of ["fraction", "positionMm", "jointsDeg", "rateRatios"]) expect(out.samples[0]).toHaveProperty(key);
     expect(out.outOfReach).toEqual([]);
-    const mid = out.samples[5] as { fraction: number; positionMm: number[]; jointRatesDegPerS: number[]; rateRatios: number[] };
+    const mid = out.samples[5] as {
+      fraction: number;
+      positionMm: number[];
+      jointRatesDegPerS: number[];
+      rateRatios: number[];
+    };
     expectClose(mid.positionMm, [1200, 0, 300], 1e-9, "mid sample position");
-    const v = 0.5, r = 1.2; // m/s, m
+    const v = 0.5,
+      r = 1.2; // m/s, m
     const q1 = v / r / DEG; // deg/s
     // Printed with 9 significant digits (values below 1e-9 printed as 0): relative 1e-8, absolute 1e-6 deg/s.
     expectRelClose(mid.jointRatesDegPerS.map(Math.abs), [q1, 0, 0, 0, 0, q1], 1e-8, "|q̇| at y = 0", 1e-6 / 1e-8);
-    expectRelClose(mid.rateRatios[0]!, (v / r) / (150 * DEG), 1e-8, "rateRatio of J1 at y = 0");
+    expectRelClose(mid.rateRatios[0]!, v / r / (150 * DEG), 1e-8, "rateRatio of J1 at y = 0");
     expect(out.feasibleConstantSpeedMmPerS).toBeLessThanOrEqual(150 * DEG * r * 1000 * (1 + 1e-8));
     expect(out.feasibleConstantSpeedMmPerS).toBeGreaterThan(0);
     expect(out.commandedSpeedFeasible).toBe(out.feasibleConstantSpeedMmPerS >= 500);
@@ -125,20 +155,36 @@ describe("lineCommand usage errors (pure)", async () => {
     const b = lineCommand(arm, { ...base, samples: "11", orientation: `180,0,${psi}` });
     expect(a.ok && b.ok).toBe(true);
     if (!a.ok || !b.ok) return;
-    const c = Math.cos(psi * DEG), s = Math.sin(psi * DEG);
+    const c = Math.cos(psi * DEG),
+      s = Math.sin(psi * DEG);
     const expected = [c, s, 0, s, -c, 0, 0, 0, -1];
     // Printed with 9 significant digits: 1e-8.
-    expectClose(((a.value.orientation as { rotation: number[][] }).rotation).flat(), expected, 1e-8, "down rotation");
-    expectClose(((b.value.orientation as { rotation: number[][] }).rotation).flat(), expected, 1e-8, "rpy rotation");
-    expectRelClose(b.value.feasibleConstantSpeedMmPerS as number, a.value.feasibleConstantSpeedMmPerS as number, 1e-8, "feasible");
+    expectClose((a.value.orientation as { rotation: number[][] }).rotation.flat(), expected, 1e-8, "down rotation");
+    expectClose((b.value.orientation as { rotation: number[][] }).rotation.flat(), expected, 1e-8, "rpy rotation");
+    expectRelClose(
+      b.value.feasibleConstantSpeedMmPerS as number,
+      a.value.feasibleConstantSpeedMmPerS as number,
+      1e-8,
+      "feasible",
+    );
   });
 });
 
 describe("joinNegativeValues", () => {
   it("joins an option with a value starting with a minus sign, so parseArgs takes negative coordinates", () => {
-    expect(joinNegativeValues(["arm.json", "--from", "-300,20,600", "--to", "300,20,600", "--orientation", "-90,0,0", "--speed", "500"])).toEqual([
-      "arm.json", "--from=-300,20,600", "--to", "300,20,600", "--orientation=-90,0,0", "--speed", "500",
-    ]);
+    expect(
+      joinNegativeValues([
+        "arm.json",
+        "--from",
+        "-300,20,600",
+        "--to",
+        "300,20,600",
+        "--orientation",
+        "-90,0,0",
+        "--speed",
+        "500",
+      ]),
+    ).toEqual(["arm.json", "--from=-300,20,600", "--to", "300,20,600", "--orientation=-90,0,0", "--speed", "500"]);
     // A following option is not a value.
     expect(joinNegativeValues(["--from", "--to", "1,2,3"])).toEqual(["--from", "--to", "1,2,3"]);
   });

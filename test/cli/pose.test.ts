@@ -74,15 +74,32 @@ describe("poseCommand(generic 6R, q*) contract", () => {
   it("flange.positionMm and flange.rotation equal the mathjs DH product", () => {
     // Output rounded to 1e-9 mm and 1e-12: tolerances 1e-6 mm and 1e-11.
     expectClose(out.flange.positionMm, [t[3]! * 1000, t[7]! * 1000, t[11]! * 1000], 1e-6, "positionMm");
-    expectClose((out.flange.rotation as number[][]).flat(), [t[0]!, t[1]!, t[2]!, t[4]!, t[5]!, t[6]!, t[8]!, t[9]!, t[10]!], 1e-11, "rotation");
+    expectClose(
+      (out.flange.rotation as number[][]).flat(),
+      [t[0]!, t[1]!, t[2]!, t[4]!, t[5]!, t[6]!, t[8]!, t[9]!, t[10]!],
+      1e-11,
+      "rotation",
+    );
   });
 
   it("flange.rpyDeg rebuilds the rotation as Rz(yaw)·Ry(pitch)·Rx(roll) (URDF, fixed axes)", () => {
     // R = Rz(y)Ry(p)Rx(r) multiplied out by hand (ml-matrix products of the elementary rotations).
     const [r, p, y] = (out.flange.rpyDeg as number[]).map((v) => v * DEG);
-    const rx = new Matrix([[1, 0, 0], [0, Math.cos(r!), -Math.sin(r!)], [0, Math.sin(r!), Math.cos(r!)]]);
-    const ry = new Matrix([[Math.cos(p!), 0, Math.sin(p!)], [0, 1, 0], [-Math.sin(p!), 0, Math.cos(p!)]]);
-    const rz = new Matrix([[Math.cos(y!), -Math.sin(y!), 0], [Math.sin(y!), Math.cos(y!), 0], [0, 0, 1]]);
+    const rx = new Matrix([
+      [1, 0, 0],
+      [0, Math.cos(r!), -Math.sin(r!)],
+      [0, Math.sin(r!), Math.cos(r!)],
+    ]);
+    const ry = new Matrix([
+      [Math.cos(p!), 0, Math.sin(p!)],
+      [0, 1, 0],
+      [-Math.sin(p!), 0, Math.cos(p!)],
+    ]);
+    const rz = new Matrix([
+      [Math.cos(y!), -Math.sin(y!), 0],
+      [Math.sin(y!), Math.cos(y!), 0],
+      [0, 0, 1],
+    ]);
     expectClose(rz.mmul(ry).mmul(rx).to1DArray(), (out.flange.rotation as number[][]).flat(), 1e-9, "R(rpy)");
   });
 
@@ -118,7 +135,9 @@ describe("poseCommand(generic 6R, q*) contract", () => {
     const j = (out.jacobian as number[][]).flat();
     let best = 0;
     for (let mask = 0; mask < 64; mask++) {
-      const v = [0, 1, 2].map((row) => W.reduce((sum, w, i) => sum + (mask & (1 << i) ? -1 : 1) * w * j[row * 6 + i]!, 0));
+      const v = [0, 1, 2].map((row) =>
+        W.reduce((sum, w, i) => sum + (mask & (1 << i) ? -1 : 1) * w * j[row * 6 + i]!, 0),
+      );
       best = Math.max(best, Math.hypot(...v));
     }
     expectRelClose(out.maxToolSpeedMmPerS, best * 1000, 1e-9, "max tool speed");
@@ -166,7 +185,8 @@ describe("poseCommand(generic 6R) at a singular pose and outside the joint range
 
 describe("armdex pose (end to end, npx tsx src/cli/armdex.ts)", () => {
   const run = promisify(execFile);
-  const cli = (args: string[]) => run("npx", ["tsx", "src/cli/armdex.ts", "pose", file, ...args], { cwd: REPO, timeout: 60_000 });
+  const cli = (args: string[]) =>
+    run("npx", ["tsx", "src/cli/armdex.ts", "pose", file, ...args], { cwd: REPO, timeout: 60_000 });
 
   it("prints the same JSON as poseCommand, and exits 1 outside the ranges without --allow-outside (0 with it)", async () => {
     const { stdout } = await cli(["--joints", Q_STAR_DEG.join(",")]);

@@ -20,7 +20,17 @@ const shotsDir = join(root, "test-results", "screenshots");
 
 /** Largest arm sheet: HTML bytes including the inline SVG charts (stylesheets are shared and counted apart). */
 const PAGE_WEIGHT_LIMIT_BYTES = 300_000;
-const SECTION_ANCHORS = ["#summary", "#envelope", "#speed", "#singularities", "#payload", "#cycle", "#joints", "#downloads", "#source"];
+const SECTION_ANCHORS = [
+  "#summary",
+  "#envelope",
+  "#speed",
+  "#singularities",
+  "#payload",
+  "#cycle",
+  "#joints",
+  "#downloads",
+  "#source",
+];
 
 interface AnalysisJson {
   id: string;
@@ -41,7 +51,10 @@ beforeAll(async () => {
 
 afterAll(async () => {
   if (weights.length > 0) {
-    const lines = weights.map((w) => `${w.id.padEnd(24)} ${(w.htmlBytes / 1000).toFixed(1).padStart(6)} kB HTML, of which ${(w.svgBytes / 1000).toFixed(1).padStart(6)} kB in ${w.charts} inline SVG charts`);
+    const lines = weights.map(
+      (w) =>
+        `${w.id.padEnd(24)} ${(w.htmlBytes / 1000).toFixed(1).padStart(6)} kB HTML, of which ${(w.svgBytes / 1000).toFixed(1).padStart(6)} kB in ${w.charts} inline SVG charts`,
+    );
     writeFileSync(join(shotsDir, "page-weights.txt"), `${lines.join("\n")}\n`);
     process.stdout.write(`[e2e] arm sheet weights:\n${lines.join("\n")}\n`);
   }
@@ -49,7 +62,11 @@ afterAll(async () => {
 });
 
 async function openPage(path: string): Promise<WatchedPage> {
-  const opened = await openWatched(() => browser.newPage({ viewport: { width: 1280, height: 900 } }), `${siteUrl}${path}`, origin);
+  const opened = await openWatched(
+    () => browser.newPage({ viewport: { width: 1280, height: 900 } }),
+    `${siteUrl}${path}`,
+    origin,
+  );
   expect(opened.status, `HTTP status of /${path}`).toBe(200);
   return opened;
 }
@@ -90,92 +107,113 @@ function formulaLike(field: string): boolean {
 }
 
 describe("arm sheet, computed sections", () => {
-  it.each(arms.map((a) => [a.id] as const))("%s: sections, charts, figures, warnings, downloads and weight", async (id) => {
-    const { page, finish } = await openPage(`arms/${id}/`);
+  it.each(arms.map((a) => [a.id] as const))(
+    "%s: sections, charts, figures, warnings, downloads and weight",
+    async (id) => {
+      const { page, finish } = await openPage(`arms/${id}/`);
 
-    // Sections with their anchors, each listed in the contents.
-    const anchors = await page.$$eval("main section[id]", (s) => s.map((e) => `#${e.id}`));
-    for (const a of SECTION_ANCHORS) expect(anchors, `section ${a} on ${id}`).toContain(a);
-    const listed = await page.$$eval(".section-nav a", (links) => links.map((l) => l.getAttribute("href")));
-    expect(listed).toEqual(anchors);
+      // Sections with their anchors, each listed in the contents.
+      const anchors = await page.$$eval("main section[id]", (s) => s.map((e) => `#${e.id}`));
+      for (const a of SECTION_ANCHORS) expect(anchors, `section ${a} on ${id}`).toContain(a);
+      const listed = await page.$$eval(".section-nav a", (links) => links.map((l) => l.getAttribute("href")));
+      expect(listed).toEqual(anchors);
 
-    // Every chart: inline SVG, role img, aria-label, <title> and <desc>, axis labels with a unit in parentheses.
-    const charts = await page.$$eval("main svg.chart", (svgs) =>
-      svgs.map((s) => ({
-        id: s.id,
-        section: s.closest("section")?.id ?? "",
-        role: s.getAttribute("role"),
-        label: s.getAttribute("aria-label") ?? "",
-        title: s.querySelector(":scope > title")?.textContent ?? "",
-        desc: s.querySelector(":scope > desc")?.textContent ?? "",
-        axisLabels: Array.from(s.querySelectorAll(".axis-label")).map((t) => t.textContent ?? ""),
-        caption: s.closest("figure")?.querySelector("figcaption")?.textContent ?? "",
-        styled: s.querySelectorAll("[style]").length,
-        width: s.getBoundingClientRect().width,
-      })),
-    );
-    const analysis = (await (await fetch(`${siteUrl}data/arms/${id}.json`)).json()) as AnalysisJson;
-    const orientations = analysis.speed.maps.length;
-    const bySection = (s: string) => charts.filter((c) => c.section === s);
-    expect(bySection("envelope")).toHaveLength(2);
-    expect(bySection("speed")).toHaveLength(orientations);
-    expect(bySection("singularities")).toHaveLength(orientations);
-    expect(bySection("payload").length).toBeGreaterThanOrEqual(1);
-    for (const c of charts) {
-      expect(c.role, `${id} ${c.id}`).toBe("img");
-      expect(c.label.length, `${id} ${c.id} aria-label`).toBeGreaterThan(5);
-      expect(c.title, `${id} ${c.id} title`).toBe(c.label);
-      expect(c.desc.length, `${id} ${c.id} desc`).toBeGreaterThan(20);
-      expect(c.axisLabels.length, `${id} ${c.id} axis labels`).toBeGreaterThanOrEqual(1);
-      for (const l of c.axisLabels) expect(l, `${id} ${c.id} axis label`).toMatch(/\((mm|m\/s|kg|s|× limit)\)$/);
-      expect(c.caption.length, `${id} ${c.id} caption`).toBeGreaterThan(60);
-      expect(c.styled, `${id} ${c.id} style attributes`).toBe(0);
-      expect(c.width, `${id} ${c.id} rendered width`).toBeGreaterThan(300);
-    }
-    expect(await page.locator("#speed .chart .step-scale .legend-title").first().textContent()).toBe("guaranteed straight-line speed (m/s)");
-    const ids = await page.$$eval("[id]", (els) => els.map((e) => e.id));
-    expect(ids.filter((x, i) => ids.indexOf(x) !== i), `${id}: duplicate element ids`).toEqual([]);
+      // Every chart: inline SVG, role img, aria-label, <title> and <desc>, axis labels with a unit in parentheses.
+      const charts = await page.$$eval("main svg.chart", (svgs) =>
+        svgs.map((s) => ({
+          id: s.id,
+          section: s.closest("section")?.id ?? "",
+          role: s.getAttribute("role"),
+          label: s.getAttribute("aria-label") ?? "",
+          title: s.querySelector(":scope > title")?.textContent ?? "",
+          desc: s.querySelector(":scope > desc")?.textContent ?? "",
+          axisLabels: Array.from(s.querySelectorAll(".axis-label")).map((t) => t.textContent ?? ""),
+          caption: s.closest("figure")?.querySelector("figcaption")?.textContent ?? "",
+          styled: s.querySelectorAll("[style]").length,
+          width: s.getBoundingClientRect().width,
+        })),
+      );
+      const analysis = (await (await fetch(`${siteUrl}data/arms/${id}.json`)).json()) as AnalysisJson;
+      const orientations = analysis.speed.maps.length;
+      const bySection = (s: string) => charts.filter((c) => c.section === s);
+      expect(bySection("envelope")).toHaveLength(2);
+      expect(bySection("speed")).toHaveLength(orientations);
+      expect(bySection("singularities")).toHaveLength(orientations);
+      expect(bySection("payload").length).toBeGreaterThanOrEqual(1);
+      for (const c of charts) {
+        expect(c.role, `${id} ${c.id}`).toBe("img");
+        expect(c.label.length, `${id} ${c.id} aria-label`).toBeGreaterThan(5);
+        expect(c.title, `${id} ${c.id} title`).toBe(c.label);
+        expect(c.desc.length, `${id} ${c.id} desc`).toBeGreaterThan(20);
+        expect(c.axisLabels.length, `${id} ${c.id} axis labels`).toBeGreaterThanOrEqual(1);
+        for (const l of c.axisLabels) expect(l, `${id} ${c.id} axis label`).toMatch(/\((mm|m\/s|kg|s|× limit)\)$/);
+        expect(c.caption.length, `${id} ${c.id} caption`).toBeGreaterThan(60);
+        expect(c.styled, `${id} ${c.id} style attributes`).toBe(0);
+        expect(c.width, `${id} ${c.id} rendered width`).toBeGreaterThan(300);
+      }
+      expect(await page.locator("#speed .chart .step-scale .legend-title").first().textContent()).toBe(
+        "guaranteed straight-line speed (m/s)",
+      );
+      const ids = await page.$$eval("[id]", (els) => els.map((e) => e.id));
+      expect(
+        ids.filter((x, i) => ids.indexOf(x) !== i),
+        `${id}: duplicate element ids`,
+      ).toEqual([]);
 
-    // Key figures: computed reach with the stated reach and the 2 % flag, checked against the JSON independently.
-    const computed = analysis.reach.wcpMaxMm ?? analysis.reach.flangeMaxMm;
-    const reachFigure = page.locator('.key-figure[data-key="reach"]');
-    expect(await reachFigure.locator(".key-value").textContent()).toBe(`${Math.round(computed).toLocaleString("en")}\u00a0mm`);
-    const mismatch = analysis.reach.statedMm !== null && Math.abs(analysis.reach.statedMm / computed - 1) > 0.02;
-    expect(await reachFigure.locator(".key-flag").count(), `${id} reach flag`).toBe(mismatch ? 1 : 0);
-    for (const key of ["max-tool-speed", "share-1", "cycle"]) expect(await page.locator(`.key-figure[data-key="${key}"]`).count()).toBe(1);
+      // Key figures: computed reach with the stated reach and the 2 % flag, checked against the JSON independently.
+      const computed = analysis.reach.wcpMaxMm ?? analysis.reach.flangeMaxMm;
+      const reachFigure = page.locator('.key-figure[data-key="reach"]');
+      expect(await reachFigure.locator(".key-value").textContent()).toBe(
+        `${Math.round(computed).toLocaleString("en")}\u00a0mm`,
+      );
+      const mismatch = analysis.reach.statedMm !== null && Math.abs(analysis.reach.statedMm / computed - 1) > 0.02;
+      expect(await reachFigure.locator(".key-flag").count(), `${id} reach flag`).toBe(mismatch ? 1 : 0);
+      for (const key of ["max-tool-speed", "share-1", "cycle"])
+        expect(await page.locator(`.key-figure[data-key="${key}"]`).count()).toBe(1);
 
-    // The analysis warnings, all of them.
-    expect(await page.locator("#summary .analysis-warnings li").count(), `${id} warnings`).toBe(analysis.warnings.length);
+      // The analysis warnings, all of them.
+      expect(await page.locator("#summary .analysis-warnings li").count(), `${id} warnings`).toBe(
+        analysis.warnings.length,
+      );
 
-    // Downloads: the JSON is this arm's; the CSVs parse, and no text cell could run as a formula.
-    expect(analysis.id).toBe(id);
-    const hrefs = await page.$$eval("#downloads a", (links) => links.map((l) => (l as HTMLAnchorElement).href));
-    expect(hrefs).toHaveLength(3);
-    for (const href of hrefs) {
-      const res = await fetch(href);
-      expect(res.status, href).toBe(200);
-      if (!href.endsWith(".csv")) continue;
-      const rows = parseCsv(await res.text());
-      const width = rows[0]!.length;
-      expect(rows.every((r) => r.length === width), `${href}: every row as wide as the header`).toBe(true);
-      for (const r of rows) for (const f of r) expect(formulaLike(f), `${href}: field ${JSON.stringify(f)}`).toBe(false);
-      if (href.endsWith("payload.csv")) expect(rows.length - 1).toBe(analysis.payload.atReach.length);
-    }
+      // Downloads: the JSON is this arm's; the CSVs parse, and no text cell could run as a formula.
+      expect(analysis.id).toBe(id);
+      const hrefs = await page.$$eval("#downloads a", (links) => links.map((l) => (l as HTMLAnchorElement).href));
+      expect(hrefs).toHaveLength(3);
+      for (const href of hrefs) {
+        const res = await fetch(href);
+        expect(res.status, href).toBe(200);
+        if (!href.endsWith(".csv")) continue;
+        const rows = parseCsv(await res.text());
+        const width = rows[0]!.length;
+        expect(
+          rows.every((r) => r.length === width),
+          `${href}: every row as wide as the header`,
+        ).toBe(true);
+        for (const r of rows)
+          for (const f of r) expect(formulaLike(f), `${href}: field ${JSON.stringify(f)}`).toBe(false);
+        if (href.endsWith("payload.csv")) expect(rows.length - 1).toBe(analysis.payload.atReach.length);
+      }
 
-    // Page weight: the HTML as delivered, inline SVG included.
-    const weight = await page.evaluate(() => {
-      const nav = performance.getEntriesByType("navigation")[0] as PerformanceNavigationTiming;
-      const svgBytes = Array.from(document.querySelectorAll("svg.chart")).reduce((n, s) => n + new TextEncoder().encode(s.outerHTML).length, 0);
-      return { htmlBytes: nav.decodedBodySize, svgBytes, charts: document.querySelectorAll("svg.chart").length };
-    });
-    weights.push({ id, ...weight });
-    expect(weight.htmlBytes, `${id}: HTML + inline SVG bytes`).toBeLessThanOrEqual(PAGE_WEIGHT_LIMIT_BYTES);
+      // Page weight: the HTML as delivered, inline SVG included.
+      const weight = await page.evaluate(() => {
+        const nav = performance.getEntriesByType("navigation")[0] as PerformanceNavigationTiming;
+        const svgBytes = Array.from(document.querySelectorAll("svg.chart")).reduce(
+          (n, s) => n + new TextEncoder().encode(s.outerHTML).length,
+          0,
+        );
+        return { htmlBytes: nav.decodedBodySize, svgBytes, charts: document.querySelectorAll("svg.chart").length };
+      });
+      weights.push({ id, ...weight });
+      expect(weight.htmlBytes, `${id}: HTML + inline SVG bytes`).toBeLessThanOrEqual(PAGE_WEIGHT_LIMIT_BYTES);
 
-    expect(await finish()).toEqual([]);
-  });
+      expect(await finish()).toEqual([]);
+    },
+  );
 
   it("screenshots a 6-axis arm sheet and the SCARA's, whole and chart by chart", async () => {
-    const six = arms.find((a) => a.joints.length === 6 && a.id.includes("tern-7")) ?? arms.find((a) => a.joints.length === 6)!;
+    const six =
+      arms.find((a) => a.joints.length === 6 && a.id.includes("tern-7")) ?? arms.find((a) => a.joints.length === 6)!;
     const scara = arms.find((a) => a.id.includes("sable")) ?? arms.find((a) => a.joints.length === 4)!;
     for (const arm of [six, scara]) {
       const { page, finish } = await openPage(`arms/${arm.id}/`);
@@ -191,15 +229,26 @@ describe("arm sheet, computed sections", () => {
 describe("catalog, computed columns", () => {
   it("shows computed reach, tool speed, line-speed share and cycle for every arm", async () => {
     const { page, finish } = await openPage("");
-    const headers = (await page.locator("#catalog thead th").allTextContents()).map((t) => t.replace(/\s+/g, " ").trim());
-    for (const h of ["Computed reach (mm)", "Stated reach (mm)", "Max tool speed (m/s)", "Share \u2265 1 m/s, tool down (%)", "Standard cycle (s)"]) {
+    const headers = (await page.locator("#catalog thead th").allTextContents()).map((t) =>
+      t.replace(/\s+/g, " ").trim(),
+    );
+    for (const h of [
+      "Computed reach (mm)",
+      "Stated reach (mm)",
+      "Max tool speed (m/s)",
+      "Share \u2265 1 m/s, tool down (%)",
+      "Standard cycle (s)",
+    ]) {
       expect(headers).toContain(h);
     }
     for (const arm of arms) {
       const row = page.locator(`#catalog tbody tr[data-key="${arm.id}"]`);
       const analysis = (await (await fetch(`${siteUrl}data/arms/${arm.id}.json`)).json()) as AnalysisJson;
       const computed = analysis.reach.wcpMaxMm ?? analysis.reach.flangeMaxMm;
-      expect(Number(await row.locator('[data-key="computed-reach"]').getAttribute("data-sort"))).toBeCloseTo(computed, 6);
+      expect(Number(await row.locator('[data-key="computed-reach"]').getAttribute("data-sort"))).toBeCloseTo(
+        computed,
+        6,
+      );
       expect((await row.locator('[data-key="max-tool-speed"]').textContent())?.trim()).toMatch(/^\d+(\.\d+)?$/);
     }
     expect(await finish()).toEqual([]);

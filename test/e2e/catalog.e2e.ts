@@ -31,8 +31,15 @@ interface ArmFacts {
 
 /** The fields of a published analysis this test needs. */
 interface PublishedAnalysis {
-  readonly reach: { readonly wcpMaxMm: number | null; readonly flangeMaxMm: number | null; readonly minHeightMm: number | null; readonly maxHeightMm: number | null };
-  readonly speed: { readonly maps: readonly { readonly orientation: string; readonly maxGuaranteedMmPerS: number | null }[] };
+  readonly reach: {
+    readonly wcpMaxMm: number | null;
+    readonly flangeMaxMm: number | null;
+    readonly minHeightMm: number | null;
+    readonly maxHeightMm: number | null;
+  };
+  readonly speed: {
+    readonly maps: readonly { readonly orientation: string; readonly maxGuaranteedMmPerS: number | null }[];
+  };
 }
 
 interface Arm extends ArmFacts {
@@ -87,7 +94,8 @@ function expectedNumericOrder(value: (a: Arm) => number | null | undefined, dir:
   const s = dir === "asc" ? 1 : -1;
   return ids(
     [...arms].sort((a, b) => {
-      const va = value(a) ?? null, vb = value(b) ?? null;
+      const va = value(a) ?? null,
+        vb = value(b) ?? null;
       if (va === null || vb === null) return va === vb ? byId(a, b) : va === null ? 1 : -1;
       return s * (va - vb) || byId(a, b);
     }),
@@ -103,7 +111,9 @@ interface Opened {
 }
 
 async function open(query = "", javaScriptEnabled = true): Promise<Opened> {
-  const context = javaScriptEnabled ? desktop : await browser.newContext({ viewport: { width: 1280, height: 900 }, javaScriptEnabled: false });
+  const context = javaScriptEnabled
+    ? desktop
+    : await browser.newContext({ viewport: { width: 1280, height: 900 }, javaScriptEnabled: false });
   const page = await context.newPage();
   const problems = await watchPage(page, origin);
   const response = await page.goto(`${siteUrl}${query}`, { waitUntil: "load" });
@@ -113,7 +123,9 @@ async function open(query = "", javaScriptEnabled = true): Promise<Opened> {
     page,
     problems,
     async finish() {
-      const list = javaScriptEnabled ? await collectProblems(page, problems) : [...problems.consoleErrors, ...problems.failedRequests];
+      const list = javaScriptEnabled
+        ? await collectProblems(page, problems)
+        : [...problems.consoleErrors, ...problems.failedRequests];
       await page.close();
       if (!javaScriptEnabled) await context.close();
       return list;
@@ -121,8 +133,14 @@ async function open(query = "", javaScriptEnabled = true): Promise<Opened> {
   };
 }
 
-const visibleRows = (page: Page) => page.$$eval("#catalog tbody tr", (rows) => rows.filter((r) => !(r as HTMLElement).hidden && (r as HTMLElement).offsetParent !== null).map((r) => (r as HTMLElement).dataset.key ?? ""));
-const allRows = (page: Page) => page.$$eval("#catalog tbody tr", (rows) => rows.map((r) => (r as HTMLElement).dataset.key ?? ""));
+const visibleRows = (page: Page) =>
+  page.$$eval("#catalog tbody tr", (rows) =>
+    rows
+      .filter((r) => !(r as HTMLElement).hidden && (r as HTMLElement).offsetParent !== null)
+      .map((r) => (r as HTMLElement).dataset.key ?? ""),
+  );
+const allRows = (page: Page) =>
+  page.$$eval("#catalog tbody tr", (rows) => rows.map((r) => (r as HTMLElement).dataset.key ?? ""));
 const query = (page: Page) => new URL(page.url()).searchParams;
 const countText = async (page: Page) => ((await page.locator("#catalog-count").textContent()) ?? "").trim();
 
@@ -149,7 +167,10 @@ describe("catalog sorting", () => {
   });
 
   it("puts 'not stated' last in both directions (stated reach), and sorts computed line speed by number", async () => {
-    expect(arms.some((a) => a.reachMm === undefined), "an arm file without a stated reach").toBe(true);
+    expect(
+      arms.some((a) => a.reachMm === undefined),
+      "an arm file without a stated reach",
+    ).toBe(true);
     const { page, finish } = await open();
     await clickSort(page, "reach");
     const asc = await allRows(page);
@@ -192,13 +213,23 @@ describe("catalog filters", () => {
     const { page, finish } = await open();
     const cls = arms.map((a) => a.class).sort()[0]!;
     await page.selectOption('select[name="class"]', cls);
-    await expectShown(page, arms.filter((a) => a.class === cls), `class ${cls}`);
+    await expectShown(
+      page,
+      arms.filter((a) => a.class === cls),
+      `class ${cls}`,
+    );
     expect(query(page).get("class")).toBe(cls);
     await page.selectOption('select[name="class"]', "");
     // A mounting not every arm offers.
-    const mounting = ["ceiling", "wall", "angled", "floor"].find((m) => arms.some((a) => a.mountings.includes(m)) && !arms.every((a) => a.mountings.includes(m)))!;
+    const mounting = ["ceiling", "wall", "angled", "floor"].find(
+      (m) => arms.some((a) => a.mountings.includes(m)) && !arms.every((a) => a.mountings.includes(m)),
+    )!;
     await page.selectOption('select[name="mounting"]', mounting);
-    await expectShown(page, arms.filter((a) => a.mountings.includes(mounting)), `mounting ${mounting}`);
+    await expectShown(
+      page,
+      arms.filter((a) => a.mountings.includes(mounting)),
+      `mounting ${mounting}`,
+    );
     expect(query(page).get("mounting")).toBe(mounting);
     expect(query(page).has("class")).toBe(false);
     expect(await finish()).toEqual([]);
@@ -208,19 +239,31 @@ describe("catalog filters", () => {
     const { page, finish } = await open();
     const payload = middle(arms.map((a) => a.ratedPayloadKg));
     await page.fill('input[name="minPayloadKg"]', String(payload));
-    await expectShown(page, arms.filter((a) => a.ratedPayloadKg >= payload), `payload ≥ ${payload} kg`);
+    await expectShown(
+      page,
+      arms.filter((a) => a.ratedPayloadKg >= payload),
+      `payload ≥ ${payload} kg`,
+    );
     expect(Number(query(page).get("minPayloadKg"))).toBe(payload);
     await page.fill('input[name="minPayloadKg"]', "");
 
     const reach = middle(arms.map(computedReachMm));
     await page.fill('input[name="minReachMm"]', String(reach));
-    await expectShown(page, arms.filter((a) => (computedReachMm(a) ?? -1) >= reach), `computed reach ≥ ${reach} mm`);
+    await expectShown(
+      page,
+      arms.filter((a) => (computedReachMm(a) ?? -1) >= reach),
+      `computed reach ≥ ${reach} mm`,
+    );
     expect(Number(query(page).get("minReachMm"))).toBe(reach);
     await page.fill('input[name="minReachMm"]', "");
 
     const speed = middle(arms.map(lineSpeedMPerS));
     await page.fill('input[name="minLineSpeedMPerS"]', String(speed));
-    await expectShown(page, arms.filter((a) => (lineSpeedMPerS(a) ?? -1) >= speed), `line speed ≥ ${speed} m/s`);
+    await expectShown(
+      page,
+      arms.filter((a) => (lineSpeedMPerS(a) ?? -1) >= speed),
+      `line speed ≥ ${speed} m/s`,
+    );
     expect(Number(query(page).get("minLineSpeedMPerS"))).toBe(speed);
     expect(query(page).has("minPayloadKg")).toBe(false);
     await page.screenshot({ path: join(shotsDir, "catalog-filtered.png"), fullPage: true });
@@ -233,7 +276,8 @@ describe("catalog filters", () => {
     // A band from the middle lowest height to the middle highest height: some arms cover it, some do not.
     const from = Math.round(lows[Math.floor(lows.length / 2)]!);
     const to = Math.round(highs[Math.floor(highs.length / 2)]!);
-    const covers = (a: Arm) => a.analysis.reach.minHeightMm! <= Math.min(from, to) && a.analysis.reach.maxHeightMm! >= Math.max(from, to);
+    const covers = (a: Arm) =>
+      a.analysis.reach.minHeightMm! <= Math.min(from, to) && a.analysis.reach.maxHeightMm! >= Math.max(from, to);
     const { page, finish } = await open();
     await page.fill('input[name="heightFromMm"]', String(from));
     await page.fill('input[name="heightToMm"]', String(to));
@@ -288,7 +332,9 @@ describe("catalog state in the address", () => {
       expect(await p.inputValue('select[name="mounting"]')).toBe(mounting);
       expect(Number(await p.inputValue('input[name="minPayloadKg"]'))).toBe(payload);
       expect(await p.locator('#catalog thead th[data-key="mass"]').getAttribute("aria-sort")).toBe("descending");
-      const checked = await p.$$eval("#catalog tbody input[type=checkbox]:checked", (els) => els.map((e) => (e as HTMLInputElement).value));
+      const checked = await p.$$eval("#catalog tbody input[type=checkbox]:checked", (els) =>
+        els.map((e) => (e as HTMLInputElement).value),
+      );
       expect(checked.sort()).toEqual([...ticked].sort());
       expect(p.url()).toBe(address);
     };
@@ -303,7 +349,9 @@ describe("catalog state in the address", () => {
   });
 
   it("ignores bad values in the address instead of failing", async () => {
-    const { page, finish } = await open("?class=spaceship&mounting=roof&minPayloadKg=abc&minReachMm=-5&heightFromMm=1e9&minLineSpeedMPerS=&sort=colour&dir=up&pick=nope,,%3Cb%3E");
+    const { page, finish } = await open(
+      "?class=spaceship&mounting=roof&minPayloadKg=abc&minReachMm=-5&heightFromMm=1e9&minLineSpeedMPerS=&sort=colour&dir=up&pick=nope,,%3Cb%3E",
+    );
     expect((await visibleRows(page)).length).toBe(arms.length);
     expect(await countText(page)).toBe(`${arms.length} of ${arms.length} arms shown`);
     expect(await page.locator("#catalog thead th[aria-sort]").count()).toBe(0);
@@ -324,7 +372,9 @@ describe("catalog ticks", () => {
     expect(await button.isDisabled()).toBe(true);
     expect(await page.locator("#compare-reason").textContent()).toMatch(/at least one more/);
     if (arms.length >= 7) {
-      const rest = ids(arms).filter((id) => !chosen.includes(id)).slice(0, 6);
+      const rest = ids(arms)
+        .filter((id) => !chosen.includes(id))
+        .slice(0, 6);
       for (const id of rest) await tick(id).check();
       expect(await button.isDisabled()).toBe(true);
       expect(await page.locator("#compare-reason").textContent()).toMatch(/^Untick 1 arm/);

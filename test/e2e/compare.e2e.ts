@@ -27,8 +27,20 @@ const armFiles = readArmFiles(root);
 const THREE = ["corvell-tern-7", "brandmoor-lyra-c12", "corvell-tern-25"] as const;
 
 interface FullAnalysis {
-  readonly envelope: { readonly flange: { readonly side: readonly { readonly outer: [number, number][]; readonly holes: [number, number][][] }[] } };
-  readonly payload: { readonly atReach: readonly { mounting: string; reachMm: number; offsetMm: number; payloadKg: number; limitedBy: string }[] };
+  readonly envelope: {
+    readonly flange: {
+      readonly side: readonly { readonly outer: [number, number][]; readonly holes: [number, number][][] }[];
+    };
+  };
+  readonly payload: {
+    readonly atReach: readonly {
+      mounting: string;
+      reachMm: number;
+      offsetMm: number;
+      payloadKg: number;
+      limitedBy: string;
+    }[];
+  };
   readonly speed: {
     readonly maxToolSpeedMmPerS: number;
     readonly maps: readonly {
@@ -42,11 +54,18 @@ interface FullAnalysis {
   readonly cycle: { readonly standardCycleS: number | null };
 }
 
-const analysis = (id: string) => JSON.parse(readFileSync(join(distDir, "data", "arms", `${id}.json`), "utf8")) as FullAnalysis;
+const analysis = (id: string) =>
+  JSON.parse(readFileSync(join(distDir, "data", "arms", `${id}.json`), "utf8")) as FullAnalysis;
 const armFile = (id: string) => {
   const f = armFiles.find((a) => a.id === id);
   if (!f) throw new Error(`no arm file ${id}`);
-  return f as unknown as { id: string; ratedPayloadKg: number; repeatabilityMm: number; massKg?: number; mountings: string[] };
+  return f as unknown as {
+    id: string;
+    ratedPayloadKg: number;
+    repeatabilityMm: number;
+    massKg?: number;
+    mountings: string[];
+  };
 };
 
 let browser: Browser;
@@ -61,7 +80,11 @@ afterAll(async () => {
 });
 
 async function open(path: string, width = 1280): Promise<WatchedPage> {
-  const opened = await openWatched(() => browser.newPage({ viewport: { width, height: 900 } }), `${siteUrl}${path}`, origin);
+  const opened = await openWatched(
+    () => browser.newPage({ viewport: { width, height: 900 } }),
+    `${siteUrl}${path}`,
+    origin,
+  );
   expect(opened.status).toBe(200);
   await opened.page.waitForSelector("html[data-ready='true']", { timeout: 30_000 });
   return opened;
@@ -73,21 +96,36 @@ function bestIds(values: readonly { id: string; v: number | null }[], better: "h
   if (present.length < 2) return [];
   const best = better === "higher" ? Math.max(...present.map((x) => x.v)) : Math.min(...present.map((x) => x.v));
   if (present.every((x) => x.v === best)) return [];
-  return present.filter((x) => x.v === best).map((x) => x.id).sort();
+  return present
+    .filter((x) => x.v === best)
+    .map((x) => x.id)
+    .sort();
 }
 
 async function markedIds(page: Page, row: string): Promise<string[]> {
-  return (await page.$$eval(`tr[data-row="${row}"] td[data-best="true"]`, (tds) => tds.map((td) => td.getAttribute("data-arm") ?? ""))).sort();
+  return (
+    await page.$$eval(`tr[data-row="${row}"] td[data-best="true"]`, (tds) =>
+      tds.map((td) => td.getAttribute("data-arm") ?? ""),
+    )
+  ).sort();
 }
 
 describe("side-by-side page", () => {
   it("overlays three arms with distinct dash patterns and a legend of three", async () => {
     const { page, finish } = await open(`compare/?arms=${THREE.join(",")}`);
-    const paths = await page.$$eval("#compare-envelope-chart path.env-overlay", (ps) => ps.map((p) => ({ arm: p.getAttribute("data-arm"), dash: getComputedStyle(p).strokeDasharray, stroke: getComputedStyle(p).stroke })));
+    const paths = await page.$$eval("#compare-envelope-chart path.env-overlay", (ps) =>
+      ps.map((p) => ({
+        arm: p.getAttribute("data-arm"),
+        dash: getComputedStyle(p).strokeDasharray,
+        stroke: getComputedStyle(p).stroke,
+      })),
+    );
     expect(paths.map((p) => p.arm)).toEqual([...THREE]);
     expect(new Set(paths.map((p) => p.dash)).size).toBe(3);
     expect(new Set(paths.map((p) => p.stroke)).size).toBe(3);
-    const legend = await page.$$eval("#compare-envelope-chart .legend-item[data-key]", (gs) => gs.map((g) => g.getAttribute("data-key")));
+    const legend = await page.$$eval("#compare-envelope-chart .legend-item[data-key]", (gs) =>
+      gs.map((g) => g.getAttribute("data-key")),
+    );
     expect(legend).toEqual([...THREE]);
     // The payload chart: one curve per arm too, same line styles.
     expect(await page.$$eval("#compare-payload-chart path[data-arm]", (ps) => ps.length)).toBe(3);
@@ -105,18 +143,48 @@ describe("side-by-side page", () => {
     const { page, finish } = await open(`compare/?arms=${ids.join(",")}`);
     const files = ids.map(armFile);
     const full = ids.map(analysis);
-    expect(await markedIds(page, "payload")).toEqual(bestIds(files.map((f) => ({ id: f.id, v: f.ratedPayloadKg })), "higher"));
-    expect(await markedIds(page, "repeatability")).toEqual(bestIds(files.map((f) => ({ id: f.id, v: f.repeatabilityMm })), "lower"));
-    expect(await markedIds(page, "mass")).toEqual(bestIds(files.map((f) => ({ id: f.id, v: f.massKg ?? null })), "lower"));
-    expect(await markedIds(page, "max-tool-speed")).toEqual(bestIds(full.map((a, i) => ({ id: ids[i]!, v: a.speed.maxToolSpeedMmPerS })), "higher"));
-    expect(await markedIds(page, "cycle")).toEqual(bestIds(full.map((a, i) => ({ id: ids[i]!, v: a.cycle.standardCycleS })), "lower"));
-    const down = full.map((a, i) => ({ id: ids[i]!, v: a.speed.maps.find((m) => m.orientation === "down")?.shareAtLeast["1"] ?? null }));
+    expect(await markedIds(page, "payload")).toEqual(
+      bestIds(
+        files.map((f) => ({ id: f.id, v: f.ratedPayloadKg })),
+        "higher",
+      ),
+    );
+    expect(await markedIds(page, "repeatability")).toEqual(
+      bestIds(
+        files.map((f) => ({ id: f.id, v: f.repeatabilityMm })),
+        "lower",
+      ),
+    );
+    expect(await markedIds(page, "mass")).toEqual(
+      bestIds(
+        files.map((f) => ({ id: f.id, v: f.massKg ?? null })),
+        "lower",
+      ),
+    );
+    expect(await markedIds(page, "max-tool-speed")).toEqual(
+      bestIds(
+        full.map((a, i) => ({ id: ids[i]!, v: a.speed.maxToolSpeedMmPerS })),
+        "higher",
+      ),
+    );
+    expect(await markedIds(page, "cycle")).toEqual(
+      bestIds(
+        full.map((a, i) => ({ id: ids[i]!, v: a.cycle.standardCycleS })),
+        "lower",
+      ),
+    );
+    const down = full.map((a, i) => ({
+      id: ids[i]!,
+      v: a.speed.maps.find((m) => m.orientation === "down")?.shareAtLeast["1"] ?? null,
+    }));
     expect(await markedIds(page, "share-1-down")).toEqual(bestIds(down, "higher"));
     // Unranked rows carry no mark; ranked rows say what best means.
     expect(await markedIds(page, "reach")).toEqual([]);
     expect(await page.textContent('tr[data-row="repeatability"] th')).toContain("lowest");
     // At least one mark is shown, with its words (not colour alone).
-    expect(await page.$$eval("td[data-best='true'] .best-mark", (els) => els.map((e) => e.textContent))).toContain("★ best");
+    expect(await page.$$eval("td[data-best='true'] .best-mark", (els) => els.map((e) => e.textContent))).toContain(
+      "★ best",
+    );
     await page.screenshot({ path: join(shotsDir, "compare-four.png"), fullPage: true });
     expect(await finish()).toEqual([]);
   });
@@ -127,7 +195,9 @@ describe("side-by-side page", () => {
     for (const id of THREE) {
       const a = analysis(id);
       // Payload, floor mounting, CG offset 0: the band's ends are on rows (every 50 mm), so its rows are those inside.
-      const rows = a.payload.atReach.filter((r) => r.mounting === "floor" && r.offsetMm === 0 && r.reachMm >= need.reach[0] && r.reachMm <= need.reach[1]);
+      const rows = a.payload.atReach.filter(
+        (r) => r.mounting === "floor" && r.offsetMm === 0 && r.reachMm >= need.reach[0] && r.reachMm <= need.reach[1],
+      );
       expect(rows.length).toBe(9);
       const minKg = Math.min(...rows.map((r) => (r.limitedBy === "unreachable" ? 0 : r.payloadKg)));
       // Reach: every point of the band every 5 mm inside the flange side view (even–odd crossing test, written here).
@@ -136,24 +206,28 @@ describe("side-by-side page", () => {
         let c = false;
         for (const ring of rings) {
           for (let i = 0, j = ring.length - 1; i < ring.length; j = i++) {
-            const [xi, yi] = ring[i]!, [xj, yj] = ring[j]!;
+            const [xi, yi] = ring[i]!,
+              [xj, yj] = ring[j]!;
             if (yi > y !== yj > y && x < ((xj - xi) * (y - yi)) / (yj - yi) + xi) c = !c;
           }
         }
         return c;
       };
       let covered = true;
-      for (let x = need.reach[0]; x <= need.reach[1] && covered; x += 5) for (let y = need.height[0]; y <= need.height[1]; y += 5) if (!inside(x, y)) covered = false;
+      for (let x = need.reach[0]; x <= need.reach[1] && covered; x += 5)
+        for (let y = need.height[0]; y <= need.height[1]; y += 5) if (!inside(x, y)) covered = false;
       // Speed, tool down: every map node in the band reached, lowest guaranteed speed ≥ the minimum. The page reads
       // block minima (50 mm blocks from the map's origin), so it may only be stricter: compute both here.
       const map = a.speed.maps.find((m) => m.orientation === "down")!;
       const g = map.grid;
-      let nodeMin = Infinity, reached = true;
+      let nodeMin = Infinity,
+        reached = true;
       const per = Math.ceil(50 / g.stepMm);
       const blocks = new Set<string>();
       for (let iy = 0; iy < g.ny; iy++) {
         for (let ix = 0; ix < g.nx; ix++) {
-          const r = g.rMinMm + ix * g.stepMm, z = g.zMinMm + iy * g.stepMm;
+          const r = g.rMinMm + ix * g.stepMm,
+            z = g.zMinMm + iy * g.stepMm;
           if (r < need.reach[0] || r > need.reach[1] || z < need.height[0] || z > need.height[1]) continue;
           const v = map.guaranteedMmPerS[ix + iy * g.nx];
           if (v === null || v === undefined) reached = false;
@@ -162,14 +236,21 @@ describe("side-by-side page", () => {
         }
       }
       let blockMin = Infinity;
-      for (let iy = 0; iy < g.ny; iy++) for (let ix = 0; ix < g.nx; ix++) {
-        const v = map.guaranteedMmPerS[ix + iy * g.nx];
-        if (v !== null && v !== undefined && blocks.has(`${Math.floor(ix / per)},${Math.floor(iy / per)}`)) blockMin = Math.min(blockMin, v);
-      }
+      for (let iy = 0; iy < g.ny; iy++)
+        for (let ix = 0; ix < g.nx; ix++) {
+          const v = map.guaranteedMmPerS[ix + iy * g.nx];
+          if (v !== null && v !== undefined && blocks.has(`${Math.floor(ix / per)},${Math.floor(iy / per)}`))
+            blockMin = Math.min(blockMin, v);
+        }
       const speedOk = reached && blockMin >= need.speedMPerS * 1000;
       // The page must never pass what the node-exact reading fails.
       if (!(reached && nodeMin >= need.speedMPerS * 1000)) expect(speedOk).toBe(false);
-      expected.set(id, { payload: minKg >= need.kg ? "pass" : "fail", reach: covered ? "pass" : "fail", speed: speedOk ? "pass" : "fail", minKg });
+      expected.set(id, {
+        payload: minKg >= need.kg ? "pass" : "fail",
+        reach: covered ? "pass" : "fail",
+        speed: speedOk ? "pass" : "fail",
+        minKg,
+      });
     }
     // The case must show both outcomes somewhere, or it proves little.
     const statuses = [...expected.values()].flatMap((e) => [e.payload, e.reach, e.speed]);
@@ -187,7 +268,12 @@ describe("side-by-side page", () => {
     await page.click("form[data-compare-form] button[type='submit']");
     await page.waitForSelector(".verdict-table");
     const shown = async (p: Page) =>
-      p.$$eval(".verdict-table td[data-status]", (tds) => tds.map((td) => `${td.closest("tr")?.getAttribute("data-requirement")}:${td.getAttribute("data-arm")}:${td.getAttribute("data-status")}`));
+      p.$$eval(".verdict-table td[data-status]", (tds) =>
+        tds.map(
+          (td) =>
+            `${td.closest("tr")?.getAttribute("data-requirement")}:${td.getAttribute("data-arm")}:${td.getAttribute("data-status")}`,
+        ),
+      );
     const cells = await shown(page);
     for (const id of THREE) {
       const e = expected.get(id)!;
@@ -196,7 +282,8 @@ describe("side-by-side page", () => {
       expect(cells, id).toContain(`reach:${id}:${e.reach}`);
       expect(cells, id).toContain(`speed:${id}:${e.speed}`);
       if (e.payload === "fail") {
-        const reason = (await page.textContent(`tr[data-requirement="payload"] td[data-arm="${id}"] .verdict-reason`)) ?? "";
+        const reason =
+          (await page.textContent(`tr[data-requirement="payload"] td[data-arm="${id}"] .verdict-reason`)) ?? "";
         expect(reason.replace(/\u00a0/g, " ")).toContain(`holds ${Math.floor(e.minKg * 100) / 100} kg`);
         expect(reason.replace(/\u00a0/g, " ")).toContain("needs 10 kg");
       }
@@ -218,7 +305,9 @@ describe("side-by-side page", () => {
     expect(await again.page.inputValue("select[name='mounting']")).toBe("floor");
     expect(await shown(again.page)).toEqual(cells);
     // The band is drawn on the envelope chart.
-    expect(await again.page.$$eval("#compare-envelope-chart rect.need-band:not(.legend-swatch)", (r) => r.length)).toBe(1);
+    expect(await again.page.$$eval("#compare-envelope-chart rect.need-band:not(.legend-swatch)", (r) => r.length)).toBe(
+      1,
+    );
     expect(await again.finish()).toEqual([]);
   });
 
@@ -240,7 +329,10 @@ describe("side-by-side page", () => {
   });
 
   it("reads on a narrow screen", async () => {
-    const { page, finish } = await open(`compare/?arms=${THREE.join(",")}&need-kg=10&need-reach=300,700&need-height=200,600`, 390);
+    const { page, finish } = await open(
+      `compare/?arms=${THREE.join(",")}&need-kg=10&need-reach=300,700&need-height=200,600`,
+      390,
+    );
     const width = await page.evaluate(() => document.documentElement.scrollWidth);
     expect(width).toBeLessThanOrEqual(392);
     await page.screenshot({ path: join(shotsDir, "compare-narrow.png"), fullPage: true });

@@ -54,7 +54,9 @@ const JOINT_NAMES = [
 function hostileArm(): Record<string, unknown> {
   // The arm itself is a copy of a demo arm (valid kinematics); only its text changes.
   const base = JSON.parse(readFileSync(join(root, "arms", "corvell-tern-7.json"), "utf8")) as Record<string, any>;
-  const rename = new Map<string, string>(base.joints.map((j: { name: string }, i: number) => [j.name, JOINT_NAMES[i]!]));
+  const rename = new Map<string, string>(
+    base.joints.map((j: { name: string }, i: number) => [j.name, JOINT_NAMES[i]!]),
+  );
   const renamed = (name: string) => rename.get(name) ?? name;
   return {
     ...base,
@@ -92,7 +94,8 @@ beforeAll(async () => {
   writeFileSync(join(armsDir, "corvell-tern-25.json"), JSON.stringify(other, null, 2));
   const env = buildEnv({ ARMDEX_ARMS_DIR: armsDir, ARMDEX_OUT_DIR: outDir });
   const result = spawnSync("npm", ["run", "build"], { cwd: root, env, encoding: "utf8", maxBuffer: 64 * 1024 * 1024 });
-  if (result.status !== 0) throw new Error(`build of the hostile catalog failed:\n${`${result.stdout}\n${result.stderr}`.slice(-4000)}`);
+  if (result.status !== 0)
+    throw new Error(`build of the hostile catalog failed:\n${`${result.stdout}\n${result.stderr}`.slice(-4000)}`);
   server = await serveStatic(outDir, basePath);
   browser = await launchChromium();
 }, 600_000);
@@ -111,28 +114,43 @@ declare global {
 
 /** What the payloads would have created, had any of them become markup. */
 async function injectedElements(page: Page, origin: string): Promise<string[]> {
-  return page.evaluate(([origin, evil]) => {
-    const found: string[] = [];
-    for (const el of Array.from(document.querySelectorAll("*"))) {
-      for (const attr of Array.from(el.attributes)) {
-        if (/^on/i.test(attr.name)) found.push(`<${el.tagName.toLowerCase()} ${attr.name}>`);
-        // Text in an aria-label or data attribute is inert; a URL attribute pointing at a payload is not.
-        const isUrl = /^(href|src|srcset|xlink:href|action|formaction|srcdoc|data|poster)$/i.test(attr.name);
-        if (isUrl && (/^\s*javascript:/i.test(attr.value) || attr.value.includes(evil!))) {
-          found.push(`<${el.tagName.toLowerCase()} ${attr.name}="${attr.value}">`);
+  return page.evaluate(
+    ([origin, evil]) => {
+      const found: string[] = [];
+      for (const el of Array.from(document.querySelectorAll("*"))) {
+        for (const attr of Array.from(el.attributes)) {
+          if (/^on/i.test(attr.name)) found.push(`<${el.tagName.toLowerCase()} ${attr.name}>`);
+          // Text in an aria-label or data attribute is inert; a URL attribute pointing at a payload is not.
+          const isUrl = /^(href|src|srcset|xlink:href|action|formaction|srcdoc|data|poster)$/i.test(attr.name);
+          if (isUrl && (/^\s*javascript:/i.test(attr.value) || attr.value.includes(evil!))) {
+            found.push(`<${el.tagName.toLowerCase()} ${attr.name}="${attr.value}">`);
+          }
         }
       }
-    }
-    for (const s of Array.from(document.querySelectorAll("script"))) {
-      if (!s.src || !s.src.startsWith(`${origin}/`)) found.push(`script ${s.src || "(inline)"}: ${s.textContent?.slice(0, 60) ?? ""}`);
-    }
-    // The site has no iframes and no <style> elements (its CSP forbids inline style); img[src=x] is a payload's.
-    for (const el of Array.from(document.querySelectorAll("iframe, style, img[src='x']"))) found.push(`<${el.tagName.toLowerCase()}> injected`);
-    return found;
-  }, [origin, EVIL] as const);
+      for (const s of Array.from(document.querySelectorAll("script"))) {
+        if (!s.src || !s.src.startsWith(`${origin}/`))
+          found.push(`script ${s.src || "(inline)"}: ${s.textContent?.slice(0, 60) ?? ""}`);
+      }
+      // The site has no iframes and no <style> elements (its CSP forbids inline style); img[src=x] is a payload's.
+      for (const el of Array.from(document.querySelectorAll("iframe, style, img[src='x']")))
+        found.push(`<${el.tagName.toLowerCase()}> injected`);
+      return found;
+    },
+    [origin, EVIL] as const,
+  );
 }
 
-async function visit(path: string, waitFor?: (page: Page) => Promise<void>): Promise<{ text: string; svgText: string; problems: string[]; injected: string[]; dialogs: string[]; mark: unknown }> {
+async function visit(
+  path: string,
+  waitFor?: (page: Page) => Promise<void>,
+): Promise<{
+  text: string;
+  svgText: string;
+  problems: string[];
+  injected: string[];
+  dialogs: string[];
+  mark: unknown;
+}> {
   const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
   const page = await context.newPage();
   const problems = await watchPage(page, server.origin);
@@ -147,7 +165,11 @@ async function visit(path: string, waitFor?: (page: Page) => Promise<void>): Pro
   await page.mouse.move(300, 300);
   await page.mouse.move(600, 500);
   const text = await page.evaluate(() => document.body.innerText);
-  const svgText = await page.evaluate(() => Array.from(document.querySelectorAll("svg text, svg title, svg desc")).map((t) => t.textContent ?? "").join("\n"));
+  const svgText = await page.evaluate(() =>
+    Array.from(document.querySelectorAll("svg text, svg title, svg desc"))
+      .map((t) => t.textContent ?? "")
+      .join("\n"),
+  );
   const injected = await injectedElements(page, server.origin);
   const mark = await page.evaluate(() => window.__hostile);
   const all = await collectProblems(page, problems);
@@ -185,14 +207,18 @@ describe("an arm file full of markup is shown as text everywhere", () => {
   it("arm sheet: every text field and joint name appears literally, in the page and in the chart labels", async () => {
     const r = await visit(`arms/${HOSTILE_ID}/`);
     expectNothingRan(r);
-    for (const value of [TEXT.maker, TEXT.model, TEXT.document, TEXT.revision, TEXT.notes, TEXT.jointNote]) expect(r.text).toContain(value);
+    for (const value of [TEXT.maker, TEXT.model, TEXT.document, TEXT.revision, TEXT.notes, TEXT.jointNote])
+      expect(r.text).toContain(value);
     // The description may be wrapped; its first and last payloads must both show as text.
     expect(r.text).toContain("[click me](javascript:window.__hostile='md')");
     expect(r.text).toContain("${7*7}");
     for (const name of JOINT_NAMES) expect(r.text, `joint name ${name} in the page text`).toContain(name);
     // Chart labels name joints (joint-rate charts, the cycle's limiting joint): at least one hostile name is drawn
     // in an SVG text node, verbatim.
-    expect(JOINT_NAMES.some((name) => r.svgText.includes(name)), "a hostile joint name in an SVG label").toBe(true);
+    expect(
+      JOINT_NAMES.some((name) => r.svgText.includes(name)),
+      "a hostile joint name in an SVG label",
+    ).toBe(true);
   });
 
   it("side by side: the client-built page shows the names as text, nothing runs", async () => {
@@ -208,17 +234,25 @@ describe("an arm file full of markup is shown as text everywhere", () => {
   });
 
   it("downloads: JSON carries the strings unchanged; CSV neutralises formula starts", async () => {
-    const spec = JSON.parse(readFileSync(join(outDir, "data", "arms", HOSTILE_ID, "spec.json"), "utf8")) as Record<string, any>;
+    const spec = JSON.parse(readFileSync(join(outDir, "data", "arms", HOSTILE_ID, "spec.json"), "utf8")) as Record<
+      string,
+      any
+    >;
     expect(spec.maker ?? spec.spec?.maker).toBe(TEXT.maker);
     const analysis = readFileSync(join(outDir, "data", "arms", `${HOSTILE_ID}.json`), "utf8");
     expect(() => JSON.parse(analysis)).not.toThrow();
-    const catalog = JSON.parse(readFileSync(join(outDir, "data", "catalog.json"), "utf8")) as { arms: { id: string; maker?: string; model?: string }[] };
+    const catalog = JSON.parse(readFileSync(join(outDir, "data", "catalog.json"), "utf8")) as {
+      arms: { id: string; maker?: string; model?: string }[];
+    };
     const row = catalog.arms.find((a) => a.id === HOSTILE_ID);
     expect(row?.model).toBe(TEXT.model);
     // Joint names starting with + - = @ : in joints.csv each must be written with a leading single quote
     // (RFC 4180 quoting around it where the field needs it).
     const csv = readFileSync(join(outDir, "data", "arms", HOSTILE_ID, "joints.csv"), "utf8");
-    const fields = csv.split(/\r\n/).flatMap((line) => line.match(/("([^"]|"")*"|[^,]*)/g) ?? []).map((f) => (f.startsWith('"') ? f.slice(1, -1).replace(/""/g, '"') : f));
+    const fields = csv
+      .split(/\r\n/)
+      .flatMap((line) => line.match(/("([^"]|"")*"|[^,]*)/g) ?? [])
+      .map((f) => (f.startsWith('"') ? f.slice(1, -1).replace(/""/g, '"') : f));
     for (const name of JOINT_NAMES) {
       if (/^[=+\-@]/.test(name)) {
         expect(fields, `joint ${name} escaped in joints.csv`).toContain(`'${name}`);

@@ -21,7 +21,10 @@ const armsDir = join(scratch, "arms");
 const cacheDir = join(scratch, "cache");
 const outDir = join(scratch, "dist");
 const ARM_IDS = ["corvell-tern-7", "corvell-heron-210l", "yarrowfield-sable-600"];
-const OLD_SITE: Record<string, string> = { "index.html": "<!doctype html><title>previous site</title>", "data/marker.txt": "previous build" };
+const OLD_SITE: Record<string, string> = {
+  "index.html": "<!doctype html><title>previous site</title>",
+  "data/marker.txt": "previous build",
+};
 
 const scratchEnv = () => buildEnv({ ARMDEX_ARMS_DIR: armsDir, ARMDEX_OUT_DIR: outDir, ARMDEX_CACHE_DIR: cacheDir });
 
@@ -38,9 +41,15 @@ function files(dir: string): string[] {
 }
 
 /** Runs `build.ts` directly (not through npm, so the signal reaches it) and sends `signal` once `when` matches its output. */
-function interruptedBuild(when: RegExp, signal: NodeJS.Signals): Promise<{ code: number | null; output: string; signalled: boolean }> {
+function interruptedBuild(
+  when: RegExp,
+  signal: NodeJS.Signals,
+): Promise<{ code: number | null; output: string; signalled: boolean }> {
   return new Promise((done) => {
-    const child = spawn(join(root, "node_modules/.bin/tsx"), [join(root, "src/cli/build.ts")], { cwd: root, env: scratchEnv() });
+    const child = spawn(join(root, "node_modules/.bin/tsx"), [join(root, "src/cli/build.ts")], {
+      cwd: root,
+      env: scratchEnv(),
+    });
     let output = "";
     let signalled = false;
     const onData = (chunk: Buffer) => {
@@ -117,12 +126,23 @@ it("SIGTERM while Astro writes the site leaves the previous site and no temporar
 
 it("a complete build afterwards publishes the same analyses as a build that was never interrupted, and clears what a killed build left", () => {
   // What a build killed outright (SIGKILL) would leave: its temporary folder, named after a process that is gone.
-  const gone = spawnSync(process.execPath, ["-e", "process.stdout.write(String(process.pid))"], { encoding: "utf8" }).stdout;
+  const gone = spawnSync(process.execPath, ["-e", "process.stdout.write(String(process.pid))"], {
+    encoding: "utf8",
+  }).stdout;
   mkdirSync(join(scratch, `dist.building-${gone}`, "arms"), { recursive: true });
   writeFileSync(join(scratch, `dist.building-${gone}`, "index.html"), "half a site");
-  const result = spawnSync(join(root, "node_modules/.bin/tsx"), [join(root, "src/cli/build.ts")], { cwd: root, env: scratchEnv(), encoding: "utf8", maxBuffer: 64 * 1024 * 1024 });
+  const result = spawnSync(join(root, "node_modules/.bin/tsx"), [join(root, "src/cli/build.ts")], {
+    cwd: root,
+    env: scratchEnv(),
+    encoding: "utf8",
+    maxBuffer: 64 * 1024 * 1024,
+  });
   expect(result.status, `${result.stdout}\n${result.stderr}`.slice(-3000)).toBe(0);
-  expect(readdirSync(scratch).filter((n) => n.startsWith("dist")).sort()).toEqual(["dist"]);
+  expect(
+    readdirSync(scratch)
+      .filter((n) => n.startsWith("dist"))
+      .sort(),
+  ).toEqual(["dist"]);
   expect(readFileSync(join(outDir, "index.html"), "utf8")).not.toBe(OLD_SITE["index.html"]);
   expect(files(outDir)).not.toContain("data/marker.txt");
   for (const id of ARM_IDS) {
@@ -131,6 +151,8 @@ it("a complete build afterwards publishes the same analyses as a build that was 
     const suite = readFileSync(join(suiteDist, "data", "arms", `${id}.json`), "utf8");
     const hashOf = (text: string) => /"specHash":"([0-9a-f]{64})"/.exec(text)?.[1];
     expect(hashOf(ours)).toBeDefined();
-    expect(ours.replace(hashOf(ours)!, hashOf(suite)!) === suite, `data/arms/${id}.json equals the suite build's`).toBe(true);
+    expect(ours.replace(hashOf(ours)!, hashOf(suite)!) === suite, `data/arms/${id}.json equals the suite build's`).toBe(
+      true,
+    );
   }
 }, 600_000);

@@ -44,7 +44,16 @@ interface CliLine {
 
 /** `armdex line` for the demo arm (tsx on Node: the same core, outside the browser). */
 async function cli(line: Line): Promise<CliLine> {
-  const args = ["tsx", "src/cli/armdex.ts", "line", `arms/${ARM}.json`, `--from=${line.from}`, `--to=${line.to}`, `--orientation=${line.orientation}`, `--speed=${line.speed}`];
+  const args = [
+    "tsx",
+    "src/cli/armdex.ts",
+    "line",
+    `arms/${ARM}.json`,
+    `--from=${line.from}`,
+    `--to=${line.to}`,
+    `--orientation=${line.orientation}`,
+    `--speed=${line.speed}`,
+  ];
   const { stdout } = await run("npx", args, { cwd: root, maxBuffer: 32 * 1024 * 1024 });
   return JSON.parse(stdout) as CliLine;
 }
@@ -59,7 +68,9 @@ function shownSpeed(text: string): { value: number; decimals: number } {
 /** Equal within the display rounding: half a unit of the last digit shown. */
 function expectShownEqual(text: string, reference: number): void {
   const { value, decimals } = shownSpeed(text);
-  expect(Math.abs(value - reference), `shown "${text}" vs CLI ${reference}`).toBeLessThanOrEqual(0.5 * 10 ** -decimals + 1e-9);
+  expect(Math.abs(value - reference), `shown "${text}" vs CLI ${reference}`).toBeLessThanOrEqual(
+    0.5 * 10 ** -decimals + 1e-9,
+  );
 }
 
 const query = (line: Line) => new URLSearchParams(Object.entries(line)).toString();
@@ -90,7 +101,10 @@ async function open(path: string): Promise<WatchedPage> {
 
 async function waitForResult(page: Page): Promise<void> {
   await page.locator('#line-check[data-state="done"], #line-check[data-state="error"]').waitFor({ timeout: 30_000 });
-  expect(await page.locator("#line-check").getAttribute("data-state"), await page.locator("[data-line-status]").innerText()).toBe("done");
+  expect(
+    await page.locator("#line-check").getAttribute("data-state"),
+    await page.locator("[data-line-status]").innerText(),
+  ).toBe("done");
 }
 
 describe("straight-line check", () => {
@@ -99,9 +113,18 @@ describe("straight-line check", () => {
     expect(reference.feasibleConstantSpeedMmPerS, "CLI figure").toBeGreaterThan(0);
     const { page, finish } = await open(PAGE);
     expect(await page.locator("#line-check").getAttribute("data-state"), "the module mounted").toBe("idle");
-    const [fx, fy, fz] = FORM_LINE.from.split(","), [tx, ty, tz] = FORM_LINE.to.split(",");
+    const [fx, fy, fz] = FORM_LINE.from.split(","),
+      [tx, ty, tz] = FORM_LINE.to.split(",");
     const form = page.locator("form[data-line-form]");
-    for (const [name, value] of [["from-x", fx], ["from-y", fy], ["from-z", fz], ["to-x", tx], ["to-y", ty], ["to-z", tz], ["speed", FORM_LINE.speed]] as const) {
+    for (const [name, value] of [
+      ["from-x", fx],
+      ["from-y", fy],
+      ["from-z", fz],
+      ["to-x", tx],
+      ["to-y", ty],
+      ["to-z", tz],
+      ["speed", FORM_LINE.speed],
+    ] as const) {
       await form.locator(`input[name="${name}"]`).fill(value!);
     }
     await form.locator('select[name="orientation"]').selectOption(FORM_LINE.orientation);
@@ -112,8 +135,12 @@ describe("straight-line check", () => {
     expectShownEqual(await feasible.innerText(), reference.feasibleConstantSpeedMmPerS!);
     // The raw figure too: the same core on the same arm description gives the same number (CLI: 9 significant digits).
     const raw = Number(await feasible.getAttribute("data-value"));
-    expect(Math.abs(raw - reference.feasibleConstantSpeedMmPerS!) / reference.feasibleConstantSpeedMmPerS!).toBeLessThan(1e-8);
-    expect(await page.locator('[data-line-results] dd[data-key="bottleneck"]').innerText()).toContain(reference.bottleneck!.joint!);
+    expect(
+      Math.abs(raw - reference.feasibleConstantSpeedMmPerS!) / reference.feasibleConstantSpeedMmPerS!,
+    ).toBeLessThan(1e-8);
+    expect(await page.locator('[data-line-results] dd[data-key="bottleneck"]').innerText()).toContain(
+      reference.bottleneck!.joint!,
+    );
     // The chart: one line per driven joint, the limit, the bottleneck marker; built as elements.
     const chart = page.locator("[data-line-results] svg.chart-line-rates");
     expect(await chart.locator("path.lr-joint").count()).toBe(6);
@@ -121,12 +148,12 @@ describe("straight-line check", () => {
     expect(await chart.locator("circle.lr-bottleneck").count()).toBe(1);
     // The address now holds the line.
     const url = new URL(page.url());
-    expect([url.searchParams.get("from"), url.searchParams.get("to"), url.searchParams.get("orientation"), url.searchParams.get("speed")]).toEqual([
-      FORM_LINE.from,
-      FORM_LINE.to,
-      FORM_LINE.orientation,
-      FORM_LINE.speed,
-    ]);
+    expect([
+      url.searchParams.get("from"),
+      url.searchParams.get("to"),
+      url.searchParams.get("orientation"),
+      url.searchParams.get("speed"),
+    ]).toEqual([FORM_LINE.from, FORM_LINE.to, FORM_LINE.orientation, FORM_LINE.speed]);
     await page.locator("#line-check").screenshot({ path: join(shotsDir, "line-check.png") });
     expect(await finish()).toEqual([]);
   });
@@ -135,7 +162,10 @@ describe("straight-line check", () => {
     const reference = await cli(URL_LINE);
     const { page, finish } = await open(`${PAGE}?${query(URL_LINE)}#line-check`);
     await waitForResult(page);
-    expectShownEqual(await page.locator('[data-line-results] dd[data-key="feasible"]').innerText(), reference.feasibleConstantSpeedMmPerS!);
+    expectShownEqual(
+      await page.locator('[data-line-results] dd[data-key="feasible"]').innerText(),
+      reference.feasibleConstantSpeedMmPerS!,
+    );
     const form = page.locator("form[data-line-form]");
     expect(await form.locator('select[name="orientation"]').inputValue()).toBe("rpy");
     expect(await form.locator('input[name="pitch"]').inputValue()).toBe("-20");
@@ -152,14 +182,25 @@ describe("straight-line check", () => {
     expect(await first.locator("svg.chart-line-rates path.lr-joint").count()).toBe(6);
     const href = (await first.locator("a[data-line-load]").getAttribute("href")) ?? "";
     const params = new URL(href, page.url()).searchParams;
-    const line: Line = { from: params.get("from")!, to: params.get("to")!, orientation: params.get("orientation")!, speed: params.get("speed")! };
+    const line: Line = {
+      from: params.get("from")!,
+      to: params.get("to")!,
+      orientation: params.get("orientation")!,
+      speed: params.get("speed")!,
+    };
     const reference = await cli(line);
-    expectShownEqual(await first.locator('dd[data-key="feasible"]').innerText(), reference.feasibleConstantSpeedMmPerS!);
+    expectShownEqual(
+      await first.locator('dd[data-key="feasible"]').innerText(),
+      reference.feasibleConstantSpeedMmPerS!,
+    );
     // Following the link loads the line into the form and runs it: the browser agrees with the build.
     await first.locator("a[data-line-load]").click();
     await page.waitForURL((u) => u.searchParams.get("from") === line.from);
     await waitForResult(page);
-    expectShownEqual(await page.locator('[data-line-results] dd[data-key="feasible"]').innerText(), reference.feasibleConstantSpeedMmPerS!);
+    expectShownEqual(
+      await page.locator('[data-line-results] dd[data-key="feasible"]').innerText(),
+      reference.feasibleConstantSpeedMmPerS!,
+    );
     expect(await finish()).toEqual([]);
   });
 
@@ -179,7 +220,16 @@ describe("straight-line check side by side", () => {
     const ids = ["corvell-tern-7", "corvell-tern-25"];
     const references = await Promise.all(
       ids.map(async (id) => {
-        const args = ["tsx", "src/cli/armdex.ts", "line", `arms/${id}.json`, `--from=${line.from}`, `--to=${line.to}`, `--orientation=${line.orientation}`, `--speed=${line.speed}`];
+        const args = [
+          "tsx",
+          "src/cli/armdex.ts",
+          "line",
+          `arms/${id}.json`,
+          `--from=${line.from}`,
+          `--to=${line.to}`,
+          `--orientation=${line.orientation}`,
+          `--speed=${line.speed}`,
+        ];
         const { stdout } = await run("npx", args, { cwd: root, maxBuffer: 32 * 1024 * 1024 });
         return (JSON.parse(stdout) as CliLine).feasibleConstantSpeedMmPerS!;
       }),

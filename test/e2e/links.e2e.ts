@@ -93,7 +93,11 @@ async function crawlSite(browser: Browser, start: string, origin: string): Promi
     const url = new URL(ref.url);
     if (url.protocol === "data:" || url.protocol === "mailto:" || url.protocol === "tel:") return;
     if (url.protocol === "javascript:") {
-      broken.push({ url: ref.url, from, reason: `${label}: a javascript: URL (the Content-Security-Policy blocks it)` });
+      broken.push({
+        url: ref.url,
+        from,
+        reason: `${label}: a javascript: URL (the Content-Security-Policy blocks it)`,
+      });
       return;
     }
     if (url.origin !== origin) {
@@ -132,7 +136,8 @@ async function crawlSite(browser: Browser, start: string, origin: string): Promi
       const pageUrl = queue.shift()!;
       const res = await fetchOnce(pageUrl);
       if (res.status !== 200) {
-        if (pageUrl === withoutHash(start)) broken.push({ url: pageUrl, from: "(start)", reason: `HTTP ${res.status}` });
+        if (pageUrl === withoutHash(start))
+          broken.push({ url: pageUrl, from: "(start)", reason: `HTTP ${res.status}` });
         continue;
       }
       const page = await context.newPage();
@@ -143,7 +148,11 @@ async function crawlSite(browser: Browser, start: string, origin: string): Promi
       ids.set(pageUrl, new Set(found.ids));
       for (const failed of problems.failedRequests) {
         const cut = failed.indexOf(": ");
-        broken.push({ url: failed.slice(0, cut), from: pageUrl, reason: `the browser could not load it: ${failed.slice(cut + 2)}` });
+        broken.push({
+          url: failed.slice(0, cut),
+          from: pageUrl,
+          reason: `the browser could not load it: ${failed.slice(cut + 2)}`,
+        });
       }
       for (const ref of found.refs) await check(ref, pageUrl);
     }
@@ -158,7 +167,12 @@ async function crawlSite(browser: Browser, start: string, origin: string): Promi
     const targetIds = ids.get(withoutHash(a.url));
     // Pages are crawled through nav links only; an anchor on a page reached another way is looked up on demand.
     const known = targetIds ?? new Set((await idsOf(browser, withoutHash(a.url))) ?? []);
-    if (!known.has(id)) broken.push({ url: a.url, from: a.from, reason: `<a href="${a.raw}">: no element with id "${id}" on the target page` });
+    if (!known.has(id))
+      broken.push({
+        url: a.url,
+        from: a.from,
+        reason: `<a href="${a.raw}">: no element with id "${id}" on the target page`,
+      });
   }
 
   // One line per broken target and reason, naming up to three places that refer to it.
@@ -191,7 +205,8 @@ async function idsOf(browser: Browser, url: string): Promise<string[] | null> {
 function cssReferences(css: string): string[] {
   const text = css.replace(/\/\*[\s\S]*?\*\//g, "");
   const out: string[] = [];
-  for (const m of text.matchAll(/url\(\s*(?:"([^"]*)"|'([^']*)'|([^)'"\s]*))\s*\)/g)) out.push((m[1] ?? m[2] ?? m[3] ?? "").trim());
+  for (const m of text.matchAll(/url\(\s*(?:"([^"]*)"|'([^']*)'|([^)'"\s]*))\s*\)/g))
+    out.push((m[1] ?? m[2] ?? m[3] ?? "").trim());
   for (const m of text.matchAll(/@import\s+(?:"([^"]*)"|'([^']*)')/g)) out.push(m[1] ?? m[2] ?? "");
   return out.filter((u) => u !== "" && !u.startsWith("#"));
 }
@@ -214,7 +229,8 @@ function extractFromDocument(): { refs: Ref[]; ids: string[] } {
       const name = attr.name.toLowerCase();
       if (name === "href" || name === "xlink:href") add(el, name, attr.value, tag === "a" || tag === "area");
       else if (name === "src") add(el, name, attr.value, tag === "iframe");
-      else if (name === "poster" || (name === "data" && tag === "object") || (name === "action" && tag === "form")) add(el, name, attr.value, false);
+      else if (name === "poster" || (name === "data" && tag === "object") || (name === "action" && tag === "form"))
+        add(el, name, attr.value, false);
       else if (name === "srcset" || name === "imagesrcset") {
         for (const candidate of attr.value.split(/,\s+/)) {
           const u = candidate.trim().split(/\s+/)[0];
@@ -257,8 +273,14 @@ describe("link check", () => {
 <a href="http://127.0.0.1:9/elsewhere/">another host</a> <img src="nope.png" alt=""> <img src="http://127.0.0.1:9/x.png" alt="">
 <img srcset="pic.svg 1x, gone.svg 2x" alt=""> <p id="self">here</p></body></html>`,
       );
-      await writeFile(join(dir, "good", "index.html"), `<!doctype html><title>g</title><h2 id="here">here</h2><a href="../">home</a><a href="../#self">back</a>`);
-      await writeFile(join(dir, "style.css"), `body { background: url("bg.svg"); } /* url(commented.svg) */ .unused { background: url(missing-bg.svg) }`);
+      await writeFile(
+        join(dir, "good", "index.html"),
+        `<!doctype html><title>g</title><h2 id="here">here</h2><a href="../">home</a><a href="../#self">back</a>`,
+      );
+      await writeFile(
+        join(dir, "style.css"),
+        `body { background: url("bg.svg"); } /* url(commented.svg) */ .unused { background: url(missing-bg.svg) }`,
+      );
       const svg = `<svg xmlns="http://www.w3.org/2000/svg" width="1" height="1"/>`;
       await writeFile(join(dir, "bg.svg"), svg);
       await writeFile(join(dir, "pic.svg"), svg);
@@ -269,10 +291,20 @@ describe("link check", () => {
         expect(report.pages.sort()).toEqual([s, `${s}good/`]);
         expect(report.external).toEqual(["http://127.0.0.1:9/elsewhere/"]);
         expect([...new Set(report.broken.map((b) => b.url))].sort()).toEqual(
-          [`${s}good/#nowhere`, `${s}missing/`, "javascript:void(0)", `${s}nope.png`, "http://127.0.0.1:9/x.png", `${s}gone.svg`, `${s}missing-bg.svg`].sort(),
+          [
+            `${s}good/#nowhere`,
+            `${s}missing/`,
+            "javascript:void(0)",
+            `${s}nope.png`,
+            "http://127.0.0.1:9/x.png",
+            `${s}gone.svg`,
+            `${s}missing-bg.svg`,
+          ].sort(),
         );
         expect(report.broken.find((b) => b.url === `${s}missing-bg.svg`)?.from).toBe(`${s}style.css`);
-        expect(report.broken.find((b) => b.url === `${s}good/#nowhere`)?.reason).toContain('no element with id "nowhere"');
+        expect(report.broken.find((b) => b.url === `${s}good/#nowhere`)?.reason).toContain(
+          'no element with id "nowhere"',
+        );
       } finally {
         await server.close();
       }

@@ -35,7 +35,8 @@ it("two builds of the same arms are byte-identical", () => {
   const env = buildEnv({ ARMDEX_OUT_DIR: outDir });
   const result = spawnSync("npm", ["run", "build"], { cwd: root, env, encoding: "utf8", maxBuffer: 64 * 1024 * 1024 });
   expect(result.status, `${result.stdout}\n${result.stderr}`.slice(-3000)).toBe(0);
-  const first = files(distDir), second = files(outDir);
+  const first = files(distDir),
+    second = files(outDir);
   expect(second).toEqual(first);
   const differing = first.filter((f) => !readFileSync(join(distDir, f)).equals(readFileSync(join(outDir, f))));
   expect(differing, "files whose bytes differ between the two builds").toEqual([]);

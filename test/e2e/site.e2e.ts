@@ -91,7 +91,18 @@ describe("catalog", () => {
     const { page, finish } = await open("", { javaScriptEnabled: false });
     await expect.poll(() => page.locator("#catalog tbody tr").count()).toBe(arms.length);
     const headers = await page.locator("#catalog thead th").allTextContents();
-    for (const h of ["Maker", "Model", "Class", "Driven axes", "Rated payload (kg)", "Stated reach (mm)", "Repeatability (mm)", "Mass (kg)", "Mountings", "Protection"]) {
+    for (const h of [
+      "Maker",
+      "Model",
+      "Class",
+      "Driven axes",
+      "Rated payload (kg)",
+      "Stated reach (mm)",
+      "Repeatability (mm)",
+      "Mass (kg)",
+      "Mountings",
+      "Protection",
+    ]) {
       expect(headers.map((t) => t.trim())).toContain(h);
     }
     for (const arm of arms) {
@@ -107,7 +118,10 @@ describe("catalog", () => {
   it("leads from the model name to the arm sheet", async () => {
     const arm = arms[0]!;
     const { page, finish } = await open("");
-    await page.locator(`#catalog tbody tr[data-key="${arm.id}"]`).getByRole("link", { name: arm.model, exact: true }).click();
+    await page
+      .locator(`#catalog tbody tr[data-key="${arm.id}"]`)
+      .getByRole("link", { name: arm.model, exact: true })
+      .click();
     await page.waitForURL(`${siteUrl}arms/${arm.id}/`);
     expect(await text(page, "h1")).toContain(arm.model);
     expect(await finish()).toEqual([]);
@@ -123,43 +137,46 @@ describe("catalog", () => {
 });
 
 describe("arm sheet", () => {
-  it.each(arms.map((a) => [a.id, a] as const))("%s shows the model, joints, fingerprint, source and cautions", async (id, arm) => {
-    const { page, finish } = await open(`arms/${id}/`);
-    expect(await text(page, "h1 .arm-model")).toBe(arm.model);
-    expect(await page.title()).toContain(arm.model);
+  it.each(arms.map((a) => [a.id, a] as const))(
+    "%s shows the model, joints, fingerprint, source and cautions",
+    async (id, arm) => {
+      const { page, finish } = await open(`arms/${id}/`);
+      expect(await text(page, "h1 .arm-model")).toBe(arm.model);
+      expect(await page.title()).toContain(arm.model);
 
-    const rows = page.locator("#joints #joint-table tbody tr");
-    expect(await rows.count()).toBe(arm.joints.length);
-    for (const joint of arm.joints) {
-      const row = await text(page, `#joint-table tbody tr[data-key="${joint.name}"]`);
-      if (isPassive(joint)) expect(row).toContain(`follows ${joint.coupling!.terms.map((t) => t.joint).join(", ")}`);
-      else expect(row).toContain("driven");
-    }
+      const rows = page.locator("#joints #joint-table tbody tr");
+      expect(await rows.count()).toBe(arm.joints.length);
+      for (const joint of arm.joints) {
+        const row = await text(page, `#joint-table tbody tr[data-key="${joint.name}"]`);
+        if (isPassive(joint)) expect(row).toContain(`follows ${joint.coupling!.terms.map((t) => t.joint).join(", ")}`);
+        else expect(row).toContain("driven");
+      }
 
-    expect(await text(page, "#source .fingerprint")).toBe(arm.fingerprint);
-    expect(await text(page, "#source .source-document")).toBe(arm.source.document);
-    const source = await text(page, "#source");
-    expect(source).toContain(arm.source.revision);
-    expect(source).toContain(arm.source.date);
+      expect(await text(page, "#source .fingerprint")).toBe(arm.fingerprint);
+      expect(await text(page, "#source .source-document")).toBe(arm.source.document);
+      const source = await text(page, "#source");
+      expect(source).toContain(arm.source.revision);
+      expect(source).toContain(arm.source.date);
 
-    const cautions = await text(page, "#cautions");
-    for (const phrase of CAUTION_PHRASES) expect(cautions, `cautions on ${id}`).toContain(phrase);
+      const cautions = await text(page, "#cautions");
+      for (const phrase of CAUTION_PHRASES) expect(cautions, `cautions on ${id}`).toContain(phrase);
 
-    // Only sections with real content: each has something besides its heading, and the contents list matches them.
-    const empty = await page.$$eval("main section", (sections) =>
-      sections.filter((s) => Array.from(s.children).every((c) => /^H[1-6]$/.test(c.tagName))).map((s) => s.id),
-    );
-    expect(empty).toEqual([]);
-    const listed = await page.$$eval(".section-nav a", (links) => links.map((a) => a.getAttribute("href")));
-    const sections = await page.$$eval("main section[id]", (s) => s.map((e) => `#${e.id}`));
-    expect(listed).toEqual(sections);
-    expect(sections).toEqual(expect.arrayContaining(["#joints", "#source", "#cautions"]));
+      // Only sections with real content: each has something besides its heading, and the contents list matches them.
+      const empty = await page.$$eval("main section", (sections) =>
+        sections.filter((s) => Array.from(s.children).every((c) => /^H[1-6]$/.test(c.tagName))).map((s) => s.id),
+      );
+      expect(empty).toEqual([]);
+      const listed = await page.$$eval(".section-nav a", (links) => links.map((a) => a.getAttribute("href")));
+      const sections = await page.$$eval("main section[id]", (s) => s.map((e) => `#${e.id}`));
+      expect(listed).toEqual(sections);
+      expect(sections).toEqual(expect.arrayContaining(["#joints", "#source", "#cautions"]));
 
-    if (id === arms[0]!.id || arm.joints.some(isPassive)) {
-      await page.screenshot({ path: join(shotsDir, `arm-${id}.png`), fullPage: true });
-    }
-    expect(await finish()).toEqual([]);
-  });
+      if (id === arms[0]!.id || arm.joints.some(isPassive)) {
+        await page.screenshot({ path: join(shotsDir, `arm-${id}.png`), fullPage: true });
+      }
+      expect(await finish()).toEqual([]);
+    },
+  );
 
   it("prints without navigation, with its address and fingerprint", async () => {
     const arm = arms.find((a) => a.joints.some(isPassive)) ?? arms[0]!;
@@ -265,6 +282,8 @@ describe("whole site", () => {
     expect(problems.some((p) => p.startsWith("console error:"))).toBe(true);
     expect(problems.some((p) => p.startsWith("CSP violation:"))).toBe(true);
     // The two violations provoked above are expected; nothing else is.
-    expect(problems.filter((p) => !/script-src|img-src|example\.invalid|inline script|Refused to load the image/i.test(p))).toEqual([]);
+    expect(
+      problems.filter((p) => !/script-src|img-src|example\.invalid|inline script|Refused to load the image/i.test(p)),
+    ).toEqual([]);
   });
 });

@@ -34,11 +34,25 @@ const dhRow = fc.record({ aMm: lengthMm(1500, false), alphaDeg: angleDeg(), dMm:
 
 /** A unit axis: mostly a base axis (±x, ±y, ±z), sometimes an arbitrary direction rounded to 6 decimals. */
 const unitAxis = fc.oneof(
-  { weight: 5, arbitrary: fc.constantFrom<[number, number, number]>([0, 0, 1], [0, 0, -1], [0, 1, 0], [0, -1, 0], [1, 0, 0], [-1, 0, 0]) },
+  {
+    weight: 5,
+    arbitrary: fc.constantFrom<[number, number, number]>(
+      [0, 0, 1],
+      [0, 0, -1],
+      [0, 1, 0],
+      [0, -1, 0],
+      [1, 0, 0],
+      [-1, 0, 0],
+    ),
+  },
   {
     weight: 1,
     arbitrary: fc
-      .tuple(fc.double({ min: -1, max: 1, noNaN: true }), fc.double({ min: -1, max: 1, noNaN: true }), fc.double({ min: -1, max: 1, noNaN: true }))
+      .tuple(
+        fc.double({ min: -1, max: 1, noNaN: true }),
+        fc.double({ min: -1, max: 1, noNaN: true }),
+        fc.double({ min: -1, max: 1, noNaN: true }),
+      )
       .filter(([x, y, z]) => Math.hypot(x, y, z) > 0.1)
       .map(([x, y, z]): [number, number, number] => {
         const n = Math.hypot(x, y, z);
@@ -60,7 +74,10 @@ const jointDraw = fc.record({
   axis: unitAxis,
   /** revolute range: lower limit and width, deg */
   loDeg: fc.integer({ min: -360, max: 350 }),
-  widthDeg: fc.oneof({ weight: 1, arbitrary: fc.integer({ min: 1, max: 30 }) }, { weight: 4, arbitrary: fc.integer({ min: 30, max: 720 }) }),
+  widthDeg: fc.oneof(
+    { weight: 1, arbitrary: fc.integer({ min: 1, max: 30 }) },
+    { weight: 4, arbitrary: fc.integer({ min: 30, max: 720 }) },
+  ),
   /** prismatic stroke: lower limit and width, mm */
   loMm: fc.integer({ min: -1500, max: 1400 }),
   widthMm: fc.integer({ min: 1, max: 1500 }),
@@ -69,8 +86,18 @@ const jointDraw = fc.record({
   torqueNm: fc.option(fc.integer({ min: 5, max: 20_000 }), { nil: undefined, freq: 3 }),
   forceN: fc.option(fc.integer({ min: 50, max: 50_000 }), { nil: undefined, freq: 3 }),
   /** coupling: none, driven (with a range) or passive (no range); terms pick earlier joints by a fraction */
-  coupling: fc.oneof({ weight: 8, arbitrary: fc.constant("none") }, { weight: 1, arbitrary: fc.constant("driven") }, { weight: 1, arbitrary: fc.constant("passive") }),
-  terms: fc.array(fc.record({ pick: fc.double({ min: 0, max: 0.999, noNaN: true }), gain: fc.oneof(fc.constantFrom(1, -1, 0.5, -0.5, 2), fc.double({ min: -2, max: 2, noNaN: true })) }), { minLength: 1, maxLength: 2 }),
+  coupling: fc.oneof(
+    { weight: 8, arbitrary: fc.constant("none") },
+    { weight: 1, arbitrary: fc.constant("driven") },
+    { weight: 1, arbitrary: fc.constant("passive") },
+  ),
+  terms: fc.array(
+    fc.record({
+      pick: fc.double({ min: 0, max: 0.999, noNaN: true }),
+      gain: fc.oneof(fc.constantFrom(1, -1, 0.5, -0.5, 2), fc.double({ min: -2, max: 2, noNaN: true })),
+    }),
+    { minLength: 1, maxLength: 2 },
+  ),
   couplingOffsetDeg: fc.oneof(fc.constant(0), fc.integer({ min: -180, max: 180 })),
   couplingOffsetMm: fc.oneof(fc.constant(0), fc.integer({ min: -500, max: 500 })),
 });
@@ -96,11 +123,21 @@ const armDraw = fc.record({
   convention: fc.constantFrom("dh" as const, "mdh" as const, "frames" as const),
   joints: fc.array(jointDraw, { minLength: 2, maxLength: 9 }),
   sphericalWrist: fc.boolean(),
-  flange: fc.record({ xyzMm: fc.tuple(lengthMm(300), lengthMm(300), lengthMm(300)), rpyDeg: fc.tuple(angleDeg(), angleDeg(), angleDeg()) }),
+  flange: fc.record({
+    xyzMm: fc.tuple(lengthMm(300), lengthMm(300), lengthMm(300)),
+    rpyDeg: fc.tuple(angleDeg(), angleDeg(), angleDeg()),
+  }),
   mountings: fc.shuffledSubarray([...MOUNTINGS], { minLength: 1, maxLength: 4 }),
   cls: fc.constantFrom(...CLASSES),
   ratedPayloadKg: fc.oneof(fc.integer({ min: 1, max: 500 }), fc.double({ min: 0.1, max: 500, noNaN: true })),
-  links: fc.array(fc.record({ pick: fc.double({ min: 0, max: 0.999, noNaN: true }), massKg: fc.integer({ min: 1, max: 200 }), comMm: fc.tuple(lengthMm(400), lengthMm(400), lengthMm(400)) }), { maxLength: 4 }),
+  links: fc.array(
+    fc.record({
+      pick: fc.double({ min: 0, max: 0.999, noNaN: true }),
+      massKg: fc.integer({ min: 1, max: 200 }),
+      comMm: fc.tuple(lengthMm(400), lengthMm(400), lengthMm(400)),
+    }),
+    { maxLength: 4 },
+  ),
   wristMoment: fc.boolean(),
 });
 
@@ -122,8 +159,15 @@ export function armFromDraw(d: ArmDraw, id = "fuzz-arm"): Json {
     // spherical wrist template on the last three joints (all revolute): their axes meet in one point
     const wristIndex = i - (n - 3);
     if (d.sphericalWrist && n >= 5 && wristIndex >= 0 && d.joints.slice(n - 3).every((w) => !w.prismatic)) {
-      if (d.convention === "dh" && wristIndex <= 1) row = { ...row, aMm: 0, alphaDeg: row.alphaDeg === 0 ? 90 : row.alphaDeg, dMm: wristIndex === 1 ? 0 : row.dMm };
-      if (d.convention === "mdh" && wristIndex >= 1) row = { ...row, aMm: 0, alphaDeg: row.alphaDeg === 0 ? -90 : row.alphaDeg, dMm: wristIndex === 1 ? 0 : row.dMm };
+      if (d.convention === "dh" && wristIndex <= 1)
+        row = { ...row, aMm: 0, alphaDeg: row.alphaDeg === 0 ? 90 : row.alphaDeg, dMm: wristIndex === 1 ? 0 : row.dMm };
+      if (d.convention === "mdh" && wristIndex >= 1)
+        row = {
+          ...row,
+          aMm: 0,
+          alphaDeg: row.alphaDeg === 0 ? -90 : row.alphaDeg,
+          dMm: wristIndex === 1 ? 0 : row.dMm,
+        };
       if (d.convention === "frames" && wristIndex >= 1) origin = { ...origin, xyzMm: [0, 0, 0] };
     }
     if (d.convention === "frames") {
@@ -194,7 +238,12 @@ export function armFromDraw(d: ArmDraw, id = "fuzz-arm"): Json {
     flange: d.flange,
     source: { document: "Generated chain", revision: "1", date: "2026-01-01" },
   };
-  if (d.links.length > 0) arm.links = d.links.map((l) => ({ after: names[Math.floor(l.pick * names.length)]!, massKg: l.massKg, comMm: l.comMm }));
+  if (d.links.length > 0)
+    arm.links = d.links.map((l) => ({
+      after: names[Math.floor(l.pick * names.length)]!,
+      massKg: l.massKg,
+      comMm: l.comMm,
+    }));
   if (d.wristMoment) arm.wrist = { momentNm: { [names[names.length - 1]!]: Math.max(1, d.ratedPayloadKg) * 2 } };
   return arm;
 }

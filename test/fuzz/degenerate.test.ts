@@ -17,12 +17,15 @@ function chainOf(arm: Record<string, unknown>) {
 }
 
 describe("degenerate chains", () => {
-  it.each(DEGENERATE_ARMS.map((d) => [d.name, d.arm] as const))("%s: analysed with every property, or refused clearly", (_name, arm) => {
-    const result = checkArm(arm, DEFAULT_CHECK);
-    if (result.outcome === "unsupported") expect(result.message).toContain(UNSUPPORTED_MARK);
-    else expect(result.outcome).toBe("analysed");
-    expect(result.violations).toEqual([]);
-  });
+  it.each(DEGENERATE_ARMS.map((d) => [d.name, d.arm] as const))(
+    "%s: analysed with every property, or refused clearly",
+    (_name, arm) => {
+      const result = checkArm(arm, DEFAULT_CHECK);
+      if (result.outcome === "unsupported") expect(result.message).toContain(UNSUPPORTED_MARK);
+      else expect(result.outcome).toBe("analysed");
+      expect(result.violations).toEqual([]);
+    },
+  );
 });
 
 describe("counterexamples found by the random arms (regressions)", () => {
@@ -47,11 +50,31 @@ describe("counterexamples found by the random arms (regressions)", () => {
     // stroke, then a turn; the flange moves on a circle in a vertical plane at y = −241 mm … so its distance from the
     // base z axis is at least that plane's distance: checked against forward kinematics by brute force below.
     const arm = {
-      id: "stroke-then-turn", maker: "Fuzzwerk", model: "Counterexample", class: "other", mountings: ["wall"], massKg: 50, ratedPayloadKg: 5,
-      repeatabilityMm: 0.05, protection: "IP54", convention: "mdh",
+      id: "stroke-then-turn",
+      maker: "Fuzzwerk",
+      model: "Counterexample",
+      class: "other",
+      mountings: ["wall"],
+      massKg: 50,
+      ratedPayloadKg: 5,
+      repeatabilityMm: 0.05,
+      protection: "IP54",
+      convention: "mdh",
       joints: [
-        { name: "J1", kind: "prismatic", mdh: { aMm: 0, alphaDeg: 90, dMm: 0, thetaDeg: -176 }, rangeMm: [1397, 1399], maxSpeedMmPerS: 591 },
-        { name: "J2", kind: "revolute", mdh: { aMm: 0, alphaDeg: 0, dMm: 0, thetaDeg: 180 }, rangeDeg: [-6, 485], maxSpeedDegPerS: 245 },
+        {
+          name: "J1",
+          kind: "prismatic",
+          mdh: { aMm: 0, alphaDeg: 90, dMm: 0, thetaDeg: -176 },
+          rangeMm: [1397, 1399],
+          maxSpeedMmPerS: 591,
+        },
+        {
+          name: "J2",
+          kind: "revolute",
+          mdh: { aMm: 0, alphaDeg: 0, dMm: 0, thetaDeg: 180 },
+          rangeDeg: [-6, 485],
+          maxSpeedDegPerS: 245,
+        },
       ],
       flange: { xyzMm: [-1, 241, -8], rpyDeg: [-4, -90, -90] },
       source: { document: "Generated chain", revision: "1", date: "2026-01-01" },

@@ -37,11 +37,17 @@ export interface FuzzReport {
  * Draws `runs` arms with fast-check from `seed` and checks each. No shrinking (the failing arm is returned as drawn;
  * the unit suite's fc.assert shrinks).
  */
-export function runFuzz(options: { seed: number; runs: number; check?: CheckOptions; onArm?: (index: number, ms: number, outcome: string) => void }): FuzzReport {
+export function runFuzz(options: {
+  seed: number;
+  runs: number;
+  check?: CheckOptions;
+  onArm?: (index: number, ms: number, outcome: string) => void;
+}): FuzzReport {
   const { seed, runs } = options;
   const arms = fc.sample(armArbitrary, { seed, numRuns: runs });
   const counts = { analysed: 0, unsupported: 0, rejected: 0, threw: 0 };
-  const byDrivenCount: Record<string, number> = {}, byLayout: Record<string, number> = {};
+  const byDrivenCount: Record<string, number> = {},
+    byLayout: Record<string, number> = {};
   const failures: FuzzFailure[] = [];
   const times: number[] = [];
   const start = performance.now();
@@ -55,7 +61,8 @@ export function runFuzz(options: { seed: number; runs: number; check?: CheckOpti
       byDrivenCount[String(result.drivenCount)] = (byDrivenCount[String(result.drivenCount)] ?? 0) + 1;
       byLayout[result.layout!] = (byLayout[result.layout!] ?? 0) + 1;
     }
-    if (result.violations.length > 0) failures.push({ index, outcome: result.outcome, violations: result.violations, arm });
+    if (result.violations.length > 0)
+      failures.push({ index, outcome: result.outcome, violations: result.violations, arm });
     options.onArm?.(index, ms, result.outcome);
   });
   const sorted = [...times].sort((a, b) => a - b);
@@ -78,14 +85,25 @@ export function runFuzz(options: { seed: number; runs: number; check?: CheckOpti
  * Re-checks the open counterexamples (arms whose side view misses sampled poses by more than the stated tolerance,
  * found by the random run and not fixed yet): an empty list of violations means the gap is closed.
  */
-export function recheckOpenCounterexamples(check: CheckOptions = DEFAULT_CHECK): { id: string; violations: readonly string[] }[] {
-  return (openCounterexamples as { id: string }[]).map((arm) => ({ id: arm.id, violations: checkArm(arm, check).violations }));
+export function recheckOpenCounterexamples(
+  check: CheckOptions = DEFAULT_CHECK,
+): { id: string; violations: readonly string[] }[] {
+  return (openCounterexamples as { id: string }[]).map((arm) => ({
+    id: arm.id,
+    violations: checkArm(arm, check).violations,
+  }));
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) {
-  const runs = Number(process.argv[2] ?? 500), seed = Number(process.argv[3] ?? process.env.ARMDEX_FUZZ_SEED ?? 1);
-  const report = runFuzz({ seed, runs, onArm: (i, ms, outcome) => process.env.ARMDEX_FUZZ_VERBOSE && console.log(i, outcome, ms.toFixed(0)) });
+  const runs = Number(process.argv[2] ?? 500),
+    seed = Number(process.argv[3] ?? process.env.ARMDEX_FUZZ_SEED ?? 1);
+  const report = runFuzz({
+    seed,
+    runs,
+    onArm: (i, ms, outcome) => process.env.ARMDEX_FUZZ_VERBOSE && console.log(i, outcome, ms.toFixed(0)),
+  });
   const { failures, ...figures } = report;
   console.log(JSON.stringify(figures));
-  for (const f of failures) console.log(`arm ${f.index} (${f.outcome}):\n  ${f.violations.join("\n  ")}\n  ${JSON.stringify(f.arm)}`);
+  for (const f of failures)
+    console.log(`arm ${f.index} (${f.outcome}):\n  ${f.violations.join("\n  ")}\n  ${JSON.stringify(f.arm)}`);
 }

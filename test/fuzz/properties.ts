@@ -72,7 +72,8 @@ interface Polygon {
 export function windingNumber(x: number, y: number, ring: Ring): number {
   let w = 0;
   for (let k = 0; k + 1 < ring.length; k++) {
-    const [x0, y0] = ring[k]!, [x1, y1] = ring[k + 1]!;
+    const [x0, y0] = ring[k]!,
+      [x1, y1] = ring[k + 1]!;
     const side = (x1 - x0) * (y - y0) - (x - x0) * (y1 - y0);
     if (y0 <= y) {
       if (y1 > y && side > 0) w++;
@@ -87,8 +88,11 @@ export function distanceToBoundary(x: number, y: number, polygons: readonly Poly
   for (const p of polygons) {
     for (const ring of [p.outer, ...p.holes]) {
       for (let k = 0; k + 1 < ring.length; k++) {
-        const [ax, ay] = ring[k]!, [bx, by] = ring[k + 1]!;
-        const dx = bx - ax, dy = by - ay, l2 = dx * dx + dy * dy;
+        const [ax, ay] = ring[k]!,
+          [bx, by] = ring[k + 1]!;
+        const dx = bx - ax,
+          dy = by - ay,
+          l2 = dx * dx + dy * dy;
         const t = l2 > 0 ? Math.min(1, Math.max(0, ((x - ax) * dx + (y - ay) * dy) / l2)) : 0;
         best = Math.min(best, Math.hypot(x - ax - t * dx, y - ay - t * dy));
       }
@@ -105,7 +109,8 @@ export function insidePolygons(x: number, y: number, polygons: readonly Polygon[
 /** Driven joint vector drawn uniformly within the limits (a full turn where a range is wider). */
 function randomJoints(chain: Chain, rnd: () => number, out: Float64Array): Float64Array {
   for (let i = 0; i < chain.drivenCount; i++) {
-    const lo = chain.lowerSi[i]!, hi = chain.upperSi[i]!;
+    const lo = chain.lowerSi[i]!,
+      hi = chain.upperSi[i]!;
     // the ends of the range are drawn on purpose: the reach is often attained at a limit
     const u = rnd();
     out[i] = u < 0.05 ? lo : u > 0.95 ? hi : lo + (hi - lo) * rnd();
@@ -121,7 +126,9 @@ function randomJoints(chain: Chain, rnd: () => number, out: Float64Array): Float
 export function bruteMaxToolSpeed(j: Float64Array, m: number, maxRate: Float64Array): number {
   let best = 0;
   for (let s = 0; s < 1 << m; s++) {
-    let x = 0, y = 0, z = 0;
+    let x = 0,
+      y = 0,
+      z = 0;
     for (let i = 0; i < m; i++) {
       const w = (s >> i) & 1 ? -maxRate[i]! : maxRate[i]!;
       x += w * j[i]!;
@@ -151,7 +158,12 @@ export function checkArm(json: unknown, options: CheckOptions = DEFAULT_CHECK): 
   const id = typeof (json as { id?: unknown }).id === "string" ? (json as { id: string }).id : "fuzz-arm";
   const validated = validateArm(json, `${id}.json`, id);
   if (!validated.ok) {
-    return { outcome: "rejected", violations: [`validation refused a generated arm: ${validated.issues.map((i) => `${i.path}: ${i.message}`).join("; ")}`] };
+    return {
+      outcome: "rejected",
+      violations: [
+        `validation refused a generated arm: ${validated.issues.map((i) => `${i.path}: ${i.message}`).join("; ")}`,
+      ],
+    };
   }
   const { spec, chain } = validated;
   const arm: Arm = { id, file: `${id}.json`, spec, chain, specHash: "fuzz", warnings: [] };
@@ -160,8 +172,14 @@ export function checkArm(json: unknown, options: CheckOptions = DEFAULT_CHECK): 
     analysis = analyseArm(chain, armFacts(arm), options.analysis);
   } catch (e) {
     const message = e instanceof Error ? e.message : String(e);
-    if (message.includes(UNSUPPORTED_MARK)) return { outcome: "unsupported", violations: [], message, drivenCount: chain.drivenCount };
-    return { outcome: "threw", violations: [`analysis threw: ${e instanceof Error ? (e.stack ?? message) : message}`], message, drivenCount: chain.drivenCount };
+    if (message.includes(UNSUPPORTED_MARK))
+      return { outcome: "unsupported", violations: [], message, drivenCount: chain.drivenCount };
+    return {
+      outcome: "threw",
+      violations: [`analysis threw: ${e instanceof Error ? (e.stack ?? message) : message}`],
+      message,
+      drivenCount: chain.drivenCount,
+    };
   }
   const violations: string[] = [];
   const fail = (msg: string) => {
@@ -172,14 +190,23 @@ export function checkArm(json: unknown, options: CheckOptions = DEFAULT_CHECK): 
   checkSpeedMaps(analysis, fail);
   checkPayload(analysis, spec.ratedPayloadKg, fail);
   checkPoses(chain, analysis, options, fail);
-  return { outcome: "analysed", violations, analysis, drivenCount: chain.drivenCount, layout: analysis.envelope.layout };
+  return {
+    outcome: "analysed",
+    violations,
+    analysis,
+    drivenCount: chain.drivenCount,
+    layout: analysis.envelope.layout,
+  };
 }
 
 /** Bounded work: the envelope stays within its sample budget and the maps within the grid the reach implies. */
 function checkBudget(a: ArmAnalysis, o: AnalysisOptions, fail: (m: string) => void): void {
   const budget = o.envelope?.workBudget ?? 8_000_000;
   for (const e of [a.envelope.wcp, a.envelope.flange]) {
-    if (e && e.samples > ENVELOPE_PASSES_PER_POINT * budget) fail(`envelope ${e.point}: ${e.samples} joint samples, more than ${ENVELOPE_PASSES_PER_POINT} × workBudget ${budget}`);
+    if (e && e.samples > ENVELOPE_PASSES_PER_POINT * budget)
+      fail(
+        `envelope ${e.point}: ${e.samples} joint samples, more than ${ENVELOPE_PASSES_PER_POINT} × workBudget ${budget}`,
+      );
   }
   const f = a.envelope.flange;
   for (const map of a.speed.maps) {
@@ -188,7 +215,10 @@ function checkBudget(a: ArmAnalysis, o: AnalysisOptions, fail: (m: string) => vo
     const spanR = 2 * Math.max(Math.abs(f.maxReachMm), 1) + 8 * g.stepMm;
     const spanZ = Math.abs(f.maxHeightMm - f.minHeightMm) + 8 * g.stepMm;
     const bound = (spanR / g.stepMm + 2) * (spanZ / g.stepMm + 2);
-    if (g.nx * g.ny > bound) fail(`map ${map.orientation}: ${g.nx} × ${g.ny} cells, more than the flange envelope implies (${Math.round(bound)})`);
+    if (g.nx * g.ny > bound)
+      fail(
+        `map ${map.orientation}: ${g.nx} × ${g.ny} cells, more than the flange envelope implies (${Math.round(bound)})`,
+      );
   }
 }
 
@@ -204,7 +234,8 @@ function checkSpeedMaps(a: ArmAnalysis, fail: (m: string) => void): void {
     map.guaranteedMmPerS.forEach((g, i) => {
       const v = map.maxMmPerS[i] ?? null;
       if ((g === null) !== (v === null)) fail(`map ${map.orientation} cell ${i}: guaranteed ${g} but maximum ${v}`);
-      else if (g !== null && v !== null && !(g <= v)) fail(`map ${map.orientation} cell ${i}: guaranteed ${g} mm/s > maximum tool speed ${v} mm/s`);
+      else if (g !== null && v !== null && !(g <= v))
+        fail(`map ${map.orientation} cell ${i}: guaranteed ${g} mm/s > maximum tool speed ${v} mm/s`);
       if (g !== null && g < 0) fail(`map ${map.orientation} cell ${i}: negative guaranteed speed ${g}`);
     });
     largest = Math.max(largest, map.maxToolSpeedMmPerS ?? 0);
@@ -218,7 +249,10 @@ function checkSpeedMaps(a: ArmAnalysis, fail: (m: string) => void): void {
 function checkPayload(a: ArmAnalysis, ratedKg: number, fail: (m: string) => void): void {
   const cap = ratedKg * (1 + 1e-9);
   for (const row of a.payload.atReach) {
-    if (!(row.payloadKg <= cap && row.payloadKg >= 0)) fail(`payload at reach ${row.reachMm} mm (${row.mounting}, offset ${row.offsetMm}): ${row.payloadKg} kg outside [0, rated ${ratedKg}]`);
+    if (!(row.payloadKg <= cap && row.payloadKg >= 0))
+      fail(
+        `payload at reach ${row.reachMm} mm (${row.mounting}, offset ${row.offsetMm}): ${row.payloadKg} kg outside [0, rated ${ratedKg}]`,
+      );
   }
   for (const v of a.payload.loadDiagram.grid?.allowedKg ?? []) {
     if (!(v <= cap && v >= 0)) fail(`load diagram: ${v} kg outside [0, rated ${ratedKg}]`);
@@ -238,8 +272,12 @@ function checkPoses(chain: Chain, a: ArmAnalysis, o: CheckOptions, fail: (m: str
   const tol = env.toleranceMm + 0.1;
   const maxReach = (useWcp ? a.reach.wcpMaxMm : a.reach.flangeMaxMm)!;
   const minReach = (useWcp ? a.reach.wcpMinMm : a.reach.flangeMinMm)!;
-  const s = createScratch(chain), m = chain.drivenCount;
-  const q = new Float64Array(m), p = new Float64Array(3), jac = new Float64Array(6 * m), sp = createSpeedScratch(m);
+  const s = createScratch(chain),
+    m = chain.drivenCount;
+  const q = new Float64Array(m),
+    p = new Float64Array(3),
+    jac = new Float64Array(6 * m),
+    sp = createSpeedScratch(m);
   const rnd = mulberry32(o.seed);
   const axis = a.envelope.axis1;
   const k0 = axis ? -chain.couplingOffset[0]! / chain.couplingGain[0]! : 0;
@@ -256,7 +294,8 @@ function checkPoses(chain: Chain, a: ArmAnalysis, o: CheckOptions, fail: (m: str
     const pMm = [p[0]! * 1000, p[1]! * 1000, p[2]! * 1000];
     let rho: number, h: number;
     if (axis) {
-      const d = axis.direction, o0 = axis.pointMm;
+      const d = axis.direction,
+        o0 = axis.pointMm;
       const rel = [pMm[0]! - o0[0], pMm[1]! - o0[1], pMm[2]! - o0[2]];
       const along = rel[0]! * d[0] + rel[1]! * d[1] + rel[2]! * d[2];
       rho = Math.hypot(rel[0]! - along * d[0], rel[1]! - along * d[1], rel[2]! - along * d[2]);
@@ -266,17 +305,28 @@ function checkPoses(chain: Chain, a: ArmAnalysis, o: CheckOptions, fail: (m: str
       h = pMm[2]!;
     }
     const where = `q = [${Array.from(q, (v) => v.toFixed(4)).join(", ")}]`;
-    if (rho > maxReach + tol) once(`reach ${rho.toFixed(1)} mm at ${where} beyond the computed maximum ${maxReach} mm (tolerance ${tol.toFixed(1)})`);
-    if (rho < minReach - tol) once(`reach ${rho.toFixed(1)} mm at ${where} below the computed minimum ${minReach} mm (tolerance ${tol.toFixed(1)})`);
-    if (h > env.maxHeightMm + tol || h < env.minHeightMm - tol) once(`height ${h.toFixed(1)} mm at ${where} outside [${env.minHeightMm.toFixed(1)}, ${env.maxHeightMm.toFixed(1)}] (tolerance ${tol.toFixed(1)})`);
+    if (rho > maxReach + tol)
+      once(
+        `reach ${rho.toFixed(1)} mm at ${where} beyond the computed maximum ${maxReach} mm (tolerance ${tol.toFixed(1)})`,
+      );
+    if (rho < minReach - tol)
+      once(
+        `reach ${rho.toFixed(1)} mm at ${where} below the computed minimum ${minReach} mm (tolerance ${tol.toFixed(1)})`,
+      );
+    if (h > env.maxHeightMm + tol || h < env.minHeightMm - tol)
+      once(
+        `height ${h.toFixed(1)} mm at ${where} outside [${env.minHeightMm.toFixed(1)}, ${env.maxHeightMm.toFixed(1)}] (tolerance ${tol.toFixed(1)})`,
+      );
     // --- per-pose speed figures at the flange (speed.ts), checked by brute force and by construction
     jacobianInto(jac, chain, s, t[3]!, t[7]!, t[11]!);
     const v = maxToolSpeed(jac, m, chain.maxSpeedSi, sp);
     const brute = bruteMaxToolSpeed(jac, m, chain.maxSpeedSi);
-    if (!(Math.abs(v - brute) <= 1e-9 * Math.max(1, brute))) once(`maxToolSpeed ${v} differs from the brute-force vertex maximum ${brute} at ${where}`);
+    if (!(Math.abs(v - brute) <= 1e-9 * Math.max(1, brute)))
+      once(`maxToolSpeed ${v} differs from the brute-force vertex maximum ${brute} at ${where}`);
     const g = guaranteedLineSpeed(jac, m, chain.maxSpeedSi, sp);
     if (!Number.isFinite(g) || g < 0) once(`guaranteedLineSpeed ${g} at ${where}`);
-    if (!(g <= v * (1 + 1e-9) + 1e-12)) once(`guaranteed line speed ${g} m/s > maximum tool speed ${v} m/s at ${where}`);
+    if (!(g <= v * (1 + 1e-9) + 1e-12))
+      once(`guaranteed line speed ${g} m/s > maximum tool speed ${v} m/s at ${where}`);
     if (g > 0) checkLineSpeedReached(chain, jac, sp.b, g, rnd, where, once);
     // --- side view, with joint 1 at kinematic 0 (revolute base) or as drawn (projections on base planes)
     let side: [number, number];
@@ -285,7 +335,9 @@ function checkPoses(chain: Chain, a: ArmAnalysis, o: CheckOptions, fail: (m: str
       forwardInto(chain, q, s);
       if (useWcp) wristCentreInto(p, chain, s);
       else p.set([s.flange[3]!, s.flange[7]!, s.flange[11]!]);
-      const f = axis.forward, d = axis.direction, o0 = axis.pointMm;
+      const f = axis.forward,
+        d = axis.direction,
+        o0 = axis.pointMm;
       const lat = [d[1] * f[2] - d[2] * f[1], d[2] * f[0] - d[0] * f[2], d[0] * f[1] - d[1] * f[0]];
       const rel = [p[0]! * 1000 - o0[0], p[1]! * 1000 - o0[1], p[2]! * 1000 - o0[2]];
       const xf = rel[0]! * f[0] + rel[1]! * f[1] + rel[2]! * f[2];
@@ -298,14 +350,21 @@ function checkPoses(chain: Chain, a: ArmAnalysis, o: CheckOptions, fail: (m: str
       // axis 1, x_f = ±1e-13 mm, showed it.)
       if (Math.abs(xf) < tol && !insidePolygons(side[0], side[1], env.side)) {
         const flipped: [number, number] = [-side[0], side[1]];
-        if (insidePolygons(flipped[0], flipped[1], env.side) || distanceToBoundary(flipped[0], flipped[1], env.side) < distanceToBoundary(side[0], side[1], env.side)) side = flipped;
+        if (
+          insidePolygons(flipped[0], flipped[1], env.side) ||
+          distanceToBoundary(flipped[0], flipped[1], env.side) < distanceToBoundary(side[0], side[1], env.side)
+        )
+          side = flipped;
       }
     } else {
       side = [pMm[0]!, pMm[2]!];
     }
     if (o.envelopeContainment && !insidePolygons(side[0], side[1], env.side)) {
       const dist = distanceToBoundary(side[0], side[1], env.side);
-      if (dist > tol) once(`side-view point (${side[0].toFixed(1)}, ${side[1].toFixed(1)}) mm at ${where} is outside the envelope by ${dist.toFixed(1)} mm (tolerance ${tol.toFixed(1)})`);
+      if (dist > tol)
+        once(
+          `side-view point (${side[0].toFixed(1)}, ${side[1].toFixed(1)}) mm at ${where} is outside the envelope by ${dist.toFixed(1)} mm (tolerance ${tol.toFixed(1)})`,
+        );
     }
   }
 }
@@ -314,7 +373,15 @@ function checkPoses(chain: Chain, a: ArmAnalysis, o: CheckOptions, fail: (m: str
  * The guaranteed speed r is reached in every direction: for random unit u, the joint rates q̇ = B·(r·u) stay within
  * the joint speed limits and J·q̇ = (r·u, 0) (a straight line at constant orientation). Checked by multiplying out.
  */
-function checkLineSpeedReached(chain: Chain, jac: Float64Array, b: Float64Array, r: number, rnd: () => number, where: string, once: (m: string) => void): void {
+function checkLineSpeedReached(
+  chain: Chain,
+  jac: Float64Array,
+  b: Float64Array,
+  r: number,
+  rnd: () => number,
+  where: string,
+  once: (m: string) => void,
+): void {
   const m = chain.drivenCount;
   const qd = new Float64Array(m);
   for (let trial = 0; trial < 4; trial++) {
@@ -333,7 +400,9 @@ function checkLineSpeedReached(chain: Chain, jac: Float64Array, b: Float64Array,
       for (let i = 0; i < m; i++) v += jac[row * m + i]! * qd[i]!;
       const want = row < 3 ? u[row]! : 0;
       if (Math.abs(v - want) > 1e-6 * Math.max(1, r)) {
-        once(`joint rates for the guaranteed speed give ${row < 3 ? "v" : "ω"}[${row % 3}] = ${v}, expected ${want} at ${where}`);
+        once(
+          `joint rates for the guaranteed speed give ${row < 3 ? "v" : "ω"}[${row % 3}] = ${v}, expected ${want} at ${where}`,
+        );
         return;
       }
     }

@@ -6,7 +6,9 @@ import { loadArmFile, type Arm } from "../../src/catalog";
 import { armFacts } from "../../src/catalog/analysis";
 import { analyseArm, type ArmAnalysis } from "../../src/core/analysis/analyseArm";
 
-export async function demoArmWithAnalysis(file = "arms/yarrowfield-sable-600.json"): Promise<{ arm: Arm; analysis: ArmAnalysis }> {
+export async function demoArmWithAnalysis(
+  file = "arms/yarrowfield-sable-600.json",
+): Promise<{ arm: Arm; analysis: ArmAnalysis }> {
   const loaded = await loadArmFile(file);
   if (!loaded.arm) throw new Error(`demo arm did not load: ${JSON.stringify(loaded.issues)}`);
   const analysis = JSON.parse(JSON.stringify(analyseArm(loaded.arm.chain, armFacts(loaded.arm)))) as ArmAnalysis;

@@ -22,7 +22,8 @@ export const DEFAULT_FD_STEP = 1e-6;
 export function finiteDifferenceJacobian(pose: PoseFunction, q: ArrayLike<number>, h = DEFAULT_FD_STEP): Float64Array {
   const n = q.length;
   const out = new Float64Array(6 * n);
-  const qp = Float64Array.from(q), qm = Float64Array.from(q);
+  const qp = Float64Array.from(q),
+    qm = Float64Array.from(q);
   for (let i = 0; i < n; i++) {
     qp.set(q);
     qm.set(q);
@@ -35,7 +36,8 @@ export function finiteDifferenceJacobian(pose: PoseFunction, q: ArrayLike<number
     out[1 * n + i] = (tp[7]! - tm[7]!) / (2 * h);
     out[2 * n + i] = (tp[11]! - tm[11]!) / (2 * h);
     // Angular part: D = Rp · Rmᵀ, D(r, c) = Σ_k Rp(r, k) · Rm(c, k).
-    const d = (r: number, c: number): number => tp[r * 4]! * tm[c * 4]! + tp[r * 4 + 1]! * tm[c * 4 + 1]! + tp[r * 4 + 2]! * tm[c * 4 + 2]!;
+    const d = (r: number, c: number): number =>
+      tp[r * 4]! * tm[c * 4]! + tp[r * 4 + 1]! * tm[c * 4 + 1]! + tp[r * 4 + 2]! * tm[c * 4 + 2]!;
     // vee of the skew part (D − Dᵀ)/2: (S(2,1), S(0,2), S(1,0)).
     out[3 * n + i] = (d(2, 1) - d(1, 2)) / 2 / (2 * h);
     out[4 * n + i] = (d(0, 2) - d(2, 0)) / 2 / (2 * h);

@@ -30,7 +30,12 @@ const DEG = Math.PI / 180;
 
 /** The generic 6R of CHECKS §0 in SI. */
 export const GENERIC_6R_SI = {
-  a1: 0.2, a2: 1.0, a3: 0.2, d1: 0.5, d4: 1.0, d6: 0.1,
+  a1: 0.2,
+  a2: 1.0,
+  a3: 0.2,
+  d1: 0.5,
+  d4: 1.0,
+  d6: 0.1,
   rows: [
     { a: 0.2, alpha: -90 * DEG, d: 0.5, theta: 0 },
     { a: 1.0, alpha: 0, d: 0, theta: 0 },
@@ -57,7 +62,13 @@ const DH_MM_DEG = [
 ] as const;
 
 function revolute(i: number, extra: Partial<JointInput>): JointInput {
-  return { name: `j${i + 1}`, kind: "revolute", rangeDeg: [-180, 180], maxSpeedDegPerS: W_DEG_PER_S[i] ?? 200, ...extra };
+  return {
+    name: `j${i + 1}`,
+    kind: "revolute",
+    rangeDeg: [-180, 180],
+    maxSpeedDegPerS: W_DEG_PER_S[i] ?? 200,
+    ...extra,
+  };
 }
 
 const NO_FLANGE = { xyzMm: [0, 0, 0], rpyDeg: [0, 0, 0] } as const;
@@ -108,12 +119,30 @@ export function generic6rFramesFromDh(): ArmKinematicsInput {
  */
 export function generic6rFramesUrdfStyle(): ArmKinematicsInput {
   const spec: [number[], number[]][] = [
-    [[0, 0, 0], [0, 0, 1]],
-    [[200, 0, 500], [0, 1, 0]],
-    [[1000, 0, 0], [0, 1, 0]],
-    [[200, 0, 0], [0, 0, -1]],
-    [[0, 0, -1000], [0, 1, 0]],
-    [[0, 0, 0], [0, 0, -1]],
+    [
+      [0, 0, 0],
+      [0, 0, 1],
+    ],
+    [
+      [200, 0, 500],
+      [0, 1, 0],
+    ],
+    [
+      [1000, 0, 0],
+      [0, 1, 0],
+    ],
+    [
+      [200, 0, 0],
+      [0, 0, -1],
+    ],
+    [
+      [0, 0, -1000],
+      [0, 1, 0],
+    ],
+    [
+      [0, 0, 0],
+      [0, 0, -1],
+    ],
   ];
   return {
     convention: "frames",
@@ -127,8 +156,20 @@ export function planar2r(a1M: number, a2M: number): ArmKinematicsInput {
   return {
     convention: "dh",
     joints: [
-      { name: "j1", kind: "revolute", dh: { aMm: a1M * 1000, alphaDeg: 0, dMm: 0, thetaDeg: 0 }, rangeDeg: [-180, 180], maxSpeedDegPerS: 100 },
-      { name: "j2", kind: "revolute", dh: { aMm: a2M * 1000, alphaDeg: 0, dMm: 0, thetaDeg: 0 }, rangeDeg: [-180, 180], maxSpeedDegPerS: 100 },
+      {
+        name: "j1",
+        kind: "revolute",
+        dh: { aMm: a1M * 1000, alphaDeg: 0, dMm: 0, thetaDeg: 0 },
+        rangeDeg: [-180, 180],
+        maxSpeedDegPerS: 100,
+      },
+      {
+        name: "j2",
+        kind: "revolute",
+        dh: { aMm: a2M * 1000, alphaDeg: 0, dMm: 0, thetaDeg: 0 },
+        rangeDeg: [-180, 180],
+        maxSpeedDegPerS: 100,
+      },
     ],
     flange: NO_FLANGE,
   };
@@ -139,11 +180,41 @@ export function cylindricalPrismaticDh(): ArmKinematicsInput {
   return {
     convention: "dh",
     joints: [
-      { name: "base", kind: "revolute", dh: { aMm: 0, alphaDeg: 0, dMm: 400, thetaDeg: 0 }, rangeDeg: [-170, 170], maxSpeedDegPerS: 120 },
-      { name: "lift", kind: "prismatic", dh: { aMm: 0, alphaDeg: -90, dMm: 300, thetaDeg: 0 }, rangeMm: [0, 800], maxSpeedMmPerS: 500 },
-      { name: "stroke", kind: "prismatic", dh: { aMm: 0, alphaDeg: 0, dMm: 200, thetaDeg: 0 }, rangeMm: [0, 600], maxSpeedMmPerS: 800 },
-      { name: "w1", kind: "revolute", dh: { aMm: 0, alphaDeg: 90, dMm: 100, thetaDeg: 30 }, rangeDeg: [-120, 120], maxSpeedDegPerS: 300 },
-      { name: "w2", kind: "revolute", dh: { aMm: 50, alphaDeg: 0, dMm: 80, thetaDeg: 0 }, rangeDeg: [-360, 360], maxSpeedDegPerS: 400 },
+      {
+        name: "base",
+        kind: "revolute",
+        dh: { aMm: 0, alphaDeg: 0, dMm: 400, thetaDeg: 0 },
+        rangeDeg: [-170, 170],
+        maxSpeedDegPerS: 120,
+      },
+      {
+        name: "lift",
+        kind: "prismatic",
+        dh: { aMm: 0, alphaDeg: -90, dMm: 300, thetaDeg: 0 },
+        rangeMm: [0, 800],
+        maxSpeedMmPerS: 500,
+      },
+      {
+        name: "stroke",
+        kind: "prismatic",
+        dh: { aMm: 0, alphaDeg: 0, dMm: 200, thetaDeg: 0 },
+        rangeMm: [0, 600],
+        maxSpeedMmPerS: 800,
+      },
+      {
+        name: "w1",
+        kind: "revolute",
+        dh: { aMm: 0, alphaDeg: 90, dMm: 100, thetaDeg: 30 },
+        rangeDeg: [-120, 120],
+        maxSpeedDegPerS: 300,
+      },
+      {
+        name: "w2",
+        kind: "revolute",
+        dh: { aMm: 50, alphaDeg: 0, dMm: 80, thetaDeg: 0 },
+        rangeDeg: [-360, 360],
+        maxSpeedDegPerS: 400,
+      },
     ],
     flange: { xyzMm: [0, 0, 60], rpyDeg: [0, 0, 0] },
   };
@@ -154,10 +225,38 @@ export function obliquePrismaticFrames(): ArmKinematicsInput {
   return {
     convention: "frames",
     joints: [
-      { name: "x", kind: "prismatic", origin: { xyzMm: [0, 0, 1000], rpyDeg: [0, 0, 0] }, axis: [1, 0, 0], rangeMm: [0, 2000], maxSpeedMmPerS: 1000 },
-      { name: "slant", kind: "prismatic", origin: { xyzMm: [100, 50, 0], rpyDeg: [10, 0, 20] }, axis: [0.6, 0, 0.8], rangeMm: [-300, 300], maxSpeedMmPerS: 600 },
-      { name: "r1", kind: "revolute", origin: { xyzMm: [0, 0, -200], rpyDeg: [0, 15, 0] }, axis: [0, 0, 1], rangeDeg: [-180, 180], maxSpeedDegPerS: 200 },
-      { name: "r2", kind: "revolute", origin: { xyzMm: [80, 0, -50], rpyDeg: [0, 0, 0] }, axis: [0, 1, 0], rangeDeg: [-120, 120], maxSpeedDegPerS: 300 },
+      {
+        name: "x",
+        kind: "prismatic",
+        origin: { xyzMm: [0, 0, 1000], rpyDeg: [0, 0, 0] },
+        axis: [1, 0, 0],
+        rangeMm: [0, 2000],
+        maxSpeedMmPerS: 1000,
+      },
+      {
+        name: "slant",
+        kind: "prismatic",
+        origin: { xyzMm: [100, 50, 0], rpyDeg: [10, 0, 20] },
+        axis: [0.6, 0, 0.8],
+        rangeMm: [-300, 300],
+        maxSpeedMmPerS: 600,
+      },
+      {
+        name: "r1",
+        kind: "revolute",
+        origin: { xyzMm: [0, 0, -200], rpyDeg: [0, 15, 0] },
+        axis: [0, 0, 1],
+        rangeDeg: [-180, 180],
+        maxSpeedDegPerS: 200,
+      },
+      {
+        name: "r2",
+        kind: "revolute",
+        origin: { xyzMm: [80, 0, -50], rpyDeg: [0, 0, 0] },
+        axis: [0, 1, 0],
+        rangeDeg: [-120, 120],
+        maxSpeedDegPerS: 300,
+      },
     ],
     flange: { xyzMm: [0, 0, -120], rpyDeg: [180, 0, 0] },
   };
@@ -171,14 +270,51 @@ export function palletizerPassiveFrames(): ArmKinematicsInput {
   return {
     convention: "frames",
     joints: [
-      { name: "j1", kind: "revolute", origin: { xyzMm: [0, 0, 0], rpyDeg: [0, 0, 0] }, axis: [0, 0, 1], rangeDeg: [-180, 180], maxSpeedDegPerS: 120 },
-      { name: "j2", kind: "revolute", origin: { xyzMm: [150, 0, 600], rpyDeg: [0, 0, 0] }, axis: [0, 1, 0], rangeDeg: [-60, 90], maxSpeedDegPerS: 110 },
-      { name: "j3", kind: "revolute", origin: { xyzMm: [0, 0, 1100], rpyDeg: [0, 0, 0] }, axis: [0, 1, 0], rangeDeg: [-80, 60], maxSpeedDegPerS: 110 },
       {
-        name: "p4", kind: "revolute", origin: { xyzMm: [1200, 0, 0], rpyDeg: [0, 0, 0] }, axis: [0, 1, 0],
-        coupling: { terms: [{ joint: "j2", gain: -1 }, { joint: "j3", gain: -1 }], offsetDeg: 0 },
+        name: "j1",
+        kind: "revolute",
+        origin: { xyzMm: [0, 0, 0], rpyDeg: [0, 0, 0] },
+        axis: [0, 0, 1],
+        rangeDeg: [-180, 180],
+        maxSpeedDegPerS: 120,
       },
-      { name: "j5", kind: "revolute", origin: { xyzMm: [200, 0, -250], rpyDeg: [0, 0, 0] }, axis: [0, 0, 1], rangeDeg: [-360, 360], maxSpeedDegPerS: 300 },
+      {
+        name: "j2",
+        kind: "revolute",
+        origin: { xyzMm: [150, 0, 600], rpyDeg: [0, 0, 0] },
+        axis: [0, 1, 0],
+        rangeDeg: [-60, 90],
+        maxSpeedDegPerS: 110,
+      },
+      {
+        name: "j3",
+        kind: "revolute",
+        origin: { xyzMm: [0, 0, 1100], rpyDeg: [0, 0, 0] },
+        axis: [0, 1, 0],
+        rangeDeg: [-80, 60],
+        maxSpeedDegPerS: 110,
+      },
+      {
+        name: "p4",
+        kind: "revolute",
+        origin: { xyzMm: [1200, 0, 0], rpyDeg: [0, 0, 0] },
+        axis: [0, 1, 0],
+        coupling: {
+          terms: [
+            { joint: "j2", gain: -1 },
+            { joint: "j3", gain: -1 },
+          ],
+          offsetDeg: 0,
+        },
+      },
+      {
+        name: "j5",
+        kind: "revolute",
+        origin: { xyzMm: [200, 0, -250], rpyDeg: [0, 0, 0] },
+        axis: [0, 0, 1],
+        rangeDeg: [-360, 360],
+        maxSpeedDegPerS: 300,
+      },
     ],
     flange: { xyzMm: [0, 0, -50], rpyDeg: [180, 0, 0] },
   };
@@ -195,7 +331,11 @@ export function generic6rDrivenCoupledDh(): ArmKinematicsInput {
   const base = generic6rDh();
   return {
     ...base,
-    joints: base.joints.map((j) => (j.name === "j3" ? { ...j, coupling: { terms: [{ joint: "j2", gain: -1 }], offsetDeg: COUPLED_J3_OFFSET_DEG } } : j)),
+    joints: base.joints.map((j) =>
+      j.name === "j3"
+        ? { ...j, coupling: { terms: [{ joint: "j2", gain: -1 }], offsetDeg: COUPLED_J3_OFFSET_DEG } }
+        : j,
+    ),
   };
 }
 
@@ -204,10 +344,30 @@ export function generic6rDrivenCoupledDh(): ArmKinematicsInput {
 
 type M4 = number[][];
 
-const rz = (t: number): M4 => [[Math.cos(t), -Math.sin(t), 0, 0], [Math.sin(t), Math.cos(t), 0, 0], [0, 0, 1, 0], [0, 0, 0, 1]];
-const rx = (t: number): M4 => [[1, 0, 0, 0], [0, Math.cos(t), -Math.sin(t), 0], [0, Math.sin(t), Math.cos(t), 0], [0, 0, 0, 1]];
-const tz = (d: number): M4 => [[1, 0, 0, 0], [0, 1, 0, 0], [0, 0, 1, d], [0, 0, 0, 1]];
-const tx = (a: number): M4 => [[1, 0, 0, a], [0, 1, 0, 0], [0, 0, 1, 0], [0, 0, 0, 1]];
+const rz = (t: number): M4 => [
+  [Math.cos(t), -Math.sin(t), 0, 0],
+  [Math.sin(t), Math.cos(t), 0, 0],
+  [0, 0, 1, 0],
+  [0, 0, 0, 1],
+];
+const rx = (t: number): M4 => [
+  [1, 0, 0, 0],
+  [0, Math.cos(t), -Math.sin(t), 0],
+  [0, Math.sin(t), Math.cos(t), 0],
+  [0, 0, 0, 1],
+];
+const tz = (d: number): M4 => [
+  [1, 0, 0, 0],
+  [0, 1, 0, 0],
+  [0, 0, 1, d],
+  [0, 0, 0, 1],
+];
+const tx = (a: number): M4 => [
+  [1, 0, 0, a],
+  [0, 1, 0, 0],
+  [0, 0, 1, 0],
+  [0, 0, 0, 1],
+];
 
 /** Standard-DH link transform Aᵢ = Rz(θ)·Tz(d)·Tx(a)·Rx(α) (Spong et al., ch. 3). */
 export function dhLinkReference(row: DhRowSi, q: number): M4 {
@@ -216,7 +376,12 @@ export function dhLinkReference(row: DhRowSi, q: number): M4 {
 
 /** ⁰Tₖ = A₁⋯Aₖ for revolute joints, as a nested 4×4 array (m). k defaults to all rows. */
 export function dhFrameReference(rows: readonly DhRowSi[], q: ArrayLike<number>, k = rows.length): M4 {
-  let t: M4 = [[1, 0, 0, 0], [0, 1, 0, 0], [0, 0, 1, 0], [0, 0, 0, 1]];
+  let t: M4 = [
+    [1, 0, 0, 0],
+    [0, 1, 0, 0],
+    [0, 0, 1, 0],
+    [0, 0, 0, 1],
+  ];
   for (let i = 0; i < k; i++) t = math.multiply(t, dhLinkReference(rows[i]!, q[i]!));
   return t;
 }

@@ -20,12 +20,21 @@ beforeAll(async () => {
     arms.push(loaded.arm);
   }
   // Through JSON, as the browser receives them.
-  specs = arms.map((a) => ({ id: a.id, name: a.spec.model, spec: JSON.parse(JSON.stringify(a.spec)) as LineCheckArm["spec"] }));
+  specs = arms.map((a) => ({
+    id: a.id,
+    name: a.spec.model,
+    spec: JSON.parse(JSON.stringify(a.spec)) as LineCheckArm["spec"],
+  }));
 });
 
 describe("runLineCheckForArms", () => {
   it("checks every arm, in order, with the same figures as the build", () => {
-    const q: LineQuery = { fromMm: [400, -200, 250], toMm: [450, 200, 200], orientation: { kind: "down" }, speedMmPerS: 800 };
+    const q: LineQuery = {
+      fromMm: [400, -200, 250],
+      toMm: [450, 200, 200],
+      orientation: { kind: "down" },
+      speedMmPerS: 800,
+    };
     const out = runLineCheckForArms(specs, q);
     expect(out.map((o) => o.id)).toEqual(["corvell-tern-7", "yarrowfield-sable-600"]);
     out.forEach((o, i) => {
@@ -37,16 +46,32 @@ describe("runLineCheckForArms", () => {
   });
 
   it("gives a SCARA a message for an orientation other than down, and still checks the others", () => {
-    const q: LineQuery = { fromMm: [400, -200, 250], toMm: [450, 200, 200], orientation: { kind: "outward" }, speedMmPerS: 800 };
+    const q: LineQuery = {
+      fromMm: [400, -200, 250],
+      toMm: [450, 200, 200],
+      orientation: { kind: "outward" },
+      speedMmPerS: 800,
+    };
     const [six, scara] = runLineCheckForArms(specs, q);
     expect(six!.result).not.toBeNull();
     expect(scara!.result).toBeNull();
-    expect(scara!.error).toBe('This arm has 4 driven joints: its tool turns about one axis only, so only the "down" orientation can be checked.');
+    expect(scara!.error).toBe(
+      'This arm has 4 driven joints: its tool turns about one axis only, so only the "down" orientation can be checked.',
+    );
   });
 
   it("reports a description that does not compile instead of throwing", () => {
-    const broken = { id: "broken", name: "Broken", spec: { convention: "dh", joints: [], flange: { xyzMm: [0, 0, 0], rpyDeg: [0, 0, 0] } } } as unknown as LineCheckArm;
-    const [o] = runLineCheckForArms([broken], { fromMm: [1, 0, 0], toMm: [2, 0, 0], orientation: { kind: "down" }, speedMmPerS: 1 });
+    const broken = {
+      id: "broken",
+      name: "Broken",
+      spec: { convention: "dh", joints: [], flange: { xyzMm: [0, 0, 0], rpyDeg: [0, 0, 0] } },
+    } as unknown as LineCheckArm;
+    const [o] = runLineCheckForArms([broken], {
+      fromMm: [1, 0, 0],
+      toMm: [2, 0, 0],
+      orientation: { kind: "down" },
+      speedMmPerS: 1,
+    });
     expect(o!.result).toBeNull();
     expect(o!.error).toMatch(/^The (arm description could not be compiled|line could not be checked): /);
   });
@@ -54,11 +79,23 @@ describe("runLineCheckForArms", () => {
 
 describe("urlWithLine", () => {
   it("writes the line into the query, keeps the other keys and sets the fragment", () => {
-    const q: LineQuery = { fromMm: [1, 2, 3], toMm: [4, 5, 6], orientation: { kind: "rpy", rpyDeg: [180, 0, 90] }, speedMmPerS: 250 };
-    const url = new URL(urlWithLine("https://example.test/tools/armdex/compare/?arms=a,b&speed=9#top", q, "line-check"));
+    const q: LineQuery = {
+      fromMm: [1, 2, 3],
+      toMm: [4, 5, 6],
+      orientation: { kind: "rpy", rpyDeg: [180, 0, 90] },
+      speedMmPerS: 250,
+    };
+    const url = new URL(
+      urlWithLine("https://example.test/tools/armdex/compare/?arms=a,b&speed=9#top", q, "line-check"),
+    );
     expect(url.pathname).toBe("/tools/armdex/compare/");
     expect(url.searchParams.get("arms")).toBe("a,b");
-    expect([url.searchParams.get("from"), url.searchParams.get("to"), url.searchParams.get("orientation"), url.searchParams.get("speed")]).toEqual(["1,2,3", "4,5,6", "180,0,90", "250"]);
+    expect([
+      url.searchParams.get("from"),
+      url.searchParams.get("to"),
+      url.searchParams.get("orientation"),
+      url.searchParams.get("speed"),
+    ]).toEqual(["1,2,3", "4,5,6", "180,0,90", "250"]);
     expect(url.hash).toBe("#line-check");
   });
 });

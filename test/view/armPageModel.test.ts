@@ -23,7 +23,9 @@ describe("armPageModel with an analysis", () => {
     const model = armPageModel(arm, { baseUrl: "/tools/armdex/" }, analysis);
     const ids = model.sections.map((s) => s.id);
     expect(ids.slice(0, 2)).toEqual(["summary", "specs"]);
-    expect(ids).toEqual(expect.arrayContaining([...ANALYSIS_SECTIONS.map((s) => s.id), "joints", "source", "downloads", "cautions"]));
+    expect(ids).toEqual(
+      expect.arrayContaining([...ANALYSIS_SECTIONS.map((s) => s.id), "joints", "source", "downloads", "cautions"]),
+    );
     expect(ids.indexOf("envelope")).toBeLessThan(ids.indexOf("cycle"));
     expect(ids.indexOf("joints")).toBeLessThan(ids.indexOf("source"));
   });
@@ -36,7 +38,14 @@ describe("armPageModel with an analysis", () => {
 
   it("gives every chart a unique id, a title, a caption and an accessible SVG", () => {
     const a = armPageModel(arm, { baseUrl: "/" }, analysis).analysis!;
-    const charts = [...a.envelope.charts, ...a.speed.charts, ...a.singularities.charts, ...a.payload.charts, ...(a.payload.loadDiagram ? [a.payload.loadDiagram] : []), ...(a.cycle.chart ? [a.cycle.chart] : [])];
+    const charts = [
+      ...a.envelope.charts,
+      ...a.speed.charts,
+      ...a.singularities.charts,
+      ...a.payload.charts,
+      ...(a.payload.loadDiagram ? [a.payload.loadDiagram] : []),
+      ...(a.cycle.chart ? [a.cycle.chart] : []),
+    ];
     expect(charts.length).toBeGreaterThanOrEqual(6);
     expect(new Set(charts.map((c) => c.id)).size).toBe(charts.length);
     for (const c of charts) {
@@ -94,7 +103,17 @@ describe("catalogPageModel with analyses", () => {
   it("adds the computed columns and keeps the declared ones", () => {
     const model = catalogPageModel([arm], { baseUrl: "/" }, new Map([[arm.id, analysis]]));
     const keys = model.table.columns.map((c) => c.key);
-    expect(keys).toEqual(expect.arrayContaining(["reach", "computed-reach", "max-tool-speed", "share-1", "cycle", "repeatability", "mass"]));
+    expect(keys).toEqual(
+      expect.arrayContaining([
+        "reach",
+        "computed-reach",
+        "max-tool-speed",
+        "share-1",
+        "cycle",
+        "repeatability",
+        "mass",
+      ]),
+    );
     expect(keys.indexOf("computed-reach")).toBe(keys.indexOf("reach") - 1);
     const row = model.table.rows[0]!;
     const cellOf = (key: string) => row.cells[keys.indexOf(key)]!;

@@ -83,7 +83,15 @@ describe("parseDecimal", () => {
 
 describe("parseCatalogQuery and urlWithCatalogState", () => {
   const full: CatalogState = {
-    filter: { class: "scara", mounting: "ceiling", minPayloadKg: 7.5, minReachMm: 1200, heightFromMm: -300, heightToMm: 900, minLineSpeedMPerS: 1.25 },
+    filter: {
+      class: "scara",
+      mounting: "ceiling",
+      minPayloadKg: 7.5,
+      minReachMm: 1200,
+      heightFromMm: -300,
+      heightToMm: 900,
+      minLineSpeedMPerS: 1.25,
+    },
     sort: { key: "payload", dir: "desc" },
     pick: ["arm-03", "arm-00", "arm-10"],
   };
@@ -100,13 +108,26 @@ describe("parseCatalogQuery and urlWithCatalogState", () => {
 
   it("uses our own plain key names", () => {
     const keys = catalogQueryPairs(full).map(([k]) => k);
-    expect(keys).toEqual(["class", "mounting", "minPayloadKg", "minReachMm", "heightFromMm", "heightToMm", "minLineSpeedMPerS", "sort", "dir", "pick"]);
+    expect(keys).toEqual([
+      "class",
+      "mounting",
+      "minPayloadKg",
+      "minReachMm",
+      "heightFromMm",
+      "heightToMm",
+      "minLineSpeedMPerS",
+      "sort",
+      "dir",
+      "pick",
+    ]);
     expect(Object.values(CATALOG_QUERY_KEYS).sort()).toEqual([...keys].sort());
   });
 
   it("writes nothing for the empty state and drops its own keys from an older address", () => {
     expect(catalogQueryPairs(EMPTY_CATALOG_STATE)).toEqual([]);
-    expect(urlWithCatalogState("https://h.test/?class=scara&sort=maker&dir=asc&x=2", EMPTY_CATALOG_STATE)).toBe("https://h.test/?x=2");
+    expect(urlWithCatalogState("https://h.test/?class=scara&sort=maker&dir=asc&x=2", EMPTY_CATALOG_STATE)).toBe(
+      "https://h.test/?x=2",
+    );
   });
 
   it("ignores every malformed or unknown value instead of failing", () => {
@@ -135,7 +156,9 @@ describe("rowPasses", () => {
   /** Each rule restated on its own: the arm must show every height between the two ends (or the one end given). */
   function expected(r: CatalogRowData, f: CatalogFilter): boolean {
     const ends = [f.heightFromMm, f.heightToMm].filter((v): v is number => v !== null);
-    const heightsOk = ends.every((h) => r.minHeightMm !== null && r.maxHeightMm !== null && h >= r.minHeightMm && h <= r.maxHeightMm);
+    const heightsOk = ends.every(
+      (h) => r.minHeightMm !== null && r.maxHeightMm !== null && h >= r.minHeightMm && h <= r.maxHeightMm,
+    );
     return (
       (f.class === null || f.class === r.class) &&
       (f.mounting === null || r.mountings.some((m) => m === f.mounting)) &&
@@ -147,7 +170,8 @@ describe("rowPasses", () => {
   }
 
   it("agrees with each rule restated, over 300 random filters × 60 random rows", () => {
-    let passed = 0, failed = 0;
+    let passed = 0,
+      failed = 0;
     for (const f of filters) {
       for (const r of rows) {
         const got = rowPasses(r, f);
@@ -193,8 +217,10 @@ describe("sortRows", () => {
     const sign = dir === "asc" ? 1 : -1;
     let seenMissing = false;
     for (let i = 0; i + 1 < sorted.length; i++) {
-      const a = sorted[i]!, b = sorted[i + 1]!;
-      const va = a.sort[key], vb = b.sort[key];
+      const a = sorted[i]!,
+        b = sorted[i + 1]!;
+      const va = a.sort[key],
+        vb = b.sort[key];
       if (va === null || va === undefined) seenMissing = true;
       if (seenMissing) {
         expect(vb ?? null, `only missing values after the first missing one (${key})`).toBeNull();
@@ -203,7 +229,8 @@ describe("sortRows", () => {
       }
       if (vb === null || vb === undefined) continue;
       // Price: currency first (ascending in both directions), amounts within one currency.
-      const ga = a.sortGroup?.[key] ?? "", gb = b.sortGroup?.[key] ?? "";
+      const ga = a.sortGroup?.[key] ?? "",
+        gb = b.sortGroup?.[key] ?? "";
       if (ga !== gb) {
         expect(ga < gb).toBe(true);
         continue;
@@ -215,7 +242,11 @@ describe("sortRows", () => {
   });
 
   it("sorts numbers as numbers and text without regard to case, digits as numbers", () => {
-    const mk = (id: string, maker: string, payload: number): CatalogRowData => ({ ...rows[0]!, id, sort: { maker, payload } });
+    const mk = (id: string, maker: string, payload: number): CatalogRowData => ({
+      ...rows[0]!,
+      id,
+      sort: { maker, payload },
+    });
     const r = [mk("a", "Zell 10", 9), mk("b", "zell 9", 10), mk("c", "abney", 100)];
     expect(sortRows(r, { key: "payload", dir: "asc" }).map((x) => x.id)).toEqual(["a", "b", "c"]); // 9 < 10 < 100, not "10" < "100" < "9"
     expect(sortRows(r, { key: "maker", dir: "asc" }).map((x) => x.id)).toEqual(["c", "b", "a"]); // abney, Zell 9, Zell 10
@@ -223,9 +254,17 @@ describe("sortRows", () => {
 
   it("without a sort keeps the catalog order; visibleIds is sort then filter", () => {
     expect(sortRows(rows, null)).toEqual(rows);
-    const state: CatalogState = { filter: { ...NO_FILTER, class: "scara" }, sort: { key: "payload", dir: "desc" }, pick: [] };
+    const state: CatalogState = {
+      filter: { ...NO_FILTER, class: "scara" },
+      sort: { key: "payload", dir: "desc" },
+      pick: [],
+    };
     const ids = visibleIds(rows, state);
-    expect(ids).toEqual(sortRows(rows, state.sort).filter((r) => r.class === "scara").map((r) => r.id));
+    expect(ids).toEqual(
+      sortRows(rows, state.sort)
+        .filter((r) => r.class === "scara")
+        .map((r) => r.id),
+    );
     expect(ids.length).toBeGreaterThan(0);
   });
 });

@@ -26,7 +26,8 @@ describe("bestGuaranteedLineSpeedDownMPerS", () => {
     const figure = bestGuaranteedLineSpeedDownMPerS(analysis)!;
     // The published cells are rounded to 1 mm/s, the maximum to 0.1 mm/s; when the output grid keeps every computed
     // cell the two agree to that rounding, otherwise the kept cells cannot exceed the maximum.
-    if (down.grid.stepMm === down.computedGrid.stepMm) expect(Math.abs(figure * 1000 - max)).toBeLessThanOrEqual(0.5 + 1e-9);
+    if (down.grid.stepMm === down.computedGrid.stepMm)
+      expect(Math.abs(figure * 1000 - max)).toBeLessThanOrEqual(0.5 + 1e-9);
     else expect(figure * 1000).toBeGreaterThanOrEqual(max - 0.5);
     expect(figure).toBeGreaterThan(0);
   });
@@ -60,12 +61,19 @@ describe("catalogPageModel for the interactive catalog", () => {
     expect(analysis.reach.wcpMaxMm).toBeNull();
     // List prices sort within their currency.
     const price = row.cells[keys.indexOf("price")]!;
-    expect(price).toMatchObject({ sortValue: arm.spec.commercial!.listPrice, sortGroup: arm.spec.commercial!.currency });
+    expect(price).toMatchObject({
+      sortValue: arm.spec.commercial!.listPrice,
+      sortGroup: arm.spec.commercial!.currency,
+    });
     expect(model.table.footnote).toMatch(/not converted between currencies/);
   });
 
   it("offers only the classes and mountings that occur, in the format's order", () => {
-    const other: Arm = { ...arm, id: "copy", spec: { ...arm.spec, id: "copy", class: "articulated", mountings: ["wall", "floor"], commercial: undefined } };
+    const other: Arm = {
+      ...arm,
+      id: "copy",
+      spec: { ...arm.spec, id: "copy", class: "articulated", mountings: ["wall", "floor"], commercial: undefined },
+    };
     const model = catalogPageModel([arm, other], { baseUrl: "/" });
     expect(model.filterChoices.classes.map((o) => o.value)).toEqual(["articulated", "scara"]);
     expect(model.filterChoices.mountings.map((o) => o.value)).toEqual(["floor", "wall"]);
@@ -73,6 +81,8 @@ describe("catalogPageModel for the interactive catalog", () => {
   });
 
   it("puts the same figure into data/catalog.json", () => {
-    expect(catalogSummaryRow(arm, analysis).bestGuaranteedLineSpeedToolDownMPerS).toBe(bestGuaranteedLineSpeedDownMPerS(analysis));
+    expect(catalogSummaryRow(arm, analysis).bestGuaranteedLineSpeedToolDownMPerS).toBe(
+      bestGuaranteedLineSpeedDownMPerS(analysis),
+    );
   });
 });

@@ -30,7 +30,15 @@ describe("csvField", () => {
 
 describe("toCsv", () => {
   it("writes the header and rows with CRLF after every record", () => {
-    expect(toCsv(["a", "b"], [[1, "x"], [-2, "=y"]])).toBe("a,b\r\n1,x\r\n-2,'=y\r\n");
+    expect(
+      toCsv(
+        ["a", "b"],
+        [
+          [1, "x"],
+          [-2, "=y"],
+        ],
+      ),
+    ).toBe("a,b\r\n1,x\r\n-2,'=y\r\n");
     expect(csvLine(["a", null, 3])).toBe("a,,3");
   });
   it("refuses rows of the wrong length", () => {

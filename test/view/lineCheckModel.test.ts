@@ -39,10 +39,20 @@ const get = (qs: string) => {
 
 describe("parseLineQuery / lineQueryString", () => {
   it("round-trips a line with roll, pitch, yaw through the query string", () => {
-    const q: LineQuery = { fromMm: [500, -350, 300], toMm: [200, 300, 700.5], orientation: { kind: "rpy", rpyDeg: [180, -20, 30] }, speedMmPerS: 800 };
+    const q: LineQuery = {
+      fromMm: [500, -350, 300],
+      toMm: [200, 300, 700.5],
+      orientation: { kind: "rpy", rpyDeg: [180, -20, 30] },
+      speedMmPerS: 800,
+    };
     const parsed = parseLineQuery(get(lineQueryString(q)));
     expect(parsed).toEqual({ ok: true, query: q });
-    expect(lineQueryPairs(q)).toEqual([["from", "500,-350,300"], ["to", "200,300,700.5"], ["orientation", "180,-20,30"], ["speed", "800"]]);
+    expect(lineQueryPairs(q)).toEqual([
+      ["from", "500,-350,300"],
+      ["to", "200,300,700.5"],
+      ["orientation", "180,-20,30"],
+      ["speed", "800"],
+    ]);
   });
 
   it("returns null when the address holds no line, and every problem when it holds a bad one", () => {
@@ -57,8 +67,18 @@ describe("parseLineQuery / lineQueryString", () => {
         'speed: expected a positive number of mm/s, found "0"',
       ],
     });
-    expect(parseLineQuery(get("from=1,2,3&to=1,2,3&orientation=down&speed=5"))).toEqual({ ok: false, errors: ["from and to are the same point: the line has no length"] });
-    expect(parseLineQuery(get("from=1,2,3"))).toMatchObject({ ok: false, errors: ["to: missing (x, y, z in mm)", "orientation: missing (down, outward or roll,pitch,yaw)", "speed: missing (mm/s)"] });
+    expect(parseLineQuery(get("from=1,2,3&to=1,2,3&orientation=down&speed=5"))).toEqual({
+      ok: false,
+      errors: ["from and to are the same point: the line has no length"],
+    });
+    expect(parseLineQuery(get("from=1,2,3"))).toMatchObject({
+      ok: false,
+      errors: [
+        "to: missing (x, y, z in mm)",
+        "orientation: missing (down, outward or roll,pitch,yaw)",
+        "speed: missing (mm/s)",
+      ],
+    });
   });
 
   it("offers roll, pitch, yaw and outward only to arms with six or more driven joints", () => {
@@ -68,16 +88,37 @@ describe("parseLineQuery / lineQueryString", () => {
   });
 
   it("writes the armdex line command that reproduces a line", () => {
-    const q: LineQuery = { fromMm: [450, -300, 400], toMm: [450, 300, 400], orientation: { kind: "down" }, speedMmPerS: 500 };
-    expect(lineCommandText("arms/corvell-tern-7.json", q)).toBe("npx armdex line arms/corvell-tern-7.json --from 450,-300,400 --to 450,300,400 --orientation down --speed 500");
+    const q: LineQuery = {
+      fromMm: [450, -300, 400],
+      toMm: [450, 300, 400],
+      orientation: { kind: "down" },
+      speedMmPerS: 500,
+    };
+    expect(lineCommandText("arms/corvell-tern-7.json", q)).toBe(
+      "npx armdex line arms/corvell-tern-7.json --from 450,-300,400 --to 450,300,400 --orientation down --speed 500",
+    );
   });
 });
 
 describe("runLineQuery", () => {
   const cases: [string, LineQuery][] = [
-    ["down, level across the front", { fromMm: [450, -300, 400], toMm: [450, 300, 400], orientation: { kind: "down" }, speedMmPerS: 500 }],
-    ["roll, pitch, yaw, oblique", { fromMm: [500, -350, 300], toMm: [200, 300, 700], orientation: { kind: "rpy", rpyDeg: [180, -20, 30] }, speedMmPerS: 800 }],
-    ["outward, oblique", { fromMm: [550, -150, 250], toMm: [250, 200, 550], orientation: { kind: "outward" }, speedMmPerS: 800 }],
+    [
+      "down, level across the front",
+      { fromMm: [450, -300, 400], toMm: [450, 300, 400], orientation: { kind: "down" }, speedMmPerS: 500 },
+    ],
+    [
+      "roll, pitch, yaw, oblique",
+      {
+        fromMm: [500, -350, 300],
+        toMm: [200, 300, 700],
+        orientation: { kind: "rpy", rpyDeg: [180, -20, 30] },
+        speedMmPerS: 800,
+      },
+    ],
+    [
+      "outward, oblique",
+      { fromMm: [550, -150, 250], toMm: [250, 200, 550], orientation: { kind: "outward" }, speedMmPerS: 800 },
+    ],
   ];
 
   it.each(cases)("gives the same result as armdex line (%s)", (_, q) => {
@@ -94,7 +135,12 @@ describe("runLineQuery", () => {
 
   it("matches the closed form q̇1max·d for a level tool-down line where joint 1 binds", () => {
     const dMm = 450;
-    const q: LineQuery = { fromMm: [dMm, -300, 400], toMm: [dMm, 300, 400], orientation: { kind: "down" }, speedMmPerS: 500 };
+    const q: LineQuery = {
+      fromMm: [dMm, -300, 400],
+      toMm: [dMm, 300, 400],
+      orientation: { kind: "down" },
+      speedMmPerS: 500,
+    };
     const r = runLineQuery(arm.chain, arm.spec.mountings, q);
     const j1 = arm.spec.joints[0]!.maxSpeedDegPerS! * (Math.PI / 180); // rad/s
     expect(r.bottleneck?.joint).toBe("J1");
@@ -105,7 +151,12 @@ describe("runLineQuery", () => {
 
 describe("lineFigures / lineRatesChartInput", () => {
   it("says the figures with units and names the bottleneck joint", () => {
-    const q: LineQuery = { fromMm: [450, -300, 400], toMm: [450, 300, 400], orientation: { kind: "down" }, speedMmPerS: 500 };
+    const q: LineQuery = {
+      fromMm: [450, -300, 400],
+      toMm: [450, 300, 400],
+      orientation: { kind: "down" },
+      speedMmPerS: 500,
+    };
     const r = runLineQuery(arm.chain, arm.spec.mountings, q);
     const f = lineFigures(r);
     expect(f.feasibleText).toBe("1,963\u00a0mm/s");
@@ -120,7 +171,12 @@ describe("lineFigures / lineRatesChartInput", () => {
   });
 
   it("reports a line that leaves the reach, with zero speed", () => {
-    const q: LineQuery = { fromMm: [500, 0, 400], toMm: [1500, 0, 400], orientation: { kind: "down" }, speedMmPerS: 500 };
+    const q: LineQuery = {
+      fromMm: [500, 0, 400],
+      toMm: [1500, 0, 400],
+      orientation: { kind: "down" },
+      speedMmPerS: 500,
+    };
     const r = runLineQuery(arm.chain, arm.spec.mountings, q);
     const f = lineFigures(r);
     expect(f.feasibleMmPerS).toBe(0);

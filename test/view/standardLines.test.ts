@@ -11,13 +11,22 @@ import type { LineQuery } from "../../src/view/lineCheckModel";
 
 const STEP = 10;
 
-function bandAnalysis(rInMm: number, rOutMm: number, zLoMm: number, zHiMm: number, layout: "revolute-base" | "prismatic-base" = "revolute-base"): ArmAnalysis {
-  const rMinMm = -20, zMinMm = zLoMm - 50;
-  const nx = Math.ceil((rOutMm + 100 - rMinMm) / STEP) + 1, ny = Math.ceil((zHiMm + 50 - zMinMm) / STEP) + 1;
+function bandAnalysis(
+  rInMm: number,
+  rOutMm: number,
+  zLoMm: number,
+  zHiMm: number,
+  layout: "revolute-base" | "prismatic-base" = "revolute-base",
+): ArmAnalysis {
+  const rMinMm = -20,
+    zMinMm = zLoMm - 50;
+  const nx = Math.ceil((rOutMm + 100 - rMinMm) / STEP) + 1,
+    ny = Math.ceil((zHiMm + 50 - zMinMm) / STEP) + 1;
   const guaranteed: (number | null)[] = [];
   for (let iy = 0; iy < ny; iy++) {
     for (let ix = 0; ix < nx; ix++) {
-      const r = rMinMm + ix * STEP, z = zMinMm + iy * STEP;
+      const r = rMinMm + ix * STEP,
+        z = zMinMm + iy * STEP;
       guaranteed.push(Math.abs(r) >= rInMm && Math.abs(r) <= rOutMm && z >= zLoMm && z <= zHiMm ? 1000 : null);
     }
   }
@@ -25,10 +34,35 @@ function bandAnalysis(rInMm: number, rOutMm: number, zLoMm: number, zHiMm: numbe
     reach: { flangeMaxMm: rOutMm },
     envelope: {
       layout,
-      axis1: layout === "revolute-base" ? { pointMm: [0, 0, 0], direction: [0, 0, 1], forward: [1, 0, 0], sweepRad: [-Math.PI, Math.PI] } : null,
-      flange: { top: [{ outer: [[0, 0], [2000, 0], [2000, 1000], [0, 1000], [0, 0]], holes: [] }] },
+      axis1:
+        layout === "revolute-base"
+          ? { pointMm: [0, 0, 0], direction: [0, 0, 1], forward: [1, 0, 0], sweepRad: [-Math.PI, Math.PI] }
+          : null,
+      flange: {
+        top: [
+          {
+            outer: [
+              [0, 0],
+              [2000, 0],
+              [2000, 1000],
+              [0, 1000],
+              [0, 0],
+            ],
+            holes: [],
+          },
+        ],
+      },
     },
-    speed: { maps: [{ orientation: "down", grid: { nx, ny, rMinMm, zMinMm, stepMm: STEP }, reachableCells: guaranteed.filter((v) => v !== null).length, guaranteedMmPerS: guaranteed }] },
+    speed: {
+      maps: [
+        {
+          orientation: "down",
+          grid: { nx, ny, rMinMm, zMinMm, stepMm: STEP },
+          reachableCells: guaranteed.filter((v) => v !== null).length,
+          guaranteedMmPerS: guaranteed,
+        },
+      ],
+    },
   };
   return analysis as unknown as ArmAnalysis;
 }
@@ -102,7 +136,10 @@ describe("standardLineQueries", () => {
   it("no tool-down region: no line, and a note", () => {
     const empty = bandAnalysis(100, 800, 0, 600);
     (empty.speed.maps[0] as { reachableCells: number }).reachableCells = 0;
-    expect(standardLineQueries(empty, "floor")).toEqual({ lines: [], notes: [expect.stringContaining("No flange position")] });
+    expect(standardLineQueries(empty, "floor")).toEqual({
+      lines: [],
+      notes: [expect.stringContaining("No flange position")],
+    });
   });
 });
 
@@ -113,16 +150,53 @@ describe("standardLinesModel", () => {
       seen.push(q);
       const n = 3;
       return {
-        lengthMm: length(q), speedMmPerS: q.speedMmPerS, direction: [1, 0, 0], orientationHeld: "full", jointNames: ["J1"], jointUnits: ["deg"],
-        startRule: "best run", startBranch: null, startBranches: [], feasibleConstantSpeedMmPerS: 1000, commandedSpeedFeasible: true,
-        bottleneck: { joint: "J1", jointIndex: 0, positionMm: [...q.fromMm], fraction: 0, rateRatio: 0.5, reason: "joint rate" },
-        nearestSingularity: null, branchChanges: [], outOfReach: [], jointLimitViolations: [], jointsWithoutSpeedLimit: [],
+        lengthMm: length(q),
+        speedMmPerS: q.speedMmPerS,
+        direction: [1, 0, 0],
+        orientationHeld: "full",
+        jointNames: ["J1"],
+        jointUnits: ["deg"],
+        startRule: "best run",
+        startBranch: null,
+        startBranches: [],
+        feasibleConstantSpeedMmPerS: 1000,
+        commandedSpeedFeasible: true,
+        bottleneck: {
+          joint: "J1",
+          jointIndex: 0,
+          positionMm: [...q.fromMm],
+          fraction: 0,
+          rateRatio: 0.5,
+          reason: "joint rate",
+        },
+        nearestSingularity: null,
+        branchChanges: [],
+        outOfReach: [],
+        jointLimitViolations: [],
+        jointsWithoutSpeedLimit: [],
         speedProfile: [],
-        samples: Array.from({ length: n }, (_, k) => ({ fraction: k / (n - 1), positionMm: [0, 0, 0], reachable: true, branch: "front", jointsDeg: [0], jointRatesDegPerS: [1], rateRatios: [0.5], localSpeedMmPerS: 1000, sigmaMinScaled: 1, inverseCondition: 1, singularityKind: "other" as const })),
+        samples: Array.from({ length: n }, (_, k) => ({
+          fraction: k / (n - 1),
+          positionMm: [0, 0, 0],
+          reachable: true,
+          branch: "front",
+          jointsDeg: [0],
+          jointRatesDegPerS: [1],
+          rateRatios: [0.5],
+          localSpeedMmPerS: 1000,
+          sigmaMinScaled: 1,
+          inverseCondition: 1,
+          singularityKind: "other" as const,
+        })),
         evaluatedPoints: n,
       };
     };
-    const arm = { id: "band", file: "arms/band.json", chain: {} as never, spec: { model: "Band", mountings: ["floor" as const] } };
+    const arm = {
+      id: "band",
+      file: "arms/band.json",
+      chain: {} as never,
+      spec: { model: "Band", mountings: ["floor" as const] },
+    };
     const model = standardLinesModel(arm, bandAnalysis(100, 800, 0, 600), fake);
     expect(seen).toHaveLength(3);
     expect(model.lines.map((l) => l.chart.id)).toEqual(["line-rates-front", "line-rates-axis1", "line-rates-edge"]);

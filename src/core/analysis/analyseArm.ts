@@ -5,11 +5,26 @@
  */
 import type { Chain } from "../kinematics/chain";
 import { mToMm } from "../units";
-import { createSpeedMapWorkspace, DEFAULT_SPEED_MAP, referenceOrientations, toolSpeedMap, type ReferenceOrientation, type SpeedMapOptions, type ToolSpeedMap } from "./speedMap";
+import {
+  createSpeedMapWorkspace,
+  DEFAULT_SPEED_MAP,
+  referenceOrientations,
+  toolSpeedMap,
+  type ReferenceOrientation,
+  type SpeedMapOptions,
+  type ToolSpeedMap,
+} from "./speedMap";
 import { gravityDirectionInBase, type Mounting } from "./mounting";
 import { analysePayload, payloadInputOf, type PayloadAnalysisOptions, type PayloadSpec } from "./payload";
 import { standardCycle } from "./cycle";
-import { DEFAULT_ENVELOPE_OPTIONS, workspaceEnvelope, type EnvelopeOptions, type PointEnvelope, type PolygonMm, type WorkspaceEnvelope } from "./envelope";
+import {
+  DEFAULT_ENVELOPE_OPTIONS,
+  workspaceEnvelope,
+  type EnvelopeOptions,
+  type PointEnvelope,
+  type PolygonMm,
+  type WorkspaceEnvelope,
+} from "./envelope";
 
 export const ANALYSIS_VERSION = "6";
 
@@ -64,7 +79,8 @@ function shareAtLeast(map: ToolSpeedMap): Record<string, number> {
 export const MAX_OUTPUT_COLUMNS = 160;
 
 function mapJson(map: ToolSpeedMap) {
-  let maxG = 0, maxV = 0;
+  let maxG = 0,
+    maxV = 0;
   for (let i = 0; i < map.guaranteedMmPerS.length; i++) {
     if (map.guaranteedMmPerS[i]! > maxG) maxG = map.guaranteedMmPerS[i]!;
     if (map.maxMmPerS[i]! > maxV) maxV = map.maxMmPerS[i]!;
@@ -72,7 +88,8 @@ function mapJson(map: ToolSpeedMap) {
   // Output grid: every k-th node of the computation grid (values at those nodes, not averages).
   const g = map.grid;
   const k = Math.max(1, Math.ceil(g.nx / MAX_OUTPUT_COLUMNS));
-  const nx = Math.ceil(g.nx / k), ny = Math.ceil(g.ny / k);
+  const nx = Math.ceil(g.nx / k),
+    ny = Math.ceil(g.ny / k);
   const pick = <T>(values: ArrayLike<number>, f: (v: number) => T): T[] => {
     const out: T[] = [];
     for (let iy = 0; iy < ny; iy++) for (let ix = 0; ix < nx; ix++) out.push(f(values[ix * k + iy * k * g.nx]!));
@@ -119,14 +136,26 @@ export function analyseArm(chain: Chain, facts: ArmFacts, options: AnalysisOptio
     seed: options.seed,
     // The JSON keeps every k-th node (mapJson): the inverse condition is computed on those only.
     conditionMaxColumns: MAX_OUTPUT_COLUMNS,
-    boundsMm: { rMax: flange.maxReachMm + 2 * options.mapStepMm, zMin: flange.minHeightMm - 2 * options.mapStepMm, zMax: flange.maxHeightMm + 2 * options.mapStepMm },
+    boundsMm: {
+      rMax: flange.maxReachMm + 2 * options.mapStepMm,
+      zMin: flange.minHeightMm - 2 * options.mapStepMm,
+      zMax: flange.maxHeightMm + 2 * options.mapStepMm,
+    },
   };
   const workspace = createSpeedMapWorkspace();
-  const maps = referenceOrientations(chain).map((o: ReferenceOrientation) => toolSpeedMap(chain, o, mapOptions, workspace));
+  const maps = referenceOrientations(chain).map((o: ReferenceOrientation) =>
+    toolSpeedMap(chain, o, mapOptions, workspace),
+  );
   const down = maps[0]!;
   let maxTool = 0;
   for (const map of maps) for (const v of map.maxMmPerS) if (v > maxTool) maxTool = v;
-  const loci = maps.flatMap((map) => map.loci.map((l) => ({ kind: l.kind, orientation: map.orientation, polylinesMm: l.polylinesMm.map((p) => p.map(([r, z]) => [round(r, 1), round(z, 1)])) })));
+  const loci = maps.flatMap((map) =>
+    map.loci.map((l) => ({
+      kind: l.kind,
+      orientation: map.orientation,
+      polylinesMm: l.polylinesMm.map((p) => p.map(([r, z]) => [round(r, 1), round(z, 1)])),
+    })),
+  );
 
   // 4. Payload.
   const payload = analysePayload(chain, payloadInputOf(facts, chain), options.payload ?? {});
@@ -142,12 +171,15 @@ export function analyseArm(chain: Chain, facts: ArmFacts, options: AnalysisOptio
     if (Math.abs(deviation) > 0.02) {
       warnings.push({
         code: "stated-reach-mismatch",
-        message: `stated reach ${facts.reachMm} mm differs from the computed ${wcp ? "wrist-centre" : "flange"} reach ${Math.round(computedReachMm)} mm by ${(deviation * 100).toFixed(1)} % (more than 2 %)${Math.abs(facts.reachMm / computedReachMm - 1000) < 100 || Math.abs(facts.reachMm * 1000 / computedReachMm - 1) < 0.1 ? "; check the units (metres typed as millimetres?)" : ""}`,
+        message: `stated reach ${facts.reachMm} mm differs from the computed ${wcp ? "wrist-centre" : "flange"} reach ${Math.round(computedReachMm)} mm by ${(deviation * 100).toFixed(1)} % (more than 2 %)${Math.abs(facts.reachMm / computedReachMm - 1000) < 100 || Math.abs((facts.reachMm * 1000) / computedReachMm - 1) < 0.1 ? "; check the units (metres typed as millimetres?)" : ""}`,
       });
     }
   }
   if (facts.repeatabilityMm < 0.005 || facts.repeatabilityMm > 2) {
-    warnings.push({ code: "repeatability-implausible", message: `declared repeatability ${facts.repeatabilityMm} mm is outside the usual 0.005–2 mm (common practice, no source)` });
+    warnings.push({
+      code: "repeatability-implausible",
+      message: `declared repeatability ${facts.repeatabilityMm} mm is outside the usual 0.005–2 mm (common practice, no source)`,
+    });
   }
   if (cycle.reason) warnings.push({ code: "cycle-not-computed", message: cycle.reason });
 
@@ -189,7 +221,9 @@ export function analyseArm(chain: Chain, facts: ArmFacts, options: AnalysisOptio
       loci,
       notes:
         chain.drivenCount === 6 || chain.drivenCount === 4
-          ? ["Loci are the zero crossings of det J followed along continuous inverse-kinematics solutions; singular sets on the edge of the reachable region (arm fully stretched) bound the maps instead."]
+          ? [
+              "Loci are the zero crossings of det J followed along continuous inverse-kinematics solutions; singular sets on the edge of the reachable region (arm fully stretched) bound the maps instead.",
+            ]
           : ["No det J for this number of driven joints: see the inverse-condition map."],
     },
     payload,
@@ -204,12 +238,14 @@ export type ArmAnalysis = ReturnType<typeof analyseArm>;
 function pointEnvelopeJson(e: PointEnvelope) {
   const r1 = (x: number) => Number(x.toFixed(1)) + 0;
   const ring = (r: readonly (readonly [number, number])[]): [number, number][] => r.map((p) => [r1(p[0]), r1(p[1])]);
-  const roundRings = (polygons: readonly PolygonMm[]) => polygons.map((poly) => ({ outer: ring(poly.outer), holes: poly.holes.map(ring) }));
+  const roundRings = (polygons: readonly PolygonMm[]) =>
+    polygons.map((poly) => ({ outer: ring(poly.outer), holes: poly.holes.map(ring) }));
   return { ...e, side: roundRings(e.side), top: roundRings(e.top), areaM2: round(e.sideAreaM2, 4) };
 }
 
 function cycleAt(chain: Chain, down: ToolSpeedMap, facts: ArmFacts, gravity: readonly number[]) {
-  const g = down.grid, m = chain.drivenCount;
+  const g = down.grid,
+    m = chain.drivenCount;
   const names = Array.from(chain.drivenJoint, (k) => chain.jointNames[k]!);
   // Reference location: the column at 60 % of the largest reached distance from axis 1, at the height with the
   // best guaranteed speed where the point 25 mm up (against gravity) is reached too; when the cycle cannot be
@@ -228,17 +264,24 @@ function cycleAt(chain: Chain, down: ToolSpeedMap, facts: ArmFacts, gravity: rea
       if (up < 0 || up >= g.ny) continue;
       const cell = ix + iy * g.nx;
       const v = down.guaranteedMmPerS[cell]!;
-      if (Number.isFinite(v) && Number.isFinite(down.guaranteedMmPerS[ix + up * g.nx]!)) column.push({ cell, speed: v, ix, iy });
+      if (Number.isFinite(v) && Number.isFinite(down.guaranteedMmPerS[ix + up * g.nx]!))
+        column.push({ cell, speed: v, ix, iy });
     }
     column.sort((a, b) => b.speed - a.speed);
     candidates.push(...column.slice(0, 3));
   }
   // Target: flange along gravity; flange x away from axis 1 (base x made perpendicular to gravity, or base z).
   const pose = (shiftMm: number) => (lateralMm: number, r: number, z: number, upMm: number, out: Float64Array) => {
-    const gx = gravity[0]!, gy = gravity[1]!, gz = gravity[2]!;
+    const gx = gravity[0]!,
+      gy = gravity[1]!,
+      gz = gravity[2]!;
     out.fill(0);
-    const px = (r - gx * upMm) / 1000, py = (lateralMm + shiftMm - gy * upMm) / 1000, pz = (z - gz * upMm) / 1000;
-    let xx = 1 - gx * gx, xy = -gx * gy, xz = -gx * gz;
+    const px = (r - gx * upMm) / 1000,
+      py = (lateralMm + shiftMm - gy * upMm) / 1000,
+      pz = (z - gz * upMm) / 1000;
+    let xx = 1 - gx * gx,
+      xy = -gx * gy,
+      xz = -gx * gz;
     let n = Math.hypot(xx, xy, xz);
     if (n < 1e-9) {
       xx = -gz * gx;
@@ -246,26 +289,62 @@ function cycleAt(chain: Chain, down: ToolSpeedMap, facts: ArmFacts, gravity: rea
       xz = 1 - gz * gz;
       n = Math.hypot(xx, xy, xz) || 1;
     }
-    xx /= n; xy /= n; xz /= n;
-    const yx = gy * xz - gz * xy, yy = gz * xx - gx * xz, yz = gx * xy - gy * xx;
-    out[0] = xx; out[1] = yx; out[2] = gx; out[3] = px;
-    out[4] = xy; out[5] = yy; out[6] = gy; out[7] = py;
-    out[8] = xz; out[9] = yz; out[10] = gz; out[11] = pz;
+    xx /= n;
+    xy /= n;
+    xz /= n;
+    const yx = gy * xz - gz * xy,
+      yy = gz * xx - gx * xz,
+      yz = gx * xy - gy * xx;
+    out[0] = xx;
+    out[1] = yx;
+    out[2] = gx;
+    out[3] = px;
+    out[4] = xy;
+    out[5] = yy;
+    out[6] = gy;
+    out[7] = py;
+    out[8] = xz;
+    out[9] = yz;
+    out[10] = gz;
+    out[11] = pz;
     out[15] = 1;
     return out;
   };
   void facts;
   let last: ReturnType<typeof standardCycle> | null = null;
   for (const c of candidates.slice(0, 12)) {
-    const rMm = g.rMinMm + c.ix * g.stepMm, zMm = g.zMinMm + c.iy * g.stepMm;
+    const rMm = g.rMinMm + c.ix * g.stepMm,
+      zMm = g.zMinMm + c.iy * g.stepMm;
     const seed = down.joints.subarray(c.cell * m, c.cell * m + m);
     for (const shift of [0, 150, -150]) {
-      const result = standardCycle(chain, { rMm, zMm }, seed, pose(shift), { upMm: 25, acrossMm: 300, jointNames: names });
+      const result = standardCycle(chain, { rMm, zMm }, seed, pose(shift), {
+        upMm: 25,
+        acrossMm: 300,
+        jointNames: names,
+      });
       if (result.standardCycleS !== null) {
-        return shift === 0 ? result : { ...result, assumptions: [...result.assumptions, `The across move runs from the side plane to ${shift > 0 ? "+" : "−"}300 mm along base y (the centred move leaves the reach).`], lateralShiftMm: shift };
+        return shift === 0
+          ? result
+          : {
+              ...result,
+              assumptions: [
+                ...result.assumptions,
+                `The across move runs from the side plane to ${shift > 0 ? "+" : "−"}300 mm along base y (the centred move leaves the reach).`,
+              ],
+              lateralShiftMm: shift,
+            };
       }
       last = result;
     }
   }
-  return last ?? { standardCycleS: null, limitingJoint: null, location: null, moves: [], assumptions: [], reason: "no location with the tool pointing down was found for the cycle" };
+  return (
+    last ?? {
+      standardCycleS: null,
+      limitingJoint: null,
+      location: null,
+      moves: [],
+      assumptions: [],
+      reason: "no location with the tool pointing down was found for the cycle",
+    }
+  );
 }

@@ -64,7 +64,11 @@ export class AxisSweep {
       grown.set(this.tris);
       this.tris = grown;
     }
-    const o = 9 * this.count, t = this.tris, x = this.storeX, y = this.storeY, h = this.storeH;
+    const o = 9 * this.count,
+      t = this.tris,
+      x = this.storeX,
+      y = this.storeY,
+      h = this.storeH;
     t[o] = x[i]!;
     t[o + 1] = y[i]!;
     t[o + 2] = h[i]!;
@@ -82,14 +86,20 @@ export class AxisSweep {
     this.count = 0;
     const k = this.radix.length;
     if (k === 0) return;
-    const np = this.na * this.nb, nb = this.nb, na = this.na;
-    const base = this.slot(slice), near = this.nearPoints, signs = this.signs, near2 = this.near2;
+    const np = this.na * this.nb,
+      nb = this.nb,
+      na = this.na;
+    const base = this.slot(slice),
+      near = this.nearPoints,
+      signs = this.signs,
+      near2 = this.near2;
     this.storeX.set(buf.c0, base);
     this.storeY.set(buf.c1, base);
     this.storeH.set(buf.c2, base);
     let nearCount = 0;
     for (let p = 0; p < np; p++) {
-      const x = buf.c0[p]!, y = buf.c1[p]!;
+      const x = buf.c0[p]!,
+        y = buf.c1[p]!;
       if (x * x + y * y <= near2) near[nearCount++] = p;
       signs[base + p] = (x >= 0 ? 1 : 0) | (y >= 0 ? 2 : 0);
     }
@@ -97,14 +107,19 @@ export class AxisSweep {
     const digit = (d: number) => Math.floor(slice / this.strides[d]!) % this.radix[d]!;
     // four stored points: both signs of x and both signs of y present
     const straddles = (i1: number, i2: number, i3: number, i4: number): boolean => {
-      const s1 = signs[i1]!, s2 = signs[i2]!, s3 = signs[i3]!, s4 = signs[i4]!;
+      const s1 = signs[i1]!,
+        s2 = signs[i2]!,
+        s3 = signs[i3]!,
+        s4 = signs[i4]!;
       return ((s1 | s2 | s3 | s4) & ~(s1 & s2 & s3 & s4) & 3) === 3;
     };
     for (let d = 0; d < k; d++) {
       if (digit(d) === 0) continue;
       const nbase = this.slot(slice - this.strides[d]!);
       for (let n = 0; n < nearCount; n++) {
-        const p = near[n]!, ia = Math.floor(p / nb), ib = p - ia * nb;
+        const p = near[n]!,
+          ia = Math.floor(p / nb),
+          ib = p - ia * nb;
         for (let side = 0; side < 2; side++) {
           const q = side === 0 ? (ia + 1 < na ? p + nb : -1) : ib + 1 < nb ? p + 1 : -1;
           if (q < 0 || !straddles(base + p, base + q, nbase + p, nbase + q)) continue;
@@ -114,7 +129,8 @@ export class AxisSweep {
       }
       for (let e = d + 1; e < k; e++) {
         if (digit(e) === 0) continue;
-        const b2 = this.slot(slice - this.strides[e]!), b12 = this.slot(slice - this.strides[d]! - this.strides[e]!);
+        const b2 = this.slot(slice - this.strides[e]!),
+          b12 = this.slot(slice - this.strides[d]! - this.strides[e]!);
         for (let n = 0; n < nearCount; n++) {
           const p = near[n]!;
           if (!straddles(base + p, nbase + p, b12 + p, b2 + p)) continue;

@@ -39,7 +39,8 @@ export class CornerSweep {
     const perSlice = 8 * (depth + 1) * 3;
     this.store = new Float64Array(this.history * perSlice);
     // grid indices of the strip points: corner c (0..3) × direction (a, b) × step 0..depth
-    const na = this.na, nb = this.nb;
+    const na = this.na,
+      nb = this.nb;
     const corners: [number, number, number, number][] = [
       [0, 0, 1, 1],
       [na - 1, 0, -1, 1],
@@ -51,7 +52,7 @@ export class CornerSweep {
       for (let step = 0; step <= depth; step++) {
         const a = Math.min(na - 1, Math.max(0, ia + da * step));
         const b = Math.min(nb - 1, Math.max(0, ib + db * step));
-        this.stripPoints[(2 * c) * (depth + 1) + step] = a * nb + ib;
+        this.stripPoints[2 * c * (depth + 1) + step] = a * nb + ib;
         this.stripPoints[(2 * c + 1) * (depth + 1) + step] = ia * nb + b;
       }
     });
@@ -87,7 +88,8 @@ export class CornerSweep {
     const st = this.store;
     for (let s = 0; s < 8; s++) {
       for (let step = 0; step < per; step++) {
-        const p = this.stripPoints[s * per + step]!, o = base + 3 * (s * per + step);
+        const p = this.stripPoints[s * per + step]!,
+          o = base + 3 * (s * per + step);
         st[o] = buf.c0[p]!;
         st[o + 1] = buf.c1[p]!;
         st[o + 2] = buf.c2[p]!;
@@ -99,15 +101,19 @@ export class CornerSweep {
       const nbBase = this.slot(slice - this.strides[d]!);
       for (let s = 0; s < 8; s++) {
         for (let step = 0; step < this.depth; step++) {
-          const p0 = base + 3 * (s * per + step), p1 = p0 + 3;
-          const q0 = nbBase + 3 * (s * per + step), q1 = q0 + 3;
+          const p0 = base + 3 * (s * per + step),
+            p1 = p0 + 3;
+          const q0 = nbBase + 3 * (s * per + step),
+            q1 = q0 + 3;
           this.pushTri(st, p0, p1, q1);
           this.pushTri(st, p0, q1, q0);
         }
       }
       for (let e = d + 1; e < k; e++) {
         if (digit(e) === 0) continue;
-        const b1 = nbBase, b2 = this.slot(slice - this.strides[e]!), b12 = this.slot(slice - this.strides[d]! - this.strides[e]!);
+        const b1 = nbBase,
+          b2 = this.slot(slice - this.strides[e]!),
+          b12 = this.slot(slice - this.strides[d]! - this.strides[e]!);
         for (let c = 0; c < 4; c++) {
           const o = 3 * (2 * c * per);
           this.pushTri(st, base + o, b1 + o, b12 + o);

@@ -26,7 +26,10 @@ export function coverRings(cover: RowCover, dxMm: number): Float64Array[] {
     periodicX: false,
     // cells near an interval end of either row, and cells where the two rows differ
     cells(j, out) {
-      const va = cover.valuesOf(j), la = cover.lengthOf(j), vb = cover.valuesOf(j + 1), lb = cover.lengthOf(j + 1);
+      const va = cover.valuesOf(j),
+        la = cover.lengthOf(j),
+        vb = cover.valuesOf(j + 1),
+        lb = cover.lengthOf(j + 1);
       events.length = 0;
       for (let k = 0; k < la; k++) events.push(va[k]!, 1);
       for (let k = 0; k < lb; k++) events.push(vb[k]!, 2);
@@ -35,7 +38,11 @@ export function coverRings(cover: RowCover, dxMm: number): Float64Array[] {
         out.push(c - 1, c + 1);
       }
       // symmetric difference of the two rows: sweep the ends in order
-      let ia = 0, ib = 0, inA = false, inB = false, open = 0;
+      let ia = 0,
+        ib = 0,
+        inA = false,
+        inB = false,
+        open = 0;
       while (ia < la || ib < lb) {
         const takeA = ib >= lb || (ia < la && va[ia]! <= vb[ib]!);
         const x = takeA ? va[ia]! : vb[ib]!;
@@ -53,10 +60,12 @@ export function coverRings(cover: RowCover, dxMm: number): Float64Array[] {
       }
     },
     value(i, j) {
-      const v = cover.valuesOf(j), len = cover.lengthOf(j);
+      const v = cover.valuesOf(j),
+        len = cover.lengthOf(j);
       const x = x0 + i * dxMm;
       // first interval whose end ≥ x
-      let lo = 0, hi = len >> 1;
+      let lo = 0,
+        hi = len >> 1;
       while (lo < hi) {
         const mid = (lo + hi) >> 1;
         if (v[2 * mid + 1]! < x) lo = mid + 1;
@@ -78,7 +87,8 @@ export function coverRings(cover: RowCover, dxMm: number): Float64Array[] {
       let s = k;
       while (s >= 2 && v[s - 1]! > x - dxMm) s -= 2;
       for (; s < len && v[s]! < x + dxMm; s += 2) {
-        const a = v[s]!, b = v[s + 1]!;
+        const a = v[s]!,
+          b = v[s + 1]!;
         // nodes strictly inside (a, b): the first node after a comes at or after b
         if (x0 + (Math.floor((a - x0) / dxMm) + 1) * dxMm < b) continue;
         if (Math.round(((a + b) / 2 - x0) / dxMm) !== i) continue;
@@ -101,9 +111,11 @@ export function coverRings(cover: RowCover, dxMm: number): Float64Array[] {
 export function coverMinAbsX(cover: RowCover): number {
   let best = Infinity;
   for (let j = cover.jMin, jEnd = cover.jMax; j <= jEnd; j++) {
-    const v = cover.valuesOf(j), len = cover.lengthOf(j);
+    const v = cover.valuesOf(j),
+      len = cover.lengthOf(j);
     for (let k = 0; k < len; k += 2) {
-      const s = v[k]!, e = v[k + 1]!;
+      const s = v[k]!,
+        e = v[k + 1]!;
       const d = s <= 0 && e >= 0 ? 0 : Math.min(Math.abs(s), Math.abs(e));
       if (d < best) best = d;
     }

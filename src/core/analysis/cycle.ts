@@ -21,8 +21,11 @@ export const DEFAULT_TIME_TO_TOP_SPEED_S = 0.4;
 export function trapezoidTimeS(distance: number, speedLimit: number, accelLimit: number): number {
   const d = Math.abs(distance);
   if (d === 0) return 0;
-  if (!(speedLimit > 0) || !(accelLimit > 0)) throw new RangeError(`invalid limits: speed ${speedLimit}, acceleration ${accelLimit}`);
-  return d >= (speedLimit * speedLimit) / accelLimit ? d / speedLimit + speedLimit / accelLimit : 2 * Math.sqrt(d / accelLimit);
+  if (!(speedLimit > 0) || !(accelLimit > 0))
+    throw new RangeError(`invalid limits: speed ${speedLimit}, acceleration ${accelLimit}`);
+  return d >= (speedLimit * speedLimit) / accelLimit
+    ? d / speedLimit + speedLimit / accelLimit
+    : 2 * Math.sqrt(d / accelLimit);
 }
 
 export interface CycleLocation {
@@ -36,7 +39,12 @@ export interface CycleResult {
   /** Name of the joint that sets the time of the longest move. */
   readonly limitingJoint: string | null;
   readonly location: CycleLocation | null;
-  readonly moves: readonly { readonly from: string; readonly to: string; readonly timeS: number; readonly limitingJoint: string }[];
+  readonly moves: readonly {
+    readonly from: string;
+    readonly to: string;
+    readonly timeS: number;
+    readonly limitingJoint: string;
+  }[];
   readonly assumptions: readonly string[];
   readonly reason?: string;
 }
@@ -79,22 +87,33 @@ export function standardCycle(
   for (let s = 1; s <= steps; s++) {
     targetPose((points[0]!.lat * s) / steps, location.rMm, location.zMm, 0, target);
     const next = new Float64Array(m);
-    if (!solveIkInto(next, chain, target, q, ik)) return failed(`the cycle start at ${Math.round(location.rMm)} mm reach cannot be reached with the tool down`);
+    if (!solveIkInto(next, chain, target, q, ik))
+      return failed(`the cycle start at ${Math.round(location.rMm)} mm reach cannot be reached with the tool down`);
     q = next;
   }
   for (const p of points) {
     targetPose(p.lat, location.rMm, location.zMm, p.dz, target);
     const next = new Float64Array(m);
-    if (!solveIkInto(next, chain, target, q, ik)) return failed(`point ${p.name} of the cycle cannot be reached with the tool down`);
+    if (!solveIkInto(next, chain, target, q, ik))
+      return failed(`point ${p.name} of the cycle cannot be reached with the tool down`);
     solutions.push(next);
     q = next;
   }
-  const speed = chain.maxSpeedSi, accel = chain.maxAccelSi;
+  const speed = chain.maxSpeedSi,
+    accel = chain.maxAccelSi;
   const moves: { from: string; to: string; timeS: number; limitingJoint: string }[] = [];
   let total = 0;
-  const legs: [number, number][] = [[0, 1], [1, 2], [2, 3], [3, 2], [2, 1], [1, 0]];
+  const legs: [number, number][] = [
+    [0, 1],
+    [1, 2],
+    [2, 3],
+    [3, 2],
+    [2, 1],
+    [1, 0],
+  ];
   for (const [a, b] of legs) {
-    let worst = 0, limiting = 0;
+    let worst = 0,
+      limiting = 0;
     for (let i = 0; i < m; i++) {
       const v = speed[i]!;
       const acc = Number.isFinite(accel[i]!) ? accel[i]! : v / DEFAULT_TIME_TO_TOP_SPEED_S;
@@ -105,10 +124,21 @@ export function standardCycle(
       }
     }
     total += worst;
-    moves.push({ from: points[a]!.name, to: points[b]!.name, timeS: worst, limitingJoint: options.jointNames[limiting] ?? `joint ${limiting + 1}` });
+    moves.push({
+      from: points[a]!.name,
+      to: points[b]!.name,
+      timeS: worst,
+      limitingJoint: options.jointNames[limiting] ?? `joint ${limiting + 1}`,
+    });
   }
   const longest = moves.reduce((x, y) => (y.timeS > x.timeS ? y : x));
-  return { standardCycleS: total, limitingJoint: longest.limitingJoint, location, moves, assumptions: ASSUMPTIONS(chain) };
+  return {
+    standardCycleS: total,
+    limitingJoint: longest.limitingJoint,
+    location,
+    moves,
+    assumptions: ASSUMPTIONS(chain),
+  };
 
   function failed(reason: string): CycleResult {
     return { standardCycleS: null, limitingJoint: null, location, moves: [], assumptions: ASSUMPTIONS(chain), reason };
@@ -121,6 +151,10 @@ function ASSUMPTIONS(chain: Chain): string[] {
     "Cycle: up 25 mm, across 300 mm, down 25 mm and back (common practice, no source); no dwell, no blending.",
     "Each move is a point-to-point joint move; every joint follows a trapezoidal speed profile within its speed and acceleration limits; all joints finish together.",
     "Tool pointing down, flange centre as the tool point, no payload dynamics: a lower bound under these assumptions, not a maker's cycle time.",
-    ...(missing ? [`Joints without an acceleration in the file are assumed to reach top speed in ${DEFAULT_TIME_TO_TOP_SPEED_S} s.`] : []),
+    ...(missing
+      ? [
+          `Joints without an acceleration in the file are assumed to reach top speed in ${DEFAULT_TIME_TO_TOP_SPEED_S} s.`,
+        ]
+      : []),
   ];
 }

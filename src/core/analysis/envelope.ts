@@ -69,8 +69,23 @@ import type { Chain } from "../kinematics/chain";
 import { createScratch, forwardInto } from "../kinematics/forward";
 import { mToMm } from "../units";
 import { coverMinAbsX, coverRings } from "./coverOutline";
-import { chainPoint, forEachSlice, planSampling, type ChainPoint, type SamplingPlan, type SliceBuffers } from "./jointSampling";
-import { polarProfile, sweptPlanArcs, sweptPlanRings, arcsMeasure, intersectArcs, sweepArcs, type PolarProfile } from "./polarSweep";
+import {
+  chainPoint,
+  forEachSlice,
+  planSampling,
+  type ChainPoint,
+  type SamplingPlan,
+  type SliceBuffers,
+} from "./jointSampling";
+import {
+  polarProfile,
+  sweptPlanArcs,
+  sweptPlanRings,
+  arcsMeasure,
+  intersectArcs,
+  sweepArcs,
+  type PolarProfile,
+} from "./polarSweep";
 import { assemblePolygons, polygonsArea, pointInPolygons, simplifyFlatRing, type PolygonMm } from "./polygon";
 import { RowCover } from "./rowCover";
 import { addSlice, addTriangles, SliceScratch } from "./sliceCover";
@@ -171,7 +186,11 @@ const GAP_SHARE = 0.3;
 
 type Vec3 = [number, number, number];
 const dot = (a: Vec3, b: Vec3) => a[0] * b[0] + a[1] * b[1] + a[2] * b[2];
-const cross = (a: Vec3, b: Vec3): Vec3 => [a[1] * b[2] - a[2] * b[1], a[2] * b[0] - a[0] * b[2], a[0] * b[1] - a[1] * b[0]];
+const cross = (a: Vec3, b: Vec3): Vec3 => [
+  a[1] * b[2] - a[2] * b[1],
+  a[2] * b[0] - a[0] * b[2],
+  a[0] * b[1] - a[1] * b[0],
+];
 const norm = (a: Vec3) => Math.hypot(a[0], a[1], a[2]);
 const scale = (a: Vec3, s: number): Vec3 => [a[0] * s, a[1] * s, a[2] * s];
 const sub = (a: Vec3, b: Vec3): Vec3 => [a[0] - b[0], a[1] - b[1], a[2] - b[2]];
@@ -186,7 +205,8 @@ function validate(o: EnvelopeOptions): void {
 
 /** Driven joint 0 moves kinematic joint 0 only, and kinematic joint 0 follows driven joint 0 only. */
 function firstJointExclusive(chain: Chain): boolean {
-  const m = chain.drivenCount, g = chain.couplingGain;
+  const m = chain.drivenCount,
+    g = chain.couplingGain;
   if (chain.drivenJoint[0] !== 0) return false;
   for (let j = 1; j < m; j++) if (g[j] !== 0) return false;
   for (let i = 1; i < chain.jointCount; i++) if (g[i * m] !== 0) return false;
@@ -217,7 +237,11 @@ function toleranceFn(o: EnvelopeOptions): (radiusMm: number) => number {
  */
 function polygonsOf(rings: readonly Float64Array[], tolMm: number, o: EnvelopeOptions, pocketMm = 0): PolygonMm[] {
   const eps = o.simplifyShare * tolMm;
-  return assemblePolygons(rings.map((r) => simplifyFlatRing(r, eps)), (GAP_SHARE * tolMm) ** 2, pocketMm);
+  return assemblePolygons(
+    rings.map((r) => simplifyFlatRing(r, eps)),
+    (GAP_SHARE * tolMm) ** 2,
+    pocketMm,
+  );
 }
 
 /**
@@ -232,8 +256,16 @@ function statedTolerance(plan: SamplingPlan, rowMm: number, o: EnvelopeOptions, 
  * Accumulates the image of every slice of the plan into `cover` (signed radius: (±√(c₀² + c₁²), c₂); otherwise
  * (c₀, c₁)), with the corner sweeps between neighbouring slices. `onSlice` sees every slice first.
  */
-function accumulate(plan: SamplingPlan, cover: RowCover, signedRadius: boolean, rowMm: number, scratch: SliceScratch, onSlice?: (b: SliceBuffers) => void): void {
-  const na = plan.a.values.length, nb = plan.b.values.length;
+function accumulate(
+  plan: SamplingPlan,
+  cover: RowCover,
+  signedRadius: boolean,
+  rowMm: number,
+  scratch: SliceScratch,
+  onSlice?: (b: SliceBuffers) => void,
+): void {
+  const na = plan.a.values.length,
+    nb = plan.b.values.length;
   // a periodic primary joint leaves the region no corners to sweep
   const sweep = plan.a.periodic || plan.b.periodic ? null : new CornerSweep(plan, 1);
   // the signed radius jumps across x = 0: close the axis gap where the lateral offset changes sign between slices
@@ -262,7 +294,10 @@ function accumulate(plan: SamplingPlan, cover: RowCover, signedRadius: boolean, 
  *   // ±180°: side view = annulus 200 mm ≤ ρ ≤ 800 mm about the shoulder, sideAreaM2 ≈ 4π·0.5·0.3 = 1.885,
  *   // volumeM3 ≈ 4/3·π·(0.8³ − 0.2³) = 2.111
  */
-export function workspaceEnvelope(chain: Chain, options: EnvelopeOptions = DEFAULT_ENVELOPE_OPTIONS): WorkspaceEnvelope {
+export function workspaceEnvelope(
+  chain: Chain,
+  options: EnvelopeOptions = DEFAULT_ENVELOPE_OPTIONS,
+): WorkspaceEnvelope {
   validate(options);
   const exclusive = firstJointExclusive(chain);
   if (exclusive && !chain.isPrismatic[0]) return revoluteBase(chain, options);
@@ -282,13 +317,17 @@ function revoluteBase(chain: Chain, o: EnvelopeOptions): WorkspaceEnvelope {
     f0[8]! * chain.axisLocal[0]! + f0[9]! * chain.axisLocal[1]! + f0[10]! * chain.axisLocal[2]!,
   ]);
   const origin: Vec3 = [f0[3]!, f0[7]!, f0[11]!];
-  const g00 = chain.couplingGain[0]!, off0 = chain.couplingOffset[0]!;
+  const g00 = chain.couplingGain[0]!,
+    off0 = chain.couplingOffset[0]!;
   const q0 = -off0 / g00;
   // kinematic sweep of joint 1
-  const lo = chain.lowerSi[0]!, hi = chain.upperSi[0]!;
-  let tLo = -Math.PI, tHi = Math.PI;
+  const lo = chain.lowerSi[0]!,
+    hi = chain.upperSi[0]!;
+  let tLo = -Math.PI,
+    tHi = Math.PI;
   if (Number.isFinite(lo) && Number.isFinite(hi)) {
-    const a = g00 * lo + off0, b = g00 * hi + off0;
+    const a = g00 * lo + off0,
+      b = g00 * hi + off0;
     tLo = Math.min(a, b);
     tHi = Math.max(a, b);
   }
@@ -305,7 +344,9 @@ function revoluteBase(chain: Chain, o: EnvelopeOptions): WorkspaceEnvelope {
   const toPoint = sub(pRef, origin);
   let forward: Vec3 | null = null;
   for (let i = 1; i < chain.jointCount && !forward; i++) {
-    const f = 16 * i, fr = s.motionFrames, ax = chain.axisLocal;
+    const f = 16 * i,
+      fr = s.motionFrames,
+      ax = chain.axisLocal;
     const z: Vec3 = [
       fr[f]! * ax[3 * i]! + fr[f + 1]! * ax[3 * i + 1]! + fr[f + 2]! * ax[3 * i + 2]!,
       fr[f + 4]! * ax[3 * i]! + fr[f + 5]! * ax[3 * i + 1]! + fr[f + 6]! * ax[3 * i + 2]!,
@@ -319,7 +360,8 @@ function revoluteBase(chain: Chain, o: EnvelopeOptions): WorkspaceEnvelope {
   if (!forward) {
     if (norm(radial) > 1e-9) forward = unit(radial);
     else {
-      const x: Vec3 = [1, 0, 0], y: Vec3 = [0, 1, 0];
+      const x: Vec3 = [1, 0, 0],
+        y: Vec3 = [0, 1, 0];
       const px = sub(x, scale(u, dot(x, u)));
       forward = norm(px) > 1e-6 ? unit(px) : unit(sub(y, scale(u, dot(y, u))));
     }
@@ -348,17 +390,28 @@ function revoluteBase(chain: Chain, o: EnvelopeOptions): WorkspaceEnvelope {
   const one = (kind: "wcp" | "flange"): PointEnvelope | null => {
     const pt = chainPoint(chain, kind);
     if (!pt) return null;
-    const base = { chain, point: pt, view, fixed, toleranceMm: toleranceFn(o), samplingShare: o.samplingShare, rowShare: o.rowShare, maxWork: o.workBudget } as const;
+    const base = {
+      chain,
+      point: pt,
+      view,
+      fixed,
+      toleranceMm: toleranceFn(o),
+      samplingShare: o.samplingShare,
+      rowShare: o.rowShare,
+      maxWork: o.workBudget,
+    } as const;
     const plan = planSampling({ ...base, relevantRows: 3, scoring: "radial" });
     const target = toleranceFn(o)(plan.estimate.radiusMm);
     const row = o.rowShare * target;
     // the plan view gets its own primary pair (the joints that spread the point sideways may differ)
     const planView = planSampling({ ...base, toleranceMm: () => target, relevantRows: 2, scoring: "plane" });
-    const side = new RowCover(0, row), plane = new RowCover(0, row);
+    const side = new RowCover(0, row),
+      plane = new RowCover(0, row);
     const scratch = new SliceScratch();
     const ext = new Extremes(plan, 2);
     accumulate(plan, side, true, row, scratch, (buf) => ext.visit(buf));
-    const maxRho = ext.refined(0), minRho = ext.refined(1);
+    const maxRho = ext.refined(0),
+      minRho = ext.refined(1);
     accumulate(planView, plane, false, row, scratch);
     // gaps narrower than GAP_SHARE × tolerance are below the resolution (e.g. the axis gap ±|y| left by sampled
     // slices whose lateral offset is small): closing them moves the boundary by at most half that
@@ -368,10 +421,18 @@ function revoluteBase(chain: Chain, o: EnvelopeOptions): WorkspaceEnvelope {
     const planRings = coverRings(plane, row).map((r) => simplifyFlatRing(r, o.simplifyShare * target));
     const profile = polarProfile(planRings, row);
     const place = { tLoRad: tLo, tHiRad: tHi, phi0Rad: phi0, sense, centreMm: centre } as const;
-    const topPolygons = polygonsOf(sweptPlanRings(sweptPlanArcs(profile, place), row, centre), target, o, planView.secondaryStepMm);
+    const topPolygons = polygonsOf(
+      sweptPlanRings(sweptPlanArcs(profile, place), row, centre),
+      target,
+      o,
+      planView.secondaryStepMm,
+    );
     const volumeMm3 = revolvedVolume(side, profile, tLo, tHi);
     const tol = Math.max(statedTolerance(plan, row, o, target), statedTolerance(planView, row, o, target));
-    if (tol > target * 1.0001) notes.push(`${kind}: the sample budget (workBudget ${o.workBudget}) coarsened the joint grid; boundary error up to ${tol.toFixed(1)} mm instead of ${target.toFixed(1)} mm`);
+    if (tol > target * 1.0001)
+      notes.push(
+        `${kind}: the sample budget (workBudget ${o.workBudget}) coarsened the joint grid; boundary error up to ${tol.toFixed(1)} mm instead of ${target.toFixed(1)} mm`,
+      );
     return {
       point: kind,
       side: sidePolygons,
@@ -390,7 +451,10 @@ function revoluteBase(chain: Chain, o: EnvelopeOptions): WorkspaceEnvelope {
   };
   const wcp = one("wcp");
   const flange = o.flange || !wcp ? one("flange") : null;
-  if (sweep < TWO_PI) notes.push("volume: azimuths reached at each distance from axis 1 are taken over all heights (exact when the point stays in one plane, an upper bound otherwise)");
+  if (sweep < TWO_PI)
+    notes.push(
+      "volume: azimuths reached at each distance from axis 1 are taken over all heights (exact when the point stays in one plane, an upper bound otherwise)",
+    );
   return {
     layout: "revolute-base",
     sideAxes: ["rMm", "zMm"],
@@ -408,8 +472,13 @@ function revoluteBase(chain: Chain, o: EnvelopeOptions): WorkspaceEnvelope {
 }
 
 function pointOf(frames: Float64Array, pt: ChainPoint): Vec3 {
-  const o = 16 * pt.lastJoint, l = pt.localM;
-  const r = (k: number) => frames[o + 4 * k]! * l[0]! + frames[o + 4 * k + 1]! * l[1]! + frames[o + 4 * k + 2]! * l[2]! + frames[o + 4 * k + 3]!;
+  const o = 16 * pt.lastJoint,
+    l = pt.localM;
+  const r = (k: number) =>
+    frames[o + 4 * k]! * l[0]! +
+    frames[o + 4 * k + 1]! * l[1]! +
+    frames[o + 4 * k + 2]! * l[2]! +
+    frames[o + 4 * k + 3]!;
   return [r(0), r(1), r(2)];
 }
 
@@ -421,22 +490,27 @@ function revolvedVolume(side: RowCover, profile: PolarProfile, tLo: number, tHi:
   const full = tHi - tLo >= TWO_PI;
   const drho = profile.drhoMm;
   const rows = profile.arcs.length;
-  const phiF = new Float64Array(rows), phiB = new Float64Array(rows), phiFB = new Float64Array(rows);
-  const base = Math.min(TWO_PI, tHi - tLo), both = Math.min(TWO_PI, 2 * (tHi - tLo));
+  const phiF = new Float64Array(rows),
+    phiB = new Float64Array(rows),
+    phiFB = new Float64Array(rows);
+  const base = Math.min(TWO_PI, tHi - tLo),
+    both = Math.min(TWO_PI, 2 * (tHi - tLo));
   for (let k = 0; k < rows; k++) {
     if (full) {
       phiF[k] = phiB[k] = phiFB[k] = TWO_PI;
       continue;
     }
     const arcs = profile.arcs[k]!;
-    const front: number[] = [], back: number[] = [];
+    const front: number[] = [],
+      back: number[] = [];
     for (let a = 0; a < arcs.length; a += 2) {
       intersectArcs(arcs[a]!, arcs[a + 1]!, -Math.PI / 2, Math.PI, front);
       intersectArcs(arcs[a]!, arcs[a + 1]!, Math.PI / 2, Math.PI, back);
     }
     if (front.length === 0) front.push(0, 0);
     if (back.length === 0) back.push(Math.PI, 0);
-    const sf = sweepArcs(front, tLo, tHi), sb = sweepArcs(back, tLo, tHi);
+    const sf = sweepArcs(front, tLo, tHi),
+      sb = sweepArcs(back, tLo, tHi);
     phiF[k] = arcsMeasure(sf);
     phiB[k] = arcsMeasure(sb);
     phiFB[k] = arcsMeasure(Float64Array.from([...sf, ...sb]));
@@ -444,7 +518,8 @@ function revolvedVolume(side: RowCover, profile: PolarProfile, tLo: number, tHi:
   // ∫_a^b ρ Φ dρ split at the polar row boundaries ρ = k·Δρ (Φ of category cat in polar row k; beyond the profile,
   // the joint 1 range alone). Runs once per polar row crossed: Φ is looked up inline.
   const integrate = (a: number, b: number, cat: 0 | 1 | 2): number => {
-    const phis = cat === 0 ? phiF : cat === 1 ? phiB : phiFB, outside = cat === 2 ? both : base;
+    const phis = cat === 0 ? phiF : cat === 1 ? phiB : phiFB,
+      outside = cat === 2 ? both : base;
     let sum = 0;
     let k = Math.floor(a / drho);
     let x = a;
@@ -459,12 +534,15 @@ function revolvedVolume(side: RowCover, profile: PolarProfile, tLo: number, tHi:
   };
   let volume = 0;
   for (let j = side.jMin, jEnd = side.jMax; j <= jEnd; j++) {
-    const v = side.valuesOf(j), len = side.lengthOf(j);
+    const v = side.valuesOf(j),
+      len = side.lengthOf(j);
     if (len === 0) continue;
     // front intervals (ρ = r ≥ 0) and back intervals mirrored (ρ = −r ≥ 0), each sorted ascending in ρ
-    const fr: number[] = [], bk: number[] = [];
+    const fr: number[] = [],
+      bk: number[] = [];
     for (let k = 0; k < len; k += 2) {
-      const s = v[k]!, e = v[k + 1]!;
+      const s = v[k]!,
+        e = v[k + 1]!;
       if (e > 0) fr.push(Math.max(0, s), e);
       if (s < 0) bk.push(Math.max(0, -e), -s);
     }
@@ -474,10 +552,12 @@ function revolvedVolume(side: RowCover, profile: PolarProfile, tLo: number, tHi:
     const cuts = [...fr, ...bkSorted].sort((p, q) => p - q);
     let rowSum = 0;
     for (let c = 0; c + 1 < cuts.length; c++) {
-      const a = cuts[c]!, b = cuts[c + 1]!;
+      const a = cuts[c]!,
+        b = cuts[c + 1]!;
       if (!(b > a)) continue;
       const mid = (a + b) / 2;
-      const inF = inside(fr, mid), inB = inside(bkSorted, mid);
+      const inF = inside(fr, mid),
+        inB = inside(bkSorted, mid);
       if (inF || inB) rowSum += integrate(a, b, inF && inB ? 2 : inF ? 0 : 1);
     }
     volume += rowSum * side.dy;
@@ -496,15 +576,27 @@ function inside(intervals: readonly number[], x: number): boolean {
 function projectedBase(chain: Chain, o: EnvelopeOptions, layout: "prismatic-base" | "base-frame"): WorkspaceEnvelope {
   const notes: string[] = [];
   const zero: Vec3 = [0, 0, 0];
-  const X: Vec3 = [1, 0, 0], Y: Vec3 = [0, 1, 0], Z: Vec3 = [0, 0, 1];
+  const X: Vec3 = [1, 0, 0],
+    Y: Vec3 = [0, 1, 0],
+    Z: Vec3 = [0, 0, 1];
   const sideView = viewMatrix([X, Z, Y], zero, [false, false, false]);
   const topView = viewMatrix([X, Y, Z], zero, [false, false, false]);
   const none = new Map<number, number>();
-  if (layout === "base-frame") notes.push("joint 1 is coupled with other joints: views are projections on base planes, no swept volume");
+  if (layout === "base-frame")
+    notes.push("joint 1 is coupled with other joints: views are projections on base planes, no swept volume");
   const one = (kind: "wcp" | "flange"): PointEnvelope | null => {
     const pt = chainPoint(chain, kind);
     if (!pt) return null;
-    const req = { chain, point: pt, relevantRows: 2, scoring: "plane", toleranceMm: toleranceFn(o), samplingShare: o.samplingShare, rowShare: o.rowShare, maxWork: o.workBudget } as const;
+    const req = {
+      chain,
+      point: pt,
+      relevantRows: 2,
+      scoring: "plane",
+      toleranceMm: toleranceFn(o),
+      samplingShare: o.samplingShare,
+      rowShare: o.rowShare,
+      maxWork: o.workBudget,
+    } as const;
     // one target for the point, from its overall size
     const sizePlan = planSampling({ ...req, view: sideView, fixed: none });
     const target = toleranceFn(o)(sizePlan.estimate.radiusMm);
@@ -515,7 +607,8 @@ function projectedBase(chain: Chain, o: EnvelopeOptions, layout: "prismatic-base
     const side = new RowCover(0, row);
     const sideExt = new Extremes(sidePlan, 1);
     accumulate(sidePlan, side, false, row, scratch, (buf) => sideExt.visit(buf));
-    const maxH = sideExt.refined(2), minH = sideExt.refined(3);
+    const maxH = sideExt.refined(2),
+      minH = sideExt.refined(3);
     const topPlan = planSampling({ ...req, toleranceMm: fixedTol, view: topView, fixed: none });
     const top = new RowCover(0, row);
     const topExt = new Extremes(topPlan, 2);
@@ -529,7 +622,8 @@ function projectedBase(chain: Chain, o: EnvelopeOptions, layout: "prismatic-base
     let samples = sidePlan.pointCount + topPlan.pointCount;
     let tol = Math.max(statedTolerance(sidePlan, row, o, target), statedTolerance(topPlan, row, o, target));
     if (layout === "prismatic-base") {
-      const f0 = chain.fixed, ax = chain.axisLocal;
+      const f0 = chain.fixed,
+        ax = chain.axisLocal;
       const u1 = unit([
         f0[0]! * ax[0]! + f0[1]! * ax[1]! + f0[2]! * ax[2]!,
         f0[4]! * ax[0]! + f0[5]! * ax[1]! + f0[6]! * ax[2]!,
@@ -538,10 +632,17 @@ function projectedBase(chain: Chain, o: EnvelopeOptions, layout: "prismatic-base
       const e1 = Math.abs(u1[2]) < 0.9 ? unit(cross(Z, u1)) : unit(cross(X, u1));
       const e2 = cross(u1, e1);
       const sectionView = viewMatrix([e1, e2, u1], zero, [false, false, false]);
-      const g00 = chain.couplingGain[0]!, off0 = chain.couplingOffset[0]!;
-      const sectionPlan = planSampling({ ...req, toleranceMm: fixedTol, view: sectionView, fixed: new Map([[0, -off0 / g00]]) });
+      const g00 = chain.couplingGain[0]!,
+        off0 = chain.couplingOffset[0]!;
+      const sectionPlan = planSampling({
+        ...req,
+        toleranceMm: fixedTol,
+        view: sectionView,
+        fixed: new Map([[0, -off0 / g00]]),
+      });
       const section = new RowCover(0, row);
-      let tMin = Infinity, tMax = -Infinity;
+      let tMin = Infinity,
+        tMax = -Infinity;
       accumulate(sectionPlan, section, false, row, scratch, ({ c2 }) => {
         for (let p = 0; p < c2.length; p++) {
           if (c2[p]! < tMin) tMin = c2[p]!;
@@ -553,7 +654,8 @@ function projectedBase(chain: Chain, o: EnvelopeOptions, layout: "prismatic-base
       samples += sectionPlan.pointCount;
       tol = Math.max(tol, statedTolerance(sectionPlan, row, o, target));
     }
-    if (tol > target * 1.0001) notes.push(`${kind}: the sample budget coarsened the joint grid; boundary error up to ${tol.toFixed(1)} mm`);
+    if (tol > target * 1.0001)
+      notes.push(`${kind}: the sample budget coarsened the joint grid; boundary error up to ${tol.toFixed(1)} mm`);
     return {
       point: kind,
       side: sidePolygons,
@@ -561,7 +663,9 @@ function projectedBase(chain: Chain, o: EnvelopeOptions, layout: "prismatic-base
       maxReachMm: maxReach,
       // the nearest sample (refined) bounds the minimum too: the top view may have no polygon at all when the
       // point's projection on the base x–y plane has no area (a vertical line or curve)
-      minReachMm: pointInPolygons(0, 0, topPolygons) ? 0 : Math.max(0, Math.min(topExt.refined(1), distanceToPolygons(0, 0, topPolygons))),
+      minReachMm: pointInPolygons(0, 0, topPolygons)
+        ? 0
+        : Math.max(0, Math.min(topExt.refined(1), distanceToPolygons(0, 0, topPolygons))),
       maxHeightMm: maxH,
       minHeightMm: minH,
       sideAreaM2: side.area() / MM2_PER_M2,
@@ -582,8 +686,11 @@ function distanceToPolygons(x: number, y: number, polygons: readonly PolygonMm[]
   for (const p of polygons) {
     for (const ring of [p.outer, ...p.holes]) {
       for (let k = 1; k < ring.length; k++) {
-        const [ax, ay] = ring[k - 1]!, [bx, by] = ring[k]!;
-        const dx = bx - ax, dy = by - ay, l2 = dx * dx + dy * dy;
+        const [ax, ay] = ring[k - 1]!,
+          [bx, by] = ring[k]!;
+        const dx = bx - ax,
+          dy = by - ay,
+          l2 = dx * dx + dy * dy;
         const t = l2 > 0 ? Math.max(0, Math.min(1, ((x - ax) * dx + (y - ay) * dy) / l2)) : 0;
         best = Math.min(best, Math.hypot(x - ax - t * dx, y - ay - t * dy));
       }

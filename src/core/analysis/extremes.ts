@@ -16,19 +16,31 @@ export class Extremes {
   /**
    * @param heightRow view row holding the height (2 for the (x_f, y_l, h) view, 1 for base x–z projections)
    */
-  constructor(private readonly plan: SamplingPlan, private readonly heightRow: 1 | 2) {
+  constructor(
+    private readonly plan: SamplingPlan,
+    private readonly heightRow: 1 | 2,
+  ) {
     this.qBest = [0, 1, 2, 3].map(() => Float64Array.from(plan.qRef));
   }
 
   /** Tracks the slice's samples. Allocates nothing. */
   visit(buf: SliceBuffers): void {
-    const { c0, c1 } = buf, h = this.heightRow === 2 ? buf.c2 : buf.c1;
+    const { c0, c1 } = buf,
+      h = this.heightRow === 2 ? buf.c2 : buf.c1;
     const n = c0.length;
     const best = this.best;
-    let b0 = best[0]!, b1 = best[1]!, b2 = best[2]!, b3 = best[3]!;
-    let i0 = -1, i1 = -1, i2 = -1, i3 = -1;
+    let b0 = best[0]!,
+      b1 = best[1]!,
+      b2 = best[2]!,
+      b3 = best[3]!;
+    let i0 = -1,
+      i1 = -1,
+      i2 = -1,
+      i3 = -1;
     for (let p = 0; p < n; p++) {
-      const x = c0[p]!, y = this.heightRow === 2 ? c1[p]! : 0, z = h[p]!;
+      const x = c0[p]!,
+        y = this.heightRow === 2 ? c1[p]! : 0,
+        z = h[p]!;
       const r2 = x * x + y * y;
       if (r2 > b0) {
         b0 = r2;
@@ -55,7 +67,8 @@ export class Extremes {
 
   private keep(which: Extreme, value: number, at: number, buf: SliceBuffers): void {
     this.best[which] = value;
-    const q = this.qBest[which]!, nb = this.plan.b.values.length;
+    const q = this.qBest[which]!,
+      nb = this.plan.b.values.length;
     q.set(buf.q);
     const { a, b } = this.plan;
     if (a.driven >= 0) q[a.driven] = a.values[Math.floor(at / nb)]!;
@@ -64,7 +77,8 @@ export class Extremes {
 
   /** The figure after a compass search from its best sample: ρ (mm) for 0 and 1, height (mm) for 2 and 3. */
   refined(which: Extreme): number {
-    const plan = this.plan, heightRow = this.heightRow;
+    const plan = this.plan,
+      heightRow = this.heightRow;
     const objective = (c: Float64Array): number => {
       const r2 = c[0]! * c[0]! + (heightRow === 2 ? c[1]! * c[1]! : 0);
       return which === 0 ? r2 : which === 1 ? -r2 : which === 2 ? c[heightRow]! : -c[heightRow]!;
@@ -72,7 +86,8 @@ export class Extremes {
     let best = this.best[which]!;
     if (best > -Infinity) {
       const probe = new PointProbe(plan.chain, plan.point, plan.view);
-      const c = new Float64Array(3), q = Float64Array.from(this.qBest[which]!);
+      const c = new Float64Array(3),
+        q = Float64Array.from(this.qBest[which]!);
       const f = (): number => {
         probe.into(c, 0, q);
         return objective(c);
@@ -87,7 +102,8 @@ export class Extremes {
       for (let iter = 0; iter < 400; iter++) {
         let improved = false;
         for (let r = 0; r < joints.length && !improved; r++) {
-          const j = joints[r]!, [lo, hi] = plan.ranges[j]!;
+          const j = joints[r]!,
+            [lo, hi] = plan.ranges[j]!;
           for (let dir = 1; dir >= -1; dir -= 2) {
             const old = q[j]!;
             q[j] = Math.min(hi, Math.max(lo, old + dir * step[r]!));
@@ -111,6 +127,12 @@ export class Extremes {
         }
       }
     }
-    return which === 0 ? Math.sqrt(Math.max(0, best)) : which === 1 ? Math.sqrt(Math.max(0, -best)) : which === 2 ? best : -best;
+    return which === 0
+      ? Math.sqrt(Math.max(0, best))
+      : which === 1
+        ? Math.sqrt(Math.max(0, -best))
+        : which === 2
+          ? best
+          : -best;
   }
 }

@@ -117,7 +117,8 @@ export function isolineRings(src: IsolineSource): Float64Array[] {
     order.sort((p, q) => ranges[p]! - ranges[q]!);
     let next = lo;
     for (const r of order) {
-      const i0 = Math.max(next, ranges[r]!, lo), i1 = Math.min(ranges[r + 1]!, nx - 1);
+      const i0 = Math.max(next, ranges[r]!, lo),
+        i1 = Math.min(ranges[r + 1]!, nx - 1);
       for (let i = i0; i <= i1; i++) cell(i, j);
       if (i1 + 1 > next) next = i1 + 1;
     }
@@ -126,29 +127,64 @@ export function isolineRings(src: IsolineSource): Float64Array[] {
   return rings;
 
   function cell(i: number, j: number): void {
-    const i1 = i + 1, j1 = j + 1;
-    const a = node(i, j), b = node(i1, j), c = node(i1, j1), d = node(i, j1);
+    const i1 = i + 1,
+      j1 = j + 1;
+    const a = node(i, j),
+      b = node(i1, j),
+      c = node(i1, j1),
+      d = node(i, j1);
     const code = (a > 0 ? 1 : 0) | (b > 0 ? 2 : 0) | (c > 0 ? 4 : 0) | (d > 0 ? 8 : 0);
     if (code === 0 || code === 15) return;
     // crossing points on the edges whose end nodes differ (bottom a–b, right b–c, top d–c, left a–d)
-    const inA = code & 1, inB = (code >> 1) & 1, inC = (code >> 2) & 1, inD = (code >> 3) & 1;
-    const bId = hId(i, j), bx = inA !== inB ? i + a / (a - b) : 0;
-    const tId = hId(i, j1), tx = inD !== inC ? i + d / (d - c) : 0;
-    const lId = vId(i, j), ly = inA !== inD ? j + a / (a - d) : 0;
-    const rId = vId(i1 === nx && periodicX ? 0 : i1, j), ry = inB !== inC ? j + b / (b - c) : 0;
+    const inA = code & 1,
+      inB = (code >> 1) & 1,
+      inC = (code >> 2) & 1,
+      inD = (code >> 3) & 1;
+    const bId = hId(i, j),
+      bx = inA !== inB ? i + a / (a - b) : 0;
+    const tId = hId(i, j1),
+      tx = inD !== inC ? i + d / (d - c) : 0;
+    const lId = vId(i, j),
+      ly = inA !== inD ? j + a / (a - d) : 0;
+    const rId = vId(i1 === nx && periodicX ? 0 : i1, j),
+      ry = inB !== inC ? j + b / (b - c) : 0;
     switch (code) {
-      case 1: emit(bId, bx, j, lId, i, ly); break;
-      case 2: emit(rId, i1, ry, bId, bx, j); break;
-      case 3: emit(rId, i1, ry, lId, i, ly); break;
-      case 4: emit(tId, tx, j1, rId, i1, ry); break;
-      case 6: emit(tId, tx, j1, bId, bx, j); break;
-      case 7: emit(tId, tx, j1, lId, i, ly); break;
-      case 8: emit(lId, i, ly, tId, tx, j1); break;
-      case 9: emit(bId, bx, j, tId, tx, j1); break;
-      case 11: emit(rId, i1, ry, tId, tx, j1); break;
-      case 12: emit(lId, i, ly, rId, i1, ry); break;
-      case 13: emit(bId, bx, j, rId, i1, ry); break;
-      case 14: emit(lId, i, ly, bId, bx, j); break;
+      case 1:
+        emit(bId, bx, j, lId, i, ly);
+        break;
+      case 2:
+        emit(rId, i1, ry, bId, bx, j);
+        break;
+      case 3:
+        emit(rId, i1, ry, lId, i, ly);
+        break;
+      case 4:
+        emit(tId, tx, j1, rId, i1, ry);
+        break;
+      case 6:
+        emit(tId, tx, j1, bId, bx, j);
+        break;
+      case 7:
+        emit(tId, tx, j1, lId, i, ly);
+        break;
+      case 8:
+        emit(lId, i, ly, tId, tx, j1);
+        break;
+      case 9:
+        emit(bId, bx, j, tId, tx, j1);
+        break;
+      case 11:
+        emit(rId, i1, ry, tId, tx, j1);
+        break;
+      case 12:
+        emit(lId, i, ly, rId, i1, ry);
+        break;
+      case 13:
+        emit(bId, bx, j, rId, i1, ry);
+        break;
+      case 14:
+        emit(lId, i, ly, bId, bx, j);
+        break;
       case 5:
         if (a + b + c + d > 0) {
           emit(bId, bx, j, rId, i1, ry);

@@ -27,20 +27,29 @@ export interface ChainPoint {
 export function chainPoint(chain: Chain, kind: "wcp" | "flange"): ChainPoint | null {
   if (kind === "flange") {
     const f = 16 * chain.jointCount;
-    return { lastJoint: chain.jointCount - 1, localM: Float64Array.of(chain.fixed[f + 3]!, chain.fixed[f + 7]!, chain.fixed[f + 11]!) };
+    return {
+      lastJoint: chain.jointCount - 1,
+      localM: Float64Array.of(chain.fixed[f + 3]!, chain.fixed[f + 7]!, chain.fixed[f + 11]!),
+    };
   }
   const w = chain.wrist;
   if (!w) return null;
-  const t = chain.linkFromMotion, o = 16 * w.joint, p = w.pointInLinkM;
+  const t = chain.linkFromMotion,
+    o = 16 * w.joint,
+    p = w.pointInLinkM;
   const local = new Float64Array(3);
-  for (let r = 0; r < 3; r++) local[r] = t[o + 4 * r]! * p[0]! + t[o + 4 * r + 1]! * p[1]! + t[o + 4 * r + 2]! * p[2]! + t[o + 4 * r + 3]!;
+  for (let r = 0; r < 3; r++)
+    local[r] = t[o + 4 * r]! * p[0]! + t[o + 4 * r + 1]! * p[1]! + t[o + 4 * r + 2]! * p[2]! + t[o + 4 * r + 3]!;
   return { lastJoint: w.joint, localM: local };
 }
 
 /** Writes the point (base frame, m) for the current scratch (after forwardInto). */
 function pointAfterForwardInto(out: Float64Array, s: KinematicsScratch, pt: ChainPoint): void {
-  const f = s.motionFrames, o = 16 * pt.lastJoint, l = pt.localM;
-  for (let r = 0; r < 3; r++) out[r] = f[o + 4 * r]! * l[0]! + f[o + 4 * r + 1]! * l[1]! + f[o + 4 * r + 2]! * l[2]! + f[o + 4 * r + 3]!;
+  const f = s.motionFrames,
+    o = 16 * pt.lastJoint,
+    l = pt.localM;
+  for (let r = 0; r < 3; r++)
+    out[r] = f[o + 4 * r]! * l[0]! + f[o + 4 * r + 1]! * l[1]! + f[o + 4 * r + 2]! * l[2]! + f[o + 4 * r + 3]!;
 }
 
 /** Sampled values of one driven joint. `driven` is −1 for a placeholder dimension with no effect. */
@@ -110,7 +119,8 @@ const PRIMARY_WEIGHTS = [1, 0.5, 0.25, 0.12];
 const HALTON_BASES = [2, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31, 37];
 
 function radicalInverse(i: number, base: number): number {
-  let f = 1, r = 0;
+  let f = 1,
+    r = 0;
   while (i > 0) {
     f /= base;
     r += f * (i % base);
@@ -127,9 +137,11 @@ export function samplingRange(chain: Chain, j: number): [number, number] {
 function samplingRangeOf(chain: Chain, j: number): { range: [number, number]; periodic: boolean } {
   const m = chain.drivenCount;
   const k = chain.drivenJoint[j]!;
-  let lo = chain.lowerSi[j]!, hi = chain.upperSi[j]!;
+  let lo = chain.lowerSi[j]!,
+    hi = chain.upperSi[j]!;
   if (chain.isPrismatic[k]) {
-    if (!Number.isFinite(lo) || !Number.isFinite(hi)) throw new RangeError(`invalid range of prismatic joint ${chain.jointNames[k]}: unbounded`);
+    if (!Number.isFinite(lo) || !Number.isFinite(hi))
+      throw new RangeError(`invalid range of prismatic joint ${chain.jointNames[k]}: unbounded`);
     return { range: [lo, hi], periodic: false };
   }
   if (!Number.isFinite(lo)) lo = -Math.PI;
@@ -147,14 +159,20 @@ function samplingRangeOf(chain: Chain, j: number): { range: [number, number]; pe
 export class PointProbe {
   private readonly s: KinematicsScratch;
   private readonly p = new Float64Array(3);
-  constructor(private readonly chain: Chain, private readonly pt: ChainPoint, private readonly view: Float64Array) {
+  constructor(
+    private readonly chain: Chain,
+    private readonly pt: ChainPoint,
+    private readonly view: Float64Array,
+  ) {
     this.s = createScratch(chain);
   }
   into(out: Float64Array, o: number, q: Float64Array): void {
     forwardInto(this.chain, q, this.s);
     pointAfterForwardInto(this.p, this.s, this.pt);
-    const v = this.view, p = this.p;
-    for (let r = 0; r < 3; r++) out[o + r] = v[4 * r]! * p[0]! + v[4 * r + 1]! * p[1]! + v[4 * r + 2]! * p[2]! + v[4 * r + 3]!;
+    const v = this.view,
+      p = this.p;
+    for (let r = 0; r < 3; r++)
+      out[o + r] = v[4 * r]! * p[0]! + v[4 * r + 1]! * p[1]! + v[4 * r + 2]! * p[2]! + v[4 * r + 3]!;
   }
 }
 
@@ -171,7 +189,8 @@ export function planSampling(req: PlanRequest): SamplingPlan {
   const periodic: boolean[] = [];
   for (let j = 0; j < m; j++) {
     const fixed = req.fixed.get(j);
-    const sr = fixed !== undefined ? { range: [fixed, fixed] as [number, number], periodic: false } : samplingRangeOf(chain, j);
+    const sr =
+      fixed !== undefined ? { range: [fixed, fixed] as [number, number], periodic: false } : samplingRangeOf(chain, j);
     const r = sr.range;
     ranges.push(r);
     periodic.push(sr.periodic);
@@ -187,9 +206,13 @@ export function planSampling(req: PlanRequest): SamplingPlan {
   }
   const nc = candidates.length;
   // Estimation poses: first and second central differences per candidate joint.
-  const q = new Float64Array(m), qq = new Float64Array(m);
-  const c0 = new Float64Array(3), cp = new Float64Array(3), cm = new Float64Array(3);
-  const firstMax = new Float64Array(nc), secondMax = new Float64Array(nc);
+  const q = new Float64Array(m),
+    qq = new Float64Array(m);
+  const c0 = new Float64Array(3),
+    cp = new Float64Array(3),
+    cm = new Float64Array(3);
+  const firstMax = new Float64Array(nc),
+    secondMax = new Float64Array(nc);
   const mixed = new Float64Array(nc * nc);
   const foldedMax = new Float64Array(nc);
   const minTolMm = req.toleranceMm(0);
@@ -199,11 +222,15 @@ export function planSampling(req: PlanRequest): SamplingPlan {
   for (let e = 0; e < ESTIMATION_POSES; e++) {
     q.set(qRef);
     for (let c = 0; c < nc; c++) {
-      const j = candidates[c]!, [lo, hi] = ranges[j]!;
+      const j = candidates[c]!,
+        [lo, hi] = ranges[j]!;
       q[j] = lo + (hi - lo) * radicalInverse(e + 1, HALTON_BASES[c % HALTON_BASES.length]!);
     }
     probe.into(c0, 0, q);
-    radiusMm = Math.max(radiusMm, req.scoring === "radial" ? Math.hypot(c0[0]!, c0[1]!) : Math.hypot(c0[0]!, c0[1]!, c0[2]!));
+    radiusMm = Math.max(
+      radiusMm,
+      req.scoring === "radial" ? Math.hypot(c0[0]!, c0[1]!) : Math.hypot(c0[0]!, c0[1]!, c0[2]!),
+    );
     for (let c = 0; c < nc; c++) {
       const j = candidates[c]!;
       const h = chain.isPrismatic[chain.drivenJoint[j]!] ? 1e-4 : 1e-3;
@@ -212,7 +239,8 @@ export function planSampling(req: PlanRequest): SamplingPlan {
       probe.into(cp, 0, qq);
       qq[j] = q[j]! - h;
       probe.into(cm, 0, qq);
-      let d1 = 0, d2 = 0;
+      let d1 = 0,
+        d2 = 0;
       for (let r = 0; r < req.relevantRows; r++) {
         d1 += ((cp[r]! - cm[r]!) / (2 * h)) ** 2;
         d2 += ((cp[r]! - 2 * c0[r]! + cm[r]!) / (h * h)) ** 2;
@@ -249,8 +277,11 @@ export function planSampling(req: PlanRequest): SamplingPlan {
       for (let d = 0; d < nc; d++) {
         if (d === c) continue;
         const k = candidates[d]!;
-        const hj = 1e-4, hk = chain.isPrismatic[chain.drivenJoint[k]!] ? 1e-4 : 1e-3;
-        let acc0 = 0, acc1 = 0, acc2 = 0;
+        const hj = 1e-4,
+          hk = chain.isPrismatic[chain.drivenJoint[k]!] ? 1e-4 : 1e-3;
+        let acc0 = 0,
+          acc1 = 0,
+          acc2 = 0;
         for (const [sj, sk, w] of MIXED_STENCIL) {
           qq.set(q);
           qq[j] = q[j]! + sj * hj;
@@ -275,14 +306,22 @@ export function planSampling(req: PlanRequest): SamplingPlan {
 
   // Primary pair: the largest mean |det| of the view-plane Jacobian, preferring a pair the factorised evaluator
   // can handle (see stagedOrder).
-  let bestA = -1, bestB = -1, bestScore = -1, bestStagedA = -1, bestStagedB = -1, bestStagedScore = -1;
+  let bestA = -1,
+    bestB = -1,
+    bestScore = -1,
+    bestStagedA = -1,
+    bestStagedB = -1,
+    bestStagedScore = -1;
   for (let r = 0; r < k; r++) {
     for (let s = r + 1; s < k; s++) {
-      const cr = relevantIdx[r]!, cs = relevantIdx[s]!;
+      const cr = relevantIdx[r]!,
+        cs = relevantIdx[s]!;
       let score = 0;
       for (let e = 0; e < ESTIMATION_POSES; e++) {
-        const ur = cols[(e * nc + cr) * 2]!, vr = cols[(e * nc + cr) * 2 + 1]!;
-        const us = cols[(e * nc + cs) * 2]!, vs = cols[(e * nc + cs) * 2 + 1]!;
+        const ur = cols[(e * nc + cr) * 2]!,
+          vr = cols[(e * nc + cr) * 2 + 1]!;
+        const us = cols[(e * nc + cs) * 2]!,
+          vs = cols[(e * nc + cs) * 2 + 1]!;
         score += Math.abs(ur * vs - vr * us);
       }
       if (score > bestScore) {
@@ -323,13 +362,16 @@ export function planSampling(req: PlanRequest): SamplingPlan {
     const shareOf = (r: number) => (sig * (k >= 3 && isPrimary(r) ? primaryWeight : 1)) / Math.max(1e-12, weightSum);
     const steps = new Float64Array(k);
     for (let r = 0; r < k; r++) {
-      const c = relevantIdx[r]!, j = candidates[c]!;
+      const c = relevantIdx[r]!,
+        j = candidates[c]!;
       if (chain.isPrismatic[chain.drivenJoint[j]!]) continue;
       steps[r] = Math.sqrt((8 * shareOf(r)) / Math.max(1e-9, SAFETY * secondMax[c]!));
     }
-    let slices = 1, perSlice = 1;
+    let slices = 1,
+      perSlice = 1;
     for (let r = 0; r < k; r++) {
-      const c = relevantIdx[r]!, j = candidates[c]!;
+      const c = relevantIdx[r]!,
+        j = candidates[c]!;
       const span = ranges[j]![1] - ranges[j]![0];
       let n: number;
       if (chain.isPrismatic[chain.drivenJoint[j]!]) {
@@ -360,7 +402,8 @@ export function planSampling(req: PlanRequest): SamplingPlan {
     }
     return slices * (perSlice + outline);
   };
-  const counts = new Int32Array(k), trial = new Int32Array(k);
+  const counts = new Int32Array(k),
+    trial = new Int32Array(k);
   const bestCounts = (sig: number): number => {
     let best = Infinity;
     for (const w of PRIMARY_WEIGHTS) {
@@ -378,7 +421,9 @@ export function planSampling(req: PlanRequest): SamplingPlan {
     work = bestCounts(sigma);
   }
   const grid = (r: number): JointGrid => {
-    const j = relevant[r]!, [lo, hi] = ranges[j]!, n = counts[r]!;
+    const j = relevant[r]!,
+      [lo, hi] = ranges[j]!,
+      n = counts[r]!;
     const values = new Float64Array(n + 1);
     for (let i = 0; i <= n; i++) values[i] = lo + ((hi - lo) * i) / n;
     return { driven: j, values, periodic: periodic[j]! };
@@ -403,7 +448,8 @@ export function planSampling(req: PlanRequest): SamplingPlan {
   const stepMotion: number[] = [];
   for (let r = 0; r < k; r++) {
     const g = [a, b, ...secondaries].find((x) => x.driven === relevant[r]);
-    if (g && g.values.length > 1) stepMotion.push(SAFETY * firstMax[relevantIdx[r]!]! * Math.abs(g.values[1]! - g.values[0]!));
+    if (g && g.values.length > 1)
+      stepMotion.push(SAFETY * firstMax[relevantIdx[r]!]! * Math.abs(g.values[1]! - g.values[0]!));
   }
   let secondaryStepMm = 0;
   for (const g of secondaries) {
@@ -414,7 +460,23 @@ export function planSampling(req: PlanRequest): SamplingPlan {
   const stepReachMm = (stepMotion[0] ?? 0) + (stepMotion[1] ?? 0);
   let pointCount = a.values.length * b.values.length;
   for (const g of secondaries) pointCount *= g.values.length;
-  return { chain, point, view, qRef, a, b, secondaries, ranges, relevant, stepReachMm, secondaryStepMm, samplingSigmaMm: sigma, pointCount, estimate: { radiusMm }, staged };
+  return {
+    chain,
+    point,
+    view,
+    qRef,
+    a,
+    b,
+    secondaries,
+    ranges,
+    relevant,
+    stepReachMm,
+    secondaryStepMm,
+    samplingSigmaMm: sigma,
+    pointCount,
+    estimate: { radiusMm },
+    staged,
+  };
 }
 
 const MIXED_STENCIL: readonly (readonly [number, number, number])[] = [
@@ -428,7 +490,8 @@ const MIXED_STENCIL: readonly (readonly [number, number, number])[] = [
 function kinematicSpan(chain: Chain, point: ChainPoint, j: number): [number, number] | null {
   if (j < 0) return null;
   const m = chain.drivenCount;
-  let lo = -1, hi = -1;
+  let lo = -1,
+    hi = -1;
   for (let i = 0; i <= point.lastJoint; i++) {
     if (chain.couplingGain[i * m + j] === 0) continue;
     if (lo < 0) lo = i;
@@ -468,9 +531,15 @@ export interface SliceBuffers {
  */
 export function forEachSlice(plan: SamplingPlan, visit: (buffers: SliceBuffers, sliceIndex: number) => void): void {
   const { chain, point, view, a, b, secondaries } = plan;
-  const na = a.values.length, nb = b.values.length;
+  const na = a.values.length,
+    nb = b.values.length;
   const q = Float64Array.from(plan.qRef);
-  const buffers: SliceBuffers = { c0: new Float64Array(na * nb), c1: new Float64Array(na * nb), c2: new Float64Array(na * nb), q };
+  const buffers: SliceBuffers = {
+    c0: new Float64Array(na * nb),
+    c1: new Float64Array(na * nb),
+    c2: new Float64Array(na * nb),
+    q,
+  };
   const ns = secondaries.length;
   const counter = new Int32Array(ns);
   const staged = plan.staged ? new StagedGrid(plan) : null;
@@ -496,7 +565,8 @@ export function forEachSlice(plan: SamplingPlan, visit: (buffers: SliceBuffers, 
     // a periodic primary's last sample is its first one turned a full turn: make the copies bit-identical, so
     // outlines that run through the seam stay closed to the last bit
     if (a.periodic) {
-      const { c0, c1, c2 } = buffers, last = (na - 1) * nb;
+      const { c0, c1, c2 } = buffers,
+        last = (na - 1) * nb;
       for (let ib = 0; ib < nb; ib++) {
         c0[last + ib] = c0[ib]!;
         c1[last + ib] = c1[ib]!;
@@ -564,7 +634,9 @@ class StagedGrid {
 
   constructor(plan: SamplingPlan) {
     const { chain, point, view, a, b } = plan;
-    const m = chain.drivenCount, n = point.lastJoint + 1, g = chain.couplingGain;
+    const m = chain.drivenCount,
+      n = point.lastJoint + 1,
+      g = chain.couplingGain;
     this.chain = chain;
     this.plan = plan;
     this.n = n;
@@ -581,11 +653,13 @@ class StagedGrid {
     this.firstA = spanA ? spanA[0] : this.cut;
     this.viewM.set(view.subarray(0, 12));
     this.viewM[15] = 1;
-    const na = a.values.length, nb = b.values.length;
+    const na = a.values.length,
+      nb = b.values.length;
     this.left = new Float64Array(12 * na);
     this.right = new Float64Array(3 * nb);
     this.cutMotion = new Float64Array(16 * nb);
-    for (let ib = 0; ib < nb; ib++) this.cutMotion.set(this.motionInto(this.motion, this.cut, this.gB[this.cut]! * b.values[ib]!), 16 * ib);
+    for (let ib = 0; ib < nb; ib++)
+      this.cutMotion.set(this.motionInto(this.motion, this.cut, this.gB[this.cut]! * b.values[ib]!), 16 * ib);
     this.sliceMotion = new Float64Array(16 * n);
     this.steadyForA = new Uint8Array(n);
   }
@@ -614,8 +688,12 @@ class StagedGrid {
   fill(q: Float64Array, buffers: SliceBuffers): void {
     const { chain, plan, n, thetaBase, gA, gB, cut, firstA, motion, pre, accA, accB, left, right } = this;
     const { a, b, point } = plan;
-    const m = chain.drivenCount, g = chain.couplingGain, off = chain.couplingOffset, fixed = chain.fixed;
-    const na = a.values.length, nb = b.values.length;
+    const m = chain.drivenCount,
+      g = chain.couplingGain,
+      off = chain.couplingOffset,
+      fixed = chain.fixed;
+    const na = a.values.length,
+      nb = b.values.length;
     for (let i = 0; i < n; i++) {
       let t = off[i]!;
       for (let j = 0; j < m; j++) {
@@ -646,7 +724,9 @@ class StagedGrid {
     }
     // the point carried through the joints after the cut that b does not move, from the last one down: the same
     // for every sample of b
-    let x0 = point.localM[0]!, y0 = point.localM[1]!, z0 = point.localM[2]!;
+    let x0 = point.localM[0]!,
+      y0 = point.localM[1]!,
+      z0 = point.localM[2]!;
     let top = n - 1;
     for (; top > cut && steady(thetaBase[top]!, gB[top]!); top--) {
       this.motionInto(motion, top, thetaBase[top]!);
@@ -661,7 +741,9 @@ class StagedGrid {
     const cm = this.cutMotion;
     for (let ib = 0; ib < nb; ib++) {
       const qb = b.values[ib]!;
-      let x = x0, y = y0, z = z0;
+      let x = x0,
+        y = y0,
+        z = z0;
       for (let i = top; i > cut; i--) {
         this.motionInto(motion, i, thetaBase[i]! + gB[i]! * qb);
         const nx = motion[0]! * x + motion[1]! * y + motion[2]! * z + motion[3]!;
@@ -681,12 +763,23 @@ class StagedGrid {
     const { c0, c1, c2 } = buffers;
     for (let ia = 0; ia < na; ia++) {
       const L = 12 * ia;
-      const l0 = left[L]!, l1 = left[L + 1]!, l2 = left[L + 2]!, l3 = left[L + 3]!;
-      const l4 = left[L + 4]!, l5 = left[L + 5]!, l6 = left[L + 6]!, l7 = left[L + 7]!;
-      const l8 = left[L + 8]!, l9 = left[L + 9]!, l10 = left[L + 10]!, l11 = left[L + 11]!;
+      const l0 = left[L]!,
+        l1 = left[L + 1]!,
+        l2 = left[L + 2]!,
+        l3 = left[L + 3]!;
+      const l4 = left[L + 4]!,
+        l5 = left[L + 5]!,
+        l6 = left[L + 6]!,
+        l7 = left[L + 7]!;
+      const l8 = left[L + 8]!,
+        l9 = left[L + 9]!,
+        l10 = left[L + 10]!,
+        l11 = left[L + 11]!;
       const row = ia * nb;
       for (let ib = 0; ib < nb; ib++) {
-        const x = right[3 * ib]!, y = right[3 * ib + 1]!, z = right[3 * ib + 2]!;
+        const x = right[3 * ib]!,
+          y = right[3 * ib + 1]!,
+          z = right[3 * ib + 2]!;
         c0[row + ib] = l0 * x + l1 * y + l2 * z + l3;
         c1[row + ib] = l4 * x + l5 * y + l6 * z + l7;
         c2[row + ib] = l8 * x + l9 * y + l10 * z + l11;

@@ -48,7 +48,14 @@
 import { solveInPlace } from "../math/linsolve";
 import { rotationErrorInto } from "../math/so3";
 import type { Chain } from "../kinematics/chain";
-import { createScratch, forwardInto, jacobianInto, toolPointInto, wristCentreInto, type KinematicsScratch } from "../kinematics/forward";
+import {
+  createScratch,
+  forwardInto,
+  jacobianInto,
+  toolPointInto,
+  wristCentreInto,
+  type KinematicsScratch,
+} from "../kinematics/forward";
 import { createIkScratch, solveIkInto, type IkOptions, type IkScratch } from "../kinematics/inverse";
 import { fromXyzRpyInto } from "../math/mat4";
 import { mToMm, radToDeg } from "../units";
@@ -255,7 +262,9 @@ function reject3(v: readonly number[], a: readonly number[]): number[] {
 
 /** A unit vector perpendicular to the unit vector z: the base axis least aligned with it, made perpendicular. */
 function anyPerpendicular(z: readonly number[]): number[] {
-  const ax = Math.abs(z[0]!), ay = Math.abs(z[1]!), az = Math.abs(z[2]!);
+  const ax = Math.abs(z[0]!),
+    ay = Math.abs(z[1]!),
+    az = Math.abs(z[2]!);
   const e = ax <= ay && ax <= az ? [1, 0, 0] : ay <= az ? [0, 1, 0] : [0, 0, 1];
   const x = reject3(e, z);
   normalise3(x);
@@ -281,7 +290,9 @@ export function outwardDirection(chain: Chain, pointM: ArrayLike<number>, up: re
   }
   const s = createScratch(chain);
   forwardInto(chain, new Float64Array(chain.drivenCount), s);
-  const f = 16 * k, fr = s.motionFrames, a = chain.axisLocal;
+  const f = 16 * k,
+    fr = s.motionFrames,
+    a = chain.axisLocal;
   const z = [
     fr[f]! * a[3 * k]! + fr[f + 1]! * a[3 * k + 1]! + fr[f + 2]! * a[3 * k + 2]!,
     fr[f + 4]! * a[3 * k]! + fr[f + 5]! * a[3 * k + 1]! + fr[f + 6]! * a[3 * k + 2]!,
@@ -301,7 +312,12 @@ export function outwardDirection(chain: Chain, pointM: ArrayLike<number>, up: re
  * @example referenceToolRotation(chain, "down", [1, 0, 0.5], [0, 0, -1]) // floor arm with axis 1 along z:
  *   rows (1, 0, 0), (0, −1, 0), (0, 0, −1)
  */
-export function referenceToolRotation(chain: Chain, name: LineReferenceOrientation, pointM: ArrayLike<number>, gravity: readonly number[]): Float64Array {
+export function referenceToolRotation(
+  chain: Chain,
+  name: LineReferenceOrientation,
+  pointM: ArrayLike<number>,
+  gravity: readonly number[],
+): Float64Array {
   if (name !== "down" && name !== "outward") throw new RangeError(`invalid orientation: ${String(name)}`);
   const g = [gravity[0]!, gravity[1]!, gravity[2]!];
   if (!normalise3(g)) throw new RangeError(`invalid gravity: ${Array.from(gravity).join(",")}`);
@@ -321,7 +337,8 @@ export function referenceToolRotation(chain: Chain, name: LineReferenceOrientati
  * @example rpyToolRotation(Math.PI, 0, 0) // tool z pointing down: rows (1, 0, 0), (0, −1, 0), (0, 0, −1)
  */
 export function rpyToolRotation(rollRad: number, pitchRad: number, yawRad: number): Float64Array {
-  if (![rollRad, pitchRad, yawRad].every(Number.isFinite)) throw new RangeError(`invalid rpy: ${rollRad},${pitchRad},${yawRad}`);
+  if (![rollRad, pitchRad, yawRad].every(Number.isFinite))
+    throw new RangeError(`invalid rpy: ${rollRad},${pitchRad},${yawRad}`);
   const t = fromXyzRpyInto(new Float64Array(16), 0, 0, 0, rollRad, pitchRad, yawRad);
   return Float64Array.from([t[0]!, t[1]!, t[2]!, t[4]!, t[5]!, t[6]!, t[8]!, t[9]!, t[10]!]);
 }
@@ -356,7 +373,18 @@ interface Point {
 }
 
 function createPoint(m: number): Point {
-  return { s: 0, q: new Float64Array(m), rate: new Float64Array(m), ratesOk: false, maxRatio: 0, argJoint: -1, inverseCondition: 0, sigmaMin: 0, kind: 0, code: 0 };
+  return {
+    s: 0,
+    q: new Float64Array(m),
+    rate: new Float64Array(m),
+    ratesOk: false,
+    maxRatio: 0,
+    argJoint: -1,
+    inverseCondition: 0,
+    sigmaMin: 0,
+    kind: 0,
+    code: 0,
+  };
 }
 
 function copyPoint(dst: Point, src: Point): void {
@@ -413,10 +441,15 @@ function createContext(chain: Chain, input: LineCheckInput, options: LineCheckOp
   const d = [input.endM[0]! - startM[0]!, input.endM[1]! - startM[1]!, input.endM[2]! - startM[2]!];
   const lengthM = Math.hypot(d[0]!, d[1]!, d[2]!);
   const r = input.baseFromToolRotation;
-  const rot = r.length === 16
-    ? Float64Array.from([r[0]!, r[1]!, r[2]!, r[4]!, r[5]!, r[6]!, r[8]!, r[9]!, r[10]!])
-    : Float64Array.from(Array.from({ length: 9 }, (_, i) => r[i]!));
-  const tool = Float64Array.from([input.toolInFlangeM?.[0] ?? 0, input.toolInFlangeM?.[1] ?? 0, input.toolInFlangeM?.[2] ?? 0]);
+  const rot =
+    r.length === 16
+      ? Float64Array.from([r[0]!, r[1]!, r[2]!, r[4]!, r[5]!, r[6]!, r[8]!, r[9]!, r[10]!])
+      : Float64Array.from(Array.from({ length: 9 }, (_, i) => r[i]!));
+  const tool = Float64Array.from([
+    input.toolInFlangeM?.[0] ?? 0,
+    input.toolInFlangeM?.[1] ?? 0,
+    input.toolInFlangeM?.[2] ?? 0,
+  ]);
   const kin = createScratch(chain);
   forwardInto(chain, new Float64Array(m), kin);
   const c0 = new Float64Array(3);
@@ -463,14 +496,20 @@ function createContext(chain: Chain, input: LineCheckInput, options: LineCheckOp
  * the tool-axis task).
  */
 function buildTask(ctx: Context): void {
-  const m = ctx.m, j = ctx.j, t = ctx.task, L = ctx.lengthScaleM, r = ctx.rot;
+  const m = ctx.m,
+    j = ctx.j,
+    t = ctx.task,
+    L = ctx.lengthScaleM,
+    r = ctx.rot;
   for (let i = 0; i < 3 * m; i++) t[i] = j[i]!;
   if (ctx.rows === 6) {
     for (let i = 3 * m; i < 6 * m; i++) t[i] = j[i]! * L;
     return;
   }
   for (let c = 0; c < m; c++) {
-    const wx = j[3 * m + c]!, wy = j[4 * m + c]!, wz = j[5 * m + c]!;
+    const wx = j[3 * m + c]!,
+      wy = j[4 * m + c]!,
+      wz = j[5 * m + c]!;
     t[3 * m + c] = L * (r[0]! * wx + r[3]! * wy + r[6]! * wz);
     t[4 * m + c] = L * (r[1]! * wx + r[4]! * wy + r[7]! * wz);
   }
@@ -481,7 +520,12 @@ function buildTask(ctx: Context): void {
  * Tᵀ(TTᵀ + λ²I)⁻¹b when m ≥ rows (minimum norm), (TᵀT + λ²I)⁻¹Tᵀb otherwise (least squares).
  */
 function taskSolveInto(ctx: Context, out: Float64Array, lambda2: number): boolean {
-  const m = ctx.m, k = ctx.rows, t = ctx.task, a = ctx.a, x = ctx.x, y = ctx.y;
+  const m = ctx.m,
+    k = ctx.rows,
+    t = ctx.task,
+    a = ctx.a,
+    x = ctx.x,
+    y = ctx.y;
   if (m >= k) {
     for (let r = 0; r < k; r++) {
       for (let c = r; c < k; c++) {
@@ -518,10 +562,18 @@ function taskSolveInto(ctx: Context, out: Float64Array, lambda2: number): boolea
 
 /** Orientation error ω (rad, base frame) with exp([ω])·R_current = R_target, or the tool-axis error; into e[3..5]. */
 function orientationErrorInto(ctx: Context, f: Float64Array): void {
-  const e = ctx.e, r = ctx.rot;
+  const e = ctx.e,
+    r = ctx.rot;
   if (ctx.rows === 5) {
-    const zx = f[2]!, zy = f[6]!, zz = f[10]!, tx = r[2]!, ty = r[5]!, tz = r[8]!;
-    let ex = zy * tz - zz * ty, ey = zz * tx - zx * tz, ez = zx * ty - zy * tx;
+    const zx = f[2]!,
+      zy = f[6]!,
+      zz = f[10]!,
+      tx = r[2]!,
+      ty = r[5]!,
+      tz = r[8]!;
+    let ex = zy * tz - zz * ty,
+      ey = zz * tx - zx * tz,
+      ez = zx * ty - zy * tx;
     if (zx * tx + zy * ty + zz * tz < 0) {
       const n = Math.hypot(ex, ey, ez);
       if (n > 0) {
@@ -547,8 +599,15 @@ function orientationErrorInto(ctx: Context, f: Float64Array): void {
  * the kinematics scratch, ctx.tcp and ctx.j hold the converged pose. Allocates nothing.
  */
 function correct(ctx: Context, q: Float64Array, s: number, maxIterations: number): boolean {
-  const chain = ctx.chain, m = ctx.m, e = ctx.e, L = ctx.lengthScaleM, y = ctx.y, tool = ctx.tool;
-  const px = ctx.startM[0]! + s * ctx.dir[0]!, py = ctx.startM[1]! + s * ctx.dir[1]!, pz = ctx.startM[2]! + s * ctx.dir[2]!;
+  const chain = ctx.chain,
+    m = ctx.m,
+    e = ctx.e,
+    L = ctx.lengthScaleM,
+    y = ctx.y,
+    tool = ctx.tool;
+  const px = ctx.startM[0]! + s * ctx.dir[0]!,
+    py = ctx.startM[1]! + s * ctx.dir[1]!,
+    pz = ctx.startM[2]! + s * ctx.dir[2]!;
   let previous = Infinity;
   for (let it = 0; it <= maxIterations; it++) {
     const f = forwardInto(chain, q, ctx.kin);
@@ -588,7 +647,8 @@ function correct(ctx: Context, q: Float64Array, s: number, maxIterations: number
 
 /** Joint rates per unit TCP speed along the line at the converged pose in ctx (J in ctx.j) into out. */
 function ratesInto(ctx: Context, out: Float64Array): boolean {
-  const m = ctx.m, d = ctx.dir;
+  const m = ctx.m,
+    d = ctx.dir;
   if (ctx.rows === 6 && m >= 6) {
     if (!lineRatesInto(ctx.j, m, ctx.speed)) return false;
     const b = ctx.speed.b;
@@ -597,7 +657,9 @@ function ratesInto(ctx: Context, out: Float64Array): boolean {
   }
   // Fewer than six joints (or the tool-axis task): solve T q̇ = [u; 0] and check that it is solved exactly.
   buildTask(ctx);
-  const y = ctx.y, k = ctx.rows, t = ctx.task;
+  const y = ctx.y,
+    k = ctx.rows,
+    t = ctx.task;
   for (let r = 0; r < k; r++) y[r] = r < 3 ? d[r]! : 0;
   if (!taskSolveInto(ctx, out, 0)) return false;
   let res = 0;
@@ -618,7 +680,13 @@ function ratesInto(ctx: Context, out: Float64Array): boolean {
  */
 function pseudoRatesInto(ctx: Context, out: Float64Array): boolean {
   if (ctx.rows !== 6) return false;
-  const m = ctx.m, k = Math.min(6, m), sc = ctx.sing.scaled, sv = ctx.sing.sv, v = ctx.sing.v, d = ctx.dir, L = ctx.lengthScaleM;
+  const m = ctx.m,
+    k = Math.min(6, m),
+    sc = ctx.sing.scaled,
+    sv = ctx.sing.sv,
+    v = ctx.sing.v,
+    d = ctx.dir,
+    L = ctx.lengthScaleM;
   out.fill(0);
   const tol = 1e-9 * sv[0]!;
   for (let i = 0; i < k; i++) {
@@ -644,10 +712,12 @@ function pseudoRatesInto(ctx: Context, out: Float64Array): boolean {
 
 /** Fills the figures of point p (rates, ratios, singular values, kind, branch) at the converged pose in ctx. */
 function evaluate(ctx: Context, p: Point): void {
-  const chain = ctx.chain, m = ctx.m;
+  const chain = ctx.chain,
+    m = ctx.m;
   p.inverseCondition = scaledSingularValues(ctx.j, m, ctx.lengthScaleM, ctx.sing);
   p.ratesOk = ratesInto(ctx, p.rate) || pseudoRatesInto(ctx, p.rate);
-  let best = 0, arg = -1;
+  let best = 0,
+    arg = -1;
   if (p.ratesOk) {
     for (let i = 0; i < m; i++) {
       const w = chain.maxSpeedSi[i]!;
@@ -744,7 +814,8 @@ interface Run {
 }
 
 function createRun(ctx: Context): Run {
-  const n = ctx.options.samples, m = ctx.m;
+  const n = ctx.options.samples,
+    m = ctx.m;
   return {
     samplesOk: new Uint8Array(n),
     samplesRatesOk: new Uint8Array(n),
@@ -791,8 +862,11 @@ function storeSample(ctx: Context, run: Run, k: number, p: Point): void {
 function trackLimits(ctx: Context, run: Run, prev: Point | null, p: Point): void {
   const chain = ctx.chain;
   for (let i = 0; i < ctx.m; i++) {
-    const lo = chain.lowerSi[i]!, hi = chain.upperSi[i]!, v = p.q[i]!;
-    const upper = v > hi + 1e-9, lower = v < lo - 1e-9;
+    const lo = chain.lowerSi[i]!,
+      hi = chain.upperSi[i]!,
+      v = p.q[i]!;
+    const upper = v > hi + 1e-9,
+      lower = v < lo - 1e-9;
     const open = run.open[i]!;
     if (open) {
       if ((open.upper && upper) || (!open.upper && lower)) {
@@ -847,7 +921,14 @@ function accept(ctx: Context, run: Run, prev: Point | null, p: Point, jump: bool
   run.anyPoint = true;
   if (prev && (jump || prev.code !== p.code)) {
     const last = run.events[run.events.length - 1];
-    if (jump && last && !last.continuous && !last.acrossGap && !acrossGap && Math.abs(prev.s - last.toS) <= 16 * ctx.options.minStepM) {
+    if (
+      jump &&
+      last &&
+      !last.continuous &&
+      !last.acrossGap &&
+      !acrossGap &&
+      Math.abs(prev.s - last.toS) <= 16 * ctx.options.minStepM
+    ) {
       // Jumps a few minimum steps apart are one flip (a joint turning by more than jumpRad in several steps).
       last.toS = p.s;
       last.toCode = p.code;
@@ -856,7 +937,16 @@ function accept(ctx: Context, run: Run, prev: Point | null, p: Point, jump: bool
       // An event is rare: allocating here is outside the per-step path.
       const dq = new Float64Array(ctx.m);
       for (let i = 0; i < ctx.m; i++) dq[i] = p.q[i]! - prev.q[i]!;
-      run.events.push({ fromS: prev.s, toS: p.s, fromCode: prev.code, toCode: p.code, continuous: !jump, acrossGap, fromQ: Float64Array.from(prev.q), dq });
+      run.events.push({
+        fromS: prev.s,
+        toS: p.s,
+        fromCode: prev.code,
+        toCode: p.code,
+        continuous: !jump,
+        acrossGap,
+        fromQ: Float64Array.from(prev.q),
+        dq,
+      });
       if (jump) run.jumps++;
     }
   }
@@ -871,7 +961,9 @@ type WalkStatus = "done" | "lost";
  * the minimum step; `cur` is then the last reachable point.
  */
 function walk(ctx: Context, run: Run, cur: Point, sTo: number, record: boolean): WalkStatus {
-  const o = ctx.options, next = ctx.trial, m = ctx.m;
+  const o = ctx.options,
+    next = ctx.trial,
+    m = ctx.m;
   const sign = sTo >= cur.s ? 1 : -1;
   let h = Math.min(run.h, ctx.spacingM);
   while (cur.s !== sTo) {
@@ -885,7 +977,8 @@ function walk(ctx: Context, run: Run, cur: Point, sTo: number, record: boolean):
     const usePredictor = cur.ratesOk && predicted <= 4 * o.maxJointStepRad;
     for (let i = 0; i < m; i++) next.q[i] = cur.q[i]! + (usePredictor ? cur.rate[i]! * ds : 0);
     const ok = correct(ctx, next.q, sNext, CONTINUATION_ITERATIONS);
-    let change = Infinity, conditionDrop = false;
+    let change = Infinity,
+      conditionDrop = false;
     if (ok) {
       next.s = sNext;
       evaluate(ctx, next);
@@ -934,12 +1027,17 @@ function solveAt(ctx: Context, p: Point, s: number, iterations: number): boolean
 
 /** Flange target (row-major 4×4) of line position s: rotation R, position p(s) − R·tool. */
 function flangeTargetInto(ctx: Context, s: number): Float64Array {
-  const t = ctx.target, r = ctx.rot, tool = ctx.tool;
+  const t = ctx.target,
+    r = ctx.rot,
+    tool = ctx.tool;
   for (let row = 0; row < 3; row++) {
     t[row * 4] = r[row * 3]!;
     t[row * 4 + 1] = r[row * 3 + 1]!;
     t[row * 4 + 2] = r[row * 3 + 2]!;
-    t[row * 4 + 3] = ctx.startM[row]! + s * ctx.dir[row]! - (r[row * 3]! * tool[0]! + r[row * 3 + 1]! * tool[1]! + r[row * 3 + 2]! * tool[2]!);
+    t[row * 4 + 3] =
+      ctx.startM[row]! +
+      s * ctx.dir[row]! -
+      (r[row * 3]! * tool[0]! + r[row * 3 + 1]! * tool[1]! + r[row * 3 + 2]! * tool[2]!);
   }
   t[12] = 0;
   t[13] = 0;
@@ -954,7 +1052,8 @@ function wrapJoints(ctx: Context, q: Float64Array, reference: ArrayLike<number> 
   for (let i = 0; i < ctx.m; i++) {
     if (chain.isPrismatic[chain.drivenJoint[i]!]) continue;
     const ref = reference ? reference[i]! : 0;
-    const lo = chain.lowerSi[i]!, hi = chain.upperSi[i]!;
+    const lo = chain.lowerSi[i]!,
+      hi = chain.upperSi[i]!;
     let v = q[i]! - 2 * Math.PI * Math.round((q[i]! - ref) / (2 * Math.PI));
     if (v > hi + 1e-9 && v - 2 * Math.PI >= lo - 1e-9) v -= 2 * Math.PI;
     else if (v < lo - 1e-9 && v + 2 * Math.PI <= hi + 1e-9) v += 2 * Math.PI;
@@ -963,7 +1062,8 @@ function wrapJoints(ctx: Context, q: Float64Array, reference: ArrayLike<number> 
 }
 
 function insideRange(ctx: Context, q: Float64Array): boolean {
-  for (let i = 0; i < ctx.m; i++) if (q[i]! < ctx.chain.lowerSi[i]! - 1e-9 || q[i]! > ctx.chain.upperSi[i]! + 1e-9) return false;
+  for (let i = 0; i < ctx.m; i++)
+    if (q[i]! < ctx.chain.lowerSi[i]! - 1e-9 || q[i]! > ctx.chain.upperSi[i]! + 1e-9) return false;
   return true;
 }
 
@@ -982,16 +1082,27 @@ function distance2(ctx: Context, a: ArrayLike<number>, b: ArrayLike<number> | nu
  * the joint ranges, then polished by the corrector): one per branch code, preferring in-range solutions, then the
  * one nearest `reference` (the zero pose when null). Allocates (not a per-step path).
  */
-function discover(ctx: Context, s: number, extraSeeds: readonly ArrayLike<number>[], reference: ArrayLike<number> | null): Point[] {
-  const chain = ctx.chain, m = ctx.m, o = ctx.options;
+function discover(
+  ctx: Context,
+  s: number,
+  extraSeeds: readonly ArrayLike<number>[],
+  reference: ArrayLike<number> | null,
+): Point[] {
+  const chain = ctx.chain,
+    m = ctx.m,
+    o = ctx.options;
   const rnd = mulberry32(o.seed ^ Math.round(s * 1e6));
-  const seeds: Float64Array[] = [new Float64Array(m), ...extraSeeds.map((q) => Float64Array.from({ length: m }, (_, i) => q[i]!))];
+  const seeds: Float64Array[] = [
+    new Float64Array(m),
+    ...extraSeeds.map((q) => Float64Array.from({ length: m }, (_, i) => q[i]!)),
+  ];
   for (let n = 0; n < o.discoverySeeds; n++) {
     const q = new Float64Array(m);
     for (let i = 0; i < m; i++) {
       const k = chain.drivenJoint[i]!;
       const span = chain.isPrismatic[k] ? ctx.lengthScaleM : Math.PI;
-      const lo = Math.max(chain.lowerSi[i]!, -span), hi = Math.min(chain.upperSi[i]!, span);
+      const lo = Math.max(chain.lowerSi[i]!, -span),
+        hi = Math.min(chain.upperSi[i]!, span);
       q[i] = lo + (hi - lo) * rnd();
     }
     seeds.push(q);
@@ -1006,13 +1117,13 @@ function discover(ctx: Context, s: number, extraSeeds: readonly ArrayLike<number
     if (!solveAt(ctx, p, s, POLISH_ITERATIONS)) continue;
     wrapJoints(ctx, p.q, reference);
     if (!solveAt(ctx, p, s, POLISH_ITERATIONS)) continue;
-    const inside = insideRange(ctx, p.q), d = distance2(ctx, p.q, reference);
+    const inside = insideRange(ctx, p.q),
+      d = distance2(ctx, p.q, reference);
     const held = byCode.get(p.code);
-    if (!held || (inside && !held.inside) || (inside === held.inside && d < held.d - 1e-12)) byCode.set(p.code, { p, inside, d });
+    if (!held || (inside && !held.inside) || (inside === held.inside && d < held.d - 1e-12))
+      byCode.set(p.code, { p, inside, d });
   }
-  return [...byCode.values()]
-    .sort((a, b) => Number(b.inside) - Number(a.inside) || a.d - b.d)
-    .map((v) => v.p);
+  return [...byCode.values()].sort((a, b) => Number(b.inside) - Number(a.inside) || a.d - b.d).map((v) => v.p);
 }
 
 /** The IK solution at s nearest to q (from q itself, then from seeded starts), or null. Allocates (rare path). */
@@ -1020,7 +1131,8 @@ function nearestSolution(ctx: Context, s: number, q: Float64Array): Point | null
   const p = createPoint(ctx.m);
   p.q.set(q);
   if (solveAt(ctx, p, s, POLISH_ITERATIONS)) return p;
-  let best: Point | null = null, bestD = Infinity;
+  let best: Point | null = null,
+    bestD = Infinity;
   for (const c of discover(ctx, s, [q], q)) {
     const d = distance2(ctx, c.q, q);
     if (d < bestD) {
@@ -1039,7 +1151,9 @@ function positionMm(ctx: Context, s: number): number[] {
 /** Golden-section search of the objective over [lo, hi] near point p (refined in place when better). */
 function refine(ctx: Context, p: Point, lo: number, hi: number, objective: (pt: Point) => number): void {
   if (!(hi > lo) || !Number.isFinite(objective(p))) return;
-  const probe = ctx.probe, best = ctx.trial, base = p.s;
+  const probe = ctx.probe,
+    best = ctx.trial,
+    base = p.s;
   copyPoint(best, p);
   let bestValue = objective(p);
   const at = (s: number): number => {
@@ -1054,9 +1168,12 @@ function refine(ctx: Context, p: Point, lo: number, hi: number, objective: (pt: 
     return v;
   };
   const phi = (Math.sqrt(5) - 1) / 2;
-  let a = lo, b = hi;
-  let c = b - phi * (b - a), d = a + phi * (b - a);
-  let fc = at(c), fd = at(d);
+  let a = lo,
+    b = hi;
+  let c = b - phi * (b - a),
+    d = a + phi * (b - a);
+  let fc = at(c),
+    fd = at(d);
   for (let it = 0; it < GOLDEN_ITERATIONS; it++) {
     if (fc >= fd) {
       b = d;
@@ -1077,7 +1194,9 @@ function refine(ctx: Context, p: Point, lo: number, hi: number, objective: (pt: 
 
 /** Follows the whole line from a start solution found at sample k0 (earlier samples out of reach). */
 function runLine(ctx: Context, start: Point, k0: number): Run {
-  const run = createRun(ctx), n = ctx.options.samples, L = ctx.lengthM;
+  const run = createRun(ctx),
+    n = ctx.options.samples,
+    L = ctx.lengthM;
   const sampleS = (k: number) => (k === n - 1 ? L : (k * L) / (n - 1));
   const cur = createPoint(ctx.m);
   copyPoint(cur, start);
@@ -1131,7 +1250,13 @@ function runLine(ctx: Context, start: Point, k0: number): Run {
     if (run.worstPending) run.worstHi = run.worst.s;
     if (run.nearestPending) run.nearestHi = run.nearest.s;
     refine(ctx, run.worst, Math.min(run.worstLo, run.worstHi), Math.max(run.worstLo, run.worstHi), (pt) => pt.maxRatio);
-    refine(ctx, run.nearest, Math.min(run.nearestLo, run.nearestHi), Math.max(run.nearestLo, run.nearestHi), (pt) => -pt.inverseCondition);
+    refine(
+      ctx,
+      run.nearest,
+      Math.min(run.nearestLo, run.nearestHi),
+      Math.max(run.nearestLo, run.nearestHi),
+      (pt) => -pt.inverseCondition,
+    );
   }
   return run;
 }
@@ -1158,16 +1283,24 @@ function feasibleSpeed(run: Run): number {
  *   bottleneck j1 at fraction ≈ 0.41 (the test in test/core/analysis/line.test.ts checks this against the closed
  *   form minᵢ q̇maxᵢ / |(J⁻¹u)ᵢ| minimised over the line)
  */
-export function lineCheck(chain: Chain, input: LineCheckInput, options: Partial<LineCheckOptions> = {}): LineCheckResult {
+export function lineCheck(
+  chain: Chain,
+  input: LineCheckInput,
+  options: Partial<LineCheckOptions> = {},
+): LineCheckResult {
   const o: LineCheckOptions = { ...DEFAULT_LINE_CHECK, ...options };
   const m = chain.drivenCount;
-  const finite3 = (v: ArrayLike<number> | undefined) => !!v && v.length === 3 && [0, 1, 2].every((i) => Number.isFinite(v[i]));
+  const finite3 = (v: ArrayLike<number> | undefined) =>
+    !!v && v.length === 3 && [0, 1, 2].every((i) => Number.isFinite(v[i]));
   if (!finite3(input.startM)) throw new RangeError(`invalid startM: ${Array.from(input.startM ?? []).join(",")}`);
   if (!finite3(input.endM)) throw new RangeError(`invalid endM: ${Array.from(input.endM ?? []).join(",")}`);
-  if (input.toolInFlangeM !== undefined && !finite3(input.toolInFlangeM)) throw new RangeError(`invalid toolInFlangeM: ${Array.from(input.toolInFlangeM).join(",")}`);
-  if (!(input.speedMPerS > 0) || !Number.isFinite(input.speedMPerS)) throw new RangeError(`invalid speedMPerS: ${input.speedMPerS}`);
+  if (input.toolInFlangeM !== undefined && !finite3(input.toolInFlangeM))
+    throw new RangeError(`invalid toolInFlangeM: ${Array.from(input.toolInFlangeM).join(",")}`);
+  if (!(input.speedMPerS > 0) || !Number.isFinite(input.speedMPerS))
+    throw new RangeError(`invalid speedMPerS: ${input.speedMPerS}`);
   if (!Number.isInteger(o.samples) || o.samples < 2) throw new RangeError(`invalid samples: ${o.samples}`);
-  if (!(o.minStepM > 0) || !(o.maxJointStepRad > 0) || !(o.jumpRad > o.maxJointStepRad)) throw new RangeError(`invalid step options: ${o.minStepM}, ${o.maxJointStepRad}, ${o.jumpRad}`);
+  if (!(o.minStepM > 0) || !(o.maxJointStepRad > 0) || !(o.jumpRad > o.maxJointStepRad))
+    throw new RangeError(`invalid step options: ${o.minStepM}, ${o.maxJointStepRad}, ${o.jumpRad}`);
   const r = input.baseFromToolRotation;
   if (r.length !== 9 && r.length !== 16) throw new RangeError(`invalid rotation: ${r.length} values, expected 9 or 16`);
   {
@@ -1192,7 +1325,8 @@ export function lineCheck(chain: Chain, input: LineCheckInput, options: Partial<
   const ctx = createContext(chain, input, o);
   if (!(ctx.lengthM > 0)) throw new RangeError("invalid line: start and end are the same point");
 
-  const n = o.samples, L = ctx.lengthM;
+  const n = o.samples,
+    L = ctx.lengthM;
   const sampleS = (k: number) => (k === n - 1 ? L : (k * L) / (n - 1));
   const reference = startJoints ? Float64Array.from(startJoints) : null;
   const extra = reference ? [reference] : [];
@@ -1220,11 +1354,17 @@ export function lineCheck(chain: Chain, input: LineCheckInput, options: Partial<
   }
   for (const c of candidates.slice(0, o.maxBranches)) {
     const run = runLine(ctx, c, k0);
-    runs.push({ run, feasible: feasibleSpeed(run), problems: run.jumps + run.violations.length, d: distance2(ctx, c.q, null) });
+    runs.push({
+      run,
+      feasible: feasibleSpeed(run),
+      problems: run.jumps + run.violations.length,
+      d: distance2(ctx, c.q, null),
+    });
   }
   const ranked = [...runs].sort((a, b) => {
     if (a.problems !== b.problems) return a.problems - b.problems;
-    const fa = a.feasible, fb = b.feasible;
+    const fa = a.feasible,
+      fb = b.feasible;
     const close = Number.isFinite(fa) && Number.isFinite(fb) && Math.abs(fa - fb) <= 1e-9 * Math.max(fa, fb);
     if (fa !== fb && !close) return fb > fa ? 1 : -1;
     return a.d - b.d;
@@ -1252,18 +1392,35 @@ export function lineCheck(chain: Chain, input: LineCheckInput, options: Partial<
   const samples: LineSample[] = [];
   const speedProfile: { fraction: number; speedMmPerS: number | null }[] = [];
   for (let k = 0; k < n; k++) {
-    const s = sampleS(k), fraction = s / L;
+    const s = sampleS(k),
+      fraction = s / L;
     const ok = chosen !== null && chosen.samplesOk[k] === 1;
     if (!ok || !chosen) {
-      samples.push({ fraction, positionMm: positionMm(ctx, s), reachable: false, branch: null, jointsDeg: null, jointRatesDegPerS: null, rateRatios: null, localSpeedMmPerS: 0, sigmaMinScaled: null, inverseCondition: null, singularityKind: null });
+      samples.push({
+        fraction,
+        positionMm: positionMm(ctx, s),
+        reachable: false,
+        branch: null,
+        jointsDeg: null,
+        jointRatesDegPerS: null,
+        rateRatios: null,
+        localSpeedMmPerS: 0,
+        sigmaMinScaled: null,
+        inverseCondition: null,
+        singularityKind: null,
+      });
       speedProfile.push({ fraction, speedMmPerS: 0 });
       continue;
     }
     const q = Array.from(chosen.sampleQ.subarray(k * m, k * m + m), (v, i) => toOut(i, v));
     const ratesOk = chosen.samplesRatesOk[k] === 1;
-    const rates = ratesOk ? Array.from(chosen.sampleRate.subarray(k * m, k * m + m), (v, i) => toOut(i, v * speed)) : null;
+    const rates = ratesOk
+      ? Array.from(chosen.sampleRate.subarray(k * m, k * m + m), (v, i) => toOut(i, v * speed))
+      : null;
     const ratios = ratesOk
-      ? Array.from(chosen.sampleRate.subarray(k * m, k * m + m), (v, i) => (chain.maxSpeedSi[i]! > 0 ? (Math.abs(v) * speed) / chain.maxSpeedSi[i]! : null))
+      ? Array.from(chosen.sampleRate.subarray(k * m, k * m + m), (v, i) =>
+          chain.maxSpeedSi[i]! > 0 ? (Math.abs(v) * speed) / chain.maxSpeedSi[i]! : null,
+        )
       : null;
     let maxRatio = 0;
     if (ratios) for (const x of ratios) if (x !== null && x > maxRatio) maxRatio = x;
@@ -1289,13 +1446,27 @@ export function lineCheck(chain: Chain, input: LineCheckInput, options: Partial<
   if (chosen && chosen.gaps.length > 0) {
     const g = chosen.gaps[0]!;
     const s = g.fromS === 0 ? g.toS : g.fromS;
-    bottleneck = { joint: null, jointIndex: null, positionMm: positionMm(ctx, s), fraction: s / L, rateRatio: null, reason: "out of reach" };
+    bottleneck = {
+      joint: null,
+      jointIndex: null,
+      positionMm: positionMm(ctx, s),
+      fraction: s / L,
+      rateRatio: null,
+      reason: "out of reach",
+    };
   } else if (chosen && chosen.jumps > 0) {
     const e = chosen.events.find((x) => !x.continuous && !x.acrossGap)!;
     let arg = 0;
     for (let i = 1; i < m; i++) if (Math.abs(e.dq[i]!) > Math.abs(e.dq[arg]!)) arg = i;
     const sM = (e.fromS + e.toS) / 2;
-    bottleneck = { joint: names[arg]!, jointIndex: arg, positionMm: positionMm(ctx, sM), fraction: sM / L, rateRatio: null, reason: "jump" };
+    bottleneck = {
+      joint: names[arg]!,
+      jointIndex: arg,
+      positionMm: positionMm(ctx, sM),
+      fraction: sM / L,
+      rateRatio: null,
+      reason: "jump",
+    };
   } else if (chosen && chosen.anyPoint) {
     const w = chosen.worst;
     const unbounded = w.maxRatio === Infinity;
@@ -1322,13 +1493,28 @@ export function lineCheck(chain: Chain, input: LineCheckInput, options: Partial<
   }
   const branchChanges: LineBranchChange[] = chosen
     ? chosen.events.map((e) => {
-        const from = codeName(e.fromCode), to = codeName(e.toCode);
+        const from = codeName(e.fromCode),
+          to = codeName(e.toCode);
         const sM = (e.fromS + e.toS) / 2;
-        return { fraction: sM / L, positionMm: positionMm(ctx, sM), from, to, kind: changeKind(ctx, e), continuous: e.continuous, acrossGap: e.acrossGap, jointChangeDeg: Array.from(e.dq, (v, i) => toOut(i, v)) };
+        return {
+          fraction: sM / L,
+          positionMm: positionMm(ctx, sM),
+          from,
+          to,
+          kind: changeKind(ctx, e),
+          continuous: e.continuous,
+          acrossGap: e.acrossGap,
+          jointChangeDeg: Array.from(e.dq, (v, i) => toOut(i, v)),
+        };
       })
     : [];
   const outOfReach: LineOutOfReach[] = chosen
-    ? chosen.gaps.map((g) => ({ fromFraction: g.fromS / L, toFraction: g.toS / L, fromPositionMm: positionMm(ctx, g.fromS), toPositionMm: positionMm(ctx, g.toS) }))
+    ? chosen.gaps.map((g) => ({
+        fromFraction: g.fromS / L,
+        toFraction: g.toS / L,
+        fromPositionMm: positionMm(ctx, g.fromS),
+        toPositionMm: positionMm(ctx, g.toS),
+      }))
     : [{ fromFraction: 0, toFraction: 1, fromPositionMm: positionMm(ctx, 0), toPositionMm: positionMm(ctx, L) }];
   const jointLimitViolations: LineJointLimitViolation[] = chosen
     ? chosen.violations.map((v) => ({
@@ -1376,7 +1562,9 @@ function changeKind(ctx: Context, e: Event): string {
   if (bits === 1) return "shoulder";
   if (bits !== 0) return "multiple";
   // Same name, joints jumped: which joints moved by more than the jump threshold.
-  let wrist = false, axis1 = false, arm = false;
+  let wrist = false,
+    axis1 = false,
+    arm = false;
   for (let i = 0; i < ctx.m; i++) {
     if (Math.abs(e.dq[i]!) <= ctx.options.jumpRad) continue;
     if (i === ctx.roles.axis1) axis1 = true;

@@ -36,7 +36,11 @@ export interface SheetData {
    * Kind of the singularity crossed inside a square, from its four corner solutions (cells and slots in the order
    * (0,0), (1,0), (1,1), (0,1)) and the index of the corner nearest to singular (smallest |det|).
    */
-  readonly kindAt: (cells: readonly number[], slots: readonly number[], near: number) => Exclude<SingularityKind, "none">;
+  readonly kindAt: (
+    cells: readonly number[],
+    slots: readonly number[],
+    near: number,
+  ) => Exclude<SingularityKind, "none">;
 }
 
 type Pt = [number, number];
@@ -104,7 +108,8 @@ export function traceSingularityLoci(d: SheetData): SingularityLocus[] {
         for (let c = 1; c < 4; c++) {
           const cell = cellOf[c]!;
           // The solution of the same sheet nearest to corner 0 in joint space, if within maxCornerJump.
-          let found = -1, bestJump = d.maxCornerJump;
+          let found = -1,
+            bestJump = d.maxCornerJump;
           for (let k = 0; k < count[cell]!; k++) {
             if (sheet[cell * K + k] !== root) continue;
             const qk = jointsAt[cell * K + k]! * m;
@@ -123,7 +128,8 @@ export function traceSingularityLoci(d: SheetData): SingularityLocus[] {
           slotAt[c] = found;
         }
         if (!complete) continue;
-        let mask = 0, negative = 0;
+        let mask = 0,
+          negative = 0;
         for (let c = 0; c < 4; c++) {
           if (corner[c]! > 0) mask |= 1 << c;
           else if (corner[c]! < 0) negative++;
@@ -132,17 +138,26 @@ export function traceSingularityLoci(d: SheetData): SingularityLocus[] {
         // joint limit, e.g. q5 = ±180°, exactly on the grid) does not cross it.
         if (mask === 0 || mask === 15 || negative === 0) continue;
         // Edge crossings: edges 0 (00–10), 1 (10–11), 2 (11–01), 3 (01–00); corners in r/z of the grid.
-        const r0 = grid.rMinMm + ix * stepMm, z0 = grid.zMinMm + iy * stepMm;
-        const pos: Pt[] = [[r0, z0], [r0 + stepMm, z0], [r0 + stepMm, z0 + stepMm], [r0, z0 + stepMm]];
+        const r0 = grid.rMinMm + ix * stepMm,
+          z0 = grid.zMinMm + iy * stepMm;
+        const pos: Pt[] = [
+          [r0, z0],
+          [r0 + stepMm, z0],
+          [r0 + stepMm, z0 + stepMm],
+          [r0, z0 + stepMm],
+        ];
         const crossing = (e: number): Pt => {
-          const a = e, b = (e + 1) % 4;
-          const va = corner[a]!, vb = corner[b]!;
+          const a = e,
+            b = (e + 1) % 4;
+          const va = corner[a]!,
+            vb = corner[b]!;
           const t = va / (va - vb);
           return [pos[a]![0] + t * (pos[b]![0] - pos[a]![0]), pos[a]![1] + t * (pos[b]![1] - pos[a]![1])];
         };
         const edges: number[] = [];
         for (let e = 0; e < 4; e++) {
-          const a = corner[e]! > 0, b = corner[(e + 1) % 4]! > 0;
+          const a = corner[e]! > 0,
+            b = corner[(e + 1) % 4]! > 0;
           if (a !== b) edges.push(e);
         }
         const pairs: [number, number][] = [];
@@ -151,7 +166,7 @@ export function traceSingularityLoci(d: SheetData): SingularityLocus[] {
           // Saddle: decide by the centre value.
           const centre = (corner[0]! + corner[1]! + corner[2]! + corner[3]!) / 4;
           const zeroPositive = corner[0]! > 0;
-          if ((centre > 0) === zeroPositive) pairs.push([0, 1], [2, 3]);
+          if (centre > 0 === zeroPositive) pairs.push([0, 1], [2, 3]);
           else pairs.push([3, 0], [1, 2]);
         }
         // Label from the four corners (the labeller may use the one nearest to singular).

@@ -29,7 +29,13 @@
  *     (default 45°) about base y, (sin θ, 0, −cos θ). A wall mounting is the angled one at 90°.
  */
 import type { Chain } from "../kinematics/chain";
-import { createScratch, forwardInto, linkFrameInto, wristCentreInto, type KinematicsScratch } from "../kinematics/forward";
+import {
+  createScratch,
+  forwardInto,
+  linkFrameInto,
+  wristCentreInto,
+  type KinematicsScratch,
+} from "../kinematics/forward";
 import { STANDARD_GRAVITY_M_PER_S2, degToRad, mToMm, mmToM, radToDeg } from "../units";
 
 // ---------------------------------------------------------------------------------------------------------------
@@ -95,7 +101,8 @@ export interface PayloadSpec {
         readonly inertiaKgM2?: Readonly<Record<string, number>> | undefined;
       }
     | undefined;
-  readonly links?: readonly { readonly after: string; readonly massKg: number; readonly comMm: readonly number[] }[] | undefined;
+  readonly links?:
+    readonly { readonly after: string; readonly massKg: number; readonly comMm: readonly number[] }[] | undefined;
 }
 
 /** Distance (m) under which points count as on an axis, and the sine under which axes count as parallel. */
@@ -117,7 +124,10 @@ export function payloadInputOf(spec: PayloadSpec, chain: Chain): PayloadInput {
     return k;
   };
   const notes: string[] = [];
-  const names = new Set<string>([...Object.keys(spec.wrist?.momentNm ?? {}), ...Object.keys(spec.wrist?.inertiaKgM2 ?? {})]);
+  const names = new Set<string>([
+    ...Object.keys(spec.wrist?.momentNm ?? {}),
+    ...Object.keys(spec.wrist?.inertiaKgM2 ?? {}),
+  ]);
   const wrist: WristRating[] = [];
   for (const name of names) {
     const k = kinematicOf(name);
@@ -158,12 +168,16 @@ export function wristLeverOf(chain: Chain, k: number): WristLever {
   const q = homePose(chain);
   forwardInto(chain, q, s);
   const f = s.flange;
-  const zf = [f[2]!, f[6]!, f[10]!], pf = [f[3]!, f[7]!, f[11]!];
+  const zf = [f[2]!, f[6]!, f[10]!],
+    pf = [f[3]!, f[7]!, f[11]!];
   const { o, w } = axisInBase(chain, s, k);
   const pivotAt = (p: ArrayLike<number>): { d: number; e: number } => {
     const r = [p[0]! - pf[0]!, p[1]! - pf[1]!, p[2]! - pf[2]!];
     const along = dot3(r, zf);
-    return { d: toNanometre(-along), e: toNanometre(Math.hypot(r[0]! - along * zf[0]!, r[1]! - along * zf[1]!, r[2]! - along * zf[2]!)) };
+    return {
+      d: toNanometre(-along),
+      e: toNanometre(Math.hypot(r[0]! - along * zf[0]!, r[1]! - along * zf[1]!, r[2]! - along * zf[2]!)),
+    };
   };
   const parallelToFlange = norm3(cross3(w, zf)) < PARALLEL_SIN;
   const spins = flangeSpinSet(chain, s);
@@ -171,7 +185,12 @@ export function wristLeverOf(chain: Chain, k: number): WristLever {
   let onlySpinsAfter = true;
   for (let i = k + 1; i < chain.jointCount; i++) if (!spins.has(i)) onlySpinsAfter = false;
   if (parallelToFlange && onlySpinsAfter) {
-    return { kind: "roll", pivotBehindFlangeM: 0, pivotOffAxisM: toNanometre(distanceToLine(pf, o, w)), basis: "flange-axis" };
+    return {
+      kind: "roll",
+      pivotBehindFlangeM: 0,
+      pivotOffAxisM: toNanometre(distanceToLine(pf, o, w)),
+      basis: "flange-axis",
+    };
   }
   const wcp = new Float64Array(3);
   if (wristCentreInto(wcp, chain, s) && distanceToLine(wcp, o, w) < ON_AXIS_M) {
@@ -181,7 +200,12 @@ export function wristLeverOf(chain: Chain, k: number): WristLever {
   // Offset wrist: the point of the axis nearest the flange axis line (its foot on the axis when parallel).
   const p = nearestPointOnLine(o, w, pf, zf);
   const { d, e } = pivotAt(p);
-  return { kind: "bend", pivotBehindFlangeM: d, pivotOffAxisM: e, basis: onlySpinsAfter ? "bound-over-flange-roll" : "home-pose-estimate" };
+  return {
+    kind: "bend",
+    pivotBehindFlangeM: d,
+    pivotOffAxisM: e,
+    basis: onlySpinsAfter ? "bound-over-flange-roll" : "home-pose-estimate",
+  };
 }
 
 /** Lever geometry snapped to the nanometre: 1e-17 m of floating-point dust on a zero offset would otherwise read
@@ -206,20 +230,34 @@ function distanceToLine(p: ArrayLike<number>, o: readonly number[], w: readonly 
   return norm3(cross3([p[0]! - o[0]!, p[1]! - o[1]!, p[2]! - o[2]!], w));
 }
 /** Point of line (o, w) nearest to line (p, z); both directions unit. */
-function nearestPointOnLine(o: readonly number[], w: readonly number[], p: readonly number[], z: readonly number[]): number[] {
+function nearestPointOnLine(
+  o: readonly number[],
+  w: readonly number[],
+  p: readonly number[],
+  z: readonly number[],
+): number[] {
   const r = [p[0]! - o[0]!, p[1]! - o[1]!, p[2]! - o[2]!];
-  const b = dot3(w, z), denom = 1 - b * b;
+  const b = dot3(w, z),
+    denom = 1 - b * b;
   const t = denom < 1e-12 ? dot3(r, w) : (dot3(r, w) - b * dot3(r, z)) / denom;
   return [o[0]! + t * w[0]!, o[1]! + t * w[1]!, o[2]! + t * w[2]!];
 }
 
 /** Origin and unit axis (base frame) of kinematic joint k after forwardInto. */
 function axisInBase(chain: Chain, s: KinematicsScratch, k: number): { o: number[]; w: number[] } {
-  const fr = s.motionFrames, f = 16 * k, a = chain.axisLocal;
-  const ax = a[3 * k]!, ay = a[3 * k + 1]!, az = a[3 * k + 2]!;
+  const fr = s.motionFrames,
+    f = 16 * k,
+    a = chain.axisLocal;
+  const ax = a[3 * k]!,
+    ay = a[3 * k + 1]!,
+    az = a[3 * k + 2]!;
   return {
     o: [fr[f + 3]!, fr[f + 7]!, fr[f + 11]!],
-    w: [fr[f]! * ax + fr[f + 1]! * ay + fr[f + 2]! * az, fr[f + 4]! * ax + fr[f + 5]! * ay + fr[f + 6]! * az, fr[f + 8]! * ax + fr[f + 9]! * ay + fr[f + 10]! * az],
+    w: [
+      fr[f]! * ax + fr[f + 1]! * ay + fr[f + 2]! * az,
+      fr[f + 4]! * ax + fr[f + 5]! * ay + fr[f + 6]! * az,
+      fr[f + 8]! * ax + fr[f + 9]! * ay + fr[f + 10]! * az,
+    ],
   };
 }
 
@@ -230,14 +268,17 @@ function homePose(chain: Chain): Float64Array {
   return q;
 }
 function holdValue(chain: Chain, j: number): number {
-  const lo = chain.lowerSi[j]!, hi = chain.upperSi[j]!;
+  const lo = chain.lowerSi[j]!,
+    hi = chain.upperSi[j]!;
   if (0 >= lo && 0 <= hi) return 0;
   return Number.isFinite(lo) && Number.isFinite(hi) ? (lo + hi) / 2 : Number.isFinite(lo) ? lo : hi;
 }
 
 /** True when driven joint j moves kinematic joint k alone, with gain 1, and nothing else follows it. */
 function isUncoupled(chain: Chain, j: number): boolean {
-  const m = chain.drivenCount, k = chain.drivenJoint[j]!, g = chain.couplingGain;
+  const m = chain.drivenCount,
+    k = chain.drivenJoint[j]!,
+    g = chain.couplingGain;
   for (let i = 0; i < chain.jointCount; i++) if (g[i * m + j]! !== (i === k ? 1 : 0)) return false;
   for (let c = 0; c < m; c++) if (c !== j && g[k * m + c]! !== 0) return false;
   return true;
@@ -250,7 +291,9 @@ function isUncoupled(chain: Chain, j: number): boolean {
  */
 function flangeSpinSet(chain: Chain, s: KinematicsScratch): Set<number> {
   const out = new Set<number>();
-  const f = s.flange, zf = [f[2]!, f[6]!, f[10]!], pf = [f[3]!, f[7]!, f[11]!];
+  const f = s.flange,
+    zf = [f[2]!, f[6]!, f[10]!],
+    pf = [f[3]!, f[7]!, f[11]!];
   for (let k = chain.jointCount - 1; k >= 0; k--) {
     const j = chain.drivenJoint.indexOf(k);
     if (j < 0 || chain.isPrismatic[k] || !isUncoupled(chain, j)) break;
@@ -358,7 +401,9 @@ export function maxLeverM(momentNm: number, massKg: number, gravityMPerS2 = STAN
 
 /** Lever of one rating at CG offset (Lxy, Lz), m. */
 function leverM(lever: WristLever, lxyM: number, lzM: number): number {
-  return lever.kind === "roll" ? lxyM + lever.pivotOffAxisM : Math.hypot(lever.pivotBehindFlangeM + lzM, lever.pivotOffAxisM + lxyM);
+  return lever.kind === "roll"
+    ? lxyM + lever.pivotOffAxisM
+    : Math.hypot(lever.pivotBehindFlangeM + lzM, lever.pivotOffAxisM + lxyM);
 }
 
 /** Largest mass one rating allows at lever L (moment and inertia), kg; Infinity when unlimited. */
@@ -408,7 +453,8 @@ export function loadDiagram(input: PayloadInput, options: Partial<LoadDiagramOpt
   if (!(o.stepMm > 0)) throw new RangeError(`invalid stepMm: ${o.stepMm}`);
   if (!(o.curvePoints >= 2)) throw new RangeError(`invalid curvePoints: ${o.curvePoints}`);
   if (o.extentMm !== null && !(o.extentMm > 0)) throw new RangeError(`invalid extentMm: ${o.extentMm}`);
-  const g = o.gravityMPerS2, rated = input.ratedPayloadKg;
+  const g = o.gravityMPerS2,
+    rated = input.ratedPayloadKg;
   const ratings = input.wrist.filter((r) => r.momentNm > 0 || r.inertiaKgM2 > 0);
   const joints: LoadDiagramJoint[] = ratings.map((r) => ({
     joint: r.joint,
@@ -420,13 +466,24 @@ export function loadDiagram(input: PayloadInput, options: Partial<LoadDiagramOpt
     leverBasis: r.lever.basis,
   }));
   if (ratings.length === 0) {
-    return { basis: "as-rated", statement: PAYLOAD_STATEMENT, convention: LOAD_DIAGRAM_CONVENTION, ratedPayloadKg: rated, joints, wristAllowsAtZeroOffsetKg: null, curves: [], grid: null };
+    return {
+      basis: "as-rated",
+      statement: PAYLOAD_STATEMENT,
+      convention: LOAD_DIAGRAM_CONVENTION,
+      ratedPayloadKg: rated,
+      joints,
+      wristAllowsAtZeroOffsetKg: null,
+      curves: [],
+      grid: null,
+    };
   }
   const atZero = allowedAt(ratings, 0, 0, g).kg;
-  const masses = o.massesKg ?? o.massFractions.map((f) => {
-    if (!(f > 0 && f <= 1)) throw new RangeError(`invalid mass fraction: ${f}`);
-    return f * rated;
-  });
+  const masses =
+    o.massesKg ??
+    o.massFractions.map((f) => {
+      if (!(f > 0 && f <= 1)) throw new RangeError(`invalid mass fraction: ${f}`);
+      return f * rated;
+    });
 
   // Extent: how far the smallest curve reaches along either axis.
   let extentMm = o.extentMm;
@@ -465,7 +522,8 @@ export function loadDiagram(input: PayloadInput, options: Partial<LoadDiagramOpt
 
   const nCells = Math.floor(extentMm / o.stepMm + 1e-9) + 1;
   const axis = Array.from({ length: nCells }, (_, i) => i * o.stepMm);
-  const allowedKg: number[] = [], limitingIndex: number[] = [];
+  const allowedKg: number[] = [],
+    limitingIndex: number[] = [];
   for (let iz = 0; iz < nCells; iz++) {
     for (let ix = 0; ix < nCells; ix++) {
       const a = allowedAt(ratings, mmToM(axis[ix]!), mmToM(axis[iz]!), g);
@@ -485,8 +543,14 @@ export function loadDiagram(input: PayloadInput, options: Partial<LoadDiagramOpt
   };
 }
 
-function allowedAt(ratings: readonly WristRating[], lxyM: number, lzM: number, g: number): { kg: number; index: number } {
-  let kg = Infinity, index = -1;
+function allowedAt(
+  ratings: readonly WristRating[],
+  lxyM: number,
+  lzM: number,
+  g: number,
+): { kg: number; index: number } {
+  let kg = Infinity,
+    index = -1;
   ratings.forEach((r, i) => {
     const a = ratingAllowsKg(r, leverM(r.lever, lxyM, lzM), g);
     if (a < kg) {
@@ -515,19 +579,31 @@ export interface PayloadWarning {
  * @param relTolerance the rated payload may exceed the allowed mass by this fraction before a warning (rounding)
  * @example rated 12 kg, J5 moment 10 N·m, wrist centre 0.1 m behind the flange: allows 10.197 kg → one warning
  */
-export function payloadWarnings(input: PayloadInput, relTolerance = 0, gravityMPerS2 = STANDARD_GRAVITY_M_PER_S2): PayloadWarning[] {
+export function payloadWarnings(
+  input: PayloadInput,
+  relTolerance = 0,
+  gravityMPerS2 = STANDARD_GRAVITY_M_PER_S2,
+): PayloadWarning[] {
   if (!(relTolerance >= 0)) throw new RangeError(`invalid relTolerance: ${relTolerance}`);
   const out: PayloadWarning[] = [];
   const rated = input.ratedPayloadKg;
   for (const r of input.wrist) {
     const l = leverM(r.lever, 0, 0);
     if (!(l > 0)) continue;
-    const where = r.lever.kind === "roll" ? "off the axis" : r.lever.basis === "wrist-centre" ? "from the wrist centre" : "from its pivot";
+    const where =
+      r.lever.kind === "roll"
+        ? "off the axis"
+        : r.lever.basis === "wrist-centre"
+          ? "from the wrist centre"
+          : "from its pivot";
     if (r.momentNm > 0) {
       const allowedKg = r.momentNm / (gravityMPerS2 * l);
       if (rated > allowedKg * (1 + relTolerance) * (1 + 1e-12)) {
         out.push({
-          code: "rated-payload-beyond-wrist-moment", joint: r.joint, ratedPayloadKg: rated, allowedKg,
+          code: "rated-payload-beyond-wrist-moment",
+          joint: r.joint,
+          ratedPayloadKg: rated,
+          allowedKg,
           message: `rated payload ${fmt(rated)} kg exceeds the ${fmt(allowedKg)} kg that the ${r.joint} moment rating (${fmt(r.momentNm)} N·m) allows with the CG at the flange centre (lever ${fmt(mToMm(l))} mm ${where})`,
         });
       }
@@ -536,7 +612,10 @@ export function payloadWarnings(input: PayloadInput, relTolerance = 0, gravityMP
       const allowedKg = r.inertiaKgM2 / (l * l);
       if (rated > allowedKg * (1 + relTolerance) * (1 + 1e-12)) {
         out.push({
-          code: "rated-payload-beyond-wrist-inertia", joint: r.joint, ratedPayloadKg: rated, allowedKg,
+          code: "rated-payload-beyond-wrist-inertia",
+          joint: r.joint,
+          ratedPayloadKg: rated,
+          allowedKg,
           message: `rated payload ${fmt(rated)} kg exceeds the ${fmt(allowedKg)} kg that the ${r.joint} inertia rating (${fmt(r.inertiaKgM2)} kg·m²) allows as a point mass at the flange centre (lever ${fmt(mToMm(l))} mm ${where})`,
         });
       }
@@ -565,7 +644,12 @@ export function bodySetOf(links: readonly LinkMass[]): BodySet {
   const sorted = [...links].sort((a, b) => a.joint - b.joint);
   const comInLinkM = new Float64Array(3 * sorted.length);
   sorted.forEach((l, i) => comInLinkM.set(l.comInLinkM, 3 * i));
-  return { count: sorted.length, joint: Int32Array.from(sorted.map((l) => l.joint)), massKg: Float64Array.from(sorted.map((l) => l.massKg)), comInLinkM };
+  return {
+    count: sorted.length,
+    joint: Int32Array.from(sorted.map((l) => l.joint)),
+    massKg: Float64Array.from(sorted.map((l) => l.massKg)),
+    comInLinkM,
+  };
 }
 
 /** Work buffers for the holding-torque kernels: made once per analysis. */
@@ -579,12 +663,19 @@ export interface HoldingScratch {
 
 export function createHoldingScratch(chain: Chain): HoldingScratch {
   const n = chain.jointCount;
-  return { tauKin: new Float64Array(n), momentSum: new Float64Array(3 * n), massSum: new Float64Array(n), link: new Float64Array(16) };
+  return {
+    tauKin: new Float64Array(n),
+    momentSum: new Float64Array(3 * n),
+    massSum: new Float64Array(n),
+    link: new Float64Array(16),
+  };
 }
 
 /** Driven torques from kinematic ones: τ_driven = Gᵀ·τ_kin (virtual work through the coupling). */
 function drivenFromKinematicInto(out: Float64Array, chain: Chain, tauKin: Float64Array): Float64Array {
-  const n = chain.jointCount, m = chain.drivenCount, g = chain.couplingGain;
+  const n = chain.jointCount,
+    m = chain.drivenCount,
+    g = chain.couplingGain;
   for (let j = 0; j < m; j++) {
     let v = 0;
     for (let i = 0; i < n; i++) {
@@ -605,14 +696,26 @@ function drivenFromKinematicInto(out: Float64Array, chain: Chain, tauKin: Float6
  * @see Craig, Introduction to Robotics, 3rd ed., ch. 5 (static forces: τ = Jᵀ F); Spong et al., ch. 4
  * @example planar 2R with horizontal axes, a 10 kg mass at the tip (0.5, 0.3) m, q = 0, floor: (78.4532, 29.41995)
  */
-export function holdingTorqueInto(out: Float64Array, chain: Chain, s: KinematicsScratch, bodies: BodySet, gravityInBaseMPerS2: ArrayLike<number>, h: HoldingScratch): Float64Array {
-  const n = chain.jointCount, ms = h.momentSum, mass = h.massSum;
+export function holdingTorqueInto(
+  out: Float64Array,
+  chain: Chain,
+  s: KinematicsScratch,
+  bodies: BodySet,
+  gravityInBaseMPerS2: ArrayLike<number>,
+  h: HoldingScratch,
+): Float64Array {
+  const n = chain.jointCount,
+    ms = h.momentSum,
+    mass = h.massSum;
   ms.fill(0);
   mass.fill(0);
   for (let b = 0; b < bodies.count; b++) {
-    const k = bodies.joint[b]!, mb = bodies.massKg[b]!;
+    const k = bodies.joint[b]!,
+      mb = bodies.massKg[b]!;
     const t = linkFrameInto(h.link, chain, s, k);
-    const cx = bodies.comInLinkM[3 * b]!, cy = bodies.comInLinkM[3 * b + 1]!, cz = bodies.comInLinkM[3 * b + 2]!;
+    const cx = bodies.comInLinkM[3 * b]!,
+      cy = bodies.comInLinkM[3 * b + 1]!,
+      cz = bodies.comInLinkM[3 * b + 2]!;
     ms[3 * k] = ms[3 * k]! + mb * (t[0]! * cx + t[1]! * cy + t[2]! * cz + t[3]!);
     ms[3 * k + 1] = ms[3 * k + 1]! + mb * (t[4]! * cx + t[5]! * cy + t[6]! * cz + t[7]!);
     ms[3 * k + 2] = ms[3 * k + 2]! + mb * (t[8]! * cx + t[9]! * cy + t[10]! * cz + t[11]!);
@@ -626,11 +729,16 @@ export function holdingTorqueInto(out: Float64Array, chain: Chain, s: Kinematics
     mass[i] = mass[i]! + mass[i + 1]!;
   }
   // Support force per kg: −g_vec.
-  const fx = -gravityInBaseMPerS2[0]!, fy = -gravityInBaseMPerS2[1]!, fz = -gravityInBaseMPerS2[2]!;
-  const fr = s.motionFrames, ax = chain.axisLocal;
+  const fx = -gravityInBaseMPerS2[0]!,
+    fy = -gravityInBaseMPerS2[1]!,
+    fz = -gravityInBaseMPerS2[2]!;
+  const fr = s.motionFrames,
+    ax = chain.axisLocal;
   for (let i = 0; i < n; i++) {
     const f = 16 * i;
-    const a0 = ax[3 * i]!, a1 = ax[3 * i + 1]!, a2 = ax[3 * i + 2]!;
+    const a0 = ax[3 * i]!,
+      a1 = ax[3 * i + 1]!,
+      a2 = ax[3 * i + 2]!;
     const zx = fr[f]! * a0 + fr[f + 1]! * a1 + fr[f + 2]! * a2;
     const zy = fr[f + 4]! * a0 + fr[f + 5]! * a1 + fr[f + 6]! * a2;
     const zz = fr[f + 8]! * a0 + fr[f + 9]! * a1 + fr[f + 10]! * a2;
@@ -639,7 +747,9 @@ export function holdingTorqueInto(out: Float64Array, chain: Chain, s: Kinematics
       h.tauKin[i] = M * (zx * fx + zy * fy + zz * fz);
     } else {
       // Σ (p_b − o_i) × m_b f = (Σ m_b p_b − M o_i) × f
-      const rx = ms[3 * i]! - M * fr[f + 3]!, ry = ms[3 * i + 1]! - M * fr[f + 7]!, rz = ms[3 * i + 2]! - M * fr[f + 11]!;
+      const rx = ms[3 * i]! - M * fr[f + 3]!,
+        ry = ms[3 * i + 1]! - M * fr[f + 7]!,
+        rz = ms[3 * i + 2]! - M * fr[f + 11]!;
       h.tauKin[i] = zx * (ry * fz - rz * fy) + zy * (rz * fx - rx * fz) + zz * (rx * fy - ry * fx);
     }
   }
@@ -651,19 +761,37 @@ export function holdingTorqueInto(out: Float64Array, chain: Chain, s: Kinematics
  * after forwardInto: τ = Jᵀ·(−m·g_vec), J the Jacobian of p with respect to the driven joints. Allocates nothing.
  * @example 2R in a vertical plane (a = 0.5, 0.3 m), 10 kg at the tip, q = (30°, 45°): (50.0784835, 7.6144434) N·m
  */
-export function pointHoldingTorqueInto(out: Float64Array, chain: Chain, s: KinematicsScratch, px: number, py: number, pz: number, massKg: number, gravityInBaseMPerS2: ArrayLike<number>, h: HoldingScratch): Float64Array {
-  const n = chain.jointCount, fr = s.motionFrames, ax = chain.axisLocal;
-  const fx = -massKg * gravityInBaseMPerS2[0]!, fy = -massKg * gravityInBaseMPerS2[1]!, fz = -massKg * gravityInBaseMPerS2[2]!;
+export function pointHoldingTorqueInto(
+  out: Float64Array,
+  chain: Chain,
+  s: KinematicsScratch,
+  px: number,
+  py: number,
+  pz: number,
+  massKg: number,
+  gravityInBaseMPerS2: ArrayLike<number>,
+  h: HoldingScratch,
+): Float64Array {
+  const n = chain.jointCount,
+    fr = s.motionFrames,
+    ax = chain.axisLocal;
+  const fx = -massKg * gravityInBaseMPerS2[0]!,
+    fy = -massKg * gravityInBaseMPerS2[1]!,
+    fz = -massKg * gravityInBaseMPerS2[2]!;
   for (let i = 0; i < n; i++) {
     const f = 16 * i;
-    const a0 = ax[3 * i]!, a1 = ax[3 * i + 1]!, a2 = ax[3 * i + 2]!;
+    const a0 = ax[3 * i]!,
+      a1 = ax[3 * i + 1]!,
+      a2 = ax[3 * i + 2]!;
     const zx = fr[f]! * a0 + fr[f + 1]! * a1 + fr[f + 2]! * a2;
     const zy = fr[f + 4]! * a0 + fr[f + 5]! * a1 + fr[f + 6]! * a2;
     const zz = fr[f + 8]! * a0 + fr[f + 9]! * a1 + fr[f + 10]! * a2;
     if (chain.isPrismatic[i]) {
       h.tauKin[i] = zx * fx + zy * fy + zz * fz;
     } else {
-      const rx = px - fr[f + 3]!, ry = py - fr[f + 7]!, rz = pz - fr[f + 11]!;
+      const rx = px - fr[f + 3]!,
+        ry = py - fr[f + 7]!,
+        rz = pz - fr[f + 11]!;
       h.tauKin[i] = zx * (ry * fz - rz * fy) + zy * (rz * fx - rx * fz) + zz * (rx * fy - ry * fx);
     }
   }
@@ -674,9 +802,21 @@ export function pointHoldingTorqueInto(out: Float64Array, chain: Chain, s: Kinem
  * Gravity vector in the base frame for a mounting, m/s² (see the module notes for the conventions).
  * @example gravityInBase("ceiling") // [0, 0, 9.80665]
  */
-export function gravityInBase(mounting: Mounting, angledTiltDeg = 45, gravityMPerS2 = STANDARD_GRAVITY_M_PER_S2): [number, number, number] {
-  const tilt = mounting === "floor" ? 0 : mounting === "ceiling" ? Math.PI : mounting === "wall" ? Math.PI / 2 : degToRad(angledTiltDeg);
-  const x = Math.sin(tilt), z = -Math.cos(tilt);
+export function gravityInBase(
+  mounting: Mounting,
+  angledTiltDeg = 45,
+  gravityMPerS2 = STANDARD_GRAVITY_M_PER_S2,
+): [number, number, number] {
+  const tilt =
+    mounting === "floor"
+      ? 0
+      : mounting === "ceiling"
+        ? Math.PI
+        : mounting === "wall"
+          ? Math.PI / 2
+          : degToRad(angledTiltDeg);
+  const x = Math.sin(tilt),
+    z = -Math.cos(tilt);
   // Exact zeros where the tilt is a multiple of 90° (cos(π/2) is 6e-17 in floating point).
   const clean = (v: number) => (Math.abs(v) < 1e-15 ? 0 : v);
   return [clean(x) * gravityMPerS2, 0, clean(z) * gravityMPerS2];
@@ -803,7 +943,8 @@ function chainFacts(chain: Chain): ChainFacts {
   const home = homePose(chain);
   forwardInto(chain, home, s);
   const f = s.flange;
-  const zHome = [f[2]!, f[6]!, f[10]!], pHome = [f[3]!, f[7]!, f[11]!];
+  const zHome = [f[2]!, f[6]!, f[10]!],
+    pHome = [f[3]!, f[7]!, f[11]!];
   const spins = flangeSpinSet(chain, s);
   // Does the flange axis ever turn? Check three spread postures within the limits.
   let fixed = true;
@@ -811,7 +952,7 @@ function chainFacts(chain: Chain): ChainFacts {
   for (const frac of [0.17, 0.61, 0.83]) {
     for (let j = 0; j < m; j++) {
       const [lo, hi] = searchRange(chain, j);
-      q[j] = lo + frac * (hi - lo) + 0.1 * j * (hi - lo) / m;
+      q[j] = lo + frac * (hi - lo) + (0.1 * j * (hi - lo)) / m;
     }
     forwardInto(chain, q, s);
     if (Math.hypot(s.flange[2]! - zHome[0]!, s.flange[6]! - zHome[1]!, s.flange[10]! - zHome[2]!) > 1e-9) fixed = false;
@@ -871,12 +1012,17 @@ function planFor(chain: Chain, facts: ChainFacts, gDir: readonly number[]): Sear
   const s = createScratch(chain);
   forwardInto(chain, homePose(chain), s);
   const held: SearchPlan["held"] = [];
-  const mode: SearchPlan["mode"] = facts.structureFixedAxis ? "fixed-by-structure" : facts.orientingCandidates.length > 0 ? "along-gravity" : "follows-posture";
+  const mode: SearchPlan["mode"] = facts.structureFixedAxis
+    ? "fixed-by-structure"
+    : facts.orientingCandidates.length > 0
+      ? "along-gravity"
+      : "follows-posture";
   const orienting = mode === "along-gravity" ? [...facts.orientingCandidates] : [];
   // Positioning joints: neither the flange spin nor orienting.
   const positioning: number[] = [];
   for (let j = 0; j < m; j++) {
-    if (facts.spins.has(chain.drivenJoint[j]!)) held.push({ j, value: holdValue(chain, j), reason: "turns the tool about its own axis" });
+    if (facts.spins.has(chain.drivenJoint[j]!))
+      held.push({ j, value: holdValue(chain, j), reason: "turns the tool about its own axis" });
     else if (!orienting.includes(j)) positioning.push(j);
   }
   // Redundant arms (more than three positioning joints, e.g. a 7-axis arm): the middle ones are held at zero in every
@@ -895,24 +1041,39 @@ function planFor(chain: Chain, facts: ChainFacts, gDir: readonly number[]): Sear
       const gravityVertical = Math.abs(gDir[2]!) > 1 - 1e-12;
       // A joint that rotates the whole arm about the vertical base z axis changes neither reach nor torques.
       if (k === 0 && !chain.isPrismatic[k] && alongGravity && gravityVertical && Math.hypot(o[0]!, o[1]!) < ON_AXIS_M) {
-        held.push({ j, value: holdValue(chain, j), reason: "turns the arm about the vertical axis 1: no change in reach or holding torque" });
+        held.push({
+          j,
+          value: holdValue(chain, j),
+          reason: "turns the arm about the vertical axis 1: no change in reach or holding torque",
+        });
         continue;
       }
       // A slide along a vertical gravity line shifts the load along its own line of action.
       if (chain.isPrismatic[k] && alongGravity && gravityVertical && prismaticStaysAlong(chain, j, gDir)) {
-        held.push({ j, value: holdValue(chain, j), reason: "slides along gravity: no change in reach or holding torque" });
+        held.push({
+          j,
+          value: holdValue(chain, j),
+          reason: "slides along gravity: no change in reach or holding torque",
+        });
         continue;
       }
     }
     searched.push(j);
   }
   held.sort((a, b) => a.j - b.j);
-  return { searched, orienting, held, mode, wcpFlangeDistanceM: mode === "along-gravity" ? facts.wcpFlangeDistanceM : null };
+  return {
+    searched,
+    orienting,
+    held,
+    mode,
+    wcpFlangeDistanceM: mode === "along-gravity" ? facts.wcpFlangeDistanceM : null,
+  };
 }
 
 /** The slide's axis stays parallel to gravity at three spread postures. */
 function prismaticStaysAlong(chain: Chain, j: number, gDir: readonly number[]): boolean {
-  const s = createScratch(chain), q = new Float64Array(chain.drivenCount);
+  const s = createScratch(chain),
+    q = new Float64Array(chain.drivenCount);
   for (const frac of [0.2, 0.5, 0.9]) {
     for (let c = 0; c < chain.drivenCount; c++) {
       const [lo, hi] = searchRange(chain, c);
@@ -934,7 +1095,11 @@ class Search {
   readonly ata = new Float64Array(9);
   readonly atb = new Float64Array(3);
   readonly cols: Float64Array;
-  constructor(readonly chain: Chain, readonly plan: SearchPlan, readonly tool: readonly number[]) {
+  constructor(
+    readonly chain: Chain,
+    readonly plan: SearchPlan,
+    readonly tool: readonly number[],
+  ) {
     this.s = createScratch(chain);
     this.h = createHoldingScratch(chain);
     this.q = new Float64Array(chain.drivenCount);
@@ -956,33 +1121,56 @@ class Search {
     }
     if (this.gaussNewton() && this.wrapIntoLimits()) return true;
     // The other branch of a two-axis wrist: first axis turned by π, second mirrored.
-    const a = w[0]!, b = w[1];
+    const a = w[0]!,
+      b = w[1];
     this.q[a] = this.q[a]! + Math.PI;
     if (b !== undefined) this.q[b] = -this.q[b]!;
     return this.gaussNewton() && this.wrapIntoLimits();
   }
 
   private gaussNewton(): boolean {
-    const chain = this.chain, s = this.s, q = this.q, w = this.plan.orienting, nw = w.length;
-    const tx = this.tool[0]!, ty = this.tool[1]!, tz = this.tool[2]!;
-    const n = chain.jointCount, m = chain.drivenCount, g = chain.couplingGain, fr = s.motionFrames, ax = chain.axisLocal;
-    const cols = this.cols, A = this.ata, B = this.atb;
+    const chain = this.chain,
+      s = this.s,
+      q = this.q,
+      w = this.plan.orienting,
+      nw = w.length;
+    const tx = this.tool[0]!,
+      ty = this.tool[1]!,
+      tz = this.tool[2]!;
+    const n = chain.jointCount,
+      m = chain.drivenCount,
+      g = chain.couplingGain,
+      fr = s.motionFrames,
+      ax = chain.axisLocal;
+    const cols = this.cols,
+      A = this.ata,
+      B = this.atb;
     for (let iter = 0; iter < 40; iter++) {
       forwardInto(chain, q, s);
-      const zx = s.flange[2]!, zy = s.flange[6]!, zz = s.flange[10]!;
+      const zx = s.flange[2]!,
+        zy = s.flange[6]!,
+        zz = s.flange[10]!;
       // Rotation vector e that carries z onto t: angle · (z × t)/|z × t|.
-      let cx = zy * tz - zz * ty, cy = zz * tx - zx * tz, cz = zx * ty - zy * tx;
-      const sinA = Math.hypot(cx, cy, cz), cosA = zx * tx + zy * ty + zz * tz;
+      let cx = zy * tz - zz * ty,
+        cy = zz * tx - zx * tz,
+        cz = zx * ty - zy * tx;
+      const sinA = Math.hypot(cx, cy, cz),
+        cosA = zx * tx + zy * ty + zz * tz;
       const angle = Math.atan2(sinA, cosA);
       if (angle < 1e-11) return true;
       // Columns: the driven orienting joints' angular velocity, projected across the flange axis.
       for (let c = 0; c < nw; c++) {
         const j = w[c]!;
-        let ox = 0, oy = 0, oz = 0;
+        let ox = 0,
+          oy = 0,
+          oz = 0;
         for (let i = 0; i < n; i++) {
           const gij = g[i * m + j]!;
           if (gij === 0 || chain.isPrismatic[i]) continue;
-          const f = 16 * i, a0 = ax[3 * i]!, a1 = ax[3 * i + 1]!, a2 = ax[3 * i + 2]!;
+          const f = 16 * i,
+            a0 = ax[3 * i]!,
+            a1 = ax[3 * i + 1]!,
+            a2 = ax[3 * i + 2]!;
           ox += gij * (fr[f]! * a0 + fr[f + 1]! * a1 + fr[f + 2]! * a2);
           oy += gij * (fr[f + 4]! * a0 + fr[f + 5]! * a1 + fr[f + 6]! * a2);
           oz += gij * (fr[f + 8]! * a0 + fr[f + 9]! * a1 + fr[f + 10]! * a2);
@@ -994,7 +1182,8 @@ class Search {
       }
       if (sinA < 1e-12) {
         // Antipodal: any axis across z works; take the best-placed column's direction.
-        let best = 0, bn = -1;
+        let best = 0,
+          bn = -1;
         for (let c = 0; c < nw; c++) {
           const nn = Math.hypot(cols[3 * c]!, cols[3 * c + 1]!, cols[3 * c + 2]!);
           if (nn > bn) {
@@ -1011,11 +1200,18 @@ class Search {
         cy /= sinA;
         cz /= sinA;
       }
-      const ex = angle * cx, ey = angle * cy, ez = angle * cz;
+      const ex = angle * cx,
+        ey = angle * cy,
+        ez = angle * cz;
       // Normal equations (AᵀA + λI) δ = Aᵀ e, at most 3 × 3.
       for (let r = 0; r < nw; r++) {
         B[r] = cols[3 * r]! * ex + cols[3 * r + 1]! * ey + cols[3 * r + 2]! * ez;
-        for (let c = 0; c < nw; c++) A[r * 3 + c] = cols[3 * r]! * cols[3 * c]! + cols[3 * r + 1]! * cols[3 * c + 1]! + cols[3 * r + 2]! * cols[3 * c + 2]! + (r === c ? 1e-9 : 0);
+        for (let c = 0; c < nw; c++)
+          A[r * 3 + c] =
+            cols[3 * r]! * cols[3 * c]! +
+            cols[3 * r + 1]! * cols[3 * c + 1]! +
+            cols[3 * r + 2]! * cols[3 * c + 2]! +
+            (r === c ? 1e-9 : 0);
       }
       if (!solveSmallInPlace(A, B, nw)) return false;
       let big = 0;
@@ -1030,9 +1226,11 @@ class Search {
   }
 
   private wrapIntoLimits(): boolean {
-    const chain = this.chain, q = this.q;
+    const chain = this.chain,
+      q = this.q;
     for (const j of this.plan.orienting) {
-      const lo = chain.lowerSi[j]!, hi = chain.upperSi[j]!;
+      const lo = chain.lowerSi[j]!,
+        hi = chain.upperSi[j]!;
       let v = q[j]!;
       if (!Number.isFinite(lo) && !Number.isFinite(hi)) {
         q[j] = Math.atan2(Math.sin(v), Math.cos(v));
@@ -1123,10 +1321,15 @@ function solveSmallInPlace(A: Float64Array, B: Float64Array, n: number): boolean
  * @example single horizontal axis, massless link of 0.5 m, 49.0332 N·m rated, 20 kg rated payload: at 0.5 m reach
  *   payloadKg = 49.0332 / (9.80665 · 0.5) = 10 kg
  */
-export function payloadAtReach(chain: Chain, input: PayloadInput, options: Partial<PayloadAtReachOptions> = {}): PayloadAtReach {
+export function payloadAtReach(
+  chain: Chain,
+  input: PayloadInput,
+  options: Partial<PayloadAtReachOptions> = {},
+): PayloadAtReach {
   const o = { ...DEFAULT_PAYLOAD_AT_REACH, ...options };
   if (!(o.reachStepMm > 0)) throw new RangeError(`invalid reachStepMm: ${o.reachStepMm}`);
-  if (!(o.searchNodesByDims.length >= 2 && o.searchNodesByDims.every((v) => v >= 1))) throw new RangeError(`invalid searchNodesByDims: ${o.searchNodesByDims.join(",")}`);
+  if (!(o.searchNodesByDims.length >= 2 && o.searchNodesByDims.every((v) => v >= 1)))
+    throw new RangeError(`invalid searchNodesByDims: ${o.searchNodesByDims.join(",")}`);
   if (!(o.reachToleranceMm > 0)) throw new RangeError(`invalid reachToleranceMm: ${o.reachToleranceMm}`);
   if (!(o.gravityMPerS2 > 0)) throw new RangeError(`invalid gravityMPerS2: ${o.gravityMPerS2}`);
   for (const off of o.offsetsMm) if (!Number.isFinite(off)) throw new RangeError(`invalid offsetMm: ${off}`);
@@ -1237,16 +1440,25 @@ class MountingSearch {
   private readonly qStar: Float64Array;
   private readonly lastWrist: Float64Array;
 
-  constructor(private readonly ctx: SearchContext, private readonly mounting: Mounting) {
-    const chain = (this.chain = ctx.chain), o = ctx.o, m = chain.drivenCount;
+  constructor(
+    private readonly ctx: SearchContext,
+    private readonly mounting: Mounting,
+  ) {
+    const chain = (this.chain = ctx.chain),
+      o = ctx.o,
+      m = chain.drivenCount;
     this.gVec = gravityInBase(mounting, o.angledTiltDeg, o.gravityMPerS2);
     const gNorm = norm3(this.gVec);
     this.gDir = [this.gVec[0] / gNorm, this.gVec[1] / gNorm, this.gVec[2] / gNorm];
     this.plan = planFor(chain, ctx.facts, this.gDir);
     const tool = this.plan.mode === "fixed-by-structure" ? ctx.facts.structureFixedAxis! : this.gDir;
     this.search = new Search(chain, this.plan, tool);
-    if (this.plan.mode === "fixed-by-structure" && dot3(tool, this.gDir) < 1 - 1e-9) this.notes.push("the flange axis is fixed by the arm's structure and does not point along gravity in this mounting");
-    if (this.plan.mode === "follows-posture") this.notes.push("the arm has no wrist joints to orient the tool: the flange axis follows the posture");
+    if (this.plan.mode === "fixed-by-structure" && dot3(tool, this.gDir) < 1 - 1e-9)
+      this.notes.push(
+        "the flange axis is fixed by the arm's structure and does not point along gravity in this mounting",
+      );
+    if (this.plan.mode === "follows-posture")
+      this.notes.push("the arm has no wrist joints to orient the tool: the flange axis follows the posture");
 
     // Grid: nodes spread by range (prismatic ranges counted per characteristic length).
     const D = (this.D = this.plan.searched.length);
@@ -1255,7 +1467,10 @@ class MountingSearch {
       this.lo.push(a);
       this.hi.push(b);
       this.periodic.push(!chain.isPrismatic[chain.drivenJoint[j]!] && b - a >= 2 * Math.PI - 1e-12);
-      return Math.max((b - a) / (chain.isPrismatic[chain.drivenJoint[j]!] ? Math.max(chain.characteristicLengthM, 1e-3) : 1), 1e-9);
+      return Math.max(
+        (b - a) / (chain.isPrismatic[chain.drivenJoint[j]!] ? Math.max(chain.characteristicLengthM, 1e-3) : 1),
+        1e-9,
+      );
     });
     const budget = o.searchNodesByDims[Math.min(D, o.searchNodesByDims.length - 1)]!;
     const k = D > 0 ? Math.pow(budget / weights.reduce((p, w) => p * w, 1), 1 / D) : 0;
@@ -1294,7 +1509,8 @@ class MountingSearch {
     this.kFirst = Math.ceil(this.minReach / this.stepM - 1e-9);
     this.nRows = Math.max(0, Math.floor(this.maxReach / this.stepM + 1e-9) - this.kFirst + 1);
     if (!this.ctx.anyRating) return;
-    const slots = this.nRows * this.nOff, m = this.chain.drivenCount;
+    const slots = this.nRows * this.nOff,
+      m = this.chain.drivenCount;
     this.best = new Float64Array(slots).fill(Infinity);
     this.bestLimit = new Int32Array(slots).fill(-2);
     this.bestOwn = new Uint8Array(slots);
@@ -1332,7 +1548,10 @@ class MountingSearch {
   /** Reach at every node (NaN where the tool cannot point along gravity within the limits); with `screen`, also the
    * allowed payload at every node. */
   private sweepNodes(screen: boolean): void {
-    const chain = this.chain, q = this.search.q, nw = this.nw, plan = this.plan;
+    const chain = this.chain,
+      q = this.search.q,
+      nw = this.nw,
+      plan = this.plan;
     for (let j = 0; j < chain.drivenCount; j++) q[j] = holdValue(chain, j);
     for (const hj of plan.held) q[hj.j] = hj.value;
     this.nodeReach = new Float64Array(this.total);
@@ -1368,18 +1587,37 @@ class MountingSearch {
 
   /** Uncapped allowed payload per offset at the solved posture in the scratch (lastAllowed, lastLimit, lastOwn). */
   private evaluate(): void {
-    const chain = this.chain, s = this.search.s, m = chain.drivenCount, tauL = this.search.tauLinks, u = this.search.tauUnit;
+    const chain = this.chain,
+      s = this.search.s,
+      m = chain.drivenCount,
+      tauL = this.search.tauLinks,
+      u = this.search.tauUnit;
     holdingTorqueInto(tauL, chain, s, this.ctx.bodies, this.gVec, this.search.h);
-    const zx = s.flange[2]!, zy = s.flange[6]!, zz = s.flange[10]!;
+    const zx = s.flange[2]!,
+      zy = s.flange[6]!,
+      zz = s.flange[10]!;
     for (let oi = 0; oi < this.nOff; oi++) {
       const off = this.offsetsM[oi]!;
-      pointHoldingTorqueInto(u, chain, s, s.flange[3]! + off * zx, s.flange[7]! + off * zy, s.flange[11]! + off * zz, 1, this.gVec, this.search.h);
+      pointHoldingTorqueInto(
+        u,
+        chain,
+        s,
+        s.flange[3]! + off * zx,
+        s.flange[7]! + off * zy,
+        s.flange[11]! + off * zz,
+        1,
+        this.gVec,
+        this.search.h,
+      );
       for (let j = 0; j < m; j++) if (Math.abs(u[j]!) > this.maxUnit[j]!) this.maxUnit[j] = Math.abs(u[j]!);
-      let allowed = Infinity, limit = -1, own = 0;
+      let allowed = Infinity,
+        limit = -1,
+        own = 0;
       for (let j = 0; j < m; j++) {
         const T = chain.ratedEffortSi[j]!;
         if (!(T > 0)) continue;
-        const a = tauL[j]!, uj = u[j]!;
+        const a = tauL[j]!,
+          uj = u[j]!;
         if (Math.abs(a) > T) {
           // The arm cannot hold its own weight here.
           allowed = 0;
@@ -1406,7 +1644,8 @@ class MountingSearch {
   private record(row: number, dim: number): void {
     const m = this.chain.drivenCount;
     for (let oi = 0; oi < this.nOff; oi++) {
-      const slot = row * this.nOff + oi, allowed = this.lastAllowed[oi]!;
+      const slot = row * this.nOff + oi,
+        allowed = this.lastAllowed[oi]!;
       if (allowed < this.best[slot]! || this.bestLimit[slot] === -2) {
         this.best[slot] = allowed;
         this.bestLimit[slot] = this.lastLimit[oi]!;
@@ -1414,7 +1653,9 @@ class MountingSearch {
         this.bestQ.set(this.search.q, slot * m);
         for (let d = 0; d < this.D; d++) {
           if (!this.periodic[d]) continue;
-          const at = slot * m + this.plan.searched[d]!, v = this.bestQ[at]!, lo = this.lo[d]!;
+          const at = slot * m + this.plan.searched[d]!,
+            v = this.bestQ[at]!,
+            lo = this.lo[d]!;
           this.bestQ[at] = v - 2 * Math.PI * Math.floor((v - lo) / (2 * Math.PI));
         }
         this.bestHeight[slot] = this.search.s.flange[11]!;
@@ -1434,7 +1675,10 @@ class MountingSearch {
 
   /** One or two searched joints: every grid edge that crosses a row's reach gives a posture on it. */
   private edgeCrossings(): void {
-    const D = this.D, stepM = this.stepM, tolM = mmToM(this.ctx.o.reachToleranceMm), kLast = this.kFirst + this.nRows - 1;
+    const D = this.D,
+      stepM = this.stepM,
+      tolM = mmToM(this.ctx.o.reachToleranceMm),
+      kLast = this.kFirst + this.nRows - 1;
     const idxA = new Int32Array(D);
     for (let node = 0; node < this.total; node++) {
       const ra = this.nodeReach[node]!;
@@ -1443,7 +1687,8 @@ class MountingSearch {
       idxA.set(this.idx);
       for (let d = 0; d < D; d++) {
         if (idxA[d]! + 1 >= this.count[d]!) continue;
-        const nb = node + this.strides[d]!, rb = this.nodeReach[nb]!;
+        const nb = node + this.strides[d]!,
+          rb = this.nodeReach[nb]!;
         if (rb !== rb) continue;
         const k0 = Math.max(this.kFirst, Math.ceil(Math.min(ra, rb) / stepM - 1e-12));
         const k1 = Math.min(kLast, Math.floor(Math.max(ra, rb) / stepM + 1e-12));
@@ -1452,7 +1697,20 @@ class MountingSearch {
         this.nodePosture(this.qb, nb);
         for (let kk = k0; kk <= k1; kk++) {
           const target = kk * stepM;
-          if (!crossing(this.search, this.qa, this.qb, ra - target, rb - target, target, tolM, this.nw, this.plan.orienting)) continue;
+          if (
+            !crossing(
+              this.search,
+              this.qa,
+              this.qb,
+              ra - target,
+              rb - target,
+              target,
+              tolM,
+              this.nw,
+              this.plan.orienting,
+            )
+          )
+            continue;
           if (!this.finishCrossing(this.lastWrist)) continue;
           this.evaluate();
           this.record(kk - this.kFirst, d);
@@ -1467,23 +1725,32 @@ class MountingSearch {
    * solved exactly (Illinois) and evaluated.
    */
   private seededCrossings(): void {
-    const nOff = this.nOff, slots = this.nRows * nOff, K = SEEDS_PER_ROW, D = this.D, stepM = this.stepM;
-    const tolM = mmToM(this.ctx.o.reachToleranceMm), kLast = this.kFirst + this.nRows - 1;
-    const seedEdge = new Int32Array(slots * K).fill(-1), seedVal = new Float64Array(slots * K).fill(Infinity);
+    const nOff = this.nOff,
+      slots = this.nRows * nOff,
+      K = SEEDS_PER_ROW,
+      D = this.D,
+      stepM = this.stepM;
+    const tolM = mmToM(this.ctx.o.reachToleranceMm),
+      kLast = this.kFirst + this.nRows - 1;
+    const seedEdge = new Int32Array(slots * K).fill(-1),
+      seedVal = new Float64Array(slots * K).fill(Infinity);
     for (let node = 0; node < this.total; node++) {
       const ra = this.nodeReach[node]!;
       if (ra !== ra) continue;
       this.setNode(node);
       for (let d = 0; d < D; d++) {
         if (this.idx[d]! + 1 >= this.count[d]!) continue;
-        const nb = node + this.strides[d]!, rb = this.nodeReach[nb]!;
+        const nb = node + this.strides[d]!,
+          rb = this.nodeReach[nb]!;
         if (rb !== rb || ra === rb) continue;
         const k0 = Math.max(this.kFirst, Math.ceil(Math.min(ra, rb) / stepM - 1e-12));
         const k1 = Math.min(kLast, Math.floor(Math.max(ra, rb) / stepM + 1e-12));
         for (let kk = k0; kk <= k1; kk++) {
-          const t = (kk * stepM - ra) / (rb - ra), row = kk - this.kFirst;
+          const t = (kk * stepM - ra) / (rb - ra),
+            row = kk - this.kFirst;
           for (let oi = 0; oi < nOff; oi++) {
-            const va = this.nodeAllowed[node * nOff + oi]!, vb = this.nodeAllowed[nb * nOff + oi]!;
+            const va = this.nodeAllowed[node * nOff + oi]!,
+              vb = this.nodeAllowed[nb * nOff + oi]!;
             const v = Number.isFinite(va) && Number.isFinite(vb) ? va + t * (vb - va) : Math.min(va, vb);
             const base = (row * nOff + oi) * K;
             if (!(v < seedVal[base + K - 1]!)) continue;
@@ -1501,7 +1768,8 @@ class MountingSearch {
     }
     const wrist = new Float64Array(Math.max(1, this.nw));
     for (let slot = 0; slot < slots; slot++) {
-      const row = Math.floor(slot / nOff), target = (this.kFirst + row) * stepM;
+      const row = Math.floor(slot / nOff),
+        target = (this.kFirst + row) * stepM;
       for (let sd = 0; sd < K; sd++) {
         const edge = seedEdge[slot * K + sd]!;
         if (edge < 0) continue;
@@ -1511,11 +1779,26 @@ class MountingSearch {
           for (let t = 0; t < K; t++) if (seedEdge[other * K + t] === edge) seen = true;
         }
         if (seen) continue;
-        const node = Math.floor(edge / D), d = edge % D, nb = node + this.strides[d]!;
+        const node = Math.floor(edge / D),
+          d = edge % D,
+          nb = node + this.strides[d]!;
         this.nodePosture(this.qa, node);
         this.nodePosture(this.qb, nb);
         for (let c = 0; c < this.nw; c++) wrist[c] = this.nodeWrist[node * this.nw + c]!;
-        if (!crossing(this.search, this.qa, this.qb, this.nodeReach[node]! - target, this.nodeReach[nb]! - target, target, tolM, this.nw, this.plan.orienting)) continue;
+        if (
+          !crossing(
+            this.search,
+            this.qa,
+            this.qb,
+            this.nodeReach[node]! - target,
+            this.nodeReach[nb]! - target,
+            target,
+            tolM,
+            this.nw,
+            this.plan.orienting,
+          )
+        )
+          continue;
         if (!this.finishCrossing(wrist)) continue;
         this.evaluate();
         this.record(row, d);
@@ -1530,10 +1813,12 @@ class MountingSearch {
    */
   private continueAcrossRows(): void {
     if (this.D < 2) return;
-    const m = this.chain.drivenCount, nOff = this.nOff;
+    const m = this.chain.drivenCount,
+      nOff = this.nOff;
     for (const dir of [1, -1]) {
       for (let k = 0; k < this.nRows - 1; k++) {
-        const from = dir > 0 ? k : this.nRows - 1 - k, to = from + dir;
+        const from = dir > 0 ? k : this.nRows - 1 - k,
+          to = from + dir;
         for (let oi = 0; oi < nOff; oi++) {
           const src = from * nOff + oi;
           if (this.bestLimit[src] === -2 || !Number.isFinite(this.best[src]!)) continue;
@@ -1549,9 +1834,14 @@ class MountingSearch {
    * evaluates and records. Returns the allowed payload of every offset in lastAllowed; false where no such posture.
    */
   private project(row: number, dStar: number, steps: number): boolean {
-    const plan = this.plan, search = this.search, qa = this.qa, qb = this.qb, qStar = this.qStar;
+    const plan = this.plan,
+      search = this.search,
+      qa = this.qa,
+      qb = this.qb,
+      qStar = this.qStar;
     const target = (this.kFirst + row) * this.stepM;
-    const jd = plan.searched[dStar]!, step = steps * this.gridStep(dStar);
+    const jd = plan.searched[dStar]!,
+      step = steps * this.gridStep(dStar);
     qa.set(qStar);
     qb.set(qStar);
     qa[jd] = this.clampTo(dStar, qStar[jd]! - step);
@@ -1563,7 +1853,8 @@ class MountingSearch {
     const fb = search.reach() - target;
     qb.set(search.q);
     if (!(fa * fb <= 0)) return false;
-    if (!crossing(search, qa, qb, fa, fb, target, mmToM(this.ctx.o.reachToleranceMm), this.nw, plan.orienting)) return false;
+    if (!crossing(search, qa, qb, fa, fb, target, mmToM(this.ctx.o.reachToleranceMm), this.nw, plan.orienting))
+      return false;
     if (plan.wcpFlangeDistanceM !== null) {
       for (let c = 0; c < this.nw; c++) search.q[plan.orienting[c]!] = qStar[plan.orienting[c]!]!;
       if (!search.solveTool()) return false;
@@ -1598,19 +1889,27 @@ class MountingSearch {
    * joints are searched).
    */
   private refine(): void {
-    const D = this.D, m = this.chain.drivenCount, passes = D >= 3 ? 2 : 1;
+    const D = this.D,
+      m = this.chain.drivenCount,
+      passes = D >= 3 ? 2 : 1;
     if (D < 2) return;
     for (let slot = 0; slot < this.nRows * this.nOff; slot++) {
       if (this.bestLimit[slot] === -2 || !Number.isFinite(this.best[slot]!)) continue;
-      const row = Math.floor(slot / this.nOff), oi = slot % this.nOff, dStar = this.bestDim[slot]!;
+      const row = Math.floor(slot / this.nOff),
+        oi = slot % this.nOff,
+        dStar = this.bestDim[slot]!;
       for (let pass = 0; pass < passes; pass++) {
         for (let e = 0; e < D; e++) {
           if (e === dStar) continue;
           this.qStar.set(this.bestQ.subarray(slot * m, slot * m + m));
-          const center = this.qStar[this.plan.searched[e]!]!, step = this.gridStep(e);
-          let a = this.clampTo(e, center - step), b = this.clampTo(e, center + step);
-          let x1 = b - GOLDEN * (b - a), x2 = a + GOLDEN * (b - a);
-          let f1 = this.onLevel(row, oi, dStar, e, x1), f2 = this.onLevel(row, oi, dStar, e, x2);
+          const center = this.qStar[this.plan.searched[e]!]!,
+            step = this.gridStep(e);
+          let a = this.clampTo(e, center - step),
+            b = this.clampTo(e, center + step);
+          let x1 = b - GOLDEN * (b - a),
+            x2 = a + GOLDEN * (b - a);
+          let f1 = this.onLevel(row, oi, dStar, e, x1),
+            f2 = this.onLevel(row, oi, dStar, e, x2);
           for (let it = 0; it < REFINE_STEPS; it++) {
             if (f1 < f2) {
               b = x2;
@@ -1634,13 +1933,28 @@ class MountingSearch {
   /** Rows of this mounting. Rows at the ends of the range where no posture holds the tool along gravity are dropped
    * (the reach range of the spherical shortcut does not check the wrist limits); gaps inside stay, "unreachable". */
   rows(): PayloadAtReachRow[] {
-    const chain = this.chain, m = chain.drivenCount, nOff = this.nOff, o = this.ctx.o, rated = this.ctx.input.ratedPayloadKg;
+    const chain = this.chain,
+      m = chain.drivenCount,
+      nOff = this.nOff,
+      o = this.ctx.o,
+      rated = this.ctx.input.ratedPayloadKg;
     const out: PayloadAtReachRow[] = [];
     const mounting = this.mounting;
     if (!this.ctx.anyRating) {
       for (let r = 0; r < this.nRows; r++) {
         for (const offsetMm of o.offsetsMm) {
-          out.push({ mounting, reachMm: (this.kFirst + r) * o.reachStepMm, offsetMm, payloadKg: rated, limitingJoint: null, limitedBy: "as-rated", torqueLimitKg: null, torqueLimitJoint: null, flangeHeightMm: null, jointsDegOrMm: null });
+          out.push({
+            mounting,
+            reachMm: (this.kFirst + r) * o.reachStepMm,
+            offsetMm,
+            payloadKg: rated,
+            limitingJoint: null,
+            limitedBy: "as-rated",
+            torqueLimitKg: null,
+            torqueLimitJoint: null,
+            flangeHeightMm: null,
+            jointsDegOrMm: null,
+          });
         }
       }
       return out;
@@ -1649,19 +1963,34 @@ class MountingSearch {
       for (let oi = 0; oi < nOff; oi++) if (this.bestLimit[r * nOff + oi] !== -2) return true;
       return false;
     };
-    let rFirst = 0, rLast = this.nRows - 1;
+    let rFirst = 0,
+      rLast = this.nRows - 1;
     while (rFirst <= rLast && !reached(rFirst)) rFirst++;
     while (rLast >= rFirst && !reached(rLast)) rLast--;
     const name = (j: number): string => chain.jointNames[chain.drivenJoint[j]!]!;
     for (let r = rFirst; r <= rLast; r++) {
       for (let oi = 0; oi < nOff; oi++) {
         const slot = r * nOff + oi;
-        const reachMm = (this.kFirst + r) * o.reachStepMm, offsetMm = o.offsetsMm[oi]!;
+        const reachMm = (this.kFirst + r) * o.reachStepMm,
+          offsetMm = o.offsetsMm[oi]!;
         if (this.bestLimit[slot] === -2) {
-          out.push({ mounting, reachMm, offsetMm, payloadKg: 0, limitingJoint: null, limitedBy: "unreachable", torqueLimitKg: null, torqueLimitJoint: null, flangeHeightMm: null, jointsDegOrMm: null });
+          out.push({
+            mounting,
+            reachMm,
+            offsetMm,
+            payloadKg: 0,
+            limitingJoint: null,
+            limitedBy: "unreachable",
+            torqueLimitKg: null,
+            torqueLimitJoint: null,
+            flangeHeightMm: null,
+            jointsDegOrMm: null,
+          });
           continue;
         }
-        const torqueKg = Math.max(0, this.best[slot]!), capped = !(torqueKg < rated), lim = this.bestLimit[slot]!;
+        const torqueKg = Math.max(0, this.best[slot]!),
+          capped = !(torqueKg < rated),
+          lim = this.bestLimit[slot]!;
         out.push({
           mounting,
           reachMm,
@@ -1680,7 +2009,8 @@ class MountingSearch {
   }
 
   report(): PayloadMountingReport {
-    const chain = this.chain, plan = this.plan;
+    const chain = this.chain,
+      plan = this.plan;
     const name = (j: number): string => chain.jointNames[chain.drivenJoint[j]!]!;
     return {
       mounting: this.mounting,
@@ -1698,9 +2028,11 @@ class MountingSearch {
 
   /** Names of driven joints that carried payload torque somewhere but have no rating. */
   loadedUnrated(): string[] {
-    const chain = this.chain, out: string[] = [];
+    const chain = this.chain,
+      out: string[] = [];
     for (let j = 0; j < chain.drivenCount; j++) {
-      if (this.maxUnit[j]! > this.unitFloor && !(chain.ratedEffortSi[j]! > 0)) out.push(chain.jointNames[chain.drivenJoint[j]!]!);
+      if (this.maxUnit[j]! > this.unitFloor && !(chain.ratedEffortSi[j]! > 0))
+        out.push(chain.jointNames[chain.drivenJoint[j]!]!);
     }
     return out;
   }
@@ -1716,9 +2048,22 @@ function jointOut(chain: Chain, j: number, si: number): number {
  * solved wrists the scratch) at that posture. fa, fb: reach − target at the ends. False when the reach is not
  * continuous along the edge (a wrist branch flip) or the tolerance is not met.
  */
-function crossing(search: Search, qa: Float64Array, qb: Float64Array, fa: number, fb: number, target: number, tolM: number, nw: number, orienting: readonly number[]): boolean {
+function crossing(
+  search: Search,
+  qa: Float64Array,
+  qb: Float64Array,
+  fa: number,
+  fb: number,
+  target: number,
+  tolM: number,
+  nw: number,
+  orienting: readonly number[],
+): boolean {
   const q = search.q;
-  let ta = 0, tb = 1, side = 0, first = true;
+  let ta = 0,
+    tb = 1,
+    side = 0,
+    first = true;
   const at = (t: number): number => {
     // Wrist angles: the first guess from the nearer end (interpolating across a 2π wrap would be wrong), then from
     // the previous iterate, which is closer.
@@ -1737,7 +2082,7 @@ function crossing(search: Search, qa: Float64Array, qb: Float64Array, fa: number
     const f = at(t);
     if (f !== f) return false;
     if (Math.abs(f) <= tolM) return true;
-    if ((f > 0) === (fb > 0)) {
+    if (f > 0 === fb > 0) {
       tb = t;
       fb = f;
       if (side === -1) fa /= 2;
@@ -1776,7 +2121,11 @@ export interface PayloadAnalysis {
  * The payload section of an arm's analysis: payload at reach, load diagram and plausibility warnings.
  * Shape (contract): { basis, atReach: [{ reachMm, offsetMm, payloadKg, limitingJoint, mounting, … }], loadDiagram }.
  */
-export function analysePayload(chain: Chain, input: PayloadInput, options: Partial<PayloadAnalysisOptions> = {}): PayloadAnalysis {
+export function analysePayload(
+  chain: Chain,
+  input: PayloadInput,
+  options: Partial<PayloadAnalysisOptions> = {},
+): PayloadAnalysis {
   const atReach = payloadAtReach(chain, input, options.atReach ?? {});
   const { rows, ...detail } = atReach;
   return {

@@ -29,7 +29,10 @@ function flatPointInRings(x: number, y: number, rings: readonly Float64Array[]):
   for (const ring of rings) {
     const n = ring.length >> 1;
     for (let k = 0, p = n - 1; k < n; p = k++) {
-      const x0 = ring[2 * p]!, y0 = ring[2 * p + 1]!, x1 = ring[2 * k]!, y1 = ring[2 * k + 1]!;
+      const x0 = ring[2 * p]!,
+        y0 = ring[2 * p + 1]!,
+        x1 = ring[2 * k]!,
+        y1 = ring[2 * k + 1]!;
       if (y0 > y !== y1 > y && x < x0 + ((y - y0) * (x1 - x0)) / (y1 - y0)) inside = !inside;
     }
   }
@@ -51,16 +54,20 @@ export function polarProfile(rings: readonly Float64Array[], drhoMm: number): Po
   for (const ring of rings) {
     const n = ring.length >> 1;
     for (let k = 0; k < n; k++) {
-      const px = ring[2 * k]!, py = ring[2 * k + 1]!;
+      const px = ring[2 * k]!,
+        py = ring[2 * k + 1]!;
       const l = (k + 1) % n;
-      const dx = ring[2 * l]! - px, dy = ring[2 * l + 1]! - py;
+      const dx = ring[2 * l]! - px,
+        dy = ring[2 * l + 1]! - py;
       const a = dx * dx + dy * dy;
       if (a === 0) continue;
-      const b = px * dx + py * dy, c0 = px * px + py * py;
+      const b = px * dx + py * dy,
+        c0 = px * px + py * py;
       const tFoot = Math.max(0, Math.min(1, -b / a));
       const rhoLo = Math.hypot(px + tFoot * dx, py + tFoot * dy);
       const rhoHi = Math.max(Math.sqrt(c0), Math.hypot(px + dx, py + dy));
-      const k0 = Math.max(0, Math.ceil(rhoLo / drhoMm - 0.5)), k1 = Math.min(rows - 1, Math.floor(rhoHi / drhoMm - 0.5));
+      const k0 = Math.max(0, Math.ceil(rhoLo / drhoMm - 0.5)),
+        k1 = Math.min(rows - 1, Math.floor(rhoHi / drhoMm - 0.5));
       for (let row = k0; row <= k1; row++) {
         const rho = (row + 0.5) * drhoMm + nudge;
         const disc = b * b - a * (c0 - rho * rho);
@@ -68,7 +75,8 @@ export function polarProfile(rings: readonly Float64Array[], drhoMm: number): Po
         const sq = Math.sqrt(disc);
         for (const t of [(-b - sq) / a, (-b + sq) / a]) {
           if (!(t >= 0 && t < 1)) continue;
-          const x = px + t * dx, y = py + t * dy;
+          const x = px + t * dx,
+            y = py + t * dy;
           crossings[row]!.push(Math.atan2(y, x), x * dx + y * dy > 0 ? 1 : 0);
         }
       }
@@ -86,10 +94,12 @@ export function polarProfile(rings: readonly Float64Array[], drhoMm: number): Po
     const first = order.findIndex((i) => c[2 * i + 1] === 1);
     const out: number[] = [];
     if (first >= 0) {
-      let inside = false, open = 0;
+      let inside = false,
+        open = 0;
       for (let step = 0; step < order.length; step++) {
         const i = order[(first + step) % order.length]!;
-        const psi = c[2 * i]!, enter = c[2 * i + 1] === 1;
+        const psi = c[2 * i]!,
+          enter = c[2 * i + 1] === 1;
         if (enter && !inside) {
           inside = true;
           open = psi;
@@ -138,7 +148,8 @@ export function mergeArcs(arcs: ArrayLike<number>): Float64Array {
   }
   // wrap: the last arc may run past 2π into the first ones
   while (out.length > 1) {
-    const last = out[out.length - 1]!, firstArc = out[0]!;
+    const last = out[out.length - 1]!,
+      firstArc = out[0]!;
     const over = last[0] + last[1] - TWO_PI;
     if (over < firstArc[0]) break;
     last[1] = Math.max(last[1], firstArc[0] + TWO_PI + firstArc[1] - last[0]);
@@ -164,7 +175,8 @@ export function intersectArcs(a: number, la: number, b: number, lb: number, out:
   }
   const a0 = b + mod2pi(a - b);
   for (const s of [a0, a0 - TWO_PI]) {
-    const lo = Math.max(s, b), hi = Math.min(s + la, b + lb);
+    const lo = Math.max(s, b),
+      hi = Math.min(s + la, b + lb);
     if (hi > lo) out.push(lo, hi - lo);
   }
 }
@@ -184,7 +196,8 @@ export function sweptPlanArcs(profile: PolarProfile, place: PlanPlacement): Floa
     const swept = sweepArcs(arcs, place.tLoRad, place.tHiRad);
     const out: number[] = [];
     for (let k = 0; k < swept.length; k += 2) {
-      const s = swept[k]!, l = swept[k + 1]!;
+      const s = swept[k]!,
+        l = swept[k + 1]!;
       out.push(place.sense === 1 ? place.phi0Rad + s : place.phi0Rad - s - l, l);
     }
     return mergeArcs(out);
@@ -196,7 +209,12 @@ export function sweptPlanArcs(profile: PolarProfile, place: PlanPlacement): Floa
  * two neighbouring rows differ are visited, so the angular step can be fine.
  * @param maxColumns cap on the number of angular nodes
  */
-export function sweptPlanRings(swept: readonly Float64Array[], drhoMm: number, centreMm: readonly [number, number], maxColumns = 1 << 16): Float64Array[] {
+export function sweptPlanRings(
+  swept: readonly Float64Array[],
+  drhoMm: number,
+  centreMm: readonly [number, number],
+  maxColumns = 1 << 16,
+): Float64Array[] {
   const rows = swept.length;
   if (rows === 0) return [];
   // angular step: at most 0.25°, and at most half the narrowest arc or gap
@@ -215,15 +233,21 @@ export function sweptPlanRings(swept: readonly Float64Array[], drhoMm: number, c
   const dtheta = TWO_PI / w;
   // row −1 is the pole (the axis point): inside when row 0 covers at least half a turn
   const poleInside = arcMeasureOf(swept[0]!) >= Math.PI;
-  const full = Float64Array.of(0, TWO_PI), empty = new Float64Array(0);
-  const arcsOf = (k: number): Float64Array => (k >= 0 ? (k < rows ? swept[k]! : empty) : k === -1 && poleInside ? full : empty);
+  const full = Float64Array.of(0, TWO_PI),
+    empty = new Float64Array(0);
+  const arcsOf = (k: number): Float64Array =>
+    k >= 0 ? (k < rows ? swept[k]! : empty) : k === -1 && poleInside ? full : empty;
   const value = (i: number, k: number): number => {
-    const arcs = arcsOf(k), n = arcs.length >> 1;
-    const rho = k >= 0 ? (k + 0.5) * drhoMm : 0.5 * drhoMm, cap = rho * dtheta;
+    const arcs = arcsOf(k),
+      n = arcs.length >> 1;
+    const rho = k >= 0 ? (k + 0.5) * drhoMm : 0.5 * drhoMm,
+      cap = rho * dtheta;
     const theta = i * dtheta;
-    let inside = -Infinity, outside = Infinity;
+    let inside = -Infinity,
+      outside = Infinity;
     for (let a = 0; a < n; a++) {
-      const st = arcs[2 * a]!, l = arcs[2 * a + 1]!;
+      const st = arcs[2 * a]!,
+        l = arcs[2 * a + 1]!;
       if (l >= TWO_PI) return cap;
       const r = mod2pi(theta - st);
       if (r <= l) inside = Math.max(inside, Math.min(r, l - r));
@@ -237,7 +261,8 @@ export function sweptPlanRings(swept: readonly Float64Array[], drhoMm: number, c
       out.push(0, w - 1);
       return;
     }
-    const a = ((c0 % w) + w) % w, b = a + (c1 - c0);
+    const a = ((c0 % w) + w) % w,
+      b = a + (c1 - c0);
     if (b < w) out.push(a, b);
     else out.push(a, w - 1, 0, b - w);
   };
@@ -248,21 +273,27 @@ export function sweptPlanRings(swept: readonly Float64Array[], drhoMm: number, c
     jMax: rows - 1,
     periodicX: true,
     cells(k, out) {
-      const A = arcsOf(k), B = arcsOf(k + 1);
+      const A = arcsOf(k),
+        B = arcsOf(k + 1);
       // ends of both rows' arcs
       for (const arcs of [A, B]) {
         for (let a = 0; a < arcs.length; a += 2) {
           if (arcs[a + 1]! >= TWO_PI) continue;
-          const s0 = mod2pi(arcs[a]!), s1 = mod2pi(arcs[a]! + arcs[a + 1]!);
+          const s0 = mod2pi(arcs[a]!),
+            s1 = mod2pi(arcs[a]! + arcs[a + 1]!);
           pushWrapped(out, col(s0) - 1, col(s0) + 1);
           pushWrapped(out, col(s1) - 1, col(s1) + 1);
         }
       }
       // where the rows differ: sweep both rows' arcs split into [0, 2π)
       events.length = 0;
-      for (const [arcs, tag] of [[A, 1], [B, 2]] as const) {
+      for (const [arcs, tag] of [
+        [A, 1],
+        [B, 2],
+      ] as const) {
         for (let a = 0; a < arcs.length; a += 2) {
-          const st = mod2pi(arcs[a]!), l = Math.min(arcs[a + 1]!, TWO_PI);
+          const st = mod2pi(arcs[a]!),
+            l = Math.min(arcs[a + 1]!, TWO_PI);
           if (st + l <= TWO_PI) events.push(st, tag, st + l, tag);
           else events.push(st, tag, TWO_PI, tag, 0, tag, st + l - TWO_PI, tag);
         }
@@ -270,9 +301,12 @@ export function sweptPlanRings(swept: readonly Float64Array[], drhoMm: number, c
       const order: number[] = [];
       for (let e = 0; e < events.length; e += 2) order.push(e);
       order.sort((p, q) => events[p]! - events[q]!);
-      let inA = false, inB = false, open = 0;
+      let inA = false,
+        inB = false,
+        open = 0;
       for (const e of order) {
-        const x = events[e]!, before = inA !== inB;
+        const x = events[e]!,
+          before = inA !== inB;
         if (events[e + 1] === 1) inA = !inA;
         else inB = !inB;
         const after = inA !== inB;
@@ -289,7 +323,8 @@ export function sweptPlanRings(swept: readonly Float64Array[], drhoMm: number, c
     const n = r.length >> 1;
     const mapped = new Float64Array(2 * n);
     for (let k = 0; k < n; k++) {
-      const theta = r[2 * k]! * dtheta, gy = r[2 * k + 1]!;
+      const theta = r[2 * k]! * dtheta,
+        gy = r[2 * k + 1]!;
       // rows k ≥ 0 sit at (k + ½)Δρ; between the pole row and row 0 the radius grows linearly from 0 to ½Δρ
       const rho = gy >= 0 ? (gy + 0.5) * drhoMm : Math.max(0, (gy + 1) * 0.5 * drhoMm);
       // (θ, ρ) → (x, y) reverses orientation: write the ring backwards to keep the inside on the left

@@ -68,7 +68,8 @@ export function simplifyFlatRing(ring: Float64Array, epsilon: number): Float64Ar
   const n = ring.length >> 1;
   if (n <= 4 || !(epsilon > 0)) return ring;
   // anchor: point 0 and the point farthest from it
-  let far = 0, farD = -1;
+  let far = 0,
+    farD = -1;
   for (let k = 1; k < n; k++) {
     const d = (ring[2 * k]! - ring[0]!) ** 2 + (ring[2 * k + 1]! - ring[1]!) ** 2;
     if (d > farD) {
@@ -85,13 +86,19 @@ export function simplifyFlatRing(ring: Float64Array, epsilon: number): Float64Ar
     const hiIdx = stack.pop()!;
     const loIdx = stack.pop()!;
     if (hiIdx - loIdx < 2) continue;
-    const ax = ring[2 * loIdx]!, ay = ring[2 * loIdx + 1]!;
+    const ax = ring[2 * loIdx]!,
+      ay = ring[2 * loIdx + 1]!;
     const hm = hiIdx % n;
-    const bx = ring[2 * hm]!, by = ring[2 * hm + 1]!;
-    const dx = bx - ax, dy = by - ay, len2 = dx * dx + dy * dy;
-    let best = -1, bestD = eps2;
+    const bx = ring[2 * hm]!,
+      by = ring[2 * hm + 1]!;
+    const dx = bx - ax,
+      dy = by - ay,
+      len2 = dx * dx + dy * dy;
+    let best = -1,
+      bestD = eps2;
     for (let k = loIdx + 1; k < hiIdx; k++) {
-      const px = ring[2 * k]! - ax, py = ring[2 * k + 1]! - ay;
+      const px = ring[2 * k]! - ax,
+        py = ring[2 * k + 1]! - ay;
       let d: number;
       if (len2 === 0) d = px * px + py * py;
       else {
@@ -112,8 +119,12 @@ export function simplifyFlatRing(ring: Float64Array, epsilon: number): Float64Ar
   for (let k = 0; k < n; k++) count += keep[k]!;
   if (count < 3) {
     // a ring thinner than epsilon: keep its point farthest from the anchor chord, so it stays a ring
-    const ax = ring[0]!, ay = ring[1]!, dx = ring[2 * far]! - ax, dy = ring[2 * far + 1]! - ay;
-    let best = -1, bestD = -1;
+    const ax = ring[0]!,
+      ay = ring[1]!,
+      dx = ring[2 * far]! - ax,
+      dy = ring[2 * far + 1]! - ay;
+    let best = -1,
+      bestD = -1;
     for (let k = 1; k < n; k++) {
       if (k === far) continue;
       const d = Math.abs(dx * (ring[2 * k + 1]! - ay) - dy * (ring[2 * k]! - ax));
@@ -151,7 +162,10 @@ function flatPointInRing(x: number, y: number, ring: Float64Array): boolean {
   const n = ring.length >> 1;
   let inside = false;
   for (let k = 0, p = n - 1; k < n; p = k++) {
-    const x0 = ring[2 * p]!, y0 = ring[2 * p + 1]!, x1 = ring[2 * k]!, y1 = ring[2 * k + 1]!;
+    const x0 = ring[2 * p]!,
+      y0 = ring[2 * p + 1]!,
+      x1 = ring[2 * k]!,
+      y1 = ring[2 * k + 1]!;
     if (y0 > y !== y1 > y && x < x0 + ((y - y0) * (x1 - x0)) / (y1 - y0)) inside = !inside;
   }
   return inside;
@@ -165,7 +179,8 @@ function flatPointInRing(x: number, y: number, ring: Float64Array): boolean {
 function flatRingWidth(ring: Float64Array, areaMm2: number): number {
   const n = ring.length >> 1;
   let perimeter = 0;
-  for (let k = 0, p = n - 1; k < n; p = k++) perimeter += Math.hypot(ring[2 * k]! - ring[2 * p]!, ring[2 * k + 1]! - ring[2 * p + 1]!);
+  for (let k = 0, p = n - 1; k < n; p = k++)
+    perimeter += Math.hypot(ring[2 * k]! - ring[2 * p]!, ring[2 * k + 1]! - ring[2 * p + 1]!);
   return perimeter > 0 ? (2 * areaMm2) / perimeter : 0;
 }
 
@@ -189,7 +204,8 @@ export function assemblePolygons(rings: readonly Float64Array[], minAreaMm2: num
   for (const h of holes) {
     // a point just inside the hole's first edge would be safest; a vertex of the hole lies strictly inside its outer
     // ring because rings from one contour set do not cross
-    const x = h[0]!, y = h[1]!;
+    const x = h[0]!,
+      y = h[1]!;
     const owner = outers.find((o) => flatPointInRing(x, y, o.ring));
     if (owner) owner.holes.push(h);
   }

@@ -74,9 +74,11 @@ export class RowCover {
   covers(j: number, a: number, b: number): boolean {
     const k = j - this.firstRow;
     if (k < 0 || k >= this.data.length) return false;
-    const v = this.data[k]!, n = this.size[k]! >> 1;
+    const v = this.data[k]!,
+      n = this.size[k]! >> 1;
     // first interval whose end ≥ a
-    let lo = 0, hi = n;
+    let lo = 0,
+      hi = n;
     while (lo < hi) {
       const mid = (lo + hi) >> 1;
       if (v[2 * mid + 1]! < a) lo = mid + 1;
@@ -92,7 +94,8 @@ export class RowCover {
     let v = this.data[k]!;
     const len = this.size[k]!;
     const n = len >> 1;
-    let lo = 0, hi = n;
+    let lo = 0,
+      hi = n;
     while (lo < hi) {
       const mid = (lo + hi) >> 1;
       if (v[2 * mid + 1]! < a) lo = mid + 1;
@@ -100,7 +103,8 @@ export class RowCover {
     }
     // intervals lo … last-1 overlap [a, b]
     let last = lo;
-    let s = a, e = b;
+    let s = a,
+      e = b;
     while (last < n && v[2 * last]! <= b) {
       if (v[2 * last]! < s) s = v[2 * last]!;
       if (v[2 * last + 1]! > e) e = v[2 * last + 1]!;
@@ -129,7 +133,8 @@ export class RowCover {
   /** Merges, in every row, intervals separated by a gap narrower than `widthMm` (a closing along the rows). */
   closeGaps(widthMm: number): void {
     for (let k = 0; k < this.data.length; k++) {
-      const v = this.data[k]!, n = this.size[k]!;
+      const v = this.data[k]!,
+        n = this.size[k]!;
       if (n <= 2) continue;
       let w = 2;
       for (let r = 2; r < n; r += 2) {
@@ -147,7 +152,8 @@ export class RowCover {
 
   /** Smallest and largest x over all rows; [Infinity, -Infinity] when empty. */
   xExtent(): [number, number] {
-    let lo = Infinity, hi = -Infinity;
+    let lo = Infinity,
+      hi = -Infinity;
     for (let k = 0; k < this.data.length; k++) {
       const n = this.size[k]!;
       if (n === 0) continue;
@@ -162,7 +168,8 @@ export class RowCover {
   area(): number {
     let sum = 0;
     for (let k = 0; k < this.data.length; k++) {
-      const v = this.data[k]!, n = this.size[k]!;
+      const v = this.data[k]!,
+        n = this.size[k]!;
       for (let i = 0; i < n; i += 2) sum += v[i + 1]! - v[i]!;
     }
     return sum * this.dy;

@@ -50,7 +50,12 @@ export interface SingularityScratch {
 }
 
 export function createSingularityScratch(m: number): SingularityScratch {
-  return { scaled: new Float64Array(6 * m), sv: new Float64Array(Math.min(6, m)), v: new Float64Array(m * m), svd: createSvdScratch(6, m) };
+  return {
+    scaled: new Float64Array(6 * m),
+    sv: new Float64Array(Math.min(6, m)),
+    v: new Float64Array(m * m),
+    svd: createSvdScratch(6, m),
+  };
 }
 
 /**
@@ -71,7 +76,12 @@ export function scaledSingularValues(j: ArrayLike<number>, m: number, lengthM: n
  * Inverse condition σ_min/σ_max of the scaled Jacobian only (singular values into s.sv, no singular vectors):
  * the cheaper path for maps and kernels that do not name the singularity.
  */
-export function scaledInverseCondition(j: ArrayLike<number>, m: number, lengthM: number, s: SingularityScratch): number {
+export function scaledInverseCondition(
+  j: ArrayLike<number>,
+  m: number,
+  lengthM: number,
+  s: SingularityScratch,
+): number {
   const scaled = s.scaled;
   for (let i = 0; i < 3 * m; i++) scaled[i] = j[i]! / lengthM;
   for (let i = 3 * m; i < 6 * m; i++) scaled[i] = j[i]!;
@@ -82,8 +92,16 @@ export function scaledInverseCondition(j: ArrayLike<number>, m: number, lengthM:
 }
 
 /** Kind of singularity from the null vector in column `col` of the m × m matrix v (row-major). */
-export function classifyNullVector(v: ArrayLike<number>, m: number, col: number, roles: JointRoles): Exclude<SingularityKind, "none"> {
-  let total = 0, axis1 = 0, arm = 0, wrist = 0;
+export function classifyNullVector(
+  v: ArrayLike<number>,
+  m: number,
+  col: number,
+  roles: JointRoles,
+): Exclude<SingularityKind, "none"> {
+  let total = 0,
+    axis1 = 0,
+    arm = 0,
+    wrist = 0;
   for (let i = 0; i < m; i++) {
     const w = v[i * m + col]! * v[i * m + col]!;
     total += w;
@@ -112,7 +130,12 @@ export interface SingularityReport {
  * Allocating convenience over scaledSingularValues + the classification. Pass `wcpMinusTcpM` (the wrist centre
  * minus the Jacobian's reference point, base frame, m) so a decoupled six-joint arm is classified by its blocks.
  */
-export function singularityReport(chain: Chain, j: ArrayLike<number>, threshold = SINGULAR_INVERSE_CONDITION, wcpMinusTcpM?: ArrayLike<number>): SingularityReport {
+export function singularityReport(
+  chain: Chain,
+  j: ArrayLike<number>,
+  threshold = SINGULAR_INVERSE_CONDITION,
+  wcpMinusTcpM?: ArrayLike<number>,
+): SingularityReport {
   const m = chain.drivenCount;
   const s = createSingularityScratch(m);
   const lengthM = chain.characteristicLengthM;
@@ -129,9 +152,13 @@ export function singularityReport(chain: Chain, j: ArrayLike<number>, threshold 
     if (cols && d) {
       // Reference point moved to the wrist centre: v_w = v_t + ω × d.
       const jw = Float64Array.from({ length: 36 }, (_, i) => j[i]!);
-      const dx = d[0]!, dy = d[1]!, dz = d[2]!;
+      const dx = d[0]!,
+        dy = d[1]!,
+        dz = d[2]!;
       for (let c = 0; c < 6; c++) {
-        const wx = j[18 + c]!, wy = j[24 + c]!, wz = j[30 + c]!;
+        const wx = j[18 + c]!,
+          wy = j[24 + c]!,
+          wz = j[30 + c]!;
         jw[c] = j[c]! + (wy * dz - wz * dy);
         jw[6 + c] = j[6 + c]! + (wz * dx - wx * dz);
         jw[12 + c] = j[12 + c]! + (wx * dy - wy * dx);
@@ -156,7 +183,8 @@ export function singularityReport(chain: Chain, j: ArrayLike<number>, threshold 
  * Null otherwise.
  */
 export function decoupledWristColumns(chain: Chain): { arm: number[]; wrist: number[] } | null {
-  const m = chain.drivenCount, w = chain.wrist;
+  const m = chain.drivenCount,
+    w = chain.wrist;
   if (m !== 6 || !w || w.basis !== "spherical" || w.axes.length !== 3) return null;
   const wrist: number[] = [];
   for (const k of w.axes) {
@@ -172,22 +200,28 @@ export function decoupledWristColumns(chain: Chain): { arm: number[]; wrist: num
   return { arm, wrist };
 }
 
-
 /**
  * Kind of a near-singular pose of a decoupled six-joint arm (spherical wrist), from the blocks of J taken at the
  * wrist centre (det J = det J11 · det J22, CHECKS C4): the block closer to singular names it: J22 → wrist; J11 →
  * shoulder when its null vector is mostly joint 1 (wrist centre on axis 1), elbow otherwise.
  * @param jAtWcp 6 × 6 Jacobian with the wrist centre as reference point
  */
-export function classifyDecoupled(jAtWcp: ArrayLike<number>, lengthM: number, cols: { arm: number[]; wrist: number[] }): "wrist" | "shoulder" | "elbow" {
-  const b11 = new Float64Array(9), b22 = new Float64Array(9);
+export function classifyDecoupled(
+  jAtWcp: ArrayLike<number>,
+  lengthM: number,
+  cols: { arm: number[]; wrist: number[] },
+): "wrist" | "shoulder" | "elbow" {
+  const b11 = new Float64Array(9),
+    b22 = new Float64Array(9);
   for (let r = 0; r < 3; r++) {
     for (let c = 0; c < 3; c++) {
       b11[r * 3 + c] = jAtWcp[r * 6 + cols.arm[c]!]! / lengthM;
       b22[r * 3 + c] = jAtWcp[(r + 3) * 6 + cols.wrist[c]!]!;
     }
   }
-  const sv = new Float64Array(3), v = new Float64Array(9), svd = createSvdScratch(3, 3);
+  const sv = new Float64Array(3),
+    v = new Float64Array(9),
+    svd = createSvdScratch(3, 3);
   svdInto(sv, v, b22, 3, 3, svd);
   const wristMeasure = sv[2]! / (sv[0]! || 1);
   svdInto(sv, v, b11, 3, 3, svd);
@@ -203,9 +237,12 @@ export function classifyDecoupled(jAtWcp: ArrayLike<number>, lengthM: number, co
  */
 export function wristOffsetFromJacobian(j: ArrayLike<number>, wrist: readonly number[]): number[] | null {
   // −[z]× d = v  ⇔  [z]× d = −v; accumulate AᵀA and Aᵀb.
-  const ata = new Float64Array(9), atb = new Float64Array(3);
+  const ata = new Float64Array(9),
+    atb = new Float64Array(3);
   for (const c of wrist) {
-    const zx = j[18 + c]!, zy = j[24 + c]!, zz = j[30 + c]!;
+    const zx = j[18 + c]!,
+      zy = j[24 + c]!,
+      zz = j[30 + c]!;
     const a = [0, -zz, zy, zz, 0, -zx, -zy, zx, 0];
     const b = [-j[c]!, -j[6 + c]!, -j[12 + c]!];
     for (let r = 0; r < 3; r++) {
@@ -215,13 +252,20 @@ export function wristOffsetFromJacobian(j: ArrayLike<number>, wrist: readonly nu
       }
     }
   }
-  const det = ata[0]! * (ata[4]! * ata[8]! - ata[5]! * ata[7]!) - ata[1]! * (ata[3]! * ata[8]! - ata[5]! * ata[6]!) + ata[2]! * (ata[3]! * ata[7]! - ata[4]! * ata[6]!);
+  const det =
+    ata[0]! * (ata[4]! * ata[8]! - ata[5]! * ata[7]!) -
+    ata[1]! * (ata[3]! * ata[8]! - ata[5]! * ata[6]!) +
+    ata[2]! * (ata[3]! * ata[7]! - ata[4]! * ata[6]!);
   if (!(Math.abs(det) > 1e-12)) return null;
   const out = [0, 0, 0];
   for (let c = 0; c < 3; c++) {
     const m = Float64Array.from(ata);
     for (let r = 0; r < 3; r++) m[r * 3 + c] = atb[r]!;
-    out[c] = (m[0]! * (m[4]! * m[8]! - m[5]! * m[7]!) - m[1]! * (m[3]! * m[8]! - m[5]! * m[6]!) + m[2]! * (m[3]! * m[7]! - m[4]! * m[6]!)) / det;
+    out[c] =
+      (m[0]! * (m[4]! * m[8]! - m[5]! * m[7]!) -
+        m[1]! * (m[3]! * m[8]! - m[5]! * m[6]!) +
+        m[2]! * (m[3]! * m[7]! - m[4]! * m[6]!)) /
+      det;
   }
   return out;
 }

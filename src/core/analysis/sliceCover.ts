@@ -92,8 +92,13 @@ export class SliceScratch {
   /** Records the pending mark as two crossings; not when it lies inside a lane of the window, where flush() would
    * only add +1 and −1 to that interval's sum. */
   flushMark(): void {
-    const r = this.markRow - this.winLo, lo = this.markLo, hi = this.markHi;
-    const inLane = r >= 0 && r < this.winRows && ((this.laneLo0[r]! <= lo && hi <= this.laneHi0[r]!) || (this.laneLo1[r]! <= lo && hi <= this.laneHi1[r]!));
+    const r = this.markRow - this.winLo,
+      lo = this.markLo,
+      hi = this.markHi;
+    const inLane =
+      r >= 0 &&
+      r < this.winRows &&
+      ((this.laneLo0[r]! <= lo && hi <= this.laneHi0[r]!) || (this.laneLo1[r]! <= lo && hi <= this.laneHi1[r]!));
     if (lo <= hi && !inLane) {
       this.reserve(2);
       const c = this.count;
@@ -126,7 +131,9 @@ export class SliceScratch {
   reserve(extra: number): void {
     if (this.count + extra > this.xs.length) {
       const n = Math.max(2 * this.xs.length, this.count + extra);
-      const rows = new Int32Array(n), xs = new Float64Array(n), ds = new Int8Array(n);
+      const rows = new Int32Array(n),
+        xs = new Float64Array(n),
+        ds = new Int8Array(n);
       rows.set(this.rows);
       xs.set(this.xs);
       ds.set(this.ds);
@@ -167,13 +174,20 @@ export class SliceScratch {
       this.acc = new Int32Array(total);
     }
     const cv = this.coverValues;
-    const lo0 = this.laneLo0, hi0 = this.laneHi0, lo1 = this.laneLo1, hi1 = this.laneHi1;
-    const idx0 = this.laneIdx0, idx1 = this.laneIdx1;
+    const lo0 = this.laneLo0,
+      hi0 = this.laneHi0,
+      lo1 = this.laneLo1,
+      hi1 = this.laneHi1;
+    const idx0 = this.laneIdx0,
+      idx1 = this.laneIdx1;
     for (let r = 0; r < rows; r++) {
-      const v = cover.valuesOf(jlo + r), o = start[r]!, len = start[r + 1]! - o;
+      const v = cover.valuesOf(jlo + r),
+        o = start[r]!,
+        len = start[r + 1]! - o;
       for (let i = 0; i < len; i++) cv[o + i] = v[i]!;
       // the two widest intervals
-      let w1 = -1, w2 = -1;
+      let w1 = -1,
+        w2 = -1;
       for (let i = 0; i < len; i += 2) {
         const w = v[i + 1]! - v[i]!;
         if (w1 < 0 || w > v[w1 + 1]! - v[w1]!) {
@@ -182,7 +196,8 @@ export class SliceScratch {
         } else if (w2 < 0 || w > v[w2 + 1]! - v[w2]!) w2 = i;
       }
       if (w2 < 0) w2 = w1;
-      const a = w1 < w2 ? w1 : w2, b = w1 < w2 ? w2 : w1;
+      const a = w1 < w2 ? w1 : w2,
+        b = w1 < w2 ? w2 : w1;
       lo0[r] = a < 0 ? Infinity : v[a]!;
       hi0[r] = a < 0 ? -Infinity : v[a + 1]!;
       idx0[r] = a >> 1;
@@ -199,7 +214,8 @@ export class SliceScratch {
 
   /** Cut point of segment p–q at x = 0, computed from the lower index first so both triangles agree. */
   cutInto(x: Float64Array, y: Float64Array, h: Float64Array, p: number, q: number): Float64Array {
-    const a = p < q ? p : q, b = p < q ? q : p;
+    const a = p < q ? p : q,
+      b = p < q ? q : p;
     const t = x[a]! / (x[a]! - x[b]!);
     this.cut[0] = y[a]! + t * (y[b]! - y[a]!);
     this.cut[1] = h[a]! + t * (h[b]! - h[a]!);
@@ -225,12 +241,26 @@ const CLIP_EPS_MM = 1e-9;
  * Adds the image of the slice to `cover`.
  * @param c0 c1 c2 grid point coordinates (mm), index ia·nb + ib
  */
-export function addSlice(cover: RowCover, c0: Float64Array, c1: Float64Array, c2: Float64Array, na: number, nb: number, mode: SliceMode, s: SliceScratch): void {
+export function addSlice(
+  cover: RowCover,
+  c0: Float64Array,
+  c1: Float64Array,
+  c2: Float64Array,
+  na: number,
+  nb: number,
+  mode: SliceMode,
+  s: SliceScratch,
+): void {
   const np = na * nb;
   s.ensurePoints(np);
-  const u = s.u, side = s.side, signed = mode.signedRadius;
+  const u = s.u,
+    side = s.side,
+    signed = mode.signedRadius;
   const v = signed ? c2 : c1;
-  let umin = Infinity, umax = -Infinity, vmin = Infinity, vmax = -Infinity;
+  let umin = Infinity,
+    umax = -Infinity,
+    vmin = Infinity,
+    vmax = -Infinity;
   for (let p = 0; p < np; p++) {
     const x = c0[p]!;
     let val: number;
@@ -251,13 +281,22 @@ export function addSlice(cover: RowCover, c0: Float64Array, c1: Float64Array, c2
     if (w > vmax) vmax = w;
   }
   const dy = cover.dy;
-  const cellsA = na - 1, cellsB = nb - 1;
-  const sF = s.signF, sB = s.signB, plain = s.plain, area2 = s.area2, clipList = s.clipList;
+  const cellsA = na - 1,
+    cellsB = nb - 1;
+  const sF = s.signF,
+    sB = s.signB,
+    plain = s.plain,
+    area2 = s.area2,
+    clipList = s.clipList;
   // clips: number of clipped triangles, listed in clipList in order
-  let areaSum = 0, clips = 0;
+  let areaSum = 0,
+    clips = 0;
   for (let ia = 0; ia < cellsA; ia++) {
     for (let ib = 0; ib < cellsB; ib++) {
-      const p00 = ia * nb + ib, p10 = p00 + nb, p01 = p00 + 1, p11 = p10 + 1;
+      const p00 = ia * nb + ib,
+        p10 = p00 + nb,
+        p01 = p00 + 1,
+        p11 = p10 + 1;
       const t = 2 * (ia * cellsB + ib);
       if (signed && !(side[p00] === side[p10] && side[p10] === side[p11] && side[p11] === side[p01])) {
         triangleSigns(s, t, c0, c1, c2, u, v, p00, p10, p11, signed);
@@ -268,9 +307,16 @@ export function addSlice(cover: RowCover, c0: Float64Array, c1: Float64Array, c2
         if (plain[t + 1] === 0) clipList[clips++] = t + 1;
       } else {
         // both triangles on one side of the axis (all of them but a few): triangleSigns' plain case, inline
-        const u00 = u[p00]!, v00 = v[p00]!, du10 = u[p10]! - u00, dv10 = v[p10]! - v00;
-        const du11 = u[p11]! - u00, dv11 = v[p11]! - v00, du01 = u[p01]! - u00, dv01 = v[p01]! - v00;
-        const a1 = du10 * dv11 - du11 * dv10, a2 = du11 * dv01 - du01 * dv11;
+        const u00 = u[p00]!,
+          v00 = v[p00]!,
+          du10 = u[p10]! - u00,
+          dv10 = v[p10]! - v00;
+        const du11 = u[p11]! - u00,
+          dv11 = v[p11]! - v00,
+          du01 = u[p01]! - u00,
+          dv01 = v[p01]! - v00;
+        const a1 = du10 * dv11 - du11 * dv10,
+          a2 = du11 * dv01 - du01 * dv11;
         plain[t] = a1 >= 0 ? 1 : -1;
         plain[t + 1] = a2 >= 0 ? 1 : -1;
         areaSum += Math.abs(a1);
@@ -282,7 +328,20 @@ export function addSlice(cover: RowCover, c0: Float64Array, c1: Float64Array, c2
   const extent = Math.max(umax - umin, vmax - vmin, 1e-12);
   // (a thin image that crosses the axis counts too: its clipped pieces have no area to fill either)
   if (cellsA === 0 || cellsB === 0 || areaSum < 0.25 * dy * extent) {
-    addConservative(cover, u, v, na, nb, 0.5 * mode.nodeSpacingMm, umin, umax, vmin, vmax, !signed, signed ? { s, x: c0, y: c1, h: c2 } : null);
+    addConservative(
+      cover,
+      u,
+      v,
+      na,
+      nb,
+      0.5 * mode.nodeSpacingMm,
+      umin,
+      umax,
+      vmin,
+      vmax,
+      !signed,
+      signed ? { s, x: c0, y: c1, h: c2 } : null,
+    );
     return;
   }
   s.count = 0;
@@ -298,10 +357,13 @@ export function addSlice(cover: RowCover, c0: Float64Array, c1: Float64Array, c2
   // (the seam's indices are computed on every call: an operation that runs only for some slices (a periodic
   // primary) has no type feedback when the function gets optimized, and every later call that reached it fell back
   // to the interpreter, allocating a heap number per arithmetic result)
-  const pb = nb > 2 && mode.periodicB, pa = na > 2 && mode.periodicA;
+  const pb = nb > 2 && mode.periodicB,
+    pa = na > 2 && mode.periodicA;
   const seamA = pa ? cellsA : -1;
   for (let ia = 0; ia < cellsA; ia++) {
-    const cell0 = ia * cellsB, last = 2 * (cell0 + cellsB - 1) + 1, p0 = ia * nb;
+    const cell0 = ia * cellsB,
+      last = 2 * (cell0 + cellsB - 1) + 1,
+      p0 = ia * nb;
     // ib = 0: backward, the last cell's T2 across a periodic seam
     const back0 = pb ? last : -1;
     if (!cancels(2 * cell0, back0)) gridEdge(s, cover, c0, c1, c2, u, v, p0, p0 + nb, 2 * cell0, back0, signed);
@@ -317,12 +379,15 @@ export function addSlice(cover: RowCover, c0: Float64Array, c1: Float64Array, c2
   const wrap = (cellsA - 1) * cellsB;
   for (let ia = 0; ia < na; ia++) {
     if (ia === seamA) continue;
-    const prev = ia > 0 ? (ia - 1) * cellsB : pa ? wrap : -1, p0 = ia * nb;
+    const prev = ia > 0 ? (ia - 1) * cellsB : pa ? wrap : -1,
+      p0 = ia * nb;
     if (prev >= 0 && ia < cellsA) {
       // both triangles inside the grid
-      const f0 = 2 * prev, b0 = 2 * ia * cellsB + 1;
+      const f0 = 2 * prev,
+        b0 = 2 * ia * cellsB + 1;
       for (let ib = 0; ib < cellsB; ib++) {
-        const f = f0 + 2 * ib, b = b0 + 2 * ib;
+        const f = f0 + 2 * ib,
+          b = b0 + 2 * ib;
         if (plain[f] !== 0 && plain[f] === plain[b]) continue;
         gridEdge(s, cover, c0, c1, c2, u, v, p0 + ib, p0 + ib + 1, f, b, signed);
       }
@@ -336,7 +401,8 @@ export function addSlice(cover: RowCover, c0: Float64Array, c1: Float64Array, c2
   }
   // diagonals (ia,ib)→(ia+1,ib+1): T2 runs forward, T1 backward
   for (let ia = 0; ia < cellsA; ia++) {
-    const p0 = ia * nb, t0 = 2 * ia * cellsB;
+    const p0 = ia * nb,
+      t0 = 2 * ia * cellsB;
     for (let ib = 0; ib < cellsB; ib++) {
       const t = t0 + 2 * ib;
       if (plain[t + 1] !== 0 && plain[t + 1] === plain[t]) continue;
@@ -344,8 +410,14 @@ export function addSlice(cover: RowCover, c0: Float64Array, c1: Float64Array, c2
     }
   }
   for (let c = 0; c < clips; c++) {
-    const t = clipList[c]!, cell = t >> 1, ia = Math.floor(cell / cellsB), ib = cell - ia * cellsB;
-    const p00 = ia * nb + ib, p10 = p00 + nb, p01 = p00 + 1, p11 = p10 + 1;
+    const t = clipList[c]!,
+      cell = t >> 1,
+      ia = Math.floor(cell / cellsB),
+      ib = cell - ia * cellsB;
+    const p00 = ia * nb + ib,
+      p10 = p00 + nb,
+      p01 = p00 + 1,
+      p11 = p10 + 1;
     if ((t & 1) === 0) cutEdges(s, cover, c0, c1, c2, p00, p10, p11, sF[t]!, sB[t]!);
     else cutEdges(s, cover, c0, c1, c2, p00, p11, p01, sF[t]!, sB[t]!);
   }
@@ -356,10 +428,17 @@ export function addSlice(cover: RowCover, c0: Float64Array, c1: Float64Array, c2
  * Adds triangles given by their three points each (x, y, h or x, y, –), flat: 9 numbers per triangle, each triangle
  * filled on its own (clipped at x = 0 in signed-radius mode).
  */
-export function addTriangles(cover: RowCover, tris: Float64Array, count: number, signed: boolean, s: SliceScratch): void {
+export function addTriangles(
+  cover: RowCover,
+  tris: Float64Array,
+  count: number,
+  signed: boolean,
+  s: SliceScratch,
+): void {
   s.count = 0;
   // the window (see addSlice): the rows of the triangles' vertical extent
-  let vmin = Infinity, vmax = -Infinity;
+  let vmin = Infinity,
+    vmax = -Infinity;
   for (let t = 0; t < count; t++) {
     for (let k = 0; k < 3; k++) {
       const w = tris[9 * t + 3 * k + (signed ? 2 : 1)]!;
@@ -368,7 +447,11 @@ export function addTriangles(cover: RowCover, tris: Float64Array, count: number,
     }
   }
   s.openWindow(cover, Math.floor((vmin - cover.y0) / cover.dy), Math.ceil((vmax - cover.y0) / cover.dy));
-  const x = TRI_X, y = TRI_Y, h = TRI_H, uu = TRI_U, vv = TRI_V;
+  const x = TRI_X,
+    y = TRI_Y,
+    h = TRI_H,
+    uu = TRI_U,
+    vv = TRI_V;
   for (let t = 0; t < count; t++) {
     for (let k = 0; k < 3; k++) {
       x[k] = tris[9 * t + 3 * k]!;
@@ -383,7 +466,7 @@ export function addTriangles(cover: RowCover, tris: Float64Array, count: number,
         vv[k] = y[k]!;
       }
     }
-    const mixed = signed && !((x[0]! >= 0) === (x[1]! >= 0) && (x[1]! >= 0) === (x[2]! >= 0));
+    const mixed = signed && !(x[0]! >= 0 === x[1]! >= 0 && x[1]! >= 0 === x[2]! >= 0);
     if (mixed && Math.max(Math.abs(y[0]!), Math.abs(y[1]!), Math.abs(y[2]!)) > CLIP_EPS_MM) {
       clipOutline(s, cover, x, y, h);
     } else {
@@ -398,19 +481,40 @@ export function addTriangles(cover: RowCover, tris: Float64Array, count: number,
   flush(s, cover);
 }
 
-const TRI_X = new Float64Array(3), TRI_Y = new Float64Array(3), TRI_H = new Float64Array(3);
-const TRI_U = new Float64Array(3), TRI_V = new Float64Array(3);
+const TRI_X = new Float64Array(3),
+  TRI_Y = new Float64Array(3),
+  TRI_H = new Float64Array(3);
+const TRI_U = new Float64Array(3),
+  TRI_V = new Float64Array(3);
 const PIECE = new Float64Array(16);
-const PIECE_U = new Float64Array(8), PIECE_V = new Float64Array(8);
+const PIECE_U = new Float64Array(8),
+  PIECE_V = new Float64Array(8);
 
 /** Sets plain[t] (and for a clipped triangle, plain 0, its piece signs) of triangle t (points p, q, r) and area2[t],
  * twice its |area| in the image (for a clipped triangle, of its front and back pieces together; stored, not returned:
  * a returned double is boxed). */
-function triangleSigns(s: SliceScratch, t: number, x: Float64Array, y: Float64Array, h: Float64Array, u: Float64Array, v: Float64Array, p: number, q: number, r: number, signed: boolean): void {
+function triangleSigns(
+  s: SliceScratch,
+  t: number,
+  x: Float64Array,
+  y: Float64Array,
+  h: Float64Array,
+  u: Float64Array,
+  v: Float64Array,
+  p: number,
+  q: number,
+  r: number,
+  signed: boolean,
+): void {
   const side = s.side;
-  if (signed && !(side[p] === side[q] && side[q] === side[r]) && Math.max(Math.abs(y[p]!), Math.abs(y[q]!), Math.abs(y[r]!)) > CLIP_EPS_MM) {
+  if (
+    signed &&
+    !(side[p] === side[q] && side[q] === side[r]) &&
+    Math.max(Math.abs(y[p]!), Math.abs(y[q]!), Math.abs(y[r]!)) > CLIP_EPS_MM
+  ) {
     s.plain[t] = 0;
-    const front = pieceArea2(s, x, y, h, p, q, r, 1), back = pieceArea2(s, x, y, h, p, q, r, 0);
+    const front = pieceArea2(s, x, y, h, p, q, r, 1),
+      back = pieceArea2(s, x, y, h, p, q, r, 0);
     s.signF[t] = front >= 0 ? 1 : -1;
     s.signB[t] = back >= 0 ? 1 : -1;
     s.area2[t] = Math.abs(front) + Math.abs(back);
@@ -422,12 +526,22 @@ function triangleSigns(s: SliceScratch, t: number, x: Float64Array, y: Float64Ar
 }
 
 /** Twice the signed area of the piece of triangle (p, q, r) on side `front` (1: x ≥ 0, mapped r = +ρ). */
-function pieceArea2(s: SliceScratch, x: Float64Array, y: Float64Array, h: Float64Array, p: number, q: number, r: number, front: number): number {
+function pieceArea2(
+  s: SliceScratch,
+  x: Float64Array,
+  y: Float64Array,
+  h: Float64Array,
+  p: number,
+  q: number,
+  r: number,
+  front: number,
+): number {
   let n = 0;
   for (let k = 0; k < 3; k++) {
     const i = k === 0 ? p : k === 1 ? q : r;
     const j = k === 0 ? q : k === 1 ? r : p;
-    const si = s.side[i]!, sj = s.side[j]!;
+    const si = s.side[i]!,
+      sj = s.side[j]!;
     if (si === front) {
       const rho = Math.sqrt(x[i]! * x[i]! + y[i]! * y[i]!);
       PIECE[2 * n] = front ? rho : -rho;
@@ -442,13 +556,28 @@ function pieceArea2(s: SliceScratch, x: Float64Array, y: Float64Array, h: Float6
     }
   }
   let a2 = 0;
-  for (let k = 0, l = n - 1; k < n; l = k++) a2 += PIECE[2 * l]! * PIECE[2 * k + 1]! - PIECE[2 * k]! * PIECE[2 * l + 1]!;
+  for (let k = 0, l = n - 1; k < n; l = k++)
+    a2 += PIECE[2 * l]! * PIECE[2 * k + 1]! - PIECE[2 * k]! * PIECE[2 * l + 1]!;
   return a2;
 }
 
 /** Emits the contributions of grid edge p→q; tf runs it forward, tb backward (−1: absent). */
-function gridEdge(s: SliceScratch, cover: RowCover, x: Float64Array, y: Float64Array, h: Float64Array, u: Float64Array, v: Float64Array, p: number, q: number, tf: number, tb: number, signed: boolean): void {
-  const side = s.side, plain = s.plain;
+function gridEdge(
+  s: SliceScratch,
+  cover: RowCover,
+  x: Float64Array,
+  y: Float64Array,
+  h: Float64Array,
+  u: Float64Array,
+  v: Float64Array,
+  p: number,
+  q: number,
+  tf: number,
+  tb: number,
+  signed: boolean,
+): void {
+  const side = s.side,
+    plain = s.plain;
   if (!signed || side[p] === side[q]) {
     const front = side[p] === 1;
     const mf = tf < 0 ? 0 : plain[tf] !== 0 ? plain[tf]! : front ? s.signF[tf]! : s.signB[tf]!;
@@ -458,7 +587,8 @@ function gridEdge(s: SliceScratch, cover: RowCover, x: Float64Array, y: Float64A
     return;
   }
   // x changes sign along the edge: clipped triangles contribute the two sub-edges, unclipped ones the whole edge
-  const cf = tf >= 0 && plain[tf] === 0, cb = tb >= 0 && plain[tb] === 0;
+  const cf = tf >= 0 && plain[tf] === 0,
+    cb = tb >= 0 && plain[tb] === 0;
   const whole = (tf >= 0 && !cf ? plain[tf]! : 0) - (tb >= 0 && !cb ? plain[tb]! : 0);
   if (whole !== 0) segment(s, cover, u, v, p, q, whole);
   if (!cf && !cb) return;
@@ -466,9 +596,11 @@ function gridEdge(s: SliceScratch, cover: RowCover, x: Float64Array, y: Float64A
   const mp = (cf ? (pf ? s.signF[tf]! : s.signB[tf]!) : 0) - (cb ? (pf ? s.signF[tb]! : s.signB[tb]!) : 0);
   const mq = (cf ? (pf ? s.signB[tf]! : s.signF[tf]!) : 0) - (cb ? (pf ? s.signB[tb]! : s.signF[tb]!) : 0);
   const c = s.cutInto(x, y, h, p, q);
-  const ry = Math.abs(c[0]!), ch = c[1]!;
+  const ry = Math.abs(c[0]!),
+    ch = c[1]!;
   // the end points go through s.endX / endY (see segment)
-  const ex = s.endX, ey = s.endY;
+  const ex = s.endX,
+    ey = s.endY;
   if (mp !== 0) {
     ex[0] = u[p]!;
     ey[0] = v[p]!;
@@ -489,12 +621,27 @@ function gridEdge(s: SliceScratch, cover: RowCover, x: Float64Array, y: Float64A
  * The cut edges of a clipped triangle (p, q, r): the front piece runs from the cut where the outline leaves the
  * front side to the cut where it comes back, at r = +|y|; the back piece runs the other way at r = −|y|.
  */
-function cutEdges(s: SliceScratch, cover: RowCover, x: Float64Array, y: Float64Array, h: Float64Array, p: number, q: number, r: number, signF: number, signB: number): void {
-  let exitY = 0, exitH = 0, entryY = 0, entryH = 0;
+function cutEdges(
+  s: SliceScratch,
+  cover: RowCover,
+  x: Float64Array,
+  y: Float64Array,
+  h: Float64Array,
+  p: number,
+  q: number,
+  r: number,
+  signF: number,
+  signB: number,
+): void {
+  let exitY = 0,
+    exitH = 0,
+    entryY = 0,
+    entryH = 0;
   for (let k = 0; k < 3; k++) {
     const i = k === 0 ? p : k === 1 ? q : r;
     const j = k === 0 ? q : k === 1 ? r : p;
-    const si = s.side[i]!, sj = s.side[j]!;
+    const si = s.side[i]!,
+      sj = s.side[j]!;
     if (si === sj) continue;
     const c = s.cutInto(x, y, h, i, j);
     if (si === 1) {
@@ -506,7 +653,8 @@ function cutEdges(s: SliceScratch, cover: RowCover, x: Float64Array, y: Float64A
     }
   }
   // the end points go through s.endX / endY (see segment)
-  const ex = s.endX, ey = s.endY;
+  const ex = s.endX,
+    ey = s.endY;
   ex[0] = exitY;
   ey[0] = exitH;
   ex[1] = entryY;
@@ -522,12 +670,14 @@ function cutEdges(s: SliceScratch, cover: RowCover, x: Float64Array, y: Float64A
 /** Full outline of the two pieces of a triangle given by coordinates (for addTriangles). */
 function clipOutline(s: SliceScratch, cover: RowCover, x: Float64Array, y: Float64Array, h: Float64Array): void {
   // the piece's corners (r, h), one array per coordinate for segment()
-  const pu = PIECE_U, pv = PIECE_V;
+  const pu = PIECE_U,
+    pv = PIECE_V;
   for (let front = 1; front >= 0; front--) {
     let n = 0;
     for (let k = 0; k < 3; k++) {
       const l = (k + 1) % 3;
-      const sk = x[k]! >= 0 ? 1 : 0, sl = x[l]! >= 0 ? 1 : 0;
+      const sk = x[k]! >= 0 ? 1 : 0,
+        sl = x[l]! >= 0 ? 1 : 0;
       if (sk === front) {
         const rho = Math.sqrt(x[k]! * x[k]! + y[k]! * y[k]!);
         pu[n] = front ? rho : -rho;
@@ -572,32 +722,52 @@ function clipOutline(s: SliceScratch, cover: RowCover, x: Float64Array, y: Float
  * collector took about a tenth of the envelope's time). Computed end points (cut points at x = 0) are written to
  * s.endX / s.endY (or a piece's corner arrays) first.
  */
-function segment(s: SliceScratch, cover: RowCover, px: Float64Array, py: Float64Array, i: number, k: number, m: number): void {
-  const yb = cover.y0, dy = cover.dy;
-  const yi = py[i]!, yk = py[k]!;
-  const lo = yi < yk ? yi : yk, hi = yi < yk ? yk : yi;
+function segment(
+  s: SliceScratch,
+  cover: RowCover,
+  px: Float64Array,
+  py: Float64Array,
+  i: number,
+  k: number,
+  m: number,
+): void {
+  const yb = cover.y0,
+    dy = cover.dy;
+  const yi = py[i]!,
+    yk = py[k]!;
+  const lo = yi < yk ? yi : yk,
+    hi = yi < yk ? yk : yi;
   // the end points' heights in row spacings, for the marks (rounded) and the crossings (rounded up)
-  const qlo = (lo - yb) / dy, qhi = (hi - yb) / dy;
+  const qlo = (lo - yb) / dy,
+    qhi = (hi - yb) / dy;
   markEnds(s, cover, px, py, i, k, Math.round(qlo), Math.round(qhi));
   // reversed: from k to i
-  const from = m < 0 ? k : i, to = m < 0 ? i : k;
+  const from = m < 0 ? k : i,
+    to = m < 0 ? i : k;
   if (m < 0) m = -m;
-  const x0 = px[from]!, y0 = py[from]!, x1 = px[to]!, y1 = py[to]!;
+  const x0 = px[from]!,
+    y0 = py[from]!,
+    x1 = px[to]!,
+    y1 = py[to]!;
   if (y0 === y1) return;
   // going down adds +m when sweeping left to right (counter-clockwise outline)
   const d = y1 < y0 ? m : -m;
-  const j0 = Math.ceil(qlo), j1 = Math.ceil(qhi) - 1;
+  const j0 = Math.ceil(qlo),
+    j1 = Math.ceil(qhi) - 1;
   if (j1 < j0) return;
   // Rows on which the whole segment lies inside a lane of the window (see flush): its crossings there would be set
   // aside into that interval anyway, so the run of rows is credited at once, without computing them. The x-extent
   // is widened by far more than the rounding error of a crossing (a few ulps), which may fall just outside it.
   let jFrom = j0;
-  const r0 = j0 - s.winLo, r1 = j1 - s.winLo;
+  const r0 = j0 - s.winLo,
+    r1 = j1 - s.winLo;
   if (r0 >= 0 && r1 < s.winRows) {
     const margin = 1e-9 * (Math.abs(x0) + Math.abs(x1) + 1);
-    const xa = (x0 < x1 ? x0 : x1) - margin, xb = (x0 < x1 ? x1 : x0) + margin;
+    const xa = (x0 < x1 ? x0 : x1) - margin,
+      xb = (x0 < x1 ? x1 : x0) + margin;
     const first = s.laneLo0[r0]! <= xa && xb <= s.laneHi0[r0]!;
-    const laneLo = first ? s.laneLo0 : s.laneLo1, laneHi = first ? s.laneHi0 : s.laneHi1;
+    const laneLo = first ? s.laneLo0 : s.laneLo1,
+      laneHi = first ? s.laneHi0 : s.laneHi1;
     let r = r0;
     while (r <= r1 && laneLo[r]! <= xa && xb <= laneHi[r]!) r++;
     if (r > r0) {
@@ -613,7 +783,9 @@ function segment(s: SliceScratch, cover: RowCover, px: Float64Array, py: Float64
   // opening crossings (d > 0) move left, closing ones right, to the end of the segment's piece within the band
   // (clipped to the segment: a nearly level segment has a long band run)
   const left = d > 0 === slope > 0 ? -0.5 * dy : 0.5 * dy;
-  const rows = s.rows, xs = s.xs, ds = s.ds;
+  const rows = s.rows,
+    xs = s.xs,
+    ds = s.ds;
   let c = s.count;
   for (let j = jFrom; j <= j1; j++) {
     let y = yb + j * dy + left;
@@ -633,12 +805,27 @@ function segment(s: SliceScratch, cover: RowCover, px: Float64Array, py: Float64
  * row lines). Where it does cross it, the shifted crossing covers the band piece already. j0 and j1 are passed in
  * (round((lo − y0)/dy), round((hi − y0)/dy)): segment() divides by dy once for both.
  */
-function markEnds(s: SliceScratch, cover: RowCover, px: Float64Array, py: Float64Array, i: number, k: number, j0: number, j1: number): void {
-  const x0 = px[i]!, y0 = py[i]!, x1 = px[k]!, y1 = py[k]!;
-  const yb = cover.y0, dy = cover.dy;
-  const lo = y0 < y1 ? y0 : y1, hi = y0 < y1 ? y1 : y0;
+function markEnds(
+  s: SliceScratch,
+  cover: RowCover,
+  px: Float64Array,
+  py: Float64Array,
+  i: number,
+  k: number,
+  j0: number,
+  j1: number,
+): void {
+  const x0 = px[i]!,
+    y0 = py[i]!,
+    x1 = px[k]!,
+    y1 = py[k]!;
+  const yb = cover.y0,
+    dy = cover.dy;
+  const lo = y0 < y1 ? y0 : y1,
+    hi = y0 < y1 ? y1 : y0;
   // row lines y_j with lo ≤ y_j < hi get a crossing (see segment)
-  const r0 = yb + j0 * dy, r1 = yb + j1 * dy;
+  const r0 = yb + j0 * dy,
+    r1 = yb + j1 * dy;
   if (j0 === j1) {
     if (!(lo <= r0 && r0 < hi)) s.mark(j0, x0 < x1 ? x0 : x1, x0 < x1 ? x1 : x0);
     return;
@@ -646,10 +833,13 @@ function markEnds(s: SliceScratch, cover: RowCover, px: Float64Array, py: Float6
   const slope = (x1 - x0) / (y1 - y0);
   // the start's band first: the next segment of a chain then marks the same row and merges with it
   for (let e = 0; e < 2; e++) {
-    const j = (e === 0) === (y0 <= y1) ? j0 : j1, rj = j === j0 ? r0 : r1;
+    const j = (e === 0) === y0 <= y1 ? j0 : j1,
+      rj = j === j0 ? r0 : r1;
     if (lo <= rj && rj < hi) continue;
-    const ya = Math.max(lo, yb + (j - 0.5) * dy), yc = Math.min(hi, yb + (j + 0.5) * dy);
-    const xa = x0 + (ya - y0) * slope, xc = x0 + (yc - y0) * slope;
+    const ya = Math.max(lo, yb + (j - 0.5) * dy),
+      yc = Math.min(hi, yb + (j + 0.5) * dy);
+    const xa = x0 + (ya - y0) * slope,
+      xc = x0 + (yc - y0) * slope;
     s.mark(j, xa < xc ? xa : xc, xa < xc ? xc : xa);
   }
 }
@@ -668,19 +858,30 @@ function markEnds(s: SliceScratch, cover: RowCover, px: Float64Array, py: Float6
  */
 function flush(s: SliceScratch, cover: RowCover): void {
   s.flushMark();
-  const n = s.count, wlo = s.winLo, wrows = s.winRows;
+  const n = s.count,
+    wlo = s.winLo,
+    wrows = s.winRows;
   if (n === 0 && wrows === 0) return;
-  const rows = s.rows, xs = s.xs, ds = s.ds;
-  const start = s.coverStart, cv = s.coverValues, acc = s.acc;
+  const rows = s.rows,
+    xs = s.xs,
+    ds = s.ds;
+  const start = s.coverStart,
+    cv = s.coverValues,
+    acc = s.acc;
   // Keep (compacted in place) the crossings outside the window's intervals; add up the others per interval.
   // Consecutive crossings mostly come from one segment on consecutive rows, inside the same interval of each: the
   // interval of the previous crossing (its index in its row) is tried first.
-  let jlo = wrows > 0 ? wlo : Infinity, jhi = wrows > 0 ? wlo + wrows - 1 : -Infinity;
-  let kept = 0, guess = 0;
+  let jlo = wrows > 0 ? wlo : Infinity,
+    jhi = wrows > 0 ? wlo + wrows - 1 : -Infinity;
+  let kept = 0,
+    guess = 0;
   for (let k = 0; k < n; k++) {
-    const j = rows[k]!, x = xs[k]!, r = j - wlo;
+    const j = rows[k]!,
+      x = xs[k]!,
+      r = j - wlo;
     if (r >= 0 && r < wrows) {
-      const o = start[r]!, m = (start[r + 1]! - o) >> 1;
+      const o = start[r]!,
+        m = (start[r + 1]! - o) >> 1;
       let lo = guess;
       if (!(lo < m && cv[o + 2 * lo]! <= x && x <= cv[o + 2 * lo + 1]!)) {
         // first interval whose end ≥ x
@@ -707,8 +908,12 @@ function flush(s: SliceScratch, cover: RowCover): void {
     if (j > jhi) jhi = j;
   }
   // the runs of rows credited to the lanes (see segment)
-  const diff0 = s.laneDiff0, diff1 = s.laneDiff1, idx0 = s.laneIdx0, idx1 = s.laneIdx1;
-  let run0 = 0, run1 = 0;
+  const diff0 = s.laneDiff0,
+    diff1 = s.laneDiff1,
+    idx0 = s.laneIdx0,
+    idx1 = s.laneIdx1;
+  let run0 = 0,
+    run1 = 0;
   for (let r = 0; r < wrows; r++) {
     run0 += diff0[r]!;
     run1 += diff1[r]!;
@@ -731,7 +936,8 @@ function flush(s: SliceScratch, cover: RowCover): void {
   }
   for (let r = 1; r <= span; r++) counts[r] = counts[r]! + counts[r - 1]!;
   // counts[r] is now the start of row r's block
-  const sx = s.sortedXs, sd = s.sortedDs;
+  const sx = s.sortedXs,
+    sd = s.sortedDs;
   for (let k = 0; k < kept; k++) {
     const r = rows[k]! - jlo;
     const slot = counts[r]!;
@@ -751,10 +957,12 @@ function flush(s: SliceScratch, cover: RowCover): void {
   }
   // counts[r] is now the end of row r's block; its start is counts[r − 1] (0 for r = 0)
   for (let r = 0; r < span; r++) {
-    const from = r === 0 ? 0 : counts[r - 1]!, end = counts[r]!;
+    const from = r === 0 ? 0 : counts[r - 1]!,
+      end = counts[r]!;
     if (end - from < 2) continue;
     sortRow(sx, sd, from, end);
-    let w = 0, open = 0;
+    let w = 0,
+      open = 0;
     const j = jlo + r;
     for (let k = from; k < end; k++) {
       const before = w;
@@ -773,7 +981,8 @@ function sortRow(xs: Float64Array, ds: Int32Array, start: number, end: number): 
   if (n > 24) while (gap < n / 3) gap = 3 * gap + 1;
   for (; gap >= 1; gap = (gap - 1) / 3) {
     for (let k = start + gap; k < end; k++) {
-      const x = xs[k]!, d = ds[k]!;
+      const x = xs[k]!,
+        d = ds[k]!;
       let i = k - gap;
       while (i >= start && xs[i]! > x) {
         xs[i + gap] = xs[i]!;
@@ -791,18 +1000,38 @@ function sortRow(xs: Float64Array, ds: Int32Array, start: number, end: number): 
  * signed-radius mode (`clip` given) an edge whose x changes sign is split where it crosses x = 0, and each piece is
  * mapped on its own side (r = ±|y| at the cut), so the jump of r across the axis is not filled in.
  */
-function addConservative(cover: RowCover, u: Float64Array, v: Float64Array, na: number, nb: number, widen: number, umin: number, umax: number, vmin: number, vmax: number, continuous: boolean, clip: { s: SliceScratch; x: Float64Array; y: Float64Array; h: Float64Array } | null = null): void {
-  const yb = cover.y0, dy = cover.dy;
-  const jlo = Math.ceil((vmin - yb) / dy - 0.5), jhi = Math.floor((vmax - yb) / dy + 0.5);
+function addConservative(
+  cover: RowCover,
+  u: Float64Array,
+  v: Float64Array,
+  na: number,
+  nb: number,
+  widen: number,
+  umin: number,
+  umax: number,
+  vmin: number,
+  vmax: number,
+  continuous: boolean,
+  clip: { s: SliceScratch; x: Float64Array; y: Float64Array; h: Float64Array } | null = null,
+): void {
+  const yb = cover.y0,
+    dy = cover.dy;
+  const jlo = Math.ceil((vmin - yb) / dy - 0.5),
+    jhi = Math.floor((vmax - yb) / dy + 0.5);
   if (jlo === jhi && continuous) {
     // the whole (connected) image lies in one row band: its x-extent is one interval
     cover.add(jlo, umin - widen, umax + widen);
     return;
   }
   const mark = (p: number, q: number) => {
-    if (clip && clip.s.side[p] !== clip.s.side[q] && Math.max(Math.abs(clip.y[p]!), Math.abs(clip.y[q]!)) > CLIP_EPS_MM) {
+    if (
+      clip &&
+      clip.s.side[p] !== clip.s.side[q] &&
+      Math.max(Math.abs(clip.y[p]!), Math.abs(clip.y[q]!)) > CLIP_EPS_MM
+    ) {
       const c = clip.s.cutInto(clip.x, clip.y, clip.h, p, q);
-      const rc = Math.abs(c[0]!), hc = c[1]!;
+      const rc = Math.abs(c[0]!),
+        hc = c[1]!;
       markSegment(u[p]!, v[p]!, clip.s.side[p] ? rc : -rc, hc);
       markSegment(clip.s.side[q] ? rc : -rc, hc, u[q]!, v[q]!);
       return;
@@ -810,19 +1039,26 @@ function addConservative(cover: RowCover, u: Float64Array, v: Float64Array, na: 
     markSegment(u[p]!, v[p]!, u[q]!, v[q]!);
   };
   const markSegment = (x0: number, y0: number, x1: number, y1: number) => {
-    const lo = Math.min(y0, y1), hi = Math.max(y0, y1);
-    const j0 = Math.ceil((lo - yb) / dy - 0.5), j1 = Math.floor((hi - yb) / dy + 0.5);
+    const lo = Math.min(y0, y1),
+      hi = Math.max(y0, y1);
+    const j0 = Math.ceil((lo - yb) / dy - 0.5),
+      j1 = Math.floor((hi - yb) / dy + 0.5);
     for (let j = j0; j <= j1; j++) {
-      const bandLo = yb + (j - 0.5) * dy, bandHi = yb + (j + 0.5) * dy;
-      let t0 = 0, t1 = 1;
+      const bandLo = yb + (j - 0.5) * dy,
+        bandHi = yb + (j + 0.5) * dy;
+      let t0 = 0,
+        t1 = 1;
       if (y1 !== y0) {
-        const ta = (bandLo - y0) / (y1 - y0), tb = (bandHi - y0) / (y1 - y0);
+        const ta = (bandLo - y0) / (y1 - y0),
+          tb = (bandHi - y0) / (y1 - y0);
         t0 = Math.max(0, Math.min(ta, tb));
         t1 = Math.min(1, Math.max(ta, tb));
         if (t0 > t1) continue;
       }
-      const xa = x0 + t0 * (x1 - x0), xb = x0 + t1 * (x1 - x0);
-      const a = Math.min(xa, xb) - widen, b = Math.max(xa, xb) + widen;
+      const xa = x0 + t0 * (x1 - x0),
+        xb = x0 + t1 * (x1 - x0);
+      const a = Math.min(xa, xb) - widen,
+        b = Math.max(xa, xb) + widen;
       if (!cover.covers(j, a, b)) cover.add(j, a, b);
     }
   };

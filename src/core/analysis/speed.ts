@@ -28,14 +28,27 @@ export interface SpeedScratch {
 
 export function createSpeedScratch(m: number): SpeedScratch {
   const k = Math.max(6, m);
-  return { m, a: new Float64Array(k * k), x: new Float64Array(k * 3), b: new Float64Array(m * 3), sum: new Float64Array(3), lastDet: NaN };
+  return {
+    m,
+    a: new Float64Array(k * k),
+    x: new Float64Array(k * 3),
+    b: new Float64Array(m * 3),
+    sum: new Float64Array(3),
+    lastDet: NaN,
+  };
 }
 
 /**
  * Solves a·x = rhs in place (a: k × k row-major, x: k × 3 row-major) by Gaussian elimination with partial pivoting.
  * Returns false when a pivot falls below `relTol` × the largest entry (numerically singular).
  */
-export function solveInPlace3(a: Float64Array, x: Float64Array, k: number, relTol = 1e-13, det?: { value: number }): boolean {
+export function solveInPlace3(
+  a: Float64Array,
+  x: Float64Array,
+  k: number,
+  relTol = 1e-13,
+  det?: { value: number },
+): boolean {
   let scale = 0;
   for (let i = 0; i < k * k; i++) scale = Math.max(scale, Math.abs(a[i]!));
   if (det) det.value = 0;
@@ -43,7 +56,8 @@ export function solveInPlace3(a: Float64Array, x: Float64Array, k: number, relTo
   const tol = relTol * scale;
   let product = 1;
   for (let c = 0; c < k; c++) {
-    let p = c, best = Math.abs(a[c * k + c]!);
+    let p = c,
+      best = Math.abs(a[c * k + c]!);
     for (let r = c + 1; r < k; r++) {
       const v = Math.abs(a[r * k + c]!);
       if (v > best) {
@@ -91,7 +105,8 @@ export function solveInPlace3(a: Float64Array, x: Float64Array, k: number, relTo
  * once per solution. Writes B into s.b and det J into s.lastDet (0 when singular).
  */
 function lineRates6Into(j: ArrayLike<number>, s: SpeedScratch): boolean {
-  const a = s.a, x = s.b;
+  const a = s.a,
+    x = s.b;
   let scale = 0;
   for (let i = 0; i < 36; i++) {
     const v = j[i]!;
@@ -107,7 +122,8 @@ function lineRates6Into(j: ArrayLike<number>, s: SpeedScratch): boolean {
   const tol = 1e-13 * scale;
   let product = 1;
   for (let c = 0; c < 6; c++) {
-    let p = c, best = Math.abs(a[c * 6 + c]!);
+    let p = c,
+      best = Math.abs(a[c * 6 + c]!);
     for (let r = c + 1; r < 6; r++) {
       const v = Math.abs(a[r * 6 + c]!);
       if (v > best) {
@@ -137,7 +153,9 @@ function lineRates6Into(j: ArrayLike<number>, s: SpeedScratch): boolean {
     }
     const piv = a[c * 6 + c]!;
     product *= p !== c ? -piv : piv;
-    const x0 = x[c3]!, x1 = x[c3 + 1]!, x2 = x[c3 + 2]!;
+    const x0 = x[c3]!,
+      x1 = x[c3 + 1]!,
+      x2 = x[c3 + 2]!;
     for (let r = c + 1; r < 6; r++) {
       const f = a[r * 6 + c]! / piv;
       if (f === 0) continue;
@@ -150,7 +168,9 @@ function lineRates6Into(j: ArrayLike<number>, s: SpeedScratch): boolean {
   s.lastDet = product;
   for (let c = 5; c >= 0; c--) {
     const piv = a[c * 6 + c]!;
-    let v0 = x[c * 3]!, v1 = x[c * 3 + 1]!, v2 = x[c * 3 + 2]!;
+    let v0 = x[c * 3]!,
+      v1 = x[c * 3 + 1]!,
+      v2 = x[c * 3 + 2]!;
     for (let r = c + 1; r < 6; r++) {
       const ar = a[c * 6 + r]!;
       v0 -= ar * x[r * 3]!;
@@ -170,7 +190,9 @@ function lineRates6Into(j: ArrayLike<number>, s: SpeedScratch): boolean {
  * @param j 6 × m Jacobian, rows (vx, vy, vz, ωx, ωy, ωz), SI
  */
 export function lineRatesInto(j: ArrayLike<number>, m: number, s: SpeedScratch): boolean {
-  const a = s.a, x = s.x, b = s.b;
+  const a = s.a,
+    x = s.x,
+    b = s.b;
   s.lastDet = NaN;
   if (m === 6) return lineRates6Into(j, s);
   if (m > 6) {
@@ -231,7 +253,12 @@ function residualOk(j: ArrayLike<number>, m: number, b: Float64Array): boolean {
  * @param maxRate joint-rate limits of the driven joints, rad/s or m/s
  * @example 2R planar (1 m, 1 m) at q = (0, 90°) with limits (1, 1) rad/s has r = 1/√2 m/s in the plane (CHECKS C12)
  */
-export function guaranteedLineSpeed(j: ArrayLike<number>, m: number, maxRate: ArrayLike<number>, s: SpeedScratch): number {
+export function guaranteedLineSpeed(
+  j: ArrayLike<number>,
+  m: number,
+  maxRate: ArrayLike<number>,
+  s: SpeedScratch,
+): number {
   if (!lineRatesInto(j, m, s)) return 0;
   const b = s.b;
   // Math.hypot is several times slower than sqrt(x² + y² + z²), which is within a few ulp of it: a first pass with
@@ -240,7 +267,9 @@ export function guaranteedLineSpeed(j: ArrayLike<number>, m: number, maxRate: Ar
   // overflow, and non-finite ratios, take the plain loop.
   let approx = Infinity;
   for (let i = 0; i < m; i++) {
-    const x = b[i * 3]!, y = b[i * 3 + 1]!, z = b[i * 3 + 2]!;
+    const x = b[i * 3]!,
+      y = b[i * 3 + 1]!,
+      z = b[i * 3 + 2]!;
     const n2 = x * x + y * y + z * z;
     if (n2 === 0 && x === 0 && y === 0 && z === 0) continue;
     const ratio = maxRate[i]! / Math.sqrt(n2);
@@ -254,7 +283,9 @@ export function guaranteedLineSpeed(j: ArrayLike<number>, m: number, maxRate: Ar
 function rowMinimum(b: Float64Array, m: number, maxRate: ArrayLike<number>, threshold: number): number {
   let best = Infinity;
   for (let i = 0; i < m; i++) {
-    const x = b[i * 3]!, y = b[i * 3 + 1]!, z = b[i * 3 + 2]!;
+    const x = b[i * 3]!,
+      y = b[i * 3 + 1]!,
+      z = b[i * 3 + 2]!;
     if (threshold !== Infinity && !(maxRate[i]! / Math.sqrt(x * x + y * y + z * z) <= threshold)) continue;
     const n = Math.hypot(x, y, z);
     if (n > 0) best = Math.min(best, maxRate[i]! / n);

@@ -13,8 +13,22 @@
  */
 import type { Chain } from "../kinematics/chain";
 import { createScratch, forwardInto, jacobianInto, wristCentreInto } from "../kinematics/forward";
-import { createIkScratch, createIkSeedPose, holdsFullOrientation, ikSeedPoseInto, solveIkInto, taskErrorInto, withinIkTolerance, type IkOptions } from "../kinematics/inverse";
-import { MAX_CLOSED_FORM_SOLUTIONS, solveSphericalWristInto, sphericalWristIk, wrapNear } from "../kinematics/closedForm";
+import {
+  createIkScratch,
+  createIkSeedPose,
+  holdsFullOrientation,
+  ikSeedPoseInto,
+  solveIkInto,
+  taskErrorInto,
+  withinIkTolerance,
+  type IkOptions,
+} from "../kinematics/inverse";
+import {
+  MAX_CLOSED_FORM_SOLUTIONS,
+  solveSphericalWristInto,
+  sphericalWristIk,
+  wrapNear,
+} from "../kinematics/closedForm";
 import { createSpeedScratch, guaranteedLineSpeed, maxToolSpeed } from "./speed";
 import { createSingularityScratch, scaledInverseCondition, scaledSingularValues } from "./singularity";
 import { createSvdScratch, svdInto } from "../math/svd";
@@ -110,7 +124,12 @@ const PREDICTOR_MAX_STEP_RAD = 0.03;
  * left is of the order of L·‖Δq‖² < 1e-6 m); every solution is checked when it leaves the queue, where its forward
  * kinematics is computed anyway, and corrected by VERIFY_IK if it misses the tolerance.
  */
-const CONTINUATION_IK: IkOptions = { maxIterations: 12, toleranceM: 1e-6, toleranceRad: 1e-5, trustFinalStepBelowM: 1e-3 };
+const CONTINUATION_IK: IkOptions = {
+  maxIterations: 12,
+  toleranceM: 1e-6,
+  toleranceRad: 1e-5,
+  trustFinalStepBelowM: 1e-3,
+};
 const VERIFY_IK: IkOptions = { maxIterations: 12, toleranceM: 1e-6, toleranceRad: 1e-5 };
 const DISCOVERY_IK: IkOptions = { maxIterations: 60, toleranceM: 1e-7, toleranceRad: 1e-6 };
 
@@ -127,7 +146,9 @@ function sidePlane(chain: Chain, gravity: readonly number[]): Plane {
   const k = chain.drivenJoint[0]!;
   const up = [-gravity[0]!, -gravity[1]!, -gravity[2]!];
   if (!chain.isPrismatic[k]) {
-    const f = 16 * k, fr = s.motionFrames, a = chain.axisLocal;
+    const f = 16 * k,
+      fr = s.motionFrames,
+      a = chain.axisLocal;
     let zx = fr[f]! * a[3 * k]! + fr[f + 1]! * a[3 * k + 1]! + fr[f + 2]! * a[3 * k + 2]!;
     let zy = fr[f + 4]! * a[3 * k]! + fr[f + 5]! * a[3 * k + 1]! + fr[f + 6]! * a[3 * k + 2]!;
     let zz = fr[f + 8]! * a[3 * k]! + fr[f + 9]! * a[3 * k + 1]! + fr[f + 10]! * a[3 * k + 2]!;
@@ -137,14 +158,18 @@ function sidePlane(chain: Chain, gravity: readonly number[]): Plane {
     zy *= sign;
     zz *= sign;
     // Radial: base x made perpendicular to axis 1 (or base y when x is along the axis).
-    let rx = 1 - zx * zx, ry = -zx * zy, rz = -zx * zz;
+    let rx = 1 - zx * zx,
+      ry = -zx * zy,
+      rz = -zx * zz;
     if (Math.hypot(rx, ry, rz) < 1e-6) {
       rx = -zy * zx;
       ry = 1 - zy * zy;
       rz = -zy * zz;
     }
     const rn = Math.hypot(rx, ry, rz);
-    const ox = fr[f + 3]!, oy = fr[f + 7]!, oz = fr[f + 11]!;
+    const ox = fr[f + 3]!,
+      oy = fr[f + 7]!,
+      oz = fr[f + 11]!;
     // Point of axis 1 nearest the base origin.
     const t = -(ox * zx + oy * zy + oz * zz);
     return { o: [ox + t * zx, oy + t * zy, oz + t * zz], radial: [rx / rn, ry / rn, rz / rn], up: [zx, zy, zz] };
@@ -156,15 +181,21 @@ function sidePlane(chain: Chain, gravity: readonly number[]): Plane {
 /** Rough plane bounds (mm) from seeded random poses within the joint limits, with a margin. */
 function sampledBounds(chain: Chain, plane: Plane, seed: number): { rMax: number; zMin: number; zMax: number } {
   const rnd = mulberry32(seed);
-  const s = createScratch(chain), q = new Float64Array(chain.drivenCount);
-  let rMax = 0, zMin = Infinity, zMax = -Infinity;
+  const s = createScratch(chain),
+    q = new Float64Array(chain.drivenCount);
+  let rMax = 0,
+    zMin = Infinity,
+    zMax = -Infinity;
   for (let n = 0; n < 6000; n++) {
     for (let i = 0; i < q.length; i++) {
-      const lo = Math.max(chain.lowerSi[i]!, -Math.PI), hi = Math.min(chain.upperSi[i]!, Math.PI);
+      const lo = Math.max(chain.lowerSi[i]!, -Math.PI),
+        hi = Math.min(chain.upperSi[i]!, Math.PI);
       q[i] = lo + (hi - lo) * rnd();
     }
     const t = forwardInto(chain, q, s);
-    const dx = t[3]! - plane.o[0]!, dy = t[7]! - plane.o[1]!, dz = t[11]! - plane.o[2]!;
+    const dx = t[3]! - plane.o[0]!,
+      dy = t[7]! - plane.o[1]!,
+      dz = t[11]! - plane.o[2]!;
     const h = dx * plane.up[0]! + dy * plane.up[1]! + dz * plane.up[2]!;
     const r = Math.hypot(dx - h * plane.up[0]!, dy - h * plane.up[1]!, dz - h * plane.up[2]!);
     const z = t[3]! * plane.up[0]! + t[7]! * plane.up[1]! + t[11]! * plane.up[2]!;
@@ -177,10 +208,21 @@ function sampledBounds(chain: Chain, plane: Plane, seed: number): { rMax: number
 }
 
 /** Target flange pose (row-major 4×4, m) for a cell. */
-function targetInto(out: Float64Array, plane: Plane, rM: number, zM: number, orientation: ReferenceOrientation, gravity: readonly number[], outwardSign: number): Float64Array {
-  const up = plane.up, rad = plane.radial;
+function targetInto(
+  out: Float64Array,
+  plane: Plane,
+  rM: number,
+  zM: number,
+  orientation: ReferenceOrientation,
+  gravity: readonly number[],
+  outwardSign: number,
+): Float64Array {
+  const up = plane.up,
+    rad = plane.radial;
   let xx: number, xy: number, xz: number, zx: number, zy: number, zz: number;
-  const ox = rad[0]! * outwardSign, oy = rad[1]! * outwardSign, oz = rad[2]! * outwardSign;
+  const ox = rad[0]! * outwardSign,
+    oy = rad[1]! * outwardSign,
+    oz = rad[2]! * outwardSign;
   if (orientation === "down") {
     zx = gravity[0]!;
     zy = gravity[1]!;
@@ -219,19 +261,33 @@ function targetInto(out: Float64Array, plane: Plane, rM: number, zM: number, ori
     xy /= n;
     xz /= n;
   }
-  const yx = zy * xz - zz * xy, yy = zz * xx - zx * xz, yz = zx * xy - zy * xx;
-  out[0] = xx; out[1] = yx; out[2] = zx;
-  out[4] = xy; out[5] = yy; out[6] = zy;
-  out[8] = xz; out[9] = yz; out[10] = zz;
-  out[12] = 0; out[13] = 0; out[14] = 0; out[15] = 1;
+  const yx = zy * xz - zz * xy,
+    yy = zz * xx - zx * xz,
+    yz = zx * xy - zy * xx;
+  out[0] = xx;
+  out[1] = yx;
+  out[2] = zx;
+  out[4] = xy;
+  out[5] = yy;
+  out[6] = zy;
+  out[8] = xz;
+  out[9] = yz;
+  out[10] = zz;
+  out[12] = 0;
+  out[13] = 0;
+  out[14] = 0;
+  out[15] = 1;
   return targetPositionInto(out, plane, rM, zM);
 }
 
 /** The position column of a cell's target (out[3], out[7], out[11]): axis-1 point + r·radial, then the height
  * measured along `up` from the base origin. Every cell of a map has the same orientation; only this changes. */
 function targetPositionInto(out: Float64Array, plane: Plane, rM: number, zM: number): Float64Array {
-  const up = plane.up, rad = plane.radial;
-  const px0 = plane.o[0]! + rM * rad[0]!, py0 = plane.o[1]! + rM * rad[1]!, pz0 = plane.o[2]! + rM * rad[2]!;
+  const up = plane.up,
+    rad = plane.radial;
+  const px0 = plane.o[0]! + rM * rad[0]!,
+    py0 = plane.o[1]! + rM * rad[1]!,
+    pz0 = plane.o[2]! + rM * rad[2]!;
   const h0 = px0 * up[0]! + py0 * up[1]! + pz0 * up[2]!;
   out[3] = px0 + (zM - h0) * up[0]!;
   out[7] = py0 + (zM - h0) * up[1]!;
@@ -278,7 +334,12 @@ export function referenceOrientations(chain: Chain): ReferenceOrientation[] {
  * Computes the tool-speed map of one reference orientation.
  * @see module comment for definitions; DOMAIN: guaranteed straight-line speed and maximum tool speed
  */
-export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, options: SpeedMapOptions = DEFAULT_SPEED_MAP, workspace?: SpeedMapWorkspace): ToolSpeedMap {
+export function toolSpeedMap(
+  chain: Chain,
+  orientation: ReferenceOrientation,
+  options: SpeedMapOptions = DEFAULT_SPEED_MAP,
+  workspace?: SpeedMapWorkspace,
+): ToolSpeedMap {
   const m = chain.drivenCount;
   const plane = sidePlane(chain, options.gravity);
   const bounds = options.boundsMm ?? sampledBounds(chain, plane, options.seed);
@@ -289,7 +350,8 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
   const rMinMm = -2 * step;
   const nx = Math.max(1, Math.ceil((bounds.rMax - rMinMm) / step) + 1);
   const ny = Math.max(1, Math.ceil((bounds.zMax - zMinMm) / step) + 1);
-  const cells = nx * ny, K = options.maxBranches;
+  const cells = nx * ny,
+    K = options.maxBranches;
   const grid: Grid2 = { nx, ny, rMinMm, zMinMm, stepMm: step };
   // Arms with fewer than six joints that can still turn the tool about its axis (SCARA, palletizer, gantry with a
   // rotary axis) hold the full reference orientation; otherwise only the tool axis (rotation about it free).
@@ -319,7 +381,8 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     return i;
   };
   const union = (a: number, b: number) => {
-    const ra = find(a), rb = find(b);
+    const ra = find(a),
+      rb = find(b);
     if (ra !== rb) parent[Math.max(ra, rb)] = Math.min(ra, rb);
   };
   let lastEqual = -1;
@@ -351,8 +414,17 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     if (!closed || !closedCount || !closedSol) return -1;
     let c = closedCount[cell]!;
     if (c === -2) {
-      const ix = cell % nx, iy = (cell - ix) / nx;
-      targetInto(closedTarget, plane, (grid.rMinMm + ix * step) / 1000, (zMinMm + iy * step) / 1000, orientation, options.gravity, 1);
+      const ix = cell % nx,
+        iy = (cell - ix) / nx;
+      targetInto(
+        closedTarget,
+        plane,
+        (grid.rMinMm + ix * step) / 1000,
+        (zMinMm + iy * step) / 1000,
+        orientation,
+        options.gravity,
+        1,
+      );
       c = solveSphericalWristInto(closedSol, closed, closedTarget, cell * MAX_CLOSED_FORM_SOLUTIONS * m);
       closedCount[cell] = c;
     }
@@ -360,16 +432,21 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
   };
   /** The closed-form solution at `cell` nearest to `seed` (largest joint difference, revolute joints by whole turns) into `out`. */
   const nearestClosedInto = (out: Float64Array, cell: number, n: number, seed: Float64Array): boolean => {
-    let bestJump = Infinity, best = -1;
+    let bestJump = Infinity,
+      best = -1;
     const sols = closedSol!;
     for (let k = 0; k < n; k++) {
       const off = (cell * MAX_CLOSED_FORM_SOLUTIONS + k) * m;
       let jump = 0;
       for (let i = 0; i < m && jump < bestJump; i++) {
-        const v = sols[off + i]!, s = seed[i]!;
+        const v = sols[off + i]!,
+          s = seed[i]!;
         // In range and within half a turn of the seed needs no wrapping (the usual case).
         const d = Math.abs(v - s);
-        jump = Math.max(jump, d <= Math.PI || !wraps[i] ? d : Math.abs(wrapNear(v, s, chain.lowerSi[i]!, chain.upperSi[i]!) - s));
+        jump = Math.max(
+          jump,
+          d <= Math.PI || !wraps[i] ? d : Math.abs(wrapNear(v, s, chain.lowerSi[i]!, chain.upperSi[i]!) - s),
+        );
       }
       if (jump < bestJump) {
         bestJump = jump;
@@ -379,7 +456,8 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     if (best < 0) return false;
     const off = (cell * MAX_CLOSED_FORM_SOLUTIONS + best) * m;
     for (let i = 0; i < m; i++) {
-      const v = sols[off + i]!, s = seed[i]!;
+      const v = sols[off + i]!,
+        s = seed[i]!;
       out[i] = Math.abs(v - s) <= Math.PI || !wraps[i] ? v : wrapNear(v, s, chain.lowerSi[i]!, chain.upperSi[i]!);
     }
     return true;
@@ -388,7 +466,8 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
   // Every cell's target has the same orientation: it is computed once; setTarget only moves the position.
   const setTarget = (cell: number) => setTargetInto(target, cell);
   const setTargetInto = (out: Float64Array, cell: number) => {
-    const ix = cell % nx, iy = (cell - ix) / nx;
+    const ix = cell % nx,
+      iy = (cell - ix) / nx;
     targetPositionInto(out, plane, (grid.rMinMm + ix * step) / 1000, (zMinMm + iy * step) / 1000);
   };
   targetInto(target, plane, 0, 0, orientation, options.gravity, 1);
@@ -458,10 +537,13 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
   };
   /** Joins the twins of two joined solutions when they are continuous too (the ± half turns may differ). */
   const unionTwins = (a: number, b: number) => {
-    const ca = (a / K) | 0, cb = (b / K) | 0;
-    const ta = twinSlot[a]!, tb = twinSlot[b]!;
+    const ca = (a / K) | 0,
+      cb = (b / K) | 0;
+    const ta = twinSlot[a]!,
+      tb = twinSlot[b]!;
     if (ta < 0 || tb < 0) return;
-    const oa = solAt(ca * K + ta), ob = solAt(cb * K + tb);
+    const oa = solAt(ca * K + ta),
+      ob = solAt(cb * K + tb);
     let jump = 0;
     for (let i = 0; i < m; i++) jump = Math.max(jump, Math.abs(pool[oa + i]! - pool[ob + i]!));
     if (jump < MAX_CONTINUATION_JUMP_RAD) union(ca * K + ta, cb * K + tb);
@@ -485,13 +567,17 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     const jac = seedPose.jacobian;
     guaranteedVal[idx] = guaranteedLineSpeed(jac, m, chain.maxSpeedSi, sp);
     // det J from the LU the speed figure just made (m = 6); the 4-row task determinant otherwise.
-    detVal[idx] = m === 6 ? sp.lastDet / lengthCubed : taskDeterminant(jac, m, chain.characteristicLengthM, seedPose.flange, detWork);
+    detVal[idx] =
+      m === 6
+        ? sp.lastDet / lengthCubed
+        : taskDeterminant(jac, m, chain.characteristicLengthM, seedPose.flange, detWork);
   };
 
   const qFix = new Float64Array(m);
   const poseError = new Float64Array(6);
   /** Whether flange pose t meets the continuation tolerances at the target (the solver's own error measure). */
-  const withinTolerance = (t: Float64Array, goal: Float64Array): boolean => withinIkTolerance(taskErrorInto(poseError, goal, t, task === "axis"), continuationIk);
+  const withinTolerance = (t: Float64Array, goal: Float64Array): boolean =>
+    withinIkTolerance(taskErrorInto(poseError, goal, t, task === "axis"), continuationIk);
 
   // Continuation predictor (see flood): plane steps in the base frame, m: +r, −r, +z, −z.
   // Not for redundant arms: there the predictor's minimum-norm tangent and the damped solver's step move along the
@@ -500,12 +586,16 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
   const tangentB = new Float64Array(3 * m);
   const qPred = new Float64Array(m);
   const planeStep = [0, 1, 2, 3].map((d) => {
-    const v = d < 2 ? plane.radial : plane.up, sign = d % 2 === 0 ? 1 : -1;
+    const v = d < 2 ? plane.radial : plane.up,
+      sign = d % 2 === 0 ? 1 : -1;
     return Float64Array.from([0, 1, 2], (i) => (sign * step * v[i]!) / 1000);
   });
   /** q + B·Δp for the step in direction d into out; false when the step is long (near a singularity). */
   const predictInto = (out: Float64Array, d: number, q: Float64Array): boolean => {
-    const dp = planeStep[d]!, dx = dp[0]!, dy = dp[1]!, dz = dp[2]!;
+    const dp = planeStep[d]!,
+      dx = dp[0]!,
+      dy = dp[1]!,
+      dz = dp[2]!;
     for (let i = 0; i < m; i++) {
       const v = tangentB[3 * i]! * dx + tangentB[3 * i + 1]! * dy + tangentB[3 * i + 2]! * dz;
       if (!(Math.abs(v) < PREDICTOR_MAX_STEP_RAD)) return false;
@@ -516,21 +606,25 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
 
   // Flood fill: queue of (cell, slot).
   const queue = ws.i32("queue", cells * K * 2);
-  let head = 0, tail = 0;
+  let head = 0,
+    tail = 0;
   const push = (cell: number, slot: number) => {
     queue[tail++] = cell;
     queue[tail++] = slot;
   };
   const flood = () => {
     while (head < tail) {
-      const cell = queue[head++]!, slot = queue[head++]!;
-      const ix = cell % nx, iy = (cell - ix) / nx;
+      const cell = queue[head++]!,
+        slot = queue[head++]!;
+      const ix = cell % nx,
+        iy = (cell - ix) / nx;
       const fromIdx = cell * K + slot;
       const from = solAt(fromIdx);
       for (let i = 0; i < m; i++) qSeed[i] = pool[from + i]!;
       // A twin takes its figures from its partner (same guaranteed speed, det J negated), once the partner has them.
       const partner = flip ? twinSlot[fromIdx]! : -1;
-      let poseReady = false, tangentReady = false;
+      let poseReady = false,
+        tangentReady = false;
       if (partner >= 0 && !Number.isNaN(guaranteedVal[cell * K + partner]!)) {
         guaranteedVal[fromIdx] = guaranteedVal[cell * K + partner]!;
         detVal[fromIdx] = -detVal[cell * K + partner]!;
@@ -539,7 +633,10 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
         poseReady = true;
         // The check of a trusted last step (CONTINUATION_IK), from the forward kinematics just done.
         setTargetInto(popTarget, cell);
-        if (!withinTolerance(seedPose.flange, popTarget) && solveIkInto(qFix, chain, popTarget, qSeed, ik, verifyIk, seedPose)) {
+        if (
+          !withinTolerance(seedPose.flange, popTarget) &&
+          solveIkInto(qFix, chain, popTarget, qSeed, ik, verifyIk, seedPose)
+        ) {
           pool.set(qFix, from);
           qSeed.set(qFix);
           slotFigures(cell, slot, qSeed);
@@ -554,7 +651,8 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
         }
       }
       for (let d = 0; d < 4; d++) {
-        const jx = ix + (d === 0 ? 1 : d === 1 ? -1 : 0), jy = iy + (d === 2 ? 1 : d === 3 ? -1 : 0);
+        const jx = ix + (d === 0 ? 1 : d === 1 ? -1 : 0),
+          jy = iy + (d === 2 ? 1 : d === 3 ? -1 : 0);
         if (jx < 0 || jy < 0 || jx >= nx || jy >= ny) continue;
         const next = jx + jy * nx;
         const held = count[next]!;
@@ -570,7 +668,11 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
           setTarget(next);
           // First-order predictor q + B·Δp: where the solver's first (damped) step from q would go, without
           // solving for it. The solve from the seed pose remains for poses without B and as the fallback.
-          if (!(tangentReady && predictInto(qPred, d, qSeed) && solveIkInto(qTry, chain, target, qPred, ik, continuationIk))) {
+          if (!(
+            tangentReady &&
+            predictInto(qPred, d, qSeed) &&
+            solveIkInto(qTry, chain, target, qPred, ik, continuationIk)
+          )) {
             if (!poseReady) {
               ikSeedPoseInto(seedPose, chain, qSeed, popKin);
               poseReady = true;
@@ -626,7 +728,8 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
         // Every seed sets the target again: the flood from the previous seed's solution aimed it at other cells.
         setTarget(cell);
         for (let i = 0; i < m; i++) {
-          const lo = Math.max(chain.lowerSi[i]!, -Math.PI), hi = Math.min(chain.upperSi[i]!, Math.PI);
+          const lo = Math.max(chain.lowerSi[i]!, -Math.PI),
+            hi = Math.min(chain.upperSi[i]!, Math.PI);
           // Every other seed puts some joints exactly at a limit: branches that exist only in a thin band next to
           // a limit (a wrist joint at ±180°) are found too.
           const u = rnd();
@@ -645,7 +748,8 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
 
   // Closed form: branches the flood did not reach from the discovery cells (cut off by joint limits or by
   // degenerate cells) are found at every cell.
-  if (closed && closedContinuation && options.discoverEveryCell !== false) for (let cell = 0; cell < cells; cell++) discoverClosed(cell);
+  if (closed && closedContinuation && options.discoverEveryCell !== false)
+    for (let cell = 0; cell < cells; cell++) discoverClosed(cell);
 
   // Figures per cell: best branch by guaranteed speed.
   const guaranteed = new Float64Array(cells).fill(NaN);
@@ -672,10 +776,13 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     const n = count[cell]!;
     if (n === 0) continue;
     reachable++;
-    let best = -1, bestG = -1, bestJReady = false;
+    let best = -1,
+      bestG = -1,
+      bestJReady = false;
     for (let k = 0; k < n; k++) {
       // Every stored solution went through the queue; computed here only if one had not.
-      if (Number.isNaN(guaranteedVal[cell * K + k]!)) slotFigures(cell, k, pool.subarray(solAt(cell * K + k), solAt(cell * K + k) + m));
+      if (Number.isNaN(guaranteedVal[cell * K + k]!))
+        slotFigures(cell, k, pool.subarray(solAt(cell * K + k), solAt(cell * K + k) + m));
       const g = guaranteedVal[cell * K + k]!;
       if (g > bestG + 1e-12 || best < 0) {
         best = k;
@@ -688,7 +795,8 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
         if (!bestJReady) slotJacobianInto(bestJ, cell, best);
         bestJReady = true;
         slotJacobianInto(j, cell, k);
-        const vNew = maxToolSpeed(j, m, chain.maxSpeedSi, sp), vOld = maxToolSpeed(bestJ, m, chain.maxSpeedSi, sp);
+        const vNew = maxToolSpeed(j, m, chain.maxSpeedSi, sp),
+          vOld = maxToolSpeed(bestJ, m, chain.maxSpeedSi, sp);
         if (vNew > vOld) {
           best = k;
           bestJ.set(j);
@@ -703,7 +811,8 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     guaranteed[cell] = bestG * 1000;
     maxSpeed[cell] = bestMax * 1000;
     const cx = cell % nx;
-    if (cx % conditionEvery === 0 && ((cell - cx) / nx) % conditionEvery === 0) invCond[cell] = scaledInverseCondition(bestJ, m, chain.characteristicLengthM, sg);
+    if (cx % conditionEvery === 0 && ((cell - cx) / nx) % conditionEvery === 0)
+      invCond[cell] = scaledInverseCondition(bestJ, m, chain.characteristicLengthM, sg);
     const dBest = detVal[cell * K + best]!;
     detSign[cell] = Number.isFinite(dBest) ? (dBest > 0 ? 1 : dBest < 0 ? -1 : 0) : 0;
     joints.set(q, cell * m);
@@ -736,7 +845,10 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
     m,
     maxCornerJump: 2 * MAX_CONTINUATION_JUMP_RAD,
     kindAt: (cellsAt, slotsAt, near) => {
-      if (labeller) return labeller((c) => pool.subarray(solAt(cellsAt[c]! * K + slotsAt[c]!), solAt(cellsAt[c]! * K + slotsAt[c]!) + m));
+      if (labeller)
+        return labeller((c) =>
+          pool.subarray(solAt(cellsAt[c]! * K + slotsAt[c]!), solAt(cellsAt[c]! * K + slotsAt[c]!) + m),
+        );
       const off = solAt(cellsAt[near]! * K + slotsAt[near]!);
       const t = forwardInto(chain, pool.subarray(off, off + m), kin);
       jacobianInto(j, chain, kin, t[3]!, t[7]!, t[11]!);
@@ -777,15 +889,29 @@ export function toolSpeedMap(chain: Chain, orientation: ReferenceOrientation, op
  * @see Spong, Hutchinson & Vidyasagar, Robot Modeling and Control, §4.9 (det J11 of an elbow manipulator as a
  *   product of an elbow term and a shoulder term) [from memory]
  */
-function createDecoupledLabeller(chain: Chain, cols: { arm: number[]; wrist: number[] }): (cornerJoints: (corner: number) => Float64Array) => "wrist" | "shoulder" | "elbow" {
+function createDecoupledLabeller(
+  chain: Chain,
+  cols: { arm: number[]; wrist: number[] },
+): (cornerJoints: (corner: number) => Float64Array) => "wrist" | "shoulder" | "elbow" {
   const kin = createScratch(chain);
-  const j = new Float64Array(36), w = new Float64Array(3), block = new Float64Array(9);
-  const sv = new Float64Array(3), v = new Float64Array(9), svd = createSvdScratch(3, 3);
-  const det11 = [0, 0, 0, 0], det22 = [0, 0, 0, 0], shoulderF = [0, 0, 0, 0], elbowF = [0, 0, 0, 0];
+  const j = new Float64Array(36),
+    w = new Float64Array(3),
+    block = new Float64Array(9);
+  const sv = new Float64Array(3),
+    v = new Float64Array(9),
+    svd = createSvdScratch(3, 3);
+  const det11 = [0, 0, 0, 0],
+    det22 = [0, 0, 0, 0],
+    shoulderF = [0, 0, 0, 0],
+    elbowF = [0, 0, 0, 0];
   let parallel23: boolean | null = null;
-  const det3 = (b: Float64Array) => b[0]! * (b[4]! * b[8]! - b[5]! * b[7]!) - b[1]! * (b[3]! * b[8]! - b[5]! * b[6]!) + b[2]! * (b[3]! * b[7]! - b[4]! * b[6]!);
+  const det3 = (b: Float64Array) =>
+    b[0]! * (b[4]! * b[8]! - b[5]! * b[7]!) -
+    b[1]! * (b[3]! * b[8]! - b[5]! * b[6]!) +
+    b[2]! * (b[3]! * b[7]! - b[4]! * b[6]!);
   const fill = (rowOffset: number, columns: number[], scale: number) => {
-    for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) block[r * 3 + c] = j[(rowOffset + r) * 6 + columns[c]!]! * scale;
+    for (let r = 0; r < 3; r++)
+      for (let c = 0; c < 3; c++) block[r * 3 + c] = j[(rowOffset + r) * 6 + columns[c]!]! * scale;
   };
   return (cornerJoints) => {
     let near = 0;
@@ -799,20 +925,28 @@ function createDecoupledLabeller(chain: Chain, cols: { arm: number[]; wrist: num
       det11[c] = det3(block);
       if (Math.abs(det11[c]!) < Math.abs(det11[near]!)) near = c;
       // Factors of det J11 (columns of `block`: c₁, c₂, c₃ scaled; z₂ from the angular rows of the second arm column).
-      const a2 = cols.arm[1]!, a3 = cols.arm[2]!;
-      const zx = j[18 + a2]!, zy = j[24 + a2]!, zz = j[30 + a2]!;
+      const a2 = cols.arm[1]!,
+        a3 = cols.arm[2]!;
+      const zx = j[18 + a2]!,
+        zy = j[24 + a2]!,
+        zz = j[30 + a2]!;
       if (parallel23 === null) {
-        const ux = j[18 + a3]!, uy = j[24 + a3]!, uz = j[30 + a3]!;
+        const ux = j[18 + a3]!,
+          uy = j[24 + a3]!,
+          uz = j[30 + a3]!;
         parallel23 = Math.hypot(zy * uz - zz * uy, zz * ux - zx * uz, zx * uy - zy * ux) < 1e-9;
       }
       shoulderF[c] = block[0]! * zx + block[3]! * zy + block[6]! * zz;
-      const ex = block[4]! * block[8]! - block[7]! * block[5]!, ey = block[7]! * block[2]! - block[1]! * block[8]!, ez = block[1]! * block[5]! - block[4]! * block[2]!;
+      const ex = block[4]! * block[8]! - block[7]! * block[5]!,
+        ey = block[7]! * block[2]! - block[1]! * block[8]!,
+        ez = block[1]! * block[5]! - block[4]! * block[2]!;
       elbowF[c] = ex * zx + ey * zy + ez * zz;
     }
     const changes = (d: number[]) => d.some((x) => x > 0) && d.some((x) => x < 0);
     if (changes(det22) || !changes(det11)) return "wrist";
     if (parallel23) {
-      const s = changes(shoulderF), e = changes(elbowF);
+      const s = changes(shoulderF),
+        e = changes(elbowF);
       if (s && !e) return "shoulder";
       if (e && !s) return "elbow";
     }
@@ -831,7 +965,8 @@ function createDecoupledLabeller(chain: Chain, cols: { arm: number[]; wrist: num
 export function determinantInPlace(work: Float64Array, k: number): number {
   let det = 1;
   for (let c = 0; c < k; c++) {
-    let p = c, best = Math.abs(work[c * k + c]!);
+    let p = c,
+      best = Math.abs(work[c * k + c]!);
     for (let r = c + 1; r < k; r++) {
       const v = Math.abs(work[r * k + c]!);
       if (v > best) {
@@ -862,7 +997,13 @@ export function determinantInPlace(work: Float64Array, k: number): number {
  * Determinant of the square task Jacobian with linear rows divided by `lengthM` (dimensionless): the 6 × 6 J for
  * six driven joints; for four, the rows (vx, vy, vz, ω·z_tool) (the tool keeps its axis). NaN otherwise.
  */
-export function taskDeterminant(j: ArrayLike<number>, m: number, lengthM: number, baseFromFlange: Float64Array, work: Float64Array): number {
+export function taskDeterminant(
+  j: ArrayLike<number>,
+  m: number,
+  lengthM: number,
+  baseFromFlange: Float64Array,
+  work: Float64Array,
+): number {
   if (m === 6) {
     for (let i = 0; i < 18; i++) work[i] = j[i]! / lengthM;
     for (let i = 18; i < 36; i++) work[i] = j[i]!;
@@ -870,7 +1011,9 @@ export function taskDeterminant(j: ArrayLike<number>, m: number, lengthM: number
   }
   if (m === 4) {
     for (let i = 0; i < 12; i++) work[i] = j[i]! / lengthM;
-    const tx = baseFromFlange[2]!, ty = baseFromFlange[6]!, tz = baseFromFlange[10]!;
+    const tx = baseFromFlange[2]!,
+      ty = baseFromFlange[6]!,
+      tz = baseFromFlange[10]!;
     for (let c = 0; c < 4; c++) work[12 + c] = j[12 + c]! * tx + j[16 + c]! * ty + j[20 + c]! * tz;
     return determinantInPlace(work, 4);
   }

@@ -77,15 +77,29 @@ export interface SphericalWristIk {
 }
 
 const dot = (a: ArrayLike<number>, b: ArrayLike<number>) => a[0]! * b[0]! + a[1]! * b[1]! + a[2]! * b[2]!;
-const cross = (a: ArrayLike<number>, b: ArrayLike<number>): Vec3 => [a[1]! * b[2]! - a[2]! * b[1]!, a[2]! * b[0]! - a[0]! * b[2]!, a[0]! * b[1]! - a[1]! * b[0]!];
+const cross = (a: ArrayLike<number>, b: ArrayLike<number>): Vec3 => [
+  a[1]! * b[2]! - a[2]! * b[1]!,
+  a[2]! * b[0]! - a[0]! * b[2]!,
+  a[0]! * b[1]! - a[1]! * b[0]!,
+];
 const norm = (a: ArrayLike<number>) => Math.hypot(a[0]!, a[1]!, a[2]!);
 /** R·x for a row-major 3×3. */
-const mulRv = (r: ArrayLike<number>, x: ArrayLike<number>): Vec3 => [r[0]! * x[0]! + r[1]! * x[1]! + r[2]! * x[2]!, r[3]! * x[0]! + r[4]! * x[1]! + r[5]! * x[2]!, r[6]! * x[0]! + r[7]! * x[1]! + r[8]! * x[2]!];
+const mulRv = (r: ArrayLike<number>, x: ArrayLike<number>): Vec3 => [
+  r[0]! * x[0]! + r[1]! * x[1]! + r[2]! * x[2]!,
+  r[3]! * x[0]! + r[4]! * x[1]! + r[5]! * x[2]!,
+  r[6]! * x[0]! + r[7]! * x[1]! + r[8]! * x[2]!,
+];
 /** Rᵀ·x. */
-const mulRtv = (r: ArrayLike<number>, x: ArrayLike<number>): Vec3 => [r[0]! * x[0]! + r[3]! * x[1]! + r[6]! * x[2]!, r[1]! * x[0]! + r[4]! * x[1]! + r[7]! * x[2]!, r[2]! * x[0]! + r[5]! * x[1]! + r[8]! * x[2]!];
+const mulRtv = (r: ArrayLike<number>, x: ArrayLike<number>): Vec3 => [
+  r[0]! * x[0]! + r[3]! * x[1]! + r[6]! * x[2]!,
+  r[1]! * x[0]! + r[4]! * x[1]! + r[7]! * x[2]!,
+  r[2]! * x[0]! + r[5]! * x[1]! + r[8]! * x[2]!,
+];
 function mul3(a: ArrayLike<number>, b: ArrayLike<number>): Float64Array {
   const out = new Float64Array(9);
-  for (let i = 0; i < 3; i++) for (let j = 0; j < 3; j++) out[i * 3 + j] = a[i * 3]! * b[j]! + a[i * 3 + 1]! * b[3 + j]! + a[i * 3 + 2]! * b[6 + j]!;
+  for (let i = 0; i < 3; i++)
+    for (let j = 0; j < 3; j++)
+      out[i * 3 + j] = a[i * 3]! * b[j]! + a[i * 3 + 1]! * b[3 + j]! + a[i * 3 + 2]! * b[6 + j]!;
   return out;
 }
 function transpose3(a: ArrayLike<number>): Float64Array {
@@ -94,16 +108,36 @@ function transpose3(a: ArrayLike<number>): Float64Array {
 
 /** Writes the rotation by `angle` about unit `a` (Rodrigues) into out[o..o+8]. */
 function rotInto(out: Float64Array, o: number, a: ArrayLike<number>, angle: number): void {
-  const c = Math.cos(angle), s = Math.sin(angle), v = 1 - c, x = a[0]!, y = a[1]!, z = a[2]!;
-  out[o] = c + x * x * v; out[o + 1] = x * y * v - z * s; out[o + 2] = x * z * v + y * s;
-  out[o + 3] = y * x * v + z * s; out[o + 4] = c + y * y * v; out[o + 5] = y * z * v - x * s;
-  out[o + 6] = z * x * v - y * s; out[o + 7] = z * y * v + x * s; out[o + 8] = c + z * z * v;
+  const c = Math.cos(angle),
+    s = Math.sin(angle),
+    v = 1 - c,
+    x = a[0]!,
+    y = a[1]!,
+    z = a[2]!;
+  out[o] = c + x * x * v;
+  out[o + 1] = x * y * v - z * s;
+  out[o + 2] = x * z * v + y * s;
+  out[o + 3] = y * x * v + z * s;
+  out[o + 4] = c + y * y * v;
+  out[o + 5] = y * z * v - x * s;
+  out[o + 6] = z * x * v - y * s;
+  out[o + 7] = z * y * v + x * s;
+  out[o + 8] = c + z * z * v;
 }
 
 /** In-place out[o..o+8] = A·B, with A at a[ao..] and B at b[bo..] (3×3 row-major); out must not alias A or B. */
-function mul3At(out: Float64Array, o: number, a: ArrayLike<number>, ao: number, b: ArrayLike<number>, bo: number): void {
+function mul3At(
+  out: Float64Array,
+  o: number,
+  a: ArrayLike<number>,
+  ao: number,
+  b: ArrayLike<number>,
+  bo: number,
+): void {
   for (let i = 0; i < 3; i++) {
-    const a0 = a[ao + i * 3]!, a1 = a[ao + i * 3 + 1]!, a2 = a[ao + i * 3 + 2]!;
+    const a0 = a[ao + i * 3]!,
+      a1 = a[ao + i * 3 + 1]!,
+      a2 = a[ao + i * 3 + 2]!;
     for (let j = 0; j < 3; j++) out[o + i * 3 + j] = a0 * b[bo + j]! + a1 * b[bo + 3 + j]! + a2 * b[bo + 6 + j]!;
   }
 }
@@ -112,12 +146,28 @@ function mul3At(out: Float64Array, o: number, a: ArrayLike<number>, ao: number, 
  * Paden–Kahan subproblem 1: the angle θ with Rot(ω, θ)·p = q (directions through the origin), from the components
  * perpendicular to ω; NaN when p has none (p ∥ ω).
  */
-function subproblem1(w: ArrayLike<number>, px: number, py: number, pz: number, qx: number, qy: number, qz: number, tiny: number): number {
-  const wp = w[0]! * px + w[1]! * py + w[2]! * pz, wq = w[0]! * qx + w[1]! * qy + w[2]! * qz;
-  const ax = px - wp * w[0]!, ay = py - wp * w[1]!, az = pz - wp * w[2]!;
-  const bx = qx - wq * w[0]!, by = qy - wq * w[1]!, bz = qz - wq * w[2]!;
+function subproblem1(
+  w: ArrayLike<number>,
+  px: number,
+  py: number,
+  pz: number,
+  qx: number,
+  qy: number,
+  qz: number,
+  tiny: number,
+): number {
+  const wp = w[0]! * px + w[1]! * py + w[2]! * pz,
+    wq = w[0]! * qx + w[1]! * qy + w[2]! * qz;
+  const ax = px - wp * w[0]!,
+    ay = py - wp * w[1]!,
+    az = pz - wp * w[2]!;
+  const bx = qx - wq * w[0]!,
+    by = qy - wq * w[1]!,
+    bz = qz - wq * w[2]!;
   if (ax * ax + ay * ay + az * az < tiny * tiny || bx * bx + by * by + bz * bz < tiny * tiny) return NaN;
-  const cx = ay * bz - az * by, cy = az * bx - ax * bz, cz = ax * by - ay * bx;
+  const cx = ay * bz - az * by,
+    cy = az * bx - ax * bz,
+    cz = ax * by - ay * bx;
   return Math.atan2(w[0]! * cx + w[1]! * cy + w[2]! * cz, ax * bx + ay * by + az * bz);
 }
 
@@ -134,7 +184,8 @@ function sinusoidRoots(out: Float64Array, o: number, a: number, b: number, c: nu
   const x = c / r;
   if (x > 1 + 1e-12 || x < -1 - 1e-12) return 0;
   if (x > 1 - 1e-9 || x < -1 + 1e-9) nearTangent = true;
-  const phi = Math.atan2(b, a), d = Math.acos(Math.min(1, Math.max(-1, x)));
+  const phi = Math.atan2(b, a),
+    d = Math.acos(Math.min(1, Math.max(-1, x)));
   out[o] = phi + d;
   if (d < 1e-12) return 1;
   out[o + 1] = phi - d;
@@ -151,7 +202,8 @@ export function sphericalWristIk(chain: Chain): SphericalWristIk | null {
   if (n !== 6 || chain.drivenCount !== 6) return null;
   for (let i = 0; i < 6; i++) if (chain.isPrismatic[i] || chain.drivenJoint[i] !== i) return null;
   const w = chain.wrist;
-  if (!w || w.basis !== "spherical" || w.axes.length !== 3 || w.axes[0] !== 3 || w.axes[1] !== 4 || w.axes[2] !== 5) return null;
+  if (!w || w.basis !== "spherical" || w.axes.length !== 3 || w.axes[0] !== 3 || w.axes[1] !== 4 || w.axes[2] !== 5)
+    return null;
   const g = chain.couplingGain;
   for (let i = 0; i < 6; i++) {
     for (let j = 0; j < 6; j++) {
@@ -160,23 +212,33 @@ export function sphericalWristIk(chain: Chain): SphericalWristIk | null {
     }
   }
   const L = chain.characteristicLengthM;
-  const r: Float64Array[] = [], t: Vec3[] = [], axis: Vec3[] = [];
+  const r: Float64Array[] = [],
+    t: Vec3[] = [],
+    axis: Vec3[] = [];
   for (let i = 0; i <= 6; i++) {
     const f = chain.fixed.subarray(16 * i, 16 * i + 16);
     r.push(Float64Array.from([f[0]!, f[1]!, f[2]!, f[4]!, f[5]!, f[6]!, f[8]!, f[9]!, f[10]!]));
     t.push([f[3]!, f[7]!, f[11]!]);
   }
-  for (let i = 0; i < 6; i++) axis.push([chain.axisLocal[3 * i]!, chain.axisLocal[3 * i + 1]!, chain.axisLocal[3 * i + 2]!]);
+  for (let i = 0; i < 6; i++)
+    axis.push([chain.axisLocal[3 * i]!, chain.axisLocal[3 * i + 1]!, chain.axisLocal[3 * i + 2]!]);
 
   // Wrist centre in the flange frame and in the frame joint 2 acts in, from the home pose.
   const kin = createScratch(chain);
   forwardInto(chain, new Float64Array(6), kin);
   const pw = new Float64Array(3);
   wristCentreInto(pw, chain, kin);
-  const fl = kin.flange, mf = kin.motionFrames;
+  const fl = kin.flange,
+    mf = kin.motionFrames;
   const rel = (frame: ArrayLike<number>, o: number): Vec3 => {
-    const dx = pw[0]! - frame[o + 3]!, dy = pw[1]! - frame[o + 7]!, dz = pw[2]! - frame[o + 11]!;
-    return [frame[o]! * dx + frame[o + 4]! * dy + frame[o + 8]! * dz, frame[o + 1]! * dx + frame[o + 5]! * dy + frame[o + 9]! * dz, frame[o + 2]! * dx + frame[o + 6]! * dy + frame[o + 10]! * dz];
+    const dx = pw[0]! - frame[o + 3]!,
+      dy = pw[1]! - frame[o + 7]!,
+      dz = pw[2]! - frame[o + 11]!;
+    return [
+      frame[o]! * dx + frame[o + 4]! * dy + frame[o + 8]! * dz,
+      frame[o + 1]! * dx + frame[o + 5]! * dy + frame[o + 9]! * dz,
+      frame[o + 2]! * dx + frame[o + 6]! * dy + frame[o + 10]! * dz,
+    ];
   };
   const wInFlange = rel(fl, 0);
   const u3 = rel(mf, 16 * 3); // on axis 3, so unchanged by its motion
@@ -184,19 +246,31 @@ export function sphericalWristIk(chain: Chain): SphericalWristIk | null {
   const u: Vec3 = [ru3[0] + t[3]![0], ru3[1] + t[3]![1], ru3[2] + t[3]![2]];
 
   // q2-side coefficients. v(q2) = R_F2·Rot(a2,q2)·u + t_F2 in the frame joint 1 acts in.
-  const a2 = axis[2]!, uPar = dot(a2, u), uPerp: Vec3 = [u[0] - uPar * a2[0], u[1] - uPar * a2[1], u[2] - uPar * a2[2]], aXu = cross(a2, u);
-  const wv = mulRtv(r[2]!, t[2]!), bv = mulRtv(r[2]!, axis[1]!);
-  const A1 = 2 * dot(wv, uPerp), B1 = 2 * dot(wv, aXu), C1 = dot(u, u) + dot(t[2]!, t[2]!) + 2 * uPar * dot(wv, a2);
-  const A2 = dot(bv, uPerp), B2 = dot(bv, aXu), C2 = uPar * dot(bv, a2) + dot(axis[1]!, t[2]!);
+  const a2 = axis[2]!,
+    uPar = dot(a2, u),
+    uPerp: Vec3 = [u[0] - uPar * a2[0], u[1] - uPar * a2[1], u[2] - uPar * a2[2]],
+    aXu = cross(a2, u);
+  const wv = mulRtv(r[2]!, t[2]!),
+    bv = mulRtv(r[2]!, axis[1]!);
+  const A1 = 2 * dot(wv, uPerp),
+    B1 = 2 * dot(wv, aXu),
+    C1 = dot(u, u) + dot(t[2]!, t[2]!) + 2 * uPar * dot(wv, a2);
+  const A2 = dot(bv, uPerp),
+    B2 = dot(bv, aXu),
+    C2 = uPar * dot(bv, a2) + dot(axis[1]!, t[2]!);
   const k2 = Float64Array.from([A1, B1, C1, A2, B2, C2]);
   // q0-side direction vectors (in the plane ⟂ a0): d1 = −2·t1⊥, d2 = (R_F1·a1)⊥.
-  const a0 = axis[0]!, t1 = t[1]!, c1 = mulRv(r[1]!, axis[1]!);
+  const a0 = axis[0]!,
+    t1 = t[1]!,
+    c1 = mulRv(r[1]!, axis[1]!);
   const perp = (x: Vec3): Vec3 => {
     const k = dot(a0, x);
     return [x[0] - k * a0[0], x[1] - k * a0[1], x[2] - k * a0[2]];
   };
-  const d1 = perp([-2 * t1[0], -2 * t1[1], -2 * t1[2]]), d2 = perp(c1);
-  const n1 = Math.hypot(A1, B1), n2 = Math.hypot(A2, B2);
+  const d1 = perp([-2 * t1[0], -2 * t1[1], -2 * t1[2]]),
+    d2 = perp(c1);
+  const n1 = Math.hypot(A1, B1),
+    n2 = Math.hypot(A2, B2);
   if (n1 < 1e-9 * L * L) return null; // wrist centre on axis 2: no elbow equation
   let mode: SphericalWristIk["mode"];
   let factor = 0;
@@ -206,7 +280,11 @@ export function sphericalWristIk(chain: Chain): SphericalWristIk | null {
   if (q2Dependent && norm(dq0) > 1e-9) {
     mode = "elbow-first-q1";
     factor = lambda;
-  } else if (ENABLE_UNVERIFIED_REDUCTIONS && norm(d2) > 1e-9 && norm(cross(d1, d2)) < 1e-9 * Math.max(norm(d1), 1e-300) * norm(d2)) {
+  } else if (
+    ENABLE_UNVERIFIED_REDUCTIONS &&
+    norm(d2) > 1e-9 &&
+    norm(cross(d1, d2)) < 1e-9 * Math.max(norm(d1), 1e-300) * norm(d2)
+  ) {
     mode = "q3-first";
     factor = dot(d1, d2) / dot(d2, d2);
   } else if (ENABLE_UNVERIFIED_REDUCTIONS && !q2Dependent) {
@@ -217,18 +295,43 @@ export function sphericalWristIk(chain: Chain): SphericalWristIk | null {
 
   // Wrist.
   const rf456 = mul3(mul3(r[4]!, r[5]!), r[6]!);
-  const b4 = mulRv(r[4]!, axis[4]!), b5 = mulRv(mul3(r[4]!, r[5]!), axis[5]!);
+  const b4 = mulRv(r[4]!, axis[4]!),
+    b5 = mulRv(mul3(r[4]!, r[5]!), axis[5]!);
   const a3 = axis[3]!;
   if (norm(cross(a3, b4)) < 1e-6 || norm(cross(b4, b5)) < 1e-6) return null;
   // A unit vector perpendicular to b5.
   const seedVec: Vec3 = Math.abs(b5[0]) < 0.9 ? [1, 0, 0] : [0, 1, 0];
-  const e5raw = cross(b5, seedVec), e5n = norm(e5raw);
+  const e5raw = cross(b5, seedVec),
+    e5n = norm(e5raw);
   const e5: Vec3 = [e5raw[0] / e5n, e5raw[1] / e5n, e5raw[2] / e5n];
   return {
-    chain, mode, r, t, axis, wInFlange, u, k2, factor, q: transpose3(rf456), b4, b5, e5, lengthM: L, kin,
-    c1, t1Sq: dot(t1, t1), t1a0: dot(t1, a0), c1a0: dot(c1, a0), c1t1: dot(c1, t1),
-    n: cross(a3, b4), nn: dot(cross(a3, b4), cross(a3, b4)), cw: dot(a3, b4), b4b5: dot(b4, b5),
-    work: new Float64Array(96), kinSol: new Float64Array(MAX_CLOSED_FORM_SOLUTIONS * 6), q6: new Float64Array(6),
+    chain,
+    mode,
+    r,
+    t,
+    axis,
+    wInFlange,
+    u,
+    k2,
+    factor,
+    q: transpose3(rf456),
+    b4,
+    b5,
+    e5,
+    lengthM: L,
+    kin,
+    c1,
+    t1Sq: dot(t1, t1),
+    t1a0: dot(t1, a0),
+    c1a0: dot(c1, a0),
+    c1t1: dot(c1, t1),
+    n: cross(a3, b4),
+    nn: dot(cross(a3, b4), cross(a3, b4)),
+    cw: dot(a3, b4),
+    b4b5: dot(b4, b5),
+    work: new Float64Array(96),
+    kinSol: new Float64Array(MAX_CLOSED_FORM_SOLUTIONS * 6),
+    q6: new Float64Array(6),
   };
 }
 
@@ -244,23 +347,55 @@ const ENABLE_UNVERIFIED_REDUCTIONS = false;
 const SCAN_SAMPLES = 180;
 
 /** out[o..o+2] = R·x (R row-major 3×3 at r[ro..], x at x[xo..]). */
-function mulRvAt(out: Float64Array, o: number, r: ArrayLike<number>, ro: number, x: ArrayLike<number>, xo: number): void {
-  const x0 = x[xo]!, x1 = x[xo + 1]!, x2 = x[xo + 2]!;
+function mulRvAt(
+  out: Float64Array,
+  o: number,
+  r: ArrayLike<number>,
+  ro: number,
+  x: ArrayLike<number>,
+  xo: number,
+): void {
+  const x0 = x[xo]!,
+    x1 = x[xo + 1]!,
+    x2 = x[xo + 2]!;
   out[o] = r[ro]! * x0 + r[ro + 1]! * x1 + r[ro + 2]! * x2;
   out[o + 1] = r[ro + 3]! * x0 + r[ro + 4]! * x1 + r[ro + 5]! * x2;
   out[o + 2] = r[ro + 6]! * x0 + r[ro + 7]! * x1 + r[ro + 8]! * x2;
 }
 /** out[o..o+2] = Rᵀ·x. */
-function mulRtvAt(out: Float64Array, o: number, r: ArrayLike<number>, ro: number, x: ArrayLike<number>, xo: number): void {
-  const x0 = x[xo]!, x1 = x[xo + 1]!, x2 = x[xo + 2]!;
+function mulRtvAt(
+  out: Float64Array,
+  o: number,
+  r: ArrayLike<number>,
+  ro: number,
+  x: ArrayLike<number>,
+  xo: number,
+): void {
+  const x0 = x[xo]!,
+    x1 = x[xo + 1]!,
+    x2 = x[xo + 2]!;
   out[o] = r[ro]! * x0 + r[ro + 3]! * x1 + r[ro + 6]! * x2;
   out[o + 1] = r[ro + 1]! * x0 + r[ro + 4]! * x1 + r[ro + 7]! * x2;
   out[o + 2] = r[ro + 2]! * x0 + r[ro + 5]! * x1 + r[ro + 8]! * x2;
 }
 
 // Offsets into the work buffer.
-const W_Q0 = 0, W_Q2 = 4, W_ROOTS = 8, W_P0 = 16, W_X = 19, W_Y = 22, W_V = 25, W_QV = 28, W_E = 31, W_F = 34;
-const W_RA = 40, W_ROT = 49, W_TMP = 58, W_WP = 67, W_Q = 76, W_CS = 82;
+const W_Q0 = 0,
+  W_Q2 = 4,
+  W_ROOTS = 8,
+  W_P0 = 16,
+  W_X = 19,
+  W_Y = 22,
+  W_V = 25,
+  W_QV = 28,
+  W_E = 31,
+  W_F = 34;
+const W_RA = 40,
+  W_ROT = 49,
+  W_TMP = 58,
+  W_WP = 67,
+  W_Q = 76,
+  W_CS = 82;
 
 /**
  * Every inverse-kinematics solution for the flange pose `baseFromFlangeTarget` (row-major 4×4, m), as driven joint
@@ -271,27 +406,52 @@ const W_RA = 40, W_ROT = 49, W_TMP = 58, W_WP = 67, W_Q = 76, W_CS = 82;
  * @example the forward kinematics of any pose within the ranges, solved back, gives that pose among the solutions
  *   (test/core/kinematics/closedForm.test.ts).
  */
-export function solveSphericalWristInto(out: Float64Array, ik: SphericalWristIk, baseFromFlangeTarget: ArrayLike<number>, outOffset = 0): number {
+export function solveSphericalWristInto(
+  out: Float64Array,
+  ik: SphericalWristIk,
+  baseFromFlangeTarget: ArrayLike<number>,
+  outOffset = 0,
+): number {
   nearTangent = false;
-  const T = baseFromFlangeTarget, chain = ik.chain, tiny = 1e-9 * ik.lengthM, w = ik.work, kinSol = ik.kinSol;
-  const wf = ik.wInFlange, k2 = ik.k2;
+  const T = baseFromFlangeTarget,
+    chain = ik.chain,
+    tiny = 1e-9 * ik.lengthM,
+    w = ik.work,
+    kinSol = ik.kinSol;
+  const wf = ik.wInFlange,
+    k2 = ik.k2;
   // Wrist centre in the base frame, then in the frame joint 0 acts in: p0 = F0⁻¹·p_w.
   const t0 = ik.t[0]!;
   w[W_F] = T[0]! * wf[0] + T[1]! * wf[1] + T[2]! * wf[2] + T[3]! - t0[0];
   w[W_F + 1] = T[4]! * wf[0] + T[5]! * wf[1] + T[6]! * wf[2] + T[7]! - t0[1];
   w[W_F + 2] = T[8]! * wf[0] + T[9]! * wf[1] + T[10]! * wf[2] + T[11]! - t0[2];
   mulRtvAt(w, W_P0, ik.r[0]!, 0, w, W_F);
-  const p0x = w[W_P0]!, p0y = w[W_P0 + 1]!, p0z = w[W_P0 + 2]!;
-  const a0 = ik.axis[0]!, t1 = ik.t[1]!, c1 = ik.c1;
+  const p0x = w[W_P0]!,
+    p0y = w[W_P0 + 1]!,
+    p0z = w[W_P0 + 2]!;
+  const a0 = ik.axis[0]!,
+    t1 = ik.t[1]!,
+    c1 = ik.c1;
   const pPar = a0[0] * p0x + a0[1] * p0y + a0[2] * p0z;
-  const ppx = p0x - pPar * a0[0], ppy = p0y - pPar * a0[1], ppz = p0z - pPar * a0[2];
-  const axx = a0[1] * p0z - a0[2] * p0y, axy = a0[2] * p0x - a0[0] * p0z, axz = a0[0] * p0y - a0[1] * p0x;
+  const ppx = p0x - pPar * a0[0],
+    ppy = p0y - pPar * a0[1],
+    ppz = p0z - pPar * a0[2];
+  const axx = a0[1] * p0z - a0[2] * p0y,
+    axy = a0[2] * p0x - a0[0] * p0z,
+    axz = a0[0] * p0y - a0[1] * p0x;
   if (ppx * ppx + ppy * ppy + ppz * ppz < tiny * tiny) return DEGENERATE;
-  const D1 = -2 * (t1[0] * ppx + t1[1] * ppy + t1[2] * ppz), E1 = 2 * (t1[0] * axx + t1[1] * axy + t1[2] * axz);
+  const D1 = -2 * (t1[0] * ppx + t1[1] * ppy + t1[2] * ppz),
+    E1 = 2 * (t1[0] * axx + t1[1] * axy + t1[2] * axz);
   const H1 = p0x * p0x + p0y * p0y + p0z * p0z + ik.t1Sq - 2 * pPar * ik.t1a0;
-  const D2 = c1[0] * ppx + c1[1] * ppy + c1[2] * ppz, E2 = -(c1[0] * axx + c1[1] * axy + c1[2] * axz);
+  const D2 = c1[0] * ppx + c1[1] * ppy + c1[2] * ppz,
+    E2 = -(c1[0] * axx + c1[1] * axy + c1[2] * axz);
   const H2 = pPar * ik.c1a0 - ik.c1t1;
-  const A1 = k2[0]!, B1 = k2[1]!, C1 = k2[2]!, A2 = k2[3]!, B2 = k2[4]!, C2 = k2[5]!;
+  const A1 = k2[0]!,
+    B1 = k2[1]!,
+    C1 = k2[2]!,
+    A2 = k2[3]!,
+    B2 = k2[4]!,
+    C2 = k2[5]!;
 
   // Position branches: pairs (q0, q2) in w[W_Q0..] and w[W_Q2..].
   let pairs = 0;
@@ -301,7 +461,14 @@ export function solveSphericalWristInto(out: Float64Array, ik: SphericalWristIk,
     if (nq0 < 0) return DEGENERATE;
     for (let i = 0; i < nq0; i++) {
       const q0 = w[W_ROOTS + i]!;
-      const nq2 = sinusoidRoots(w, W_ROOTS + 4, A1, B1, D1 * Math.cos(q0) + E1 * Math.sin(q0) + H1 - C1, tiny * ik.lengthM);
+      const nq2 = sinusoidRoots(
+        w,
+        W_ROOTS + 4,
+        A1,
+        B1,
+        D1 * Math.cos(q0) + E1 * Math.sin(q0) + H1 - C1,
+        tiny * ik.lengthM,
+      );
       for (let k = 0; k < nq2 && pairs < 4; k++, pairs++) {
         w[W_Q0 + pairs] = q0;
         w[W_Q2 + pairs] = w[W_ROOTS + 4 + k]!;
@@ -325,15 +492,20 @@ export function solveSphericalWristInto(out: Float64Array, ik: SphericalWristIk,
     // h(q0) = cos² + sin² − 1 = 0 (a quartic in tan(q0/2): at most four roots).
     const det = A1 * B2 - A2 * B1;
     const step = (2 * Math.PI) / SCAN_SAMPLES;
-    let qa = -Math.PI, ha = scanResidual(w, qa, det, A1, B1, A2, B2, D1 * 1, E1, H1 - C1, D2, E2, H2 - C2);
+    let qa = -Math.PI,
+      ha = scanResidual(w, qa, det, A1, B1, A2, B2, D1 * 1, E1, H1 - C1, D2, E2, H2 - C2);
     for (let i = 1; i <= SCAN_SAMPLES && pairs < 4; i++) {
-      const qb = -Math.PI + i * step, hb = scanResidual(w, qb, det, A1, B1, A2, B2, D1, E1, H1 - C1, D2, E2, H2 - C2);
-      if (ha === 0 || (ha < 0) !== (hb < 0)) {
+      const qb = -Math.PI + i * step,
+        hb = scanResidual(w, qb, det, A1, B1, A2, B2, D1, E1, H1 - C1, D2, E2, H2 - C2);
+      if (ha === 0 || ha < 0 !== hb < 0) {
         // Bisection to machine precision (h changes sign in [qa, qb]).
-        let lo = qa, hi = qb, hlo = ha;
+        let lo = qa,
+          hi = qb,
+          hlo = ha;
         for (let it = 0; it < 60 && hi - lo > 1e-15; it++) {
-          const mid = 0.5 * (lo + hi), hm = scanResidual(w, mid, det, A1, B1, A2, B2, D1, E1, H1 - C1, D2, E2, H2 - C2);
-          if ((hm < 0) === (hlo < 0) && hm !== 0) {
+          const mid = 0.5 * (lo + hi),
+            hm = scanResidual(w, mid, det, A1, B1, A2, B2, D1, E1, H1 - C1, D2, E2, H2 - C2);
+          if (hm < 0 === hlo < 0 && hm !== 0) {
             lo = mid;
             hlo = hm;
           } else hi = mid;
@@ -350,11 +522,21 @@ export function solveSphericalWristInto(out: Float64Array, ik: SphericalWristIk,
   }
 
   // q1 per pair, then the wrist; kinematic solutions into kinSol.
-  let count = 0, wristNearSingular = false;
-  const a1 = ik.axis[1]!, a2 = ik.axis[2]!, a3 = ik.axis[3]!, r1 = ik.r[1]!, r2 = ik.r[2]!, t2 = ik.t[2]!;
-  const b4 = ik.b4, b5 = ik.b5, e5 = ik.e5, n = ik.n;
+  let count = 0,
+    wristNearSingular = false;
+  const a1 = ik.axis[1]!,
+    a2 = ik.axis[2]!,
+    a3 = ik.axis[3]!,
+    r1 = ik.r[1]!,
+    r2 = ik.r[2]!,
+    t2 = ik.t[2]!;
+  const b4 = ik.b4,
+    b5 = ik.b5,
+    e5 = ik.e5,
+    n = ik.n;
   for (let p = 0; p < pairs; p++) {
-    const q0 = w[W_Q0 + p]!, q2 = w[W_Q2 + p]!;
+    const q0 = w[W_Q0 + p]!,
+      q2 = w[W_Q2 + p]!;
     // x1 = R_F1ᵀ·(Rot(a0, −q0)·p0 − t1); v = R_F2·Rot(a2, q2)·u + t2.
     rotInto(w, W_ROT, a0, -q0);
     mulRvAt(w, W_Y, w, W_ROT, w, W_P0);
@@ -365,7 +547,16 @@ export function solveSphericalWristInto(out: Float64Array, ik: SphericalWristIk,
     rotInto(w, W_ROT, a2, q2);
     mulRvAt(w, W_Y, w, W_ROT, ik.u, 0);
     mulRvAt(w, W_V, r2, 0, w, W_Y);
-    const q1 = subproblem1(a1, w[W_V]! + t2[0], w[W_V + 1]! + t2[1], w[W_V + 2]! + t2[2], w[W_X]!, w[W_X + 1]!, w[W_X + 2]!, tiny);
+    const q1 = subproblem1(
+      a1,
+      w[W_V]! + t2[0],
+      w[W_V + 1]! + t2[1],
+      w[W_V + 2]! + t2[2],
+      w[W_X]!,
+      w[W_X + 1]!,
+      w[W_X + 2]!,
+      tiny,
+    );
     if (Number.isNaN(q1)) return DEGENERATE;
     // R_A = R_F0·Rot0·R_F1·Rot1·R_F2·Rot2·R_F3.
     for (let i = 0; i < 9; i++) w[W_RA + i] = ik.r[0]![i]!;
@@ -376,15 +567,21 @@ export function solveSphericalWristInto(out: Float64Array, ik: SphericalWristIk,
     }
     // W' = R_Aᵀ·R_target·Q.
     for (let i = 0; i < 3; i++) {
-      for (let j = 0; j < 3; j++) w[W_TMP + i * 3 + j] = w[W_RA + i]! * T[j]! + w[W_RA + 3 + i]! * T[4 + j]! + w[W_RA + 6 + i]! * T[8 + j]!;
+      for (let j = 0; j < 3; j++)
+        w[W_TMP + i * 3 + j] = w[W_RA + i]! * T[j]! + w[W_RA + 3 + i]! * T[4 + j]! + w[W_RA + 6 + i]! * T[8 + j]!;
     }
     mul3At(w, W_WP, w, W_TMP, ik.q, 0);
     // Subproblem 2: Rot(a3, q3)·Rot(b4, q4)·b5 = W'·b5 = qv.
     mulRvAt(w, W_QV, w, W_WP, b5, 0);
-    const qvx = w[W_QV]!, qvy = w[W_QV + 1]!, qvz = w[W_QV + 2]!;
-    const cw = ik.cw, a3q = a3[0] * qvx + a3[1] * qvy + a3[2] * qvz, b4p = ik.b4b5;
+    const qvx = w[W_QV]!,
+      qvy = w[W_QV + 1]!,
+      qvz = w[W_QV + 2]!;
+    const cw = ik.cw,
+      a3q = a3[0] * qvx + a3[1] * qvy + a3[2] * qvz,
+      b4p = ik.b4b5;
     const den = cw * cw - 1;
-    const alpha = (cw * b4p - a3q) / den, beta = (cw * a3q - b4p) / den;
+    const alpha = (cw * b4p - a3q) / den,
+      beta = (cw * a3q - b4p) / den;
     const gamma2 = (1 - alpha * alpha - beta * beta - 2 * alpha * beta * cw) / ik.nn;
     if (gamma2 < -1e-9) continue;
     const gamma = Math.sqrt(Math.max(0, gamma2));
@@ -393,7 +590,9 @@ export function solveSphericalWristInto(out: Float64Array, ik: SphericalWristIk,
     for (let sgn = 0; sgn < 2; sgn++) {
       if (sgn === 1 && gamma < 1e-12) break;
       const gs = sgn === 0 ? gamma : -gamma;
-      const zx = alpha * a3[0] + beta * b4[0] + gs * n[0], zy = alpha * a3[1] + beta * b4[1] + gs * n[1], zz = alpha * a3[2] + beta * b4[2] + gs * n[2];
+      const zx = alpha * a3[0] + beta * b4[0] + gs * n[0],
+        zy = alpha * a3[1] + beta * b4[1] + gs * n[1],
+        zz = alpha * a3[2] + beta * b4[2] + gs * n[2];
       const q4 = subproblem1(b4, b5[0], b5[1], b5[2], zx, zy, zz, 1e-9);
       const q3 = subproblem1(a3, zx, zy, zz, qvx, qvy, qvz, 1e-9);
       // Axes 4 and 6 in line: q3 and q5 share one degree of freedom.
@@ -417,7 +616,10 @@ export function solveSphericalWristInto(out: Float64Array, ik: SphericalWristIk,
   }
 
   // Driven values q_d = G⁻¹·(q_kin − offset) (G unit lower triangular, integer), into the ranges, checked by FK.
-  const g = chain.couplingGain, off = chain.couplingOffset, lo = chain.lowerSi, hi = chain.upperSi;
+  const g = chain.couplingGain,
+    off = chain.couplingOffset,
+    lo = chain.lowerSi,
+    hi = chain.upperSi;
   let kept = 0;
   const q = ik.q6;
   // Exact roots satisfy the decoupled equations and so the pose; double roots (edge of reach), the scanned
@@ -438,9 +640,13 @@ export function solveSphericalWristInto(out: Float64Array, ik: SphericalWristIk,
     if (!inRange) continue;
     if (check) {
       const f = forwardInto(chain, q, ik.kin);
-      const ex = f[3]! - T[3]!, ey = f[7]! - T[7]!, ez = f[11]! - T[11]!, ep = Math.sqrt(ex * ex + ey * ey + ez * ez);
+      const ex = f[3]! - T[3]!,
+        ey = f[7]! - T[7]!,
+        ez = f[11]! - T[11]!,
+        ep = Math.sqrt(ex * ex + ey * ey + ez * ez);
       let er = 0;
-      for (let rr = 0; rr < 3; rr++) for (let cc = 0; cc < 3; cc++) er = Math.max(er, Math.abs(f[rr * 4 + cc]! - T[rr * 4 + cc]!));
+      for (let rr = 0; rr < 3; rr++)
+        for (let cc = 0; cc < 3; cc++) er = Math.max(er, Math.abs(f[rr * 4 + cc]! - T[rr * 4 + cc]!));
       if (ep > 1e-6 || er > 1e-5) continue;
     }
     // Distinct modulo whole turns (double roots at the edge of reach come out twice).
@@ -461,10 +667,27 @@ export function solveSphericalWristInto(out: Float64Array, ik: SphericalWristIk,
 }
 
 /** h(q0) of the general reduction; writes cos q2, sin q2 (unnormalised) to w[W_CS], w[W_CS + 1]. */
-function scanResidual(w: Float64Array, q0: number, det: number, A1: number, B1: number, A2: number, B2: number, D1: number, E1: number, K1: number, D2: number, E2: number, K2: number): number {
-  const cq = Math.cos(q0), sq = Math.sin(q0);
-  const y1 = D1 * cq + E1 * sq + K1, y2 = D2 * cq + E2 * sq + K2;
-  const c = (B2 * y1 - B1 * y2) / det, s = (A1 * y2 - A2 * y1) / det;
+function scanResidual(
+  w: Float64Array,
+  q0: number,
+  det: number,
+  A1: number,
+  B1: number,
+  A2: number,
+  B2: number,
+  D1: number,
+  E1: number,
+  K1: number,
+  D2: number,
+  E2: number,
+  K2: number,
+): number {
+  const cq = Math.cos(q0),
+    sq = Math.sin(q0);
+  const y1 = D1 * cq + E1 * sq + K1,
+    y2 = D2 * cq + E2 * sq + K2;
+  const c = (B2 * y1 - B1 * y2) / det,
+    s = (A1 * y2 - A2 * y1) / det;
   w[W_CS] = c;
   w[W_CS + 1] = s;
   return c * c + s * s - 1;
@@ -477,7 +700,8 @@ function scanResidual(w: Float64Array, q0: number, det: number, A1: number, B1: 
 export function wrapNear(value: number, near: number, lo: number, hi: number): number {
   const turn = 2 * Math.PI;
   let k = Math.round((near - value) / turn);
-  const kMin = Math.ceil((lo - value) / turn - 1e-12), kMax = Math.floor((hi - value) / turn + 1e-12);
+  const kMin = Math.ceil((lo - value) / turn - 1e-12),
+    kMax = Math.floor((hi - value) / turn + 1e-12);
   if (kMin > kMax) return NaN;
   if (k < kMin) k = kMin;
   if (k > kMax) k = kMax;

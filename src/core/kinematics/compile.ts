@@ -56,8 +56,12 @@ export function isDrivenJoint(joint: JointInput): boolean {
 function poseFromFrame(out: Float64Array, f: FrameInput): Float64Array {
   return fromXyzRpyInto(
     out,
-    mmToM(f.xyzMm[0]!), mmToM(f.xyzMm[1]!), mmToM(f.xyzMm[2]!),
-    degToRad(f.rpyDeg[0]!), degToRad(f.rpyDeg[1]!), degToRad(f.rpyDeg[2]!),
+    mmToM(f.xyzMm[0]!),
+    mmToM(f.xyzMm[1]!),
+    mmToM(f.xyzMm[2]!),
+    degToRad(f.rpyDeg[0]!),
+    degToRad(f.rpyDeg[1]!),
+    degToRad(f.rpyDeg[2]!),
   );
 }
 
@@ -98,7 +102,11 @@ function rotationTakingZTo(x: number, y: number, z: number): Float64Array {
     return out;
   }
   // k = ẑ × a / |ẑ × a| = (−y, x, 0)/s, s = sin θ = √(x² + y²), c = cos θ = z.
-  const s = Math.sqrt(x * x + y * y), c = z, kx = -y / s, ky = x / s, v = 1 - c;
+  const s = Math.sqrt(x * x + y * y),
+    c = z,
+    kx = -y / s,
+    ky = x / s,
+    v = 1 - c;
   out[0] = c + kx * kx * v;
   out[1] = kx * ky * v;
   out[2] = ky * s;
@@ -137,7 +145,12 @@ export function compileChain(input: ArmKinematicsInput): Chain {
       if (!p) throw new RangeError(`invalid joint ${j.name}: missing dh`);
       pre.push(identity4Into(new Float64Array(16)));
       axisLocal[3 * i + 2] = 1;
-      post.push(mulNew(mulNew(rotZ(degToRad(p.thetaDeg)), trans(0, 0, mmToM(p.dMm))), mulNew(trans(mmToM(p.aMm), 0, 0), rotX(degToRad(p.alphaDeg)))));
+      post.push(
+        mulNew(
+          mulNew(rotZ(degToRad(p.thetaDeg)), trans(0, 0, mmToM(p.dMm))),
+          mulNew(trans(mmToM(p.aMm), 0, 0), rotX(degToRad(p.alphaDeg))),
+        ),
+      );
     } else if (input.convention === "mdh") {
       const p = j.mdh;
       if (!p) throw new RangeError(`invalid joint ${j.name}: missing mdh`);
@@ -145,7 +158,8 @@ export function compileChain(input: ArmKinematicsInput): Chain {
       axisLocal[3 * i + 2] = 1;
       post.push(mulNew(rotZ(degToRad(p.thetaDeg)), trans(0, 0, mmToM(p.dMm))));
     } else {
-      const o = j.origin, a = j.axis;
+      const o = j.origin,
+        a = j.axis;
       if (!o || !a) throw new RangeError(`invalid joint ${j.name}: missing origin or axis`);
       const len = Math.hypot(a[0]!, a[1]!, a[2]!);
       if (!(len > 0)) throw new RangeError(`invalid joint ${j.name}: zero axis`);
@@ -186,14 +200,18 @@ export function compileChain(input: ArmKinematicsInput): Chain {
     offset[i] = j.kind === "prismatic" ? mmToM(c.offsetMm ?? 0) : degToRad(c.offsetDeg ?? 0);
     for (const term of c.terms) {
       const k = indexOf.get(term.joint);
-      if (k === undefined || k >= i) throw new RangeError(`invalid coupling of ${j.name}: ${term.joint} is not an earlier joint`);
+      if (k === undefined || k >= i)
+        throw new RangeError(`invalid coupling of ${j.name}: ${term.joint} is not an earlier joint`);
       for (let col = 0; col < m; col++) g[i * m + col] = g[i * m + col]! + term.gain * g[k * m + col]!;
       offset[i] = offset[i]! + term.gain * offset[k]!;
     }
   });
 
-  const lowerSi = new Float64Array(m), upperSi = new Float64Array(m), maxSpeedSi = new Float64Array(m);
-  const maxAccelSi = new Float64Array(m), ratedEffortSi = new Float64Array(m);
+  const lowerSi = new Float64Array(m),
+    upperSi = new Float64Array(m),
+    maxSpeedSi = new Float64Array(m);
+  const maxAccelSi = new Float64Array(m),
+    ratedEffortSi = new Float64Array(m);
   drivenList.forEach((k, c) => {
     const j = joints[k]!;
     if (j.kind === "prismatic") {
@@ -274,12 +292,20 @@ function findWristCentre(chain: Chain, declared: readonly number[] | undefined):
   const s = createScratch(chain);
   forwardInto(chain, new Float64Array(chain.drivenCount), s);
   // Least-squares point nearest to the lines (oᵢ, zᵢ): Σ (I − zzᵀ) x = Σ (I − zzᵀ) oᵢ.
-  const a = new Float64Array(9), b = new Float64Array(3);
+  const a = new Float64Array(9),
+    b = new Float64Array(3);
   const lines: number[][] = [];
   for (const i of axes) {
-    const f = 16 * i, fr = s.motionFrames;
-    const ax = chain.axisLocal[3 * i]!, ay = chain.axisLocal[3 * i + 1]!, az = chain.axisLocal[3 * i + 2]!;
-    const z = [fr[f]! * ax + fr[f + 1]! * ay + fr[f + 2]! * az, fr[f + 4]! * ax + fr[f + 5]! * ay + fr[f + 6]! * az, fr[f + 8]! * ax + fr[f + 9]! * ay + fr[f + 10]! * az];
+    const f = 16 * i,
+      fr = s.motionFrames;
+    const ax = chain.axisLocal[3 * i]!,
+      ay = chain.axisLocal[3 * i + 1]!,
+      az = chain.axisLocal[3 * i + 2]!;
+    const z = [
+      fr[f]! * ax + fr[f + 1]! * ay + fr[f + 2]! * az,
+      fr[f + 4]! * ax + fr[f + 5]! * ay + fr[f + 6]! * az,
+      fr[f + 8]! * ax + fr[f + 9]! * ay + fr[f + 10]! * az,
+    ];
     const o = [fr[f + 3]!, fr[f + 7]!, fr[f + 11]!];
     lines.push([...o, ...z]);
     for (let r = 0; r < 3; r++) {
@@ -299,7 +325,9 @@ function findWristCentre(chain: Chain, declared: readonly number[] | undefined):
   }
   if (!declared) {
     for (const l of lines) {
-      const rx = x[0]! - l[0]!, ry = x[1]! - l[1]!, rz = x[2]! - l[2]!;
+      const rx = x[0]! - l[0]!,
+        ry = x[1]! - l[1]!,
+        rz = x[2]! - l[2]!;
       const along = rx * l[3]! + ry * l[4]! + rz * l[5]!;
       const dist = Math.hypot(rx - along * l[3]!, ry - along * l[4]!, rz - along * l[5]!);
       if (dist > WRIST_AXES_TOLERANCE_M) return null;
@@ -308,11 +336,23 @@ function findWristCentre(chain: Chain, declared: readonly number[] | undefined):
   return toWrist(chain, s, axes, [x[0]!, x[1]!, x[2]!], declared ? "declared" : "spherical");
 }
 
-function toWrist(chain: Chain, s: ReturnType<typeof createScratch>, axes: number[], pointInBase: number[], basis: WristCentre["basis"]): WristCentre {
+function toWrist(
+  chain: Chain,
+  s: ReturnType<typeof createScratch>,
+  axes: number[],
+  pointInBase: number[],
+  basis: WristCentre["basis"],
+): WristCentre {
   // Fix the point in the link frame of the first wrist joint: baseFromLink⁻¹ · p.
   const k = axes[0]!;
-  const link = mul4Into(new Float64Array(16), s.motionFrames.subarray(16 * k, 16 * k + 16), chain.linkFromMotion.subarray(16 * k, 16 * k + 16));
-  const dx = pointInBase[0]! - link[3]!, dy = pointInBase[1]! - link[7]!, dz = pointInBase[2]! - link[11]!;
+  const link = mul4Into(
+    new Float64Array(16),
+    s.motionFrames.subarray(16 * k, 16 * k + 16),
+    chain.linkFromMotion.subarray(16 * k, 16 * k + 16),
+  );
+  const dx = pointInBase[0]! - link[3]!,
+    dy = pointInBase[1]! - link[7]!,
+    dz = pointInBase[2]! - link[11]!;
   const p = new Float64Array([
     link[0]! * dx + link[4]! * dy + link[8]! * dz,
     link[1]! * dx + link[5]! * dy + link[9]! * dz,
@@ -323,13 +363,19 @@ function toWrist(chain: Chain, s: ReturnType<typeof createScratch>, axes: number
 
 function solve3(a: Float64Array, b: Float64Array): Float64Array | null {
   const det =
-    a[0]! * (a[4]! * a[8]! - a[5]! * a[7]!) - a[1]! * (a[3]! * a[8]! - a[5]! * a[6]!) + a[2]! * (a[3]! * a[7]! - a[4]! * a[6]!);
+    a[0]! * (a[4]! * a[8]! - a[5]! * a[7]!) -
+    a[1]! * (a[3]! * a[8]! - a[5]! * a[6]!) +
+    a[2]! * (a[3]! * a[7]! - a[4]! * a[6]!);
   if (Math.abs(det) < 1e-9) return null;
   const x = new Float64Array(3);
   for (let c = 0; c < 3; c++) {
     const m = Float64Array.from(a);
     for (let r = 0; r < 3; r++) m[r * 3 + c] = b[r]!;
-    x[c] = (m[0]! * (m[4]! * m[8]! - m[5]! * m[7]!) - m[1]! * (m[3]! * m[8]! - m[5]! * m[6]!) + m[2]! * (m[3]! * m[7]! - m[4]! * m[6]!)) / det;
+    x[c] =
+      (m[0]! * (m[4]! * m[8]! - m[5]! * m[7]!) -
+        m[1]! * (m[3]! * m[8]! - m[5]! * m[6]!) +
+        m[2]! * (m[3]! * m[7]! - m[4]! * m[6]!)) /
+      det;
   }
   return x;
 }

@@ -28,13 +28,19 @@ export interface KinematicsScratch {
 }
 
 export function createScratch(chain: Chain): KinematicsScratch {
-  const n = chain.jointCount, m = chain.drivenCount, g = chain.couplingGain;
+  const n = chain.jointCount,
+    m = chain.drivenCount,
+    g = chain.couplingGain;
   // G is sparse (mostly one 1 per row): its non-zero entries, listed in the order the dense loops visit them, so the
   // sums below add the same terms in the same order.
   let nonZero = 0;
   for (let i = 0; i < n * m; i++) if (g[i] !== 0) nonZero++;
-  const rowStart = new Int32Array(n + 1), rowDriven = new Int32Array(nonZero), rowGain = new Float64Array(nonZero);
-  const colStart = new Int32Array(m + 1), colJoint = new Int32Array(nonZero), colGain = new Float64Array(nonZero);
+  const rowStart = new Int32Array(n + 1),
+    rowDriven = new Int32Array(nonZero),
+    rowGain = new Float64Array(nonZero);
+  const colStart = new Int32Array(m + 1),
+    colJoint = new Int32Array(nonZero),
+    colGain = new Float64Array(nonZero);
   let p = 0;
   for (let i = 0; i < n; i++) {
     rowStart[i] = p;
@@ -56,7 +62,8 @@ export function createScratch(chain: Chain): KinematicsScratch {
   }
   colStart[m] = p;
   let uncoupled = n === m;
-  for (let i = 0; i < n && uncoupled; i++) for (let j = 0; j < m; j++) if (g[i * m + j] !== (i === j ? 1 : 0)) uncoupled = false;
+  for (let i = 0; i < n && uncoupled; i++)
+    for (let j = 0; j < m; j++) if (g[i * m + j] !== (i === j ? 1 : 0)) uncoupled = false;
   return {
     qKin: new Float64Array(n),
     motionFrames: new Float64Array(16 * n),
@@ -77,7 +84,9 @@ export function createScratch(chain: Chain): KinematicsScratch {
 
 /** Kinematic joint values from driven ones: q_kin = G · q_driven + offset. Writes scratch.qKin. */
 export function kinematicJointsInto(out: Float64Array, chain: Chain, qDriven: ArrayLike<number>): Float64Array {
-  const n = chain.jointCount, m = chain.drivenCount, g = chain.couplingGain;
+  const n = chain.jointCount,
+    m = chain.drivenCount,
+    g = chain.couplingGain;
   for (let i = 0; i < n; i++) {
     let v = chain.couplingOffset[i]!;
     for (let j = 0; j < m; j++) {
@@ -100,17 +109,27 @@ export function kinematicJointsInto(out: Float64Array, chain: Chain, qDriven: Ar
 export function forwardInto(chain: Chain, qDriven: ArrayLike<number>, s: KinematicsScratch): Float64Array {
   const n = chain.jointCount;
   // q_kin = G · q_driven + offset over the non-zero entries of G (kinematicJointsInto, term for term).
-  const q = s.qKin, offset = chain.couplingOffset, rowStart = s.rowStart, rowDriven = s.rowDriven, rowGain = s.rowGain;
+  const q = s.qKin,
+    offset = chain.couplingOffset,
+    rowStart = s.rowStart,
+    rowDriven = s.rowDriven,
+    rowGain = s.rowGain;
   for (let i = 0; i < n; i++) {
     let v = offset[i]!;
     for (let p = rowStart[i]!, end = rowStart[i + 1]!; p < end; p++) v += rowGain[p]! * qDriven[rowDriven[p]!]!;
     q[i] = v;
   }
-  const fixed = chain.fixed, axes = chain.axisLocal, frames = s.motionFrames;
-  const acc = s.acc, step = s.step;
+  const fixed = chain.fixed,
+    axes = chain.axisLocal,
+    frames = s.motionFrames;
+  const acc = s.acc,
+    step = s.step;
   for (let k = 0; k < 16; k++) acc[k] = fixed[k]!;
   for (let i = 0; i < n; i++) {
-    const ax = axes[3 * i]!, ay = axes[3 * i + 1]!, az = axes[3 * i + 2]!, qi = q[i]!;
+    const ax = axes[3 * i]!,
+      ay = axes[3 * i + 1]!,
+      az = axes[3 * i + 2]!,
+      qi = q[i]!;
     const o = 16 * i;
     if (ax === 0 && ay === 0 && az === 1) {
       // Motion about/along local z (every DH joint): only columns 0, 1 (rotation) or 3 (translation) change.
@@ -122,9 +141,11 @@ export function forwardInto(chain: Chain, qDriven: ArrayLike<number>, s: Kinemat
           frames[o + r * 4 + 3] = acc[r * 4 + 3]! + qi * acc[r * 4 + 2]!;
         }
       } else {
-        const c = Math.cos(qi), sn = Math.sin(qi);
+        const c = Math.cos(qi),
+          sn = Math.sin(qi);
         for (let r = 0; r < 3; r++) {
-          const c0 = acc[r * 4]!, c1 = acc[r * 4 + 1]!;
+          const c0 = acc[r * 4]!,
+            c1 = acc[r * 4 + 1]!;
           frames[o + r * 4] = c * c0 + sn * c1;
           frames[o + r * 4 + 1] = c * c1 - sn * c0;
           frames[o + r * 4 + 2] = acc[r * 4 + 2]!;
@@ -140,12 +161,23 @@ export function forwardInto(chain: Chain, qDriven: ArrayLike<number>, s: Kinemat
       mul4AtInto(frames, o, acc, 0, step, 0);
     } else {
       // acc · R(axis, qi): rotationAxisAngleInto then mul4AtInto, term for term, without the step matrix.
-      const c = Math.cos(qi), sn = Math.sin(qi), t = 1 - c;
-      const r00 = t * ax * ax + c, r01 = t * ax * ay - sn * az, r02 = t * ax * az + sn * ay;
-      const r10 = t * ax * ay + sn * az, r11 = t * ay * ay + c, r12 = t * ay * az - sn * ax;
-      const r20 = t * ax * az - sn * ay, r21 = t * ay * az + sn * ax, r22 = t * az * az + c;
+      const c = Math.cos(qi),
+        sn = Math.sin(qi),
+        t = 1 - c;
+      const r00 = t * ax * ax + c,
+        r01 = t * ax * ay - sn * az,
+        r02 = t * ax * az + sn * ay;
+      const r10 = t * ax * ay + sn * az,
+        r11 = t * ay * ay + c,
+        r12 = t * ay * az - sn * ax;
+      const r20 = t * ax * az - sn * ay,
+        r21 = t * ay * az + sn * ax,
+        r22 = t * az * az + c;
       for (let r = 0; r < 3; r++) {
-        const a0 = acc[r * 4]!, a1 = acc[r * 4 + 1]!, a2 = acc[r * 4 + 2]!, a3 = acc[r * 4 + 3]!;
+        const a0 = acc[r * 4]!,
+          a1 = acc[r * 4 + 1]!,
+          a2 = acc[r * 4 + 2]!,
+          a3 = acc[r * 4 + 3]!;
         const k = o + r * 4;
         frames[k] = a0 * r00 + a1 * r10 + a2 * r20;
         frames[k + 1] = a0 * r01 + a1 * r11 + a2 * r21;
@@ -169,7 +201,13 @@ export function linkFrameInto(out: Float64Array, chain: Chain, s: KinematicsScra
 }
 
 /** Writes the tool point p = baseFromFlange · pInFlangeM into out[0..2] (after forwardInto). */
-export function toolPointInto(out: Float64Array, s: KinematicsScratch, xInFlangeM: number, yInFlangeM: number, zInFlangeM: number): Float64Array {
+export function toolPointInto(
+  out: Float64Array,
+  s: KinematicsScratch,
+  xInFlangeM: number,
+  yInFlangeM: number,
+  zInFlangeM: number,
+): Float64Array {
   return transformPointInto(out, 0, s.flange, xInFlangeM, yInFlangeM, zInFlangeM);
 }
 
@@ -191,15 +229,27 @@ export function wristCentreInto(out: Float64Array, chain: Chain, s: KinematicsSc
  * @example planar 2R (a1 = 0.4 m, a2 = 0.3 m) at q = (0, π/2), p = tip (0.4, 0.3, 0):
  *   column 0 = (−0.3, 0.4, 0, 0, 0, 1), column 1 = (−0.3, 0, 0, 0, 0, 1)
  */
-export function jacobianInto(out: Float64Array, chain: Chain, s: KinematicsScratch, px: number, py: number, pz: number): Float64Array {
-  const n = chain.jointCount, m = chain.drivenCount, frames = s.motionFrames, axes = chain.axisLocal;
+export function jacobianInto(
+  out: Float64Array,
+  chain: Chain,
+  s: KinematicsScratch,
+  px: number,
+  py: number,
+  pz: number,
+): Float64Array {
+  const n = chain.jointCount,
+    m = chain.drivenCount,
+    frames = s.motionFrames,
+    axes = chain.axisLocal;
   const jk = s.jKin;
   // Without coupling J = J_kin, written into `out` beside J_kin. `+ 0` keeps what the chain rule below gives
   // (0 + x·1, which turns −0 into +0), so both paths agree to the bit.
   const direct = s.uncoupled;
   for (let i = 0; i < n; i++) {
     const f = 16 * i;
-    const ax = axes[3 * i]!, ay = axes[3 * i + 1]!, az = axes[3 * i + 2]!;
+    const ax = axes[3 * i]!,
+      ay = axes[3 * i + 1]!,
+      az = axes[3 * i + 2]!;
     const zx = frames[f]! * ax + frames[f + 1]! * ay + frames[f + 2]! * az;
     const zy = frames[f + 4]! * ax + frames[f + 5]! * ay + frames[f + 6]! * az;
     const zz = frames[f + 8]! * ax + frames[f + 9]! * ay + frames[f + 10]! * az;
@@ -212,7 +262,9 @@ export function jacobianInto(out: Float64Array, chain: Chain, s: KinematicsScrat
       w1 = 0;
       w2 = 0;
     } else {
-      const rx = px - frames[f + 3]!, ry = py - frames[f + 7]!, rz = pz - frames[f + 11]!;
+      const rx = px - frames[f + 3]!,
+        ry = py - frames[f + 7]!,
+        rz = pz - frames[f + 11]!;
       v0 = zy * rz - zz * ry;
       v1 = zz * rx - zx * rz;
       v2 = zx * ry - zy * rx;
@@ -237,9 +289,12 @@ export function jacobianInto(out: Float64Array, chain: Chain, s: KinematicsScrat
   }
   if (direct) return out;
   // J = J_kin · G over the non-zero entries of G, kinematic rows ascending per column.
-  const colStart = s.colStart, colJoint = s.colJoint, colGain = s.colGain;
+  const colStart = s.colStart,
+    colJoint = s.colJoint,
+    colGain = s.colGain;
   for (let j = 0; j < m; j++) {
-    const start = colStart[j]!, end = colStart[j + 1]!;
+    const start = colStart[j]!,
+      end = colStart[j + 1]!;
     for (let r = 0; r < 6; r++) {
       let v = 0;
       for (let p = start; p < end; p++) v = v + jk[r * n + colJoint[p]!]! * colGain[p]!;

@@ -87,11 +87,22 @@ export interface IkSeedPose {
 
 export function createIkSeedPose(chain: Chain): IkSeedPose {
   const m = chain.drivenCount;
-  return { q: new Float64Array(m), flange: new Float64Array(16), jacobian: new Float64Array(6 * m), normal: new Float64Array(Math.max(36, m * m)), normalReady: false };
+  return {
+    q: new Float64Array(m),
+    flange: new Float64Array(16),
+    jacobian: new Float64Array(6 * m),
+    normal: new Float64Array(Math.max(36, m * m)),
+    normalReady: false,
+  };
 }
 
 /** Forward kinematics and the flange-centre Jacobian at `q` into `pose` (kin is work space). */
-export function ikSeedPoseInto(pose: IkSeedPose, chain: Chain, q: ArrayLike<number>, kin: KinematicsScratch): IkSeedPose {
+export function ikSeedPoseInto(
+  pose: IkSeedPose,
+  chain: Chain,
+  q: ArrayLike<number>,
+  kin: KinematicsScratch,
+): IkSeedPose {
   const m = chain.drivenCount;
   for (let i = 0; i < m; i++) pose.q[i] = q[i]!;
   const t = forwardInto(chain, pose.q, kin);
@@ -106,14 +117,23 @@ export function ikSeedPoseInto(pose: IkSeedPose, chain: Chain, q: ArrayLike<numb
  * e[3..5] the rotation vector taking t's orientation onto the target's, or, with axisOnly, the one turning t's tool
  * axis onto the target's (z × z_t, unit length when more than 90° away).
  */
-export function taskErrorInto(e: Float64Array, target: ArrayLike<number>, t: ArrayLike<number>, axisOnly: boolean): Float64Array {
+export function taskErrorInto(
+  e: Float64Array,
+  target: ArrayLike<number>,
+  t: ArrayLike<number>,
+  axisOnly: boolean,
+): Float64Array {
   e[0] = target[3]! - t[3]!;
   e[1] = target[7]! - t[7]!;
   e[2] = target[11]! - t[11]!;
   if (axisOnly) {
     // ω that turns the current tool axis onto the target axis: z × z_t (small-angle form, exact direction).
-    const zx = t[2]!, zy = t[6]!, zz = t[10]!;
-    const tx = target[2]!, ty = target[6]!, tz = target[10]!;
+    const zx = t[2]!,
+      zy = t[6]!,
+      zz = t[10]!;
+    const tx = target[2]!,
+      ty = target[6]!,
+      tz = target[10]!;
     e[3] = zy * tz - zz * ty;
     e[4] = zz * tx - zx * tz;
     e[5] = zx * ty - zy * tx;
@@ -152,14 +172,18 @@ export function solveIkInto(
   options: IkOptions = DEFAULT_IK,
   seedPose?: IkSeedPose,
 ): boolean {
-  const m = chain.drivenCount, q = s.q, e = s.e, task = s.task;
+  const m = chain.drivenCount,
+    q = s.q,
+    e = s.e,
+    task = s.task;
   const lengthM = chain.characteristicLengthM;
   const axisOnly = options.task ? options.task === "axis" : m < 6;
   for (let i = 0; i < m; i++) q[i] = Math.min(chain.upperSi[i]!, Math.max(chain.lowerSi[i]!, seed[i]!));
   // The seed pose serves the first iteration only when it belongs to exactly these joints (signed zeros included).
   let pose = seedPose;
   if (seedPose) for (let i = 0; i < m; i++) if (!Object.is(seedPose.q[i], q[i])) pose = undefined;
-  const tol2p = options.toleranceM * options.toleranceM, tol2r = options.toleranceRad * options.toleranceRad;
+  const tol2p = options.toleranceM * options.toleranceM,
+    tol2r = options.toleranceRad * options.toleranceRad;
   let converged = false;
   let previous = Infinity;
   for (let it = 0; it <= options.maxIterations; it++) {
@@ -254,9 +278,21 @@ function solveSpd(a: Float64Array, x: Float64Array, n: number, backup: Float64Ar
  * the error e: Δq = Tᵀ(TTᵀ + λ²I)⁻¹e for redundant arms, (TᵀT + λ²I)⁻¹Tᵀe otherwise. Writes s.dq. With `cache`,
  * the undamped normal matrix of this task is taken from it, or computed and kept there.
  */
-function dampedStepInto(s: IkScratch, chain: Chain, e: Float64Array, lambda2: number, lengthM: number, cache?: IkSeedPose): boolean {
-  const m = chain.drivenCount, a = s.a, x = s.x, task = s.task, dq = s.dq;
-  const cached = cache !== undefined && cache.normalReady, normal = cache?.normal;
+function dampedStepInto(
+  s: IkScratch,
+  chain: Chain,
+  e: Float64Array,
+  lambda2: number,
+  lengthM: number,
+  cache?: IkSeedPose,
+): boolean {
+  const m = chain.drivenCount,
+    a = s.a,
+    x = s.x,
+    task = s.task,
+    dq = s.dq;
+  const cached = cache !== undefined && cache.normalReady,
+    normal = cache?.normal;
   if (cache) cache.normalReady = true;
   if (m > 6) {
     const y = s.y;
@@ -283,20 +319,36 @@ function dampedStepInto(s: IkScratch, chain: Chain, e: Float64Array, lambda2: nu
     return true;
   }
   // The six task rows written out (sums in row order, as a loop over them would add).
-  const m2 = 2 * m, m3 = 3 * m, m4 = 4 * m, m5 = 5 * m;
+  const m2 = 2 * m,
+    m3 = 3 * m,
+    m4 = 4 * m,
+    m5 = 5 * m;
   for (let r = 0; r < m; r++) {
-    const t0 = task[r]!, t1 = task[m + r]!, t2 = task[m2 + r]!, t3 = task[m3 + r]!, t4 = task[m4 + r]!, t5 = task[m5 + r]!;
+    const t0 = task[r]!,
+      t1 = task[m + r]!,
+      t2 = task[m2 + r]!,
+      t3 = task[m3 + r]!,
+      t4 = task[m4 + r]!,
+      t5 = task[m5 + r]!;
     for (let c = r; c < m; c++) {
       let v: number;
       if (cached) v = normal![r * m + c]!;
       else {
-        v = 0 + t0 * task[c]! + t1 * task[m + c]! + t2 * task[m2 + c]! + t3 * task[m3 + c]! + t4 * task[m4 + c]! + t5 * task[m5 + c]!;
+        v =
+          0 +
+          t0 * task[c]! +
+          t1 * task[m + c]! +
+          t2 * task[m2 + c]! +
+          t3 * task[m3 + c]! +
+          t4 * task[m4 + c]! +
+          t5 * task[m5 + c]!;
         if (normal) normal[r * m + c] = v;
       }
       a[r * m + c] = v + (r === c ? lambda2 : 0);
       a[c * m + r] = v + (r === c ? lambda2 : 0);
     }
-    x[r] = 0 + t0 * e[0]! + t1 * e[1]! + t2 * e[2]! + t3 * e[3]! * lengthM + t4 * e[4]! * lengthM + t5 * e[5]! * lengthM;
+    x[r] =
+      0 + t0 * e[0]! + t1 * e[1]! + t2 * e[2]! + t3 * e[3]! * lengthM + t4 * e[4]! * lengthM + t5 * e[5]! * lengthM;
   }
   if (!solveSpd(a, x, m, s.backup)) return false;
   for (let i = 0; i < m; i++) dq[i] = x[i]!;
@@ -312,19 +364,24 @@ export function holdsFullOrientation(chain: Chain, random: () => number): boolea
   const m = chain.drivenCount;
   if (m >= 6) return true;
   const s = createIkScratch(chain);
-  const q = new Float64Array(m), out = new Float64Array(m), target = new Float64Array(16);
+  const q = new Float64Array(m),
+    out = new Float64Array(m),
+    target = new Float64Array(16);
   let ok = 0;
   const tries = 5;
   for (let t = 0; t < tries; t++) {
     for (let i = 0; i < m; i++) {
-      const lo = Math.max(chain.lowerSi[i]!, -Math.PI), hi = Math.min(chain.upperSi[i]!, Math.PI);
+      const lo = Math.max(chain.lowerSi[i]!, -Math.PI),
+        hi = Math.min(chain.upperSi[i]!, Math.PI);
       q[i] = lo + (0.25 + 0.5 * random()) * (hi - lo);
     }
     const f = forwardInto(chain, q, s.kin);
     // target = f · Rz(0.5): the same point and tool axis, turned about the tool axis.
-    const c = Math.cos(0.5), sn = Math.sin(0.5);
+    const c = Math.cos(0.5),
+      sn = Math.sin(0.5);
     for (let r = 0; r < 3; r++) {
-      const a = f[r * 4]!, b = f[r * 4 + 1]!;
+      const a = f[r * 4]!,
+        b = f[r * 4 + 1]!;
       target[r * 4] = c * a + sn * b;
       target[r * 4 + 1] = -sn * a + c * b;
       target[r * 4 + 2] = f[r * 4 + 2]!;

@@ -29,8 +29,13 @@ export interface PoseReport {
  * @see Yoshikawa, Manipulability of robotic mechanisms, IJRR 4(2), 1985 (manipulability);
  *   Salisbury & Craig, IJRR 1(1), 1982 (condition number)
  */
-export function poseReport(chain: Chain, qDriven: ArrayLike<number>, toolInFlangeM: ArrayLike<number> = [0, 0, 0]): PoseReport {
-  if (qDriven.length !== chain.drivenCount) throw new RangeError(`invalid joint count: ${qDriven.length}, expected ${chain.drivenCount}`);
+export function poseReport(
+  chain: Chain,
+  qDriven: ArrayLike<number>,
+  toolInFlangeM: ArrayLike<number> = [0, 0, 0],
+): PoseReport {
+  if (qDriven.length !== chain.drivenCount)
+    throw new RangeError(`invalid joint count: ${qDriven.length}, expected ${chain.drivenCount}`);
   const s = createScratch(chain);
   forwardInto(chain, qDriven, s);
   const tcp = toolPointInto(new Float64Array(3), s, toolInFlangeM[0]!, toolInFlangeM[1]!, toolInFlangeM[2]!);

@@ -53,9 +53,12 @@ function wristDet(j: Float64Array, m: number, a: number, b: number, c: number): 
 export function wristFlipOf(chain: Chain): WristFlip | null {
   const m = chain.drivenCount;
   if (m < 6) return null;
-  const a = m - 3, b = m - 2, c = m - 1;
+  const a = m - 3,
+    b = m - 2,
+    c = m - 1;
   for (const i of [a, b, c]) {
-    for (let k = 0; k < chain.jointCount; k++) if (chain.couplingGain[k * m + i] !== 0 && chain.isPrismatic[k]) return null;
+    for (let k = 0; k < chain.jointCount; k++)
+      if (chain.couplingGain[k * m + i] !== 0 && chain.isPrismatic[k]) return null;
   }
   const kin = createScratch(chain);
   const j = new Float64Array(6 * m);
@@ -66,7 +69,8 @@ export function wristFlipOf(chain: Chain): WristFlip | null {
       const k = chain.drivenJoint[i]!;
       const u = ((n + 1) * 0.6180339887498949 + (i + 1) * 0.7548776662466927) % 1;
       if (chain.isPrismatic[k]) {
-        const lo = chain.lowerSi[i]!, hi = chain.upperSi[i]!;
+        const lo = chain.lowerSi[i]!,
+          hi = chain.upperSi[i]!;
         out[i] = Number.isFinite(lo) && Number.isFinite(hi) ? lo + (hi - lo) * u : u;
       } else out[i] = -Math.PI + TWO_PI * u;
     }
@@ -80,7 +84,8 @@ export function wristFlipOf(chain: Chain): WristFlip | null {
     jacobianInto(j, chain, kin, t[3]!, t[7]!, t[11]!);
     f.push(wristDet(j, m, a, b, c));
   }
-  const A = (f[0]! - f[2]!) / 2, B = (f[1]! - f[3]!) / 2;
+  const A = (f[0]! - f[2]!) / 2,
+    B = (f[1]! - f[3]!) / 2;
   if (Math.hypot(A, B) < 1e-6) return null;
   // A cos x + B sin x = R cos(x − φ) is zero at x₀ = φ + π/2; the reflection value is 2x₀ (mod 2π).
   let centre = 2 * Math.atan2(B, A) + Math.PI;
@@ -89,7 +94,9 @@ export function wristFlipOf(chain: Chain): WristFlip | null {
   const flip: WristFlip = { a, b, c, centreRad: centre };
   // The check: FK(T(q)) = FK(q) and J(T(q)) = J(q)·D at spread-out poses (joint limits ignored).
   const lengthM = Math.max(chain.characteristicLengthM, 1e-3);
-  const qt = new Float64Array(m), t0 = new Float64Array(16), j0 = new Float64Array(6 * m);
+  const qt = new Float64Array(m),
+    t0 = new Float64Array(16),
+    j0 = new Float64Array(6 * m);
   for (let n = 1; n <= CHECK_POSES; n++) {
     poseInto(q, n);
     t0.set(forwardInto(chain, q, kin));
@@ -127,14 +134,30 @@ function intoRange(v: number, lo: number, hi: number): number {
  * q_b and q_c ± π likewise, all brought into the joint ranges by whole turns. False when the twin lies outside the
  * ranges.
  */
-export function wristTwinInto(out: Float64Array, q: ArrayLike<number>, flip: WristFlip, chain: Chain, offset = 0): boolean {
+export function wristTwinInto(
+  out: Float64Array,
+  q: ArrayLike<number>,
+  flip: WristFlip,
+  chain: Chain,
+  offset = 0,
+): boolean {
   const m = chain.drivenCount;
   for (let i = 0; i < m; i++) out[i] = q[offset + i]!;
   const { a, b, c } = flip;
-  const qa = out[a]!, qb = out[b]!, qc = out[c]!;
-  const va = intoRange(qa + Math.PI <= chain.upperSi[a]! ? qa + Math.PI : qa - Math.PI, chain.lowerSi[a]!, chain.upperSi[a]!);
+  const qa = out[a]!,
+    qb = out[b]!,
+    qc = out[c]!;
+  const va = intoRange(
+    qa + Math.PI <= chain.upperSi[a]! ? qa + Math.PI : qa - Math.PI,
+    chain.lowerSi[a]!,
+    chain.upperSi[a]!,
+  );
   const vb = intoRange(flip.centreRad - qb, chain.lowerSi[b]!, chain.upperSi[b]!);
-  const vc = intoRange(qc + Math.PI <= chain.upperSi[c]! ? qc + Math.PI : qc - Math.PI, chain.lowerSi[c]!, chain.upperSi[c]!);
+  const vc = intoRange(
+    qc + Math.PI <= chain.upperSi[c]! ? qc + Math.PI : qc - Math.PI,
+    chain.lowerSi[c]!,
+    chain.upperSi[c]!,
+  );
   if (Number.isNaN(va) || Number.isNaN(vb) || Number.isNaN(vc)) return false;
   out[a] = va;
   out[b] = vb;

@@ -10,7 +10,8 @@ export function solveInPlace(a: Float64Array, x: Float64Array, n: number, relTol
   if (!(scale > 0)) return false;
   const tol = Math.max(relTol * scale, 1e-300);
   for (let c = 0; c < n; c++) {
-    let p = c, best = Math.abs(a[c * n + c]!);
+    let p = c,
+      best = Math.abs(a[c * n + c]!);
     for (let r = c + 1; r < n; r++) {
       const v = Math.abs(a[r * n + c]!);
       if (v > best) {

@@ -20,7 +20,10 @@ export function identity4Into(out: Float64Array): Float64Array {
 /** out = a · b. `out` may alias neither a nor b. */
 export function mul4Into(out: Float64Array, a: Float64Array, b: Float64Array): Float64Array {
   for (let r = 0; r < 3; r++) {
-    const a0 = a[r * 4]!, a1 = a[r * 4 + 1]!, a2 = a[r * 4 + 2]!, a3 = a[r * 4 + 3]!;
+    const a0 = a[r * 4]!,
+      a1 = a[r * 4 + 1]!,
+      a2 = a[r * 4 + 2]!,
+      a3 = a[r * 4 + 3]!;
     out[r * 4] = a0 * b[0]! + a1 * b[4]! + a2 * b[8]!;
     out[r * 4 + 1] = a0 * b[1]! + a1 * b[5]! + a2 * b[9]!;
     out[r * 4 + 2] = a0 * b[2]! + a1 * b[6]! + a2 * b[10]!;
@@ -34,8 +37,16 @@ export function mul4Into(out: Float64Array, a: Float64Array, b: Float64Array): F
 }
 
 /** Rotation by `angleRad` about the unit axis (x, y, z) through the origin (Rodrigues' formula). */
-export function rotationAxisAngleInto(out: Float64Array, x: number, y: number, z: number, angleRad: number): Float64Array {
-  const c = Math.cos(angleRad), s = Math.sin(angleRad), t = 1 - c;
+export function rotationAxisAngleInto(
+  out: Float64Array,
+  x: number,
+  y: number,
+  z: number,
+  angleRad: number,
+): Float64Array {
+  const c = Math.cos(angleRad),
+    s = Math.sin(angleRad),
+    t = 1 - c;
   out[0] = t * x * x + c;
   out[1] = t * x * y - s * z;
   out[2] = t * x * z + s * y;
@@ -68,10 +79,21 @@ export function translationInto(out: Float64Array, x: number, y: number, z: numb
  * Pose from a translation and roll-pitch-yaw angles as URDF defines them:
  * R = Rz(yaw)·Ry(pitch)·Rx(roll) about fixed axes.
  */
-export function fromXyzRpyInto(out: Float64Array, x: number, y: number, z: number, rollRad: number, pitchRad: number, yawRad: number): Float64Array {
-  const cr = Math.cos(rollRad), sr = Math.sin(rollRad);
-  const cp = Math.cos(pitchRad), sp = Math.sin(pitchRad);
-  const cy = Math.cos(yawRad), sy = Math.sin(yawRad);
+export function fromXyzRpyInto(
+  out: Float64Array,
+  x: number,
+  y: number,
+  z: number,
+  rollRad: number,
+  pitchRad: number,
+  yawRad: number,
+): Float64Array {
+  const cr = Math.cos(rollRad),
+    sr = Math.sin(rollRad);
+  const cp = Math.cos(pitchRad),
+    sp = Math.sin(pitchRad);
+  const cy = Math.cos(yawRad),
+    sy = Math.sin(yawRad);
   out[0] = cy * cp;
   out[1] = cy * sp * sr - sy * cr;
   out[2] = cy * sp * cr + sy * sr;
@@ -111,7 +133,9 @@ export function rpyOfInto(out: Float64Array | number[], t: Float64Array): Float6
 
 /** Inverse of a rigid transform: [Rᵀ, −Rᵀp]. */
 export function invertRigidInto(out: Float64Array, t: Float64Array): Float64Array {
-  const px = t[3]!, py = t[7]!, pz = t[11]!;
+  const px = t[3]!,
+    py = t[7]!,
+    pz = t[11]!;
   for (let r = 0; r < 3; r++) {
     for (let c = 0; c < 3; c++) out[r * 4 + c] = t[c * 4 + r]!;
   }
@@ -126,7 +150,14 @@ export function invertRigidInto(out: Float64Array, t: Float64Array): Float64Arra
 }
 
 /** Writes t · (x, y, z, 1) into out[offset..offset+2]. */
-export function transformPointInto(out: Float64Array, offset: number, t: Float64Array, x: number, y: number, z: number): Float64Array {
+export function transformPointInto(
+  out: Float64Array,
+  offset: number,
+  t: Float64Array,
+  x: number,
+  y: number,
+  z: number,
+): Float64Array {
   out[offset] = t[0]! * x + t[1]! * y + t[2]! * z + t[3]!;
   out[offset + 1] = t[4]! * x + t[5]! * y + t[6]! * z + t[7]!;
   out[offset + 2] = t[8]! * x + t[9]! * y + t[10]! * z + t[11]!;
@@ -137,13 +168,32 @@ export function transformPointInto(out: Float64Array, offset: number, t: Float64
  * out[o..o+15] = a[ao..ao+15] · b[bo..bo+15] for rigid transforms (bottom row 0 0 0 1), with offsets so callers
  * can address matrices packed in one array without creating views. `out` must not overlap the inputs' ranges.
  */
-export function mul4AtInto(out: Float64Array, o: number, a: Float64Array, ao: number, b: Float64Array, bo: number): Float64Array {
-  const b0 = b[bo]!, b1 = b[bo + 1]!, b2 = b[bo + 2]!, b3 = b[bo + 3]!;
-  const b4 = b[bo + 4]!, b5 = b[bo + 5]!, b6 = b[bo + 6]!, b7 = b[bo + 7]!;
-  const b8 = b[bo + 8]!, b9 = b[bo + 9]!, b10 = b[bo + 10]!, b11 = b[bo + 11]!;
+export function mul4AtInto(
+  out: Float64Array,
+  o: number,
+  a: Float64Array,
+  ao: number,
+  b: Float64Array,
+  bo: number,
+): Float64Array {
+  const b0 = b[bo]!,
+    b1 = b[bo + 1]!,
+    b2 = b[bo + 2]!,
+    b3 = b[bo + 3]!;
+  const b4 = b[bo + 4]!,
+    b5 = b[bo + 5]!,
+    b6 = b[bo + 6]!,
+    b7 = b[bo + 7]!;
+  const b8 = b[bo + 8]!,
+    b9 = b[bo + 9]!,
+    b10 = b[bo + 10]!,
+    b11 = b[bo + 11]!;
   for (let r = 0; r < 3; r++) {
     const i = ao + r * 4;
-    const a0 = a[i]!, a1 = a[i + 1]!, a2 = a[i + 2]!, a3 = a[i + 3]!;
+    const a0 = a[i]!,
+      a1 = a[i + 1]!,
+      a2 = a[i + 2]!,
+      a3 = a[i + 3]!;
     const k = o + r * 4;
     out[k] = a0 * b0 + a1 * b4 + a2 * b8;
     out[k + 1] = a0 * b1 + a1 * b5 + a2 * b9;

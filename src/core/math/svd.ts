@@ -13,7 +13,12 @@ export interface SvdScratch {
 }
 
 export function createSvdScratch(rows: number, cols: number): SvdScratch {
-  return { work: new Float64Array(rows * cols), norms: new Float64Array(cols), v: new Float64Array(cols * cols), order: new Int32Array(cols) };
+  return {
+    work: new Float64Array(rows * cols),
+    norms: new Float64Array(cols),
+    v: new Float64Array(cols * cols),
+    order: new Int32Array(cols),
+  };
 }
 
 /**
@@ -21,8 +26,15 @@ export function createSvdScratch(rows: number, cols: number): SvdScratch {
  * `out`. Allocates nothing.
  * @example singularValuesInto(out, [-1, -1, 1, 0], 2, 2, scratch) // out ≈ [1.618034, 0.618034]
  */
-export function singularValuesInto(out: Float64Array, a: ArrayLike<number>, rows: number, cols: number, s: SvdScratch): Float64Array {
-  const w = s.work, norms = s.norms;
+export function singularValuesInto(
+  out: Float64Array,
+  a: ArrayLike<number>,
+  rows: number,
+  cols: number,
+  s: SvdScratch,
+): Float64Array {
+  const w = s.work,
+    norms = s.norms;
   let frob = 0;
   for (let i = 0; i < rows * cols; i++) {
     w[i] = a[i]!;
@@ -34,22 +46,28 @@ export function singularValuesInto(out: Float64Array, a: ArrayLike<number>, rows
     let rotated = false;
     for (let p = 0; p < cols - 1; p++) {
       for (let q = p + 1; q < cols; q++) {
-        let alpha = 0, beta = 0, gamma = 0;
+        let alpha = 0,
+          beta = 0,
+          gamma = 0;
         for (let r = 0; r < rows; r++) {
-          const wp = w[r * cols + p]!, wq = w[r * cols + q]!;
+          const wp = w[r * cols + p]!,
+            wq = w[r * cols + q]!;
           alpha += wp * wp;
           beta += wq * wq;
           gamma += wp * wq;
         }
         // Converged pair (|cos| of the angle between the columns ≤ 1e-12: the singular values are then exact to
         // about 1e-24 relative, since the error is quadratic in it), or a column already at zero (a wide or rank-deficient matrix): no rotation.
-        if (gamma === 0 || Math.abs(gamma) <= 1e-12 * Math.sqrt(alpha * beta) || alpha <= tiny || beta <= tiny) continue;
+        if (gamma === 0 || Math.abs(gamma) <= 1e-12 * Math.sqrt(alpha * beta) || alpha <= tiny || beta <= tiny)
+          continue;
         rotated = true;
         const zeta = (beta - alpha) / (2 * gamma);
         const t = Math.sign(zeta || 1) / (Math.abs(zeta) + Math.sqrt(1 + zeta * zeta));
-        const c = 1 / Math.sqrt(1 + t * t), sn = c * t;
+        const c = 1 / Math.sqrt(1 + t * t),
+          sn = c * t;
         for (let r = 0; r < rows; r++) {
-          const wp = w[r * cols + p]!, wq = w[r * cols + q]!;
+          const wp = w[r * cols + p]!,
+            wq = w[r * cols + q]!;
           w[r * cols + p] = c * wp - sn * wq;
           w[r * cols + q] = sn * wp + c * wq;
         }
@@ -82,8 +100,18 @@ export function singularValuesInto(out: Float64Array, a: ArrayLike<number>, rows
  * cols × cols row-major; column k belongs to the k-th largest singular value, columns past min(rows, cols) span the
  * null space of a wide matrix). One-sided Jacobi with the rotations accumulated. Allocates nothing.
  */
-export function svdInto(sv: Float64Array, vOut: Float64Array, a: ArrayLike<number>, rows: number, cols: number, s: SvdScratch): Float64Array {
-  const w = s.work, v = s.v, norms = s.norms, order = s.order;
+export function svdInto(
+  sv: Float64Array,
+  vOut: Float64Array,
+  a: ArrayLike<number>,
+  rows: number,
+  cols: number,
+  s: SvdScratch,
+): Float64Array {
+  const w = s.work,
+    v = s.v,
+    norms = s.norms,
+    order = s.order;
   let frob = 0;
   for (let i = 0; i < rows * cols; i++) {
     w[i] = a[i]!;
@@ -96,26 +124,33 @@ export function svdInto(sv: Float64Array, vOut: Float64Array, a: ArrayLike<numbe
     let rotated = false;
     for (let p = 0; p < cols - 1; p++) {
       for (let q = p + 1; q < cols; q++) {
-        let alpha = 0, beta = 0, gamma = 0;
+        let alpha = 0,
+          beta = 0,
+          gamma = 0;
         for (let r = 0; r < rows; r++) {
-          const wp = w[r * cols + p]!, wq = w[r * cols + q]!;
+          const wp = w[r * cols + p]!,
+            wq = w[r * cols + q]!;
           alpha += wp * wp;
           beta += wq * wq;
           gamma += wp * wq;
         }
         // Converged pair, or a column already at zero (a wide or rank-deficient matrix): no rotation.
-        if (gamma === 0 || Math.abs(gamma) <= 1e-15 * Math.sqrt(alpha * beta) || alpha <= tiny || beta <= tiny) continue;
+        if (gamma === 0 || Math.abs(gamma) <= 1e-15 * Math.sqrt(alpha * beta) || alpha <= tiny || beta <= tiny)
+          continue;
         rotated = true;
         const zeta = (beta - alpha) / (2 * gamma);
         const t = Math.sign(zeta || 1) / (Math.abs(zeta) + Math.sqrt(1 + zeta * zeta));
-        const c = 1 / Math.sqrt(1 + t * t), sn = c * t;
+        const c = 1 / Math.sqrt(1 + t * t),
+          sn = c * t;
         for (let r = 0; r < rows; r++) {
-          const wp = w[r * cols + p]!, wq = w[r * cols + q]!;
+          const wp = w[r * cols + p]!,
+            wq = w[r * cols + q]!;
           w[r * cols + p] = c * wp - sn * wq;
           w[r * cols + q] = sn * wp + c * wq;
         }
         for (let r = 0; r < cols; r++) {
-          const vp = v[r * cols + p]!, vq = v[r * cols + q]!;
+          const vp = v[r * cols + p]!,
+            vq = v[r * cols + q]!;
           v[r * cols + p] = c * vp - sn * vq;
           v[r * cols + q] = sn * vp + c * vq;
         }

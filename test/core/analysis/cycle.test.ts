@@ -28,7 +28,8 @@ describe("trapezoidTimeS (CHECKS C17)", () => {
 
   it("the standard cycle from these moves by hand: 2·(2·0.0707107 + 0.25) = 0.7828427 s", () => {
     // CHECKS C17: up, across, down and back, no blending, no dwell.
-    const up = trapezoidTimeS(0.025, 2, 20), across = trapezoidTimeS(0.3, 2, 20);
+    const up = trapezoidTimeS(0.025, 2, 20),
+      across = trapezoidTimeS(0.3, 2, 20);
     expectClose(2 * (2 * up + across), 0.7828427, 1e-7);
   });
 
@@ -36,7 +37,9 @@ describe("trapezoidTimeS (CHECKS C17)", () => {
     // C17 formulas: at D = V²/A, D/V + V/A = 2V/A = 2·sqrt(D/A).
     const rand = mulberry32(3101);
     for (let k = 0; k < 50; k++) {
-      const v = uniform(rand, 0.1, 5), a = uniform(rand, 0.5, 50), d = (v * v) / a;
+      const v = uniform(rand, 0.1, 5),
+        a = uniform(rand, 0.5, 50),
+        d = (v * v) / a;
       expectClose(trapezoidTimeS(d, v, a), (2 * v) / a, 1e-12, "boundary");
       expectClose(trapezoidTimeS(d * (1 + 1e-9), v, a), (2 * v) / a, 1e-8, "just above");
       expectClose(trapezoidTimeS(-0.7 * d, v, a), trapezoidTimeS(0.7 * d, v, a), 0, "even");
@@ -48,7 +51,9 @@ describe("trapezoidTimeS (CHECKS C17)", () => {
     // Kinematics of the profile: peak speed vp = min(V, sqrt(D·A)); ramps of vp/A each; area = vp·(T − vp/A).
     const rand = mulberry32(3102);
     for (let k = 0; k < 200; k++) {
-      const d = uniform(rand, 1e-4, 3), v = uniform(rand, 0.1, 5), a = uniform(rand, 0.5, 50);
+      const d = uniform(rand, 1e-4, 3),
+        v = uniform(rand, 0.1, 5),
+        a = uniform(rand, 0.5, 50);
       const t = trapezoidTimeS(d, v, a);
       const vp = Math.min(v, Math.sqrt(d * a));
       expectClose(vp * (t - vp / a), d, 1e-12 * Math.max(1, d), "area = D");
@@ -72,7 +77,13 @@ describe("trapezoidTimeS (CHECKS C17)", () => {
 function gantry(accel: boolean): ArmKinematicsInput {
   const origin = { xyzMm: [0, 0, 0], rpyDeg: [0, 0, 0] };
   const linear = (name: string, axis: number[], rangeMm: number[]) => ({
-    name, kind: "prismatic" as const, origin, axis, rangeMm, maxSpeedMmPerS: 2000, ...(accel ? { maxAccelMmPerS2: 20000 } : {}),
+    name,
+    kind: "prismatic" as const,
+    origin,
+    axis,
+    rangeMm,
+    maxSpeedMmPerS: 2000,
+    ...(accel ? { maxAccelMmPerS2: 20000 } : {}),
   });
   return {
     convention: "frames",
@@ -80,7 +91,15 @@ function gantry(accel: boolean): ArmKinematicsInput {
       linear("X", [1, 0, 0], [0, 2000]),
       linear("Y", [0, 1, 0], [-1000, 1000]),
       linear("Z", [0, 0, 1], [-500, 1000]),
-      { name: "R", kind: "revolute", origin, axis: [0, 0, 1], rangeDeg: [-180, 180], maxSpeedDegPerS: 360, ...(accel ? { maxAccelDegPerS2: 3600 } : {}) },
+      {
+        name: "R",
+        kind: "revolute",
+        origin,
+        axis: [0, 0, 1],
+        rangeDeg: [-180, 180],
+        maxSpeedDegPerS: 360,
+        ...(accel ? { maxAccelDegPerS2: 3600 } : {}),
+      },
     ],
     flange: { xyzMm: [0, 0, 0], rpyDeg: [180, 0, 0] },
   };
@@ -100,13 +119,27 @@ describe("standardCycle on a Cartesian gantry (every move is a single-joint move
     // B up → B moves Z by 25 mm, then the same back: 2·(2·0.0707107 + 0.25) = 0.7828427 s. The other joints stay
     // put up to the solver tolerance (1e-7 m), so the total matches to about 1e-6 s.
     const chain = compileChain(gantry(true));
-    const r = standardCycle(chain, { rMm: 1000, zMm: 200 }, [1, 0, 0.2, 0], gantryTarget, { upMm: 25, acrossMm: 300, jointNames: names });
+    const r = standardCycle(chain, { rMm: 1000, zMm: 200 }, [1, 0, 0.2, 0], gantryTarget, {
+      upMm: 25,
+      acrossMm: 300,
+      jointNames: names,
+    });
     expect(r.reason).toBeUndefined();
     expectClose(r.standardCycleS ?? Number.NaN, 0.7828427, 1e-6, "cycle time");
-    expectClose(r.standardCycleS ?? Number.NaN, 2 * (2 * 2 * Math.sqrt(0.025 / 20) + (0.3 / 2 + 2 / 20)), 1e-6, "by hand");
+    expectClose(
+      r.standardCycleS ?? Number.NaN,
+      2 * (2 * 2 * Math.sqrt(0.025 / 20) + (0.3 / 2 + 2 / 20)),
+      1e-6,
+      "by hand",
+    );
     expect(r.limitingJoint).toBe("Y");
     expect(r.moves.map((m) => m.limitingJoint)).toEqual(["Z", "Y", "Z", "Z", "Y", "Z"]);
-    expectClose(r.moves.map((m) => m.timeS), [0.0707107, 0.25, 0.0707107, 0.0707107, 0.25, 0.0707107], 1e-6, "per move");
+    expectClose(
+      r.moves.map((m) => m.timeS),
+      [0.0707107, 0.25, 0.0707107, 0.0707107, 0.25, 0.0707107],
+      1e-6,
+      "per move",
+    );
   });
 
   it("without accelerations in the file, the stated default (top speed in DEFAULT_TIME_TO_TOP_SPEED_S) is used", () => {
@@ -114,9 +147,18 @@ describe("standardCycle on a Cartesian gantry (every move is a single-joint move
     // 2·sqrt(0.025/5) = 0.1414214 s; 0.3 m < V²/A = 0.8 m → triangle 2·sqrt(0.3/5) = 0.4898979 s.
     expect(DEFAULT_TIME_TO_TOP_SPEED_S).toBe(0.4);
     const chain = compileChain(gantry(false));
-    const r = standardCycle(chain, { rMm: 800, zMm: 0 }, [0.8, 0, 0, 0], gantryTarget, { upMm: 25, acrossMm: 300, jointNames: names });
+    const r = standardCycle(chain, { rMm: 800, zMm: 0 }, [0.8, 0, 0, 0], gantryTarget, {
+      upMm: 25,
+      acrossMm: 300,
+      jointNames: names,
+    });
     const a = 2 / DEFAULT_TIME_TO_TOP_SPEED_S;
-    expectClose(r.standardCycleS ?? Number.NaN, 2 * (2 * 2 * Math.sqrt(0.025 / a) + 2 * Math.sqrt(0.3 / a)), 1e-6, "cycle time");
+    expectClose(
+      r.standardCycleS ?? Number.NaN,
+      2 * (2 * 2 * Math.sqrt(0.025 / a) + 2 * Math.sqrt(0.3 / a)),
+      1e-6,
+      "cycle time",
+    );
     expectClose(r.standardCycleS ?? Number.NaN, 2 * (2 * 0.1414214 + 0.4898979), 1e-6, "printed values");
     expect(r.assumptions.some((s) => s.includes(`${DEFAULT_TIME_TO_TOP_SPEED_S} s`))).toBe(true);
   });
@@ -124,7 +166,11 @@ describe("standardCycle on a Cartesian gantry (every move is a single-joint move
   it("a location out of reach gives no cycle time and a reason", () => {
     // X travels 0–2000 mm, so r = 5000 mm cannot be reached.
     const chain = compileChain(gantry(true));
-    const r = standardCycle(chain, { rMm: 5000, zMm: 0 }, [1, 0, 0, 0], gantryTarget, { upMm: 25, acrossMm: 300, jointNames: names });
+    const r = standardCycle(chain, { rMm: 5000, zMm: 0 }, [1, 0, 0, 0], gantryTarget, {
+      upMm: 25,
+      acrossMm: 300,
+      jointNames: names,
+    });
     expect(r.standardCycleS).toBeNull();
     expect(r.limitingJoint).toBeNull();
     expect(r.reason ?? "").toMatch(/cannot be reached/);

@@ -10,8 +10,22 @@
 import { fileURLToPath } from "node:url";
 import { describe, expect, it } from "vitest";
 import { loadArms } from "../../../src/catalog/index";
-import { compileChain, createScratch, forwardInto, wristCentreInto, type ArmKinematicsInput, type Chain, type JointInput } from "../../../src/core";
-import { DEFAULT_ENVELOPE_OPTIONS, workspaceEnvelope, type PointEnvelope, type PolygonMm, type WorkspaceEnvelope } from "../../../src/core/analysis/envelope";
+import {
+  compileChain,
+  createScratch,
+  forwardInto,
+  wristCentreInto,
+  type ArmKinematicsInput,
+  type Chain,
+  type JointInput,
+} from "../../../src/core";
+import {
+  DEFAULT_ENVELOPE_OPTIONS,
+  workspaceEnvelope,
+  type PointEnvelope,
+  type PolygonMm,
+  type WorkspaceEnvelope,
+} from "../../../src/core/analysis/envelope";
 import { mulberry32, uniform } from "../../helpers/prng";
 import { generic6rDh, GENERIC_6R_SI } from "../../helpers/testArms";
 
@@ -23,7 +37,8 @@ type Ring = readonly (readonly [number, number])[];
 function pointInRing(x: number, y: number, ring: Ring): boolean {
   let inside = false;
   for (let k = 1; k < ring.length; k++) {
-    const [x0, y0] = ring[k - 1]!, [x1, y1] = ring[k]!;
+    const [x0, y0] = ring[k - 1]!,
+      [x1, y1] = ring[k]!;
     if (y0 > y !== y1 > y && x < x0 + ((y - y0) * (x1 - x0)) / (y1 - y0)) inside = !inside;
   }
   return inside;
@@ -38,8 +53,11 @@ function distanceToBoundary(x: number, y: number, polygons: readonly PolygonMm[]
   for (const p of polygons) {
     for (const ring of [p.outer, ...p.holes]) {
       for (let k = 1; k < ring.length; k++) {
-        const [ax, ay] = ring[k - 1]!, [bx, by] = ring[k]!;
-        const dx = bx - ax, dy = by - ay, l2 = dx * dx + dy * dy;
+        const [ax, ay] = ring[k - 1]!,
+          [bx, by] = ring[k]!;
+        const dx = bx - ax,
+          dy = by - ay,
+          l2 = dx * dx + dy * dy;
         const t = l2 > 0 ? Math.max(0, Math.min(1, ((x - ax) * dx + (y - ay) * dy) / l2)) : 0;
         best = Math.min(best, Math.hypot(x - ax - t * dx, y - ay - t * dy));
       }
@@ -51,7 +69,8 @@ function distanceToBoundary(x: number, y: number, polygons: readonly PolygonMm[]
 /** Largest |distance of a vertex from (cx, cy) − radius| over the given rings. */
 function radiusError(rings: readonly Ring[], cx: number, cy: number, radius: number): number {
   let worst = 0;
-  for (const ring of rings) for (const [x, y] of ring) worst = Math.max(worst, Math.abs(Math.hypot(x - cx, y - cy) - radius));
+  for (const ring of rings)
+    for (const [x, y] of ring) worst = Math.max(worst, Math.abs(Math.hypot(x - cx, y - cy) - radius));
   return worst;
 }
 
@@ -65,8 +84,20 @@ const target = (reachMm: number) => Math.max(2, 0.002 * reachMm);
 // Invented chains (frames convention, mm and deg)
 
 const O = { xyzMm: [0, 0, 0], rpyDeg: [0, 0, 0] } as const;
-const joint = (name: string, xyzMm: number[], axis: number[], range: [number, number], extra: Partial<JointInput> = {}, rpyDeg = [0, 0, 0]): JointInput => ({
-  name, kind: "revolute", origin: { xyzMm, rpyDeg }, axis, rangeDeg: range, ...extra,
+const joint = (
+  name: string,
+  xyzMm: number[],
+  axis: number[],
+  range: [number, number],
+  extra: Partial<JointInput> = {},
+  rpyDeg = [0, 0, 0],
+): JointInput => ({
+  name,
+  kind: "revolute",
+  origin: { xyzMm, rpyDeg },
+  axis,
+  rangeDeg: range,
+  ...extra,
 });
 
 /**
@@ -74,7 +105,14 @@ const joint = (name: string, xyzMm: number[], axis: number[], range: [number, nu
  * and a forearm a2 (elbow axis y). The flange moves in the plane that turns with axis 1, so the side view is the
  * planar two-link reachable set about the shoulder (0, 400).
  */
-function shoulderElbow(a1Mm: number, a2Mm: number, elbowDeg: [number, number] = [-180, 180], j1Deg: [number, number] = [-180, 180], shoulderOffsetMm = 0, baseRpyDeg = [0, 0, 0]): Chain {
+function shoulderElbow(
+  a1Mm: number,
+  a2Mm: number,
+  elbowDeg: [number, number] = [-180, 180],
+  j1Deg: [number, number] = [-180, 180],
+  shoulderOffsetMm = 0,
+  baseRpyDeg = [0, 0, 0],
+): Chain {
   const input: ArmKinematicsInput = {
     convention: "frames",
     joints: [
@@ -157,7 +195,9 @@ describe("workspaceEnvelope(two-link shoulder–elbow chain)", () => {
     const one = flangeOf(workspaceEnvelope(shoulderElbow(500, 300, [0, 120]), FLANGE_ONLY));
     const both = flangeOf(workspaceEnvelope(shoulderElbow(500, 300, [-120, 120]), FLANGE_ONLY));
     const rhoIn = Math.sqrt(500 ** 2 + 300 ** 2 + 2 * 500 * 300 * Math.cos((120 * Math.PI) / 180));
-    expect(Math.abs(both.sideAreaM2 - one.sideAreaM2)).toBeLessThanOrEqual(2 * 2 * Math.PI * (0.8 + rhoIn / 1000) * 0.002);
+    expect(Math.abs(both.sideAreaM2 - one.sideAreaM2)).toBeLessThanOrEqual(
+      2 * 2 * Math.PI * (0.8 + rhoIn / 1000) * 0.002,
+    );
     expect(Math.abs(both.sideAreaM2 - 0.45 * Math.PI)).toBeLessThanOrEqual(2 * Math.PI * (0.8 + rhoIn / 1000) * 0.002);
   });
 
@@ -178,9 +218,12 @@ describe("workspaceEnvelope(two-link shoulder–elbow chain)", () => {
     expect(Math.abs(f.topAreaM2 - (Math.PI / 2) * 0.8 ** 2)).toBeLessThanOrEqual(perimeter * 0.002);
     // every top-view vertex lies within the two sectors |θ| ≤ 45° or |θ − 180°| ≤ 45° (plus the tolerance)
     for (const [x, y] of f.top.flatMap((p) => p.outer)) {
-      const rho = Math.hypot(x, y), th = Math.abs(Math.atan2(y, x));
+      const rho = Math.hypot(x, y),
+        th = Math.abs(Math.atan2(y, x));
       const angular = Math.min(Math.abs(th), Math.abs(Math.PI - th));
-      expect(rho * Math.max(0, Math.sin(Math.min(Math.PI / 2, angular - Math.PI / 4)))).toBeLessThanOrEqual(target(800));
+      expect(rho * Math.max(0, Math.sin(Math.min(Math.PI / 2, angular - Math.PI / 4)))).toBeLessThanOrEqual(
+        target(800),
+      );
       expect(rho).toBeLessThanOrEqual(800 + target(800));
     }
   });
@@ -193,7 +236,9 @@ describe("workspaceEnvelope(two-link shoulder–elbow chain)", () => {
     expect(Math.abs(f.minReachMm - 200)).toBeLessThanOrEqual(target(1800));
     expect(Math.abs(f.maxReachMm - 1800)).toBeLessThanOrEqual(0.01);
     // volume error ≤ π × tolerance × Σ (circumference × centroid distance) of the two boundary circles
-    expect(Math.abs(f.volumeM3! - Math.PI * 1.0 * area)).toBeLessThanOrEqual(Math.PI * target(1800) / 1000 * 2 * Math.PI * (0.8 + 0.2) * 1.0);
+    expect(Math.abs(f.volumeM3! - Math.PI * 1.0 * area)).toBeLessThanOrEqual(
+      ((Math.PI * target(1800)) / 1000) * 2 * Math.PI * (0.8 + 0.2) * 1.0,
+    );
   });
 
   it("axis 1 along base x: the side view is the same annulus, heights measured along axis 1 (elementary geometry)", () => {
@@ -207,8 +252,12 @@ describe("workspaceEnvelope(two-link shoulder–elbow chain)", () => {
   });
 
   it("rejects invalid options with a RangeError naming the value", () => {
-    expect(() => workspaceEnvelope(shoulderElbow(500, 300), { ...DEFAULT_ENVELOPE_OPTIONS, minToleranceMm: 0 })).toThrow(/invalid minToleranceMm: 0/);
-    expect(() => workspaceEnvelope(shoulderElbow(500, 300), { ...DEFAULT_ENVELOPE_OPTIONS, workBudget: -1 })).toThrow(RangeError);
+    expect(() =>
+      workspaceEnvelope(shoulderElbow(500, 300), { ...DEFAULT_ENVELOPE_OPTIONS, minToleranceMm: 0 }),
+    ).toThrow(/invalid minToleranceMm: 0/);
+    expect(() => workspaceEnvelope(shoulderElbow(500, 300), { ...DEFAULT_ENVELOPE_OPTIONS, workBudget: -1 })).toThrow(
+      RangeError,
+    );
   });
 });
 
@@ -216,10 +265,22 @@ describe("workspaceEnvelope(two-link shoulder–elbow chain)", () => {
 
 /** Spherical-wrist 6R in the standard-DH layout of CHECKS C5/C6 (α = −90°, 0, −90°, 90°, −90°, 0), joints ±180°. */
 function sphericalWrist6r(a1: number, a2: number, a3: number, d1: number, d4: number, d6: number): Chain {
-  const rows = [[a1, -90, d1], [a2, 0, 0], [a3, -90, 0], [0, 90, d4], [0, -90, 0], [0, 0, d6]] as const;
+  const rows = [
+    [a1, -90, d1],
+    [a2, 0, 0],
+    [a3, -90, 0],
+    [0, 90, d4],
+    [0, -90, 0],
+    [0, 0, d6],
+  ] as const;
   return compileChain({
     convention: "dh",
-    joints: rows.map(([a, alpha, d], i) => ({ name: `j${i + 1}`, kind: "revolute", dh: { aMm: a, alphaDeg: alpha, dMm: d, thetaDeg: 0 }, rangeDeg: [-180, 180] })),
+    joints: rows.map(([a, alpha, d], i) => ({
+      name: `j${i + 1}`,
+      kind: "revolute",
+      dh: { aMm: a, alphaDeg: alpha, dMm: d, thetaDeg: 0 },
+      rangeDeg: [-180, 180],
+    })),
     flange: O,
   });
 }
@@ -236,7 +297,9 @@ describe("workspaceEnvelope(spherical-wrist 6R)", () => {
     expect(w.toleranceMm).toBeLessThanOrEqual(target(1300));
     expect(radiusError(outers(w.side), 0, 500, 1300)).toBeLessThanOrEqual(target(1300));
     expect(radiusError(holes(w.side), 0, 500, 300)).toBeLessThanOrEqual(target(1300));
-    expect(Math.abs(w.sideAreaM2 - 4 * Math.PI * 0.8 * 0.5)).toBeLessThanOrEqual(2 * Math.PI * (1.3 + 0.3) * target(1300) / 1000);
+    expect(Math.abs(w.sideAreaM2 - 4 * Math.PI * 0.8 * 0.5)).toBeLessThanOrEqual(
+      (2 * Math.PI * (1.3 + 0.3) * target(1300)) / 1000,
+    );
     // CHECKS C6: WCP max reach a1 + ρ_max = 1300 mm
     expect(Math.abs(w.maxReachMm - 1300)).toBeLessThanOrEqual(0.01);
   });
@@ -247,7 +310,9 @@ describe("workspaceEnvelope(spherical-wrist 6R)", () => {
     // where the stated bound (toleranceMm) is larger because the work budget coarsened the wrist sampling
     expect(radiusError(outers(f.side), 0, 500, 1400)).toBeLessThanOrEqual(target(1400));
     expect(radiusError(holes(f.side), 0, 500, 200)).toBeLessThanOrEqual(target(1400));
-    expect(Math.abs(f.sideAreaM2 - Math.PI * (1.4 ** 2 - 0.2 ** 2))).toBeLessThanOrEqual(2 * Math.PI * (1.4 + 0.2) * target(1400) / 1000);
+    expect(Math.abs(f.sideAreaM2 - Math.PI * (1.4 ** 2 - 0.2 ** 2))).toBeLessThanOrEqual(
+      (2 * Math.PI * (1.4 + 0.2) * target(1400)) / 1000,
+    );
     // CHECKS C6: flange max reach a1 + ρ_max + d6
     expect(Math.abs(f.maxReachMm - 1400)).toBeLessThanOrEqual(0.01);
     expect(f.toleranceMm).toBeGreaterThanOrEqual(f.targetToleranceMm);
@@ -274,7 +339,13 @@ function scara(j1Deg: [number, number]): Chain {
     joints: [
       joint("j1", [0, 0, 0], [0, 0, 1], j1Deg),
       joint("j2", [400, 0, 500], [0, 0, 1], [-150, 150]),
-      { name: "j3", kind: "prismatic", origin: { xyzMm: [300, 0, 0], rpyDeg: [0, 0, 0] }, axis: [0, 0, -1], rangeMm: [0, 200] },
+      {
+        name: "j3",
+        kind: "prismatic",
+        origin: { xyzMm: [300, 0, 0], rpyDeg: [0, 0, 0] },
+        axis: [0, 0, -1],
+        rangeMm: [0, 200],
+      },
       joint("j4", [0, 0, 0], [0, 0, 1], [-360, 360]),
     ],
     flange: O,
@@ -300,13 +371,22 @@ describe("workspaceEnvelope(SCARA-like RRPR)", () => {
     expect(f.side).toHaveLength(1);
     for (const [r, z] of f.side[0]!.outer) {
       // each vertex lies on the rectangle's outline: |r| ∈ {ρ_min, 700} or z ∈ {300, 500}, within the tolerance
-      const d = Math.min(Math.abs(Math.abs(r) - RHO_MIN), Math.abs(Math.abs(r) - 700), Math.abs(z - 300), Math.abs(z - 500));
+      const d = Math.min(
+        Math.abs(Math.abs(r) - RHO_MIN),
+        Math.abs(Math.abs(r) - 700),
+        Math.abs(z - 300),
+        Math.abs(z - 500),
+      );
       expect(d).toBeLessThanOrEqual(tol);
       expect(Math.abs(r)).toBeLessThanOrEqual(700 + tol);
     }
-    expect(Math.abs(f.sideAreaM2 - ((700 - RHO_MIN) / 1000) * 0.2)).toBeLessThanOrEqual(2 * ((700 - RHO_MIN) / 1000 + 0.2) * tol / 1000);
+    expect(Math.abs(f.sideAreaM2 - ((700 - RHO_MIN) / 1000) * 0.2)).toBeLessThanOrEqual(
+      (2 * ((700 - RHO_MIN) / 1000 + 0.2) * tol) / 1000,
+    );
     const annulus = Math.PI * (0.7 ** 2 - (RHO_MIN / 1000) ** 2);
-    expect(Math.abs(f.volumeM3! - annulus * 0.2)).toBeLessThanOrEqual((2 * annulus + 2 * Math.PI * (0.7 + RHO_MIN / 1000) * 0.2) * tol / 1000);
+    expect(Math.abs(f.volumeM3! - annulus * 0.2)).toBeLessThanOrEqual(
+      ((2 * annulus + 2 * Math.PI * (0.7 + RHO_MIN / 1000) * 0.2) * tol) / 1000,
+    );
     expect(Math.abs(f.maxReachMm - 700)).toBeLessThanOrEqual(0.01);
     expect(Math.abs(f.minReachMm - RHO_MIN)).toBeLessThanOrEqual(tol);
   });
@@ -330,7 +410,13 @@ describe("workspaceEnvelope(gantry)", () => {
     joints: [
       { name: "x", kind: "prismatic", origin: O, axis: [1, 0, 0], rangeMm: [0, 1000] },
       { name: "y", kind: "prismatic", origin: O, axis: [0, 1, 0], rangeMm: [0, 600] },
-      { name: "z", kind: "prismatic", origin: { xyzMm: [0, 0, 1500], rpyDeg: [0, 0, 0] }, axis: [0, 0, -1], rangeMm: [0, 400] },
+      {
+        name: "z",
+        kind: "prismatic",
+        origin: { xyzMm: [0, 0, 1500], rpyDeg: [0, 0, 0] },
+        axis: [0, 0, -1],
+        rangeMm: [0, 400],
+      },
       joint("c", [0, 0, 0], [0, 0, 1], [-180, 180]),
     ],
     flange: { xyzMm: [0, 0, -100], rpyDeg: [180, 0, 0] },
@@ -343,9 +429,9 @@ describe("workspaceEnvelope(gantry)", () => {
     const f = flangeOf(env);
     const tol = target(Math.hypot(1000, 600, 1400));
     // x stroke × (y, z) cross-section; the cross-section's boundary within the tolerance: 1.0 m × perimeter × tol
-    expect(Math.abs(f.volumeM3! - 1.0 * 0.6 * 0.4)).toBeLessThanOrEqual(1.0 * 2 * (0.6 + 0.4) * tol / 1000);
-    expect(Math.abs(f.sideAreaM2 - 1.0 * 0.4)).toBeLessThanOrEqual(2 * (1.0 + 0.4) * tol / 1000);
-    expect(Math.abs(f.topAreaM2 - 1.0 * 0.6)).toBeLessThanOrEqual(2 * (1.0 + 0.6) * tol / 1000);
+    expect(Math.abs(f.volumeM3! - 1.0 * 0.6 * 0.4)).toBeLessThanOrEqual((1.0 * 2 * (0.6 + 0.4) * tol) / 1000);
+    expect(Math.abs(f.sideAreaM2 - 1.0 * 0.4)).toBeLessThanOrEqual((2 * (1.0 + 0.4) * tol) / 1000);
+    expect(Math.abs(f.topAreaM2 - 1.0 * 0.6)).toBeLessThanOrEqual((2 * (1.0 + 0.6) * tol) / 1000);
     for (const [x, z] of f.side[0]!.outer) {
       expect(x).toBeGreaterThanOrEqual(-tol);
       expect(x).toBeLessThanOrEqual(1000 + tol);
@@ -375,7 +461,9 @@ describe("workspaceEnvelope on every demo arm", () => {
       let seed = 0;
       for (const ch of id) seed = (Math.imul(seed, 31) + ch.charCodeAt(0)) >>> 0;
       const rand = mulberry32(seed);
-      const s = createScratch(chain), q = new Float64Array(m), w = new Float64Array(3);
+      const s = createScratch(chain),
+        q = new Float64Array(m),
+        w = new Float64Array(3);
       const ax = env.axis1;
       const failures: string[] = [];
       for (let trial = 0; trial < 2000; trial++) {
@@ -398,7 +486,10 @@ describe("workspaceEnvelope on every demo arm", () => {
           const check = (label: string, x: number, y: number, polygons: readonly PolygonMm[]) => {
             if (inside(x, y, polygons)) return;
             const d = distanceToBoundary(x, y, polygons);
-            if (d > pe.toleranceMm + 1e-6) failures.push(`${pe.point} ${label} (${x.toFixed(1)}, ${y.toFixed(1)}) is ${d.toFixed(2)} mm outside (tolerance ${pe.toleranceMm.toFixed(2)} mm), q = ${Array.from(q, (v) => v.toFixed(4))}`);
+            if (d > pe.toleranceMm + 1e-6)
+              failures.push(
+                `${pe.point} ${label} (${x.toFixed(1)}, ${y.toFixed(1)}) is ${d.toFixed(2)} mm outside (tolerance ${pe.toleranceMm.toFixed(2)} mm), q = ${Array.from(q, (v) => v.toFixed(4))}`,
+              );
           };
           const [px, py, pz] = at(q);
           if (ax) {
@@ -410,20 +501,26 @@ describe("workspaceEnvelope on every demo arm", () => {
             const [x, y, z] = at(q0);
             const d = [x - ax.pointMm[0], y - ax.pointMm[1], z - ax.pointMm[2]];
             const along = d[0]! * ax.direction[0] + d[1]! * ax.direction[1] + d[2]! * ax.direction[2];
-            const radial = [d[0]! - along * ax.direction[0], d[1]! - along * ax.direction[1], d[2]! - along * ax.direction[2]];
+            const radial = [
+              d[0]! - along * ax.direction[0],
+              d[1]! - along * ax.direction[1],
+              d[2]! - along * ax.direction[2],
+            ];
             const rho = Math.hypot(radial[0]!, radial[1]!, radial[2]!);
             const forward = radial[0]! * ax.forward[0] + radial[1]! * ax.forward[1] + radial[2]! * ax.forward[2];
             const height = x * ax.direction[0] + y * ax.direction[1] + z * ax.direction[2];
             check("side", forward >= 0 ? rho : -rho, height, pe.side);
             if (rho > pe.maxReachMm + 1e-6) failures.push(`${pe.point} reach ${rho} > maxReachMm ${pe.maxReachMm}`);
             if (rho < pe.minReachMm - 1e-6) failures.push(`${pe.point} reach ${rho} < minReachMm ${pe.minReachMm}`);
-            if (height > pe.maxHeightMm + 1e-6 || height < pe.minHeightMm - 1e-6) failures.push(`${pe.point} height ${height} outside [${pe.minHeightMm}, ${pe.maxHeightMm}]`);
+            if (height > pe.maxHeightMm + 1e-6 || height < pe.minHeightMm - 1e-6)
+              failures.push(`${pe.point} height ${height} outside [${pe.minHeightMm}, ${pe.maxHeightMm}]`);
           } else {
             check("side", px, pz, pe.side);
             check("top", px, py, pe.top);
             const rho = Math.hypot(px, py);
             if (rho > pe.maxReachMm + 1e-6) failures.push(`${pe.point} reach ${rho} > maxReachMm ${pe.maxReachMm}`);
-            if (pz > pe.maxHeightMm + 1e-6 || pz < pe.minHeightMm - 1e-6) failures.push(`${pe.point} height ${pz} outside [${pe.minHeightMm}, ${pe.maxHeightMm}]`);
+            if (pz > pe.maxHeightMm + 1e-6 || pz < pe.minHeightMm - 1e-6)
+              failures.push(`${pe.point} height ${pz} outside [${pe.minHeightMm}, ${pe.maxHeightMm}]`);
           }
         }
       }

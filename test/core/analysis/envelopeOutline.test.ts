@@ -28,7 +28,13 @@ function covered(x: number, y: number, rings: readonly Ring[], slackMm: number):
   let w = 0;
   for (const r of rings) w += windingNumber(x, y, r);
   if (w !== 0) return true;
-  return distanceToBoundary(x, y, rings.map((r) => ({ outer: r, holes: [] }))) <= slackMm;
+  return (
+    distanceToBoundary(
+      x,
+      y,
+      rings.map((r) => ({ outer: r, holes: [] })),
+    ) <= slackMm
+  );
 }
 
 describe("coverRings", () => {
@@ -43,7 +49,15 @@ describe("coverRings", () => {
     const rings = coverRings(cover, 10).map(closed);
     expect(rings.length).toBeGreaterThanOrEqual(3);
     // closed form: the intervals themselves (end points lie on the outline, so 1e-9 mm of slack)
-    for (const [x, y] of [[3.2, 0], [3.55, 0], [3.9, 0], [100, 30], [41, 60], [44, 60], [47, 60]] as const) {
+    for (const [x, y] of [
+      [3.2, 0],
+      [3.55, 0],
+      [3.9, 0],
+      [100, 30],
+      [41, 60],
+      [44, 60],
+      [47, 60],
+    ] as const) {
       expect(covered(x, y, rings, 1e-9), `(${x}, ${y})`).toBe(true);
     }
   });
@@ -74,7 +88,8 @@ describe("addTriangles (scanline fill)", () => {
     for (let a = 0; a <= 10; a++) {
       for (let b = 0; a + b <= 10; b++) {
         const c = 10 - a - b;
-        const x = (a * 0 + b * 100 + c * 100) / 10, y = (a * 1 + b * 9 + c * 9.5) / 10;
+        const x = (a * 0 + b * 100 + c * 100) / 10,
+          y = (a * 1 + b * 9 + c * 9.5) / 10;
         expect(covered(x, y, rings, 5 + 1e-9), `(${x.toFixed(1)}, ${y.toFixed(2)})`).toBe(true);
       }
     }
@@ -90,7 +105,8 @@ describe("addTriangles (scanline fill)", () => {
     addTriangles(cover, tris, 2, false, new SliceScratch());
     const rings = coverRings(cover, 7).map(closed);
     for (let t = 0; t <= 200; t++) {
-      const x = 2 * t, y = (95 * x) / 400 + 0.5;
+      const x = 2 * t,
+        y = (95 * x) / 400 + 0.5;
       expect(covered(x, y, rings, 5 + 1e-9), `(${x}, ${y.toFixed(2)})`).toBe(true);
     }
   });
@@ -98,7 +114,9 @@ describe("addTriangles (scanline fill)", () => {
 
 describe("assemblePolygons and simplifyFlatRing", () => {
   const square = (x0: number, y0: number, s: number, ccw = true) =>
-    ccw ? Float64Array.of(x0, y0, x0 + s, y0, x0 + s, y0 + s, x0, y0 + s) : Float64Array.of(x0, y0, x0, y0 + s, x0 + s, y0 + s, x0 + s, y0);
+    ccw
+      ? Float64Array.of(x0, y0, x0 + s, y0, x0 + s, y0 + s, x0, y0 + s)
+      : Float64Array.of(x0, y0, x0, y0 + s, x0 + s, y0 + s, x0 + s, y0);
 
   it("keeps an outer ring below the area threshold (dropping it would lose reachable points)", () => {
     const polygons = assemblePolygons([square(0, 0, 1)], 9);

@@ -41,7 +41,8 @@ function randomPose(chain: Chain, rand: () => number): number[] {
 
 /** σ_min/σ_max of the flange Jacobian with linear rows divided by the chain's length scale (ml-matrix SVD). */
 function scaledInverseCondition(chain: Chain, q: ArrayLike<number>): number {
-  const m = chain.drivenCount, s = createScratch(chain);
+  const m = chain.drivenCount,
+    s = createScratch(chain);
   const t = forwardInto(chain, q, s);
   const j = jacobianInto(new Float64Array(6 * m), chain, s, t[3]!, t[7]!, t[11]!);
   const scaled = Array.from(j, (v, i) => (i < 3 * m ? v / chain.characteristicLengthM : v));
@@ -51,14 +52,19 @@ function scaledInverseCondition(chain: Chain, q: ArrayLike<number>): number {
 
 /** Rotation angle of Ra·Rbᵀ (rad), from two row-major 4×4 poses: atan2(‖vee(skew)‖, (trace − 1)/2). */
 function rotationAngle(a: ArrayLike<number>, b: ArrayLike<number>): number {
-  const d = (r: number, c: number) => a[r * 4]! * b[c * 4]! + a[r * 4 + 1]! * b[c * 4 + 1]! + a[r * 4 + 2]! * b[c * 4 + 2]!;
+  const d = (r: number, c: number) =>
+    a[r * 4]! * b[c * 4]! + a[r * 4 + 1]! * b[c * 4 + 1]! + a[r * 4 + 2]! * b[c * 4 + 2]!;
   const sin = Math.hypot(d(2, 1) - d(1, 2), d(0, 2) - d(2, 0), d(1, 0) - d(0, 1)) / 2;
   return Math.atan2(sin, (d(0, 0) + d(1, 1) + d(2, 2) - 1) / 2);
 }
 
 /** Angle between the z columns (tool axes) of two row-major 4×4 poses, rad. */
 function axisAngle(a: ArrayLike<number>, b: ArrayLike<number>): number {
-  const cross = Math.hypot(a[6]! * b[10]! - a[10]! * b[6]!, a[10]! * b[2]! - a[2]! * b[10]!, a[2]! * b[6]! - a[6]! * b[2]!);
+  const cross = Math.hypot(
+    a[6]! * b[10]! - a[10]! * b[6]!,
+    a[10]! * b[2]! - a[2]! * b[10]!,
+    a[2]! * b[6]! - a[6]! * b[2]!,
+  );
   return Math.atan2(cross, a[2]! * b[2]! + a[6]! * b[6]! + a[10]! * b[10]!);
 }
 
@@ -67,7 +73,8 @@ function positionError(a: ArrayLike<number>, b: ArrayLike<number>): number {
 }
 
 function withinLimits(chain: Chain, q: ArrayLike<number>): boolean {
-  for (let c = 0; c < chain.drivenCount; c++) if (!(q[c]! >= chain.lowerSi[c]! && q[c]! <= chain.upperSi[c]!)) return false;
+  for (let c = 0; c < chain.drivenCount; c++)
+    if (!(q[c]! >= chain.lowerSi[c]! && q[c]! <= chain.upperSi[c]!)) return false;
   return true;
 }
 
@@ -81,8 +88,15 @@ interface RoundTripSummary {
  * Round trips on `count` random targets. `fk` is the forward kinematics used to build targets and to check results
  * (row-major 4×4, m). Returns a readable list of failures (not converged, error too large, outside the limits).
  */
-function roundTrips(chain: Chain, fk: (q: ArrayLike<number>) => ArrayLike<number>, count: number, seed: number): RoundTripSummary {
-  const m = chain.drivenCount, ik = createIkScratch(chain), rand = mulberry32(seed);
+function roundTrips(
+  chain: Chain,
+  fk: (q: ArrayLike<number>) => ArrayLike<number>,
+  count: number,
+  seed: number,
+): RoundTripSummary {
+  const m = chain.drivenCount,
+    ik = createIkScratch(chain),
+    rand = mulberry32(seed);
   const failures: string[] = [];
   let skippedSingular = 0;
   for (let k = 0; k < count; k++) {
@@ -99,12 +113,19 @@ function roundTrips(chain: Chain, fk: (q: ArrayLike<number>) => ArrayLike<number
     const dp = positionError(reached, target);
     const dr = m >= 6 ? rotationAngle(reached, target) : axisAngle(reached, target);
     const where = `pose ${k}: q = [${q.map((v) => v.toFixed(4))}]`;
-    if (!withinLimits(chain, out)) failures.push(`${where}: solution [${Array.from(out, (v) => v.toFixed(4))}] outside the limits`);
+    if (!withinLimits(chain, out))
+      failures.push(`${where}: solution [${Array.from(out, (v) => v.toFixed(4))}] outside the limits`);
     if (!converged || dp > POSITION_TOL_M || dr > ORIENTATION_TOL_RAD) {
       const atLimit = Array.from(out)
-        .map((v, c) => (Math.abs(v - chain.lowerSi[c]!) < 1e-9 || Math.abs(v - chain.upperSi[c]!) < 1e-9 ? `joint ${c + 1} at its limit` : ""))
+        .map((v, c) =>
+          Math.abs(v - chain.lowerSi[c]!) < 1e-9 || Math.abs(v - chain.upperSi[c]!) < 1e-9
+            ? `joint ${c + 1} at its limit`
+            : "",
+        )
         .filter(Boolean);
-      failures.push(`${where}: converged ${converged}, position error ${dp.toExponential(2)} m, orientation error ${dr.toExponential(2)} rad${atLimit.length ? ` (${atLimit.join(", ")})` : ""}`);
+      failures.push(
+        `${where}: converged ${converged}, position error ${dp.toExponential(2)} m, orientation error ${dr.toExponential(2)} rad${atLimit.length ? ` (${atLimit.join(", ")})` : ""}`,
+      );
     }
   }
   return { tried: count, skippedSingular, failures };
@@ -120,11 +141,15 @@ describe("solveIkInto: round trips FK(IK(x)) = x", () => {
   });
 
   it.each(arms.map((a) => [a.id, a] as const))("demo arm %s: 60 random targets within the limits", (_, arm) => {
-    const chain = arm.chain, s = createScratch(chain);
+    const chain = arm.chain,
+      s = createScratch(chain);
     const fk = (q: ArrayLike<number>) => Float64Array.from(forwardInto(chain, q, s));
     const r = roundTrips(chain, fk, 60, 2102);
     expect(r.skippedSingular, "near-singular targets skipped (at most 20 %)").toBeLessThanOrEqual(12);
-    expect(r.failures, `${arm.file}: ${r.failures.length} of ${r.tried - r.skippedSingular} round trips failed`).toEqual([]);
+    expect(
+      r.failures,
+      `${arm.file}: ${r.failures.length} of ${r.tried - r.skippedSingular} round trips failed`,
+    ).toEqual([]);
   });
 });
 
@@ -133,7 +158,8 @@ describe("solveIkInto: unreachable targets and joint limits", () => {
     // CHECKS C6: the flange stays within ρ_max + d6 = a2 + sqrt(a3² + d4²) + d6 ≈ 2.12 m of the axis-2 point
     // (0.2, 0, 0.5) m when a1 is counted; (3, 0, 0.5) m is 2.8 m from it, beyond any joint values.
     const chain = compileChain(generic6rDh());
-    const ik = createIkScratch(chain), rand = mulberry32(2201);
+    const ik = createIkScratch(chain),
+      rand = mulberry32(2201);
     const target = flat4(dhFrameReference(GENERIC_6R_SI.rows, [0, 0, 0, 0, 0, 0]));
     target[3] = 3;
     target[7] = 0;
@@ -146,14 +172,34 @@ describe("solveIkInto: unreachable targets and joint limits", () => {
     }
   });
 
-  it.each(arms.map((a) => [a.id, a] as const))("demo arm %s: a target 10 length scales away returns false", (_, arm) => {
-    const chain = arm.chain, m = chain.drivenCount, s = createScratch(chain), ik = createIkScratch(chain);
-    const target = Float64Array.from(forwardInto(chain, new Float64Array(m).map((_, c) => Math.min(Math.max(0, chain.lowerSi[c]!), chain.upperSi[c]!)), s));
-    target[3] = 10 * chain.characteristicLengthM;
-    const out = new Float64Array(m);
-    expect(solveIkInto(out, chain, target, new Float64Array(m).map((_, c) => (chain.lowerSi[c]! + chain.upperSi[c]!) / 2 || 0), ik)).toBe(false);
-    expect(withinLimits(chain, out)).toBe(true);
-  });
+  it.each(arms.map((a) => [a.id, a] as const))(
+    "demo arm %s: a target 10 length scales away returns false",
+    (_, arm) => {
+      const chain = arm.chain,
+        m = chain.drivenCount,
+        s = createScratch(chain),
+        ik = createIkScratch(chain);
+      const target = Float64Array.from(
+        forwardInto(
+          chain,
+          new Float64Array(m).map((_, c) => Math.min(Math.max(0, chain.lowerSi[c]!), chain.upperSi[c]!)),
+          s,
+        ),
+      );
+      target[3] = 10 * chain.characteristicLengthM;
+      const out = new Float64Array(m);
+      expect(
+        solveIkInto(
+          out,
+          chain,
+          target,
+          new Float64Array(m).map((_, c) => (chain.lowerSi[c]! + chain.upperSi[c]!) / 2 || 0),
+          ik,
+        ),
+      ).toBe(false);
+      expect(withinLimits(chain, out)).toBe(true);
+    },
+  );
 
   it("a pose reachable only with joint 1 outside [−30°, 30°] returns false; the same pose converges without the limit", () => {
     // The generic 6R has no lateral offset, so the wrist centre lies in the plane of axis 1 and the arm: any solution
@@ -161,7 +207,10 @@ describe("solveIkInto: unreachable targets and joint limits", () => {
     // formula) both are ±90°, outside [−30°, 30°].
     const free = compileChain(generic6rDh());
     const base = generic6rDh();
-    const limited = compileChain({ ...base, joints: base.joints.map((j, i) => (i === 0 ? { ...j, rangeDeg: [-30, 30] } : j)) });
+    const limited = compileChain({
+      ...base,
+      joints: base.joints.map((j, i) => (i === 0 ? { ...j, rangeDeg: [-30, 30] } : j)),
+    });
     const q = [90 * DEG, -0.7, 0.4, 1.1, 0.8, -0.2];
     const target = flat4(dhFrameReference(GENERIC_6R_SI.rows, q));
     const rand = mulberry32(2202);
@@ -173,14 +222,25 @@ describe("solveIkInto: unreachable targets and joint limits", () => {
       expect(out[0]!).toBeLessThanOrEqual(30 * DEG);
     }
     const out = new Float64Array(6);
-    expect(solveIkInto(out, free, target, q.map((v) => v + 0.1), createIkScratch(free))).toBe(true);
+    expect(
+      solveIkInto(
+        out,
+        free,
+        target,
+        q.map((v) => v + 0.1),
+        createIkScratch(free),
+      ),
+    ).toBe(true);
     expectClose(flat4(dhFrameReference(GENERIC_6R_SI.rows, out)), target, 1e-6, "control: reachable without the limit");
   });
 
   it("every result of 20 solves per demo arm from random seeds (converged or not) lies within the limits", () => {
     // solveIkInto contract: "keeping every joint inside its range". Seeds anywhere in ±π (beyond the limits too).
     for (const arm of arms) {
-      const chain = arm.chain, m = chain.drivenCount, s = createScratch(chain), ik = createIkScratch(chain);
+      const chain = arm.chain,
+        m = chain.drivenCount,
+        s = createScratch(chain),
+        ik = createIkScratch(chain);
       const rand = mulberry32(2203);
       for (let k = 0; k < 20; k++) {
         const target = Float64Array.from(forwardInto(chain, randomPose(chain, rand), s));

@@ -16,7 +16,14 @@ import { Matrix } from "ml-matrix";
 import { describe, expect, it } from "vitest";
 import { loadArms } from "../../../src/catalog/load";
 import type { ArmKinematicsInput, Chain } from "../../../src/core";
-import { compileChain, createScratch, forwardInto, jacobianInto, linkFrameInto, STANDARD_GRAVITY_M_PER_S2 } from "../../../src/core";
+import {
+  compileChain,
+  createScratch,
+  forwardInto,
+  jacobianInto,
+  linkFrameInto,
+  STANDARD_GRAVITY_M_PER_S2,
+} from "../../../src/core";
 import {
   bodySetOf,
   createHoldingScratch,
@@ -55,8 +62,20 @@ function vertical2r(a1M: number, a2M: number, limitsDeg: readonly [number, numbe
   return {
     convention: "frames",
     joints: [
-      { name: "j1", kind: "revolute", origin: { xyzMm: [0, 0, 0], rpyDeg: [0, 0, 0] }, axis: [0, -1, 0], rangeDeg: [...limitsDeg] },
-      { name: "j2", kind: "revolute", origin: { xyzMm: [a1M * 1000, 0, 0], rpyDeg: [0, 0, 0] }, axis: [0, -1, 0], rangeDeg: [...limitsDeg] },
+      {
+        name: "j1",
+        kind: "revolute",
+        origin: { xyzMm: [0, 0, 0], rpyDeg: [0, 0, 0] },
+        axis: [0, -1, 0],
+        rangeDeg: [...limitsDeg],
+      },
+      {
+        name: "j2",
+        kind: "revolute",
+        origin: { xyzMm: [a1M * 1000, 0, 0], rpyDeg: [0, 0, 0] },
+        axis: [0, -1, 0],
+        rangeDeg: [...limitsDeg],
+      },
     ],
     flange: { xyzMm: [a2M * 1000, 0, 0], rpyDeg: [0, 0, 0] },
   };
@@ -66,7 +85,16 @@ function vertical2r(a1M: number, a2M: number, limitsDeg: readonly [number, numbe
 function singleAxis(lM: number, ratedTorqueNm: number, rangeDeg: readonly [number, number] = [-90, 90]): Chain {
   return compileChain({
     convention: "frames",
-    joints: [{ name: "j1", kind: "revolute", origin: { xyzMm: [0, 0, 0], rpyDeg: [0, 0, 0] }, axis: [0, -1, 0], rangeDeg: [...rangeDeg], ratedTorqueNm }],
+    joints: [
+      {
+        name: "j1",
+        kind: "revolute",
+        origin: { xyzMm: [0, 0, 0], rpyDeg: [0, 0, 0] },
+        axis: [0, -1, 0],
+        rangeDeg: [...rangeDeg],
+        ratedTorqueNm,
+      },
+    ],
     flange: { xyzMm: [lM * 1000, 0, 0], rpyDeg: [0, 0, 0] },
   });
 }
@@ -75,7 +103,12 @@ function withRatings(input: ArmKinematicsInput, torquesNm: readonly number[]): C
   return compileChain({ ...input, joints: input.joints.map((j, i) => ({ ...j, ratedTorqueNm: torquesNm[i] })) });
 }
 
-function payload(ratedPayloadKg: number, links: readonly LinkMass[] = [], wrist: readonly WristRating[] = [], mountings: readonly Mounting[] = ["floor"]): PayloadInput {
+function payload(
+  ratedPayloadKg: number,
+  links: readonly LinkMass[] = [],
+  wrist: readonly WristRating[] = [],
+  mountings: readonly Mounting[] = ["floor"],
+): PayloadInput {
   return { ratedPayloadKg, mountings, wrist, links, notes: [] };
 }
 
@@ -83,11 +116,26 @@ function payload(ratedPayloadKg: number, links: readonly LinkMass[] = [], wrist:
 function tipTorque(chain: Chain, qRad: readonly number[], massKg: number, gravity: readonly number[]): Float64Array {
   const s = createScratch(chain);
   const f = forwardInto(chain, qRad, s);
-  return pointHoldingTorqueInto(new Float64Array(chain.drivenCount), chain, s, f[3]!, f[7]!, f[11]!, massKg, gravity, createHoldingScratch(chain));
+  return pointHoldingTorqueInto(
+    new Float64Array(chain.drivenCount),
+    chain,
+    s,
+    f[3]!,
+    f[7]!,
+    f[11]!,
+    massKg,
+    gravity,
+    createHoldingScratch(chain),
+  );
 }
 
 /** Gravitational potential energy V = −Σ m_b g·p_b of the link masses, from positions only (no Jacobian). */
-function potentialJ(chain: Chain, links: readonly LinkMass[], q: ArrayLike<number>, gravity: readonly number[]): number {
+function potentialJ(
+  chain: Chain,
+  links: readonly LinkMass[],
+  q: ArrayLike<number>,
+  gravity: readonly number[],
+): number {
   const s = createScratch(chain);
   forwardInto(chain, q, s);
   const t = new Float64Array(16);
@@ -102,8 +150,14 @@ function potentialJ(chain: Chain, links: readonly LinkMass[], q: ArrayLike<numbe
 }
 
 /** Reference path: τ = Σ_b (J_kin,b · G)ᵀ · (−m_b g), J_kin,b with the columns of joints distal to b zeroed (ml-matrix). */
-function referenceLinkTorque(chain: Chain, links: readonly LinkMass[], q: ArrayLike<number>, gravity: readonly number[]): number[] {
-  const n = chain.jointCount, m = chain.drivenCount;
+function referenceLinkTorque(
+  chain: Chain,
+  links: readonly LinkMass[],
+  q: ArrayLike<number>,
+  gravity: readonly number[],
+): number[] {
+  const n = chain.jointCount,
+    m = chain.drivenCount;
   const s = createScratch(chain);
   forwardInto(chain, q, s);
   const gain = Matrix.from1DArray(n, m, Array.from(chain.couplingGain));
@@ -116,14 +170,22 @@ function referenceLinkTorque(chain: Chain, links: readonly LinkMass[], q: ArrayL
     jacobianInto(new Float64Array(6 * m), chain, s, p[0]!, p[1]!, p[2]!);
     const jKin = Matrix.from1DArray(6, n, Array.from(s.jKin));
     for (let c = l.joint + 1; c < n; c++) for (let r = 0; r < 6; r++) jKin.set(r, c, 0);
-    const force = Matrix.columnVector([-l.massKg * gravity[0]!, -l.massKg * gravity[1]!, -l.massKg * gravity[2]!, 0, 0, 0]);
+    const force = Matrix.columnVector([
+      -l.massKg * gravity[0]!,
+      -l.massKg * gravity[1]!,
+      -l.massKg * gravity[2]!,
+      0,
+      0,
+      0,
+    ]);
     tau = tau.add(jKin.mmul(gain).transpose().mmul(force));
   }
   return tau.to1DArray();
 }
 
 function drivenLimits(chain: Chain, j: number): [number, number] {
-  const lo = chain.lowerSi[j]!, hi = chain.upperSi[j]!;
+  const lo = chain.lowerSi[j]!,
+    hi = chain.upperSi[j]!;
   const open = chain.isPrismatic[chain.drivenJoint[j]!] ? 1 : Math.PI;
   return [Number.isFinite(lo) ? lo : -open, Number.isFinite(hi) ? hi : open];
 }
@@ -149,7 +211,9 @@ describe("pointHoldingTorqueInto and holdingTorqueInto", () => {
   });
 
   it("holdingTorqueInto(2R vertical, the same 10 kg as a link mass of link 2) gives the same CHECKS C14 numbers", () => {
-    const s = createScratch(chain), h = createHoldingScratch(chain), out = new Float64Array(2);
+    const s = createScratch(chain),
+      h = createHoldingScratch(chain),
+      out = new Float64Array(2);
     forwardInto(chain, [30 * DEG, 45 * DEG], s);
     expectRelClose(holdingTorqueInto(out, chain, s, bodySetOf([tip]), FLOOR, h), [50.0784835, 7.6144434], 1e-8);
   });
@@ -159,7 +223,11 @@ describe("pointHoldingTorqueInto and holdingTorqueInto", () => {
     const ceiling = gravityInBase("ceiling");
     expect(ceiling).toEqual([0, 0, G]);
     const floor = tipTorque(chain, [30 * DEG, 45 * DEG], 10, FLOOR);
-    expectRelClose(tipTorque(chain, [30 * DEG, 45 * DEG], 10, ceiling), Array.from(floor, (v) => -v), 1e-12);
+    expectRelClose(
+      tipTorque(chain, [30 * DEG, 45 * DEG], 10, ceiling),
+      Array.from(floor, (v) => -v),
+      1e-12,
+    );
   });
 
   const chains: [string, Chain][] = [
@@ -168,33 +236,48 @@ describe("pointHoldingTorqueInto and holdingTorqueInto", () => {
     ["palletizer with a passive parallelogram joint", compileChain(palletizerPassiveFrames())],
   ];
 
-  it.each(chains)("holdingTorqueInto(%s) equals Σ J_bᵀ F_b computed with ml-matrix (reference path), all mountings", (_, c) => {
-    const rand = mulberry32(1234);
-    const links = randomLinks(c, rand);
-    const s = createScratch(c), h = createHoldingScratch(c), out = new Float64Array(c.drivenCount), bodies = bodySetOf(links);
-    for (const mounting of ["floor", "ceiling", "wall", "angled"] as const) {
-      const g = gravityInBase(mounting);
-      for (let trial = 0; trial < 4; trial++) {
-        const q = Array.from({ length: c.drivenCount }, (_, j) => uniform(rand, ...drivenLimits(c, j)));
-        forwardInto(c, q, s);
-        expectClose(holdingTorqueInto(out, c, s, bodies, g, h), referenceLinkTorque(c, links, q, g), 1e-9, `${mounting} trial ${trial}`);
+  it.each(chains)(
+    "holdingTorqueInto(%s) equals Σ J_bᵀ F_b computed with ml-matrix (reference path), all mountings",
+    (_, c) => {
+      const rand = mulberry32(1234);
+      const links = randomLinks(c, rand);
+      const s = createScratch(c),
+        h = createHoldingScratch(c),
+        out = new Float64Array(c.drivenCount),
+        bodies = bodySetOf(links);
+      for (const mounting of ["floor", "ceiling", "wall", "angled"] as const) {
+        const g = gravityInBase(mounting);
+        for (let trial = 0; trial < 4; trial++) {
+          const q = Array.from({ length: c.drivenCount }, (_, j) => uniform(rand, ...drivenLimits(c, j)));
+          forwardInto(c, q, s);
+          expectClose(
+            holdingTorqueInto(out, c, s, bodies, g, h),
+            referenceLinkTorque(c, links, q, g),
+            1e-9,
+            `${mounting} trial ${trial}`,
+          );
+        }
       }
-    }
-  });
+    },
+  );
 
   it.each(chains)("holdingTorqueInto(%s) equals +∂V/∂q by central differences of the potential energy", (_, c) => {
     // Virtual work: the holding torque balances gravity, τ = +∂V/∂q with V = −Σ m_b g·p_b. h = 1e-6 rad; the
     // round-off of the difference is about ε·|V|/h ≈ 1e-8 N·m here, the truncation O(h²); tolerance 1e-6 N·m.
     const rand = mulberry32(99);
     const links = randomLinks(c, rand);
-    const s = createScratch(c), hs = createHoldingScratch(c), out = new Float64Array(c.drivenCount), bodies = bodySetOf(links);
+    const s = createScratch(c),
+      hs = createHoldingScratch(c),
+      out = new Float64Array(c.drivenCount),
+      bodies = bodySetOf(links);
     const step = 1e-6;
     for (const mounting of ["floor", "angled"] as const) {
       const g = gravityInBase(mounting);
       for (let trial = 0; trial < 3; trial++) {
         const q = Array.from({ length: c.drivenCount }, (_, j) => uniform(rand, ...drivenLimits(c, j)));
         const fd = q.map((_, j) => {
-          const qp = [...q], qm = [...q];
+          const qp = [...q],
+            qm = [...q];
           qp[j] = qp[j]! + step;
           qm[j] = qm[j]! - step;
           return (potentialJ(c, links, qp, g) - potentialJ(c, links, qm, g)) / (2 * step);
@@ -247,7 +330,12 @@ describe("payloadAtReach", () => {
     expect(r.basis).toBe("computed");
     for (const row of r.rows) {
       if (row.reachMm < 200) continue;
-      expectRelClose(row.payloadKg, 100 / (G * (row.reachMm / 1000)) - (4 * 0.2) / 0.5, 1e-7, `reach ${row.reachMm} mm`);
+      expectRelClose(
+        row.payloadKg,
+        100 / (G * (row.reachMm / 1000)) - (4 * 0.2) / 0.5,
+        1e-7,
+        `reach ${row.reachMm} mm`,
+      );
     }
   });
 
@@ -261,12 +349,17 @@ describe("payloadAtReach", () => {
     expect(r.rows.length).toBeGreaterThanOrEqual(15);
     for (const row of r.rows) {
       if (row.reachMm === 0 || row.reachMm > 750) continue;
-      const j1 = 100 / (G * (row.reachMm / 1000)), j2 = 50 / (G * 0.3);
+      const j1 = 100 / (G * (row.reachMm / 1000)),
+        j2 = 50 / (G * 0.3);
       expectRelClose(row.payloadKg, Math.min(50, j1, j2), 2e-3, `reach ${row.reachMm} mm`);
       if (Math.abs(j1 - j2) > 2e-3 * j2) expect(row.limitingJoint).toBe(j1 < j2 ? "j1" : "j2");
       // The reported posture lies at the row's reach (independent FK).
       const s = createScratch(chain);
-      const f = forwardInto(chain, row.jointsDegOrMm!.map((d) => d * DEG), s);
+      const f = forwardInto(
+        chain,
+        row.jointsDegOrMm!.map((d) => d * DEG),
+        s,
+      );
       expect(Math.abs(Math.hypot(f[3]!, f[7]!) * 1000 - row.reachMm)).toBeLessThanOrEqual(0.5);
     }
   });
@@ -278,13 +371,21 @@ describe("payloadAtReach", () => {
     // every row up to 1.8 m can reach. Only J2 is rated low (500 N·m); the axes through the wrist centre carry no
     // payload torque. Rated payload 1000 kg. The CG offsets lie on the same vertical: same figure for each.
     const base = generic6rDh();
-    const chain = compileChain({ ...base, joints: base.joints.map((j, i) => ({ ...j, ratedTorqueNm: i === 1 ? 500 : 1e6 })) });
+    const chain = compileChain({
+      ...base,
+      joints: base.joints.map((j, i) => ({ ...j, ratedTorqueNm: i === 1 ? 500 : 1e6 })),
+    });
     const r = payloadAtReach(chain, payload(1000), { reachToleranceMm: 1e-6 });
     expect(r.mountings[0]!.toolDirection).toBe("along-gravity");
     const rows = r.rows.filter((x) => x.reachMm <= 1800);
     expect(rows.length).toBeGreaterThanOrEqual(3 * 36);
     for (const row of rows) {
-      expectRelClose(row.payloadKg, Math.min(1000, 500 / (G * (row.reachMm / 1000 + 0.2))), 1e-7, `reach ${row.reachMm} mm, offset ${row.offsetMm} mm`);
+      expectRelClose(
+        row.payloadKg,
+        Math.min(1000, 500 / (G * (row.reachMm / 1000 + 0.2))),
+        1e-7,
+        `reach ${row.reachMm} mm, offset ${row.offsetMm} mm`,
+      );
       expect(row.limitingJoint).toBe("j2");
     }
   });
@@ -293,10 +394,18 @@ describe("payloadAtReach", () => {
     // Link 10 kg at c = 0.5 m = L, rated 30 N·m: the link alone needs 10 g r N·m at reach r, more than 30 N·m beyond
     // r = 30 / (10 g) = 0.306 m (statics, CHECKS C14).
     const chain = singleAxis(0.5, 30);
-    const r = payloadAtReach(chain, payload(5, [{ joint: 0, massKg: 10, comInLinkM: [0.5, 0, 0] }]), { offsetsMm: [0], reachToleranceMm: 1e-6 });
+    const r = payloadAtReach(chain, payload(5, [{ joint: 0, massKg: 10, comInLinkM: [0.5, 0, 0] }]), {
+      offsetsMm: [0],
+      reachToleranceMm: 1e-6,
+    });
     for (const row of r.rows) {
       if (row.reachMm <= 300) {
-        expectRelClose(row.payloadKg, Math.min(5, row.reachMm === 0 ? 5 : 30 / (G * row.reachMm / 1000) - 10), 1e-7, `reach ${row.reachMm} mm`);
+        expectRelClose(
+          row.payloadKg,
+          Math.min(5, row.reachMm === 0 ? 5 : 30 / ((G * row.reachMm) / 1000) - 10),
+          1e-7,
+          `reach ${row.reachMm} mm`,
+        );
       } else {
         expect(row.payloadKg).toBe(0);
         expect(row.limitedBy).toBe("own-weight");
@@ -312,7 +421,11 @@ describe("payloadAtReach", () => {
     const floor = payloadAtReach(chain, payload(50, [], [], ["floor"]), { offsetsMm: [0] });
     const ceiling = payloadAtReach(chain, payload(50, [], [], ["ceiling"]), { offsetsMm: [0] });
     expect(ceiling.rows.map((x) => x.reachMm)).toEqual(floor.rows.map((x) => x.reachMm));
-    expectRelClose(ceiling.rows.map((x) => x.payloadKg), floor.rows.map((x) => x.payloadKg), 1e-6);
+    expectRelClose(
+      ceiling.rows.map((x) => x.payloadKg),
+      floor.rows.map((x) => x.payloadKg),
+      1e-6,
+    );
   });
 
   it("payloadAtReach says which basis it used: as-rated without torques, upper bound with an unrated loaded joint", () => {
@@ -324,7 +437,10 @@ describe("payloadAtReach", () => {
       expect(row.payloadKg).toBe(8);
       expect(row.limitedBy).toBe("as-rated");
     }
-    const partly = compileChain({ ...vertical2r(0.5, 0.3), joints: vertical2r(0.5, 0.3).joints.map((j, i) => (i === 0 ? { ...j, ratedTorqueNm: 100 } : j)) });
+    const partly = compileChain({
+      ...vertical2r(0.5, 0.3),
+      joints: vertical2r(0.5, 0.3).joints.map((j, i) => (i === 0 ? { ...j, ratedTorqueNm: 100 } : j)),
+    });
     const link: LinkMass = { joint: 0, massKg: 1, comInLinkM: [0.25, 0, 0] };
     const upper = payloadAtReach(partly, payload(8, [link]), { offsetsMm: [0] });
     expect(upper.basis).toBe("upper-bound-missing-torques");
@@ -352,10 +468,18 @@ describe("loadMomentNm and maxLeverM", () => {
 
 describe("loadDiagram", () => {
   const roll = (momentNm: number, inertiaKgM2 = NaN): WristRating => ({
-    driven: 5, joint: "J6", momentNm, inertiaKgM2, lever: { kind: "roll", pivotBehindFlangeM: 0, pivotOffAxisM: 0, basis: "flange-axis" },
+    driven: 5,
+    joint: "J6",
+    momentNm,
+    inertiaKgM2,
+    lever: { kind: "roll", pivotBehindFlangeM: 0, pivotOffAxisM: 0, basis: "flange-axis" },
   });
   const bend = (momentNm: number, dM: number, inertiaKgM2 = NaN): WristRating => ({
-    driven: 4, joint: "J5", momentNm, inertiaKgM2, lever: { kind: "bend", pivotBehindFlangeM: dM, pivotOffAxisM: 0, basis: "wrist-centre" },
+    driven: 4,
+    joint: "J5",
+    momentNm,
+    inertiaKgM2,
+    lever: { kind: "bend", pivotBehindFlangeM: dM, pivotOffAxisM: 0, basis: "wrist-centre" },
   });
 
   it("loadDiagram(roll rating 10 N·m): the 8 kg curve meets the Lxy axis at L_max = 127.4645 mm (CHECKS C15)", () => {
@@ -366,7 +490,7 @@ describe("loadDiagram", () => {
     expect(curve.pointsMm[0]![1]).toBe(0);
     // A roll rating does not depend on Lz: the curve runs straight up and leaves the table.
     expect(curve.openEnded).toBe(true);
-    for (const [lxy] of curve.pointsMm) expectClose(lxy, 1000 * 10 / (8 * G), 1e-9);
+    for (const [lxy] of curve.pointsMm) expectClose(lxy, (1000 * 10) / (8 * G), 1e-9);
   });
 
   it("loadDiagram(bend rating, wrist centre d = 50 mm behind the flange): every vertex of the 8 kg curve has m g L = M", () => {
@@ -375,7 +499,8 @@ describe("loadDiagram", () => {
     const d = loadDiagram(payload(10, [], [bend(10, 0.05)]), { massesKg: [8] });
     const pts = d.curves[0]!.pointsMm;
     expect(pts.length).toBeGreaterThan(10);
-    for (const [lxyMm, lzMm] of pts) expectClose(loadMomentNm(8, Math.hypot(lxyMm / 1000, 0.05 + lzMm / 1000)), 10, 1e-9);
+    for (const [lxyMm, lzMm] of pts)
+      expectClose(loadMomentNm(8, Math.hypot(lxyMm / 1000, 0.05 + lzMm / 1000)), 10, 1e-9);
     expectClose(pts[pts.length - 1]!, [0, 1000 * (10 / (8 * G) - 0.05)], 1e-9);
     expect(d.curves[0]!.openEnded).toBe(false);
   });
@@ -410,7 +535,15 @@ describe("loadDiagram", () => {
 describe("payloadWarnings", () => {
   it("payloadWarnings flags a rated payload beyond what the wrist moment allows at zero offset (M / (g d))", () => {
     // d = 0.1 m, M = 10 N·m → 10.197 kg at the flange centre (CHECKS C15 formula).
-    const wrist = [{ driven: 4, joint: "J5", momentNm: 10, inertiaKgM2: NaN, lever: { kind: "bend", pivotBehindFlangeM: 0.1, pivotOffAxisM: 0, basis: "wrist-centre" } } as const];
+    const wrist = [
+      {
+        driven: 4,
+        joint: "J5",
+        momentNm: 10,
+        inertiaKgM2: NaN,
+        lever: { kind: "bend", pivotBehindFlangeM: 0.1, pivotOffAxisM: 0, basis: "wrist-centre" },
+      } as const,
+    ];
     const w = payloadWarnings(payload(12, [], wrist));
     expect(w).toHaveLength(1);
     expect(w[0]!.code).toBe("rated-payload-beyond-wrist-moment");
@@ -428,19 +561,37 @@ describe("wristLeverOf and payloadInputOf", () => {
       const lever = wristLeverOf(chain, k);
       expect(lever).toEqual({ kind: "bend", pivotBehindFlangeM: 0.1, pivotOffAxisM: 0, basis: "wrist-centre" });
     }
-    expect(wristLeverOf(chain, 5)).toEqual({ kind: "roll", pivotBehindFlangeM: 0, pivotOffAxisM: 0, basis: "flange-axis" });
+    expect(wristLeverOf(chain, 5)).toEqual({
+      kind: "roll",
+      pivotBehindFlangeM: 0,
+      pivotOffAxisM: 0,
+      basis: "flange-axis",
+    });
   });
 
   it("payloadInputOf converts names to indices and mm to m, and rejects unknown joints", () => {
     const chain = compileChain(generic6rDh());
     const input = payloadInputOf(
-      { ratedPayloadKg: 20, mountings: ["floor"], wrist: { momentNm: { j5: 40 }, inertiaKgM2: { j5: 1, j6: 0.5 } }, links: [{ after: "j2", massKg: 30, comMm: [-500, 0, 100] }] },
+      {
+        ratedPayloadKg: 20,
+        mountings: ["floor"],
+        wrist: { momentNm: { j5: 40 }, inertiaKgM2: { j5: 1, j6: 0.5 } },
+        links: [{ after: "j2", massKg: 30, comMm: [-500, 0, 100] }],
+      },
       chain,
     );
-    expect(input.wrist.map((w) => [w.joint, w.driven])).toEqual([["j5", 4], ["j6", 5]]);
+    expect(input.wrist.map((w) => [w.joint, w.driven])).toEqual([
+      ["j5", 4],
+      ["j6", 5],
+    ]);
     expect(input.wrist[1]!.momentNm).toBeNaN();
     expect(input.links).toEqual([{ joint: 1, massKg: 30, comInLinkM: [-0.5, 0, 0.1] }]);
-    expect(() => payloadInputOf({ ratedPayloadKg: 1, mountings: ["floor"], links: [{ after: "nope", massKg: 1, comMm: [0, 0, 0] }] }, chain)).toThrow(/invalid joint name: nope/);
+    expect(() =>
+      payloadInputOf(
+        { ratedPayloadKg: 1, mountings: ["floor"], links: [{ after: "nope", massKg: 1, comMm: [0, 0, 0] }] },
+        chain,
+      ),
+    ).toThrow(/invalid joint name: nope/);
   });
 });
 
@@ -463,68 +614,91 @@ describe("payload analyses on every demo arm", () => {
     expect(arms.length).toBeGreaterThanOrEqual(1);
   });
 
-  it.each(arms.map((a) => [a.id, a] as const))("payloadAtReach(%s): 0 ≤ payloadKg ≤ rated, finite, rows for every mounting", (_, arm) => {
-    const input = payloadInputOf(arm.spec, arm.chain);
-    const r = payloadAtReach(arm.chain, input);
-    expect(hasNonFinite(r)).toBe(false);
-    expect(r.statement).toBe(PAYLOAD_STATEMENT);
-    expect(r.mountings.map((x) => x.mounting)).toEqual([...arm.spec.mountings]);
-    for (const mounting of arm.spec.mountings) expect(r.rows.filter((x) => x.mounting === mounting).length).toBeGreaterThan(0);
-    for (const row of r.rows) {
-      expect(row.payloadKg).toBeGreaterThanOrEqual(0);
-      expect(row.payloadKg).toBeLessThanOrEqual(arm.spec.ratedPayloadKg);
-      expect(row.reachMm % 50).toBe(0);
-      expect([0, 100, 200]).toContain(row.offsetMm);
-    }
-  });
-
-  it.each(arms.map((a) => [a.id, a] as const))("payloadAtReach(%s): at each reported posture the torques, checked by Jᵀ F, stay within the ratings", (_, arm) => {
-    // Independent re-check of every row: FK of the reported posture (reach within the 0.5 mm tolerance, tool axis
-    // along gravity where the wrist orients it), then τ = Σ J_bᵀ F_b (reference path above) plus the payload's
-    // Jᵀ F at the CG; every rated joint within |τ| ≤ rating, and the reported torque limit binds on its joint.
-    const chain = arm.chain, m = chain.drivenCount;
-    const input = payloadInputOf(arm.spec, chain);
-    const r = payloadAtReach(chain, input);
-    const s = createScratch(chain);
-    for (const row of r.rows) {
-      if (!row.jointsDegOrMm || row.torqueLimitKg === null) continue;
-      const report = r.mountings.find((x) => x.mounting === row.mounting)!;
-      const g = gravityInBase(row.mounting);
-      const q = row.jointsDegOrMm.map((v, j) => (chain.isPrismatic[chain.drivenJoint[j]!] ? v / 1000 : v * DEG));
-      const f = forwardInto(chain, q, s);
-      expect(Math.abs(Math.hypot(f[3]!, f[7]!) * 1000 - row.reachMm)).toBeLessThanOrEqual(0.5 + 1e-9);
-      if (report.toolDirection === "along-gravity") expectClose([f[2]!, f[6]!, f[10]!], g.map((v) => v / G), 1e-6, "tool along gravity");
-      const cg = [0, 1, 2].map((i) => f[4 * i + 3]! + (row.offsetMm / 1000) * f[4 * i + 2]!);
-      const links = referenceLinkTorque(chain, input.links, q, g);
-      jacobianInto(new Float64Array(6 * m), chain, s, cg[0]!, cg[1]!, cg[2]!);
-      const jPay = Matrix.from1DArray(6, chain.jointCount, Array.from(s.jKin)).mmul(Matrix.from1DArray(chain.jointCount, m, Array.from(chain.couplingGain)));
-      const perKg = jPay.transpose().mmul(Matrix.columnVector([-g[0], -g[1], -g[2], 0, 0, 0])).to1DArray();
-      const atLimit = row.torqueLimitKg;
-      for (let j = 0; j < m; j++) {
-        const rated = chain.ratedEffortSi[j]!;
-        if (!(rated > 0)) continue;
-        const tau = links[j]! + atLimit * perKg[j]!;
-        expect(Math.abs(tau)).toBeLessThanOrEqual(rated * (1 + 1e-9));
-        if (chain.jointNames[chain.drivenJoint[j]!] === row.torqueLimitJoint && row.limitedBy !== "own-weight") expectRelClose(Math.abs(tau), rated, 1e-9, `${row.mounting} ${row.reachMm} mm`);
+  it.each(arms.map((a) => [a.id, a] as const))(
+    "payloadAtReach(%s): 0 ≤ payloadKg ≤ rated, finite, rows for every mounting",
+    (_, arm) => {
+      const input = payloadInputOf(arm.spec, arm.chain);
+      const r = payloadAtReach(arm.chain, input);
+      expect(hasNonFinite(r)).toBe(false);
+      expect(r.statement).toBe(PAYLOAD_STATEMENT);
+      expect(r.mountings.map((x) => x.mounting)).toEqual([...arm.spec.mountings]);
+      for (const mounting of arm.spec.mountings)
+        expect(r.rows.filter((x) => x.mounting === mounting).length).toBeGreaterThan(0);
+      for (const row of r.rows) {
+        expect(row.payloadKg).toBeGreaterThanOrEqual(0);
+        expect(row.payloadKg).toBeLessThanOrEqual(arm.spec.ratedPayloadKg);
+        expect(row.reachMm % 50).toBe(0);
+        expect([0, 100, 200]).toContain(row.offsetMm);
       }
-    }
-  });
+    },
+  );
 
-  it.each(arms.map((a) => [a.id, a] as const))("loadDiagram(%s): allowed mass within [0, rated], not increasing with the offset", (_, arm) => {
-    const input = payloadInputOf(arm.spec, arm.chain);
-    const d = loadDiagram(input);
-    expect(hasNonFinite(d)).toBe(false);
-    if (!d.grid) {
-      expect(d.basis).toBe("as-rated");
-      return;
-    }
-    const nx = d.grid.lxyMm.length;
-    d.grid.allowedKg.forEach((v, i) => {
-      expect(v).toBeGreaterThanOrEqual(0);
-      expect(v).toBeLessThanOrEqual(arm.spec.ratedPayloadKg);
-      // Levers grow with Lxy and Lz (d ≥ 0 on every demo arm), so the allowed mass cannot grow.
-      if (i % nx > 0) expect(v).toBeLessThanOrEqual(d.grid!.allowedKg[i - 1]! * (1 + 1e-12));
-      if (i >= nx) expect(v).toBeLessThanOrEqual(d.grid!.allowedKg[i - nx]! * (1 + 1e-12));
-    });
-  });
+  it.each(arms.map((a) => [a.id, a] as const))(
+    "payloadAtReach(%s): at each reported posture the torques, checked by Jᵀ F, stay within the ratings",
+    (_, arm) => {
+      // Independent re-check of every row: FK of the reported posture (reach within the 0.5 mm tolerance, tool axis
+      // along gravity where the wrist orients it), then τ = Σ J_bᵀ F_b (reference path above) plus the payload's
+      // Jᵀ F at the CG; every rated joint within |τ| ≤ rating, and the reported torque limit binds on its joint.
+      const chain = arm.chain,
+        m = chain.drivenCount;
+      const input = payloadInputOf(arm.spec, chain);
+      const r = payloadAtReach(chain, input);
+      const s = createScratch(chain);
+      for (const row of r.rows) {
+        if (!row.jointsDegOrMm || row.torqueLimitKg === null) continue;
+        const report = r.mountings.find((x) => x.mounting === row.mounting)!;
+        const g = gravityInBase(row.mounting);
+        const q = row.jointsDegOrMm.map((v, j) => (chain.isPrismatic[chain.drivenJoint[j]!] ? v / 1000 : v * DEG));
+        const f = forwardInto(chain, q, s);
+        expect(Math.abs(Math.hypot(f[3]!, f[7]!) * 1000 - row.reachMm)).toBeLessThanOrEqual(0.5 + 1e-9);
+        if (report.toolDirection === "along-gravity")
+          expectClose(
+            [f[2]!, f[6]!, f[10]!],
+            g.map((v) => v / G),
+            1e-6,
+            "tool along gravity",
+          );
+        const cg = [0, 1, 2].map((i) => f[4 * i + 3]! + (row.offsetMm / 1000) * f[4 * i + 2]!);
+        const links = referenceLinkTorque(chain, input.links, q, g);
+        jacobianInto(new Float64Array(6 * m), chain, s, cg[0]!, cg[1]!, cg[2]!);
+        const jPay = Matrix.from1DArray(6, chain.jointCount, Array.from(s.jKin)).mmul(
+          Matrix.from1DArray(chain.jointCount, m, Array.from(chain.couplingGain)),
+        );
+        const perKg = jPay
+          .transpose()
+          .mmul(Matrix.columnVector([-g[0], -g[1], -g[2], 0, 0, 0]))
+          .to1DArray();
+        const atLimit = row.torqueLimitKg;
+        for (let j = 0; j < m; j++) {
+          const rated = chain.ratedEffortSi[j]!;
+          if (!(rated > 0)) continue;
+          const tau = links[j]! + atLimit * perKg[j]!;
+          expect(Math.abs(tau)).toBeLessThanOrEqual(rated * (1 + 1e-9));
+          if (chain.jointNames[chain.drivenJoint[j]!] === row.torqueLimitJoint && row.limitedBy !== "own-weight")
+            expectRelClose(Math.abs(tau), rated, 1e-9, `${row.mounting} ${row.reachMm} mm`);
+        }
+      }
+    },
+  );
+
+  it.each(arms.map((a) => [a.id, a] as const))(
+    "loadDiagram(%s): allowed mass within [0, rated], not increasing with the offset",
+    (_, arm) => {
+      const input = payloadInputOf(arm.spec, arm.chain);
+      const d = loadDiagram(input);
+      expect(hasNonFinite(d)).toBe(false);
+      if (!d.grid) {
+        expect(d.basis).toBe("as-rated");
+        return;
+      }
+      const nx = d.grid.lxyMm.length;
+      d.grid.allowedKg.forEach((v, i) => {
+        expect(v).toBeGreaterThanOrEqual(0);
+        expect(v).toBeLessThanOrEqual(arm.spec.ratedPayloadKg);
+        // Levers grow with Lxy and Lz (d ≥ 0 on every demo arm), so the allowed mass cannot grow.
+        if (i % nx > 0) expect(v).toBeLessThanOrEqual(d.grid!.allowedKg[i - 1]! * (1 + 1e-12));
+        if (i >= nx) expect(v).toBeLessThanOrEqual(d.grid!.allowedKg[i - nx]! * (1 + 1e-12));
+      });
+    },
+  );
 });

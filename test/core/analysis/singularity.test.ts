@@ -31,7 +31,11 @@ function flangeJacobian(chain: Chain, q: ArrayLike<number>): Float64Array {
 /** Origin and z axis of DH frame k (k = 0 … 6) of the generic 6R, from the independent mathjs product. */
 function frame(q: readonly number[], k: number): { o: number[]; z: number[]; x: number[] } {
   const t = dhFrameReference(GENERIC_6R_SI.rows, q, k);
-  return { o: [t[0]![3]!, t[1]![3]!, t[2]![3]!], z: [t[0]![2]!, t[1]![2]!, t[2]![2]!], x: [t[0]![0]!, t[1]![0]!, t[2]![0]!] };
+  return {
+    o: [t[0]![3]!, t[1]![3]!, t[2]![3]!],
+    z: [t[0]![2]!, t[1]![2]!, t[2]![2]!],
+    x: [t[0]![0]!, t[1]![0]!, t[2]![0]!],
+  };
 }
 
 /**
@@ -47,7 +51,10 @@ function nullVectorFromArmPart(q: readonly number[], nArm: readonly number[]): n
   }
   const zw = [3, 4, 5].map((k) => frame(q, k).z);
   const j22 = new Matrix([0, 1, 2].map((r) => zw.map((z) => z[r]!)));
-  const nw = inverse(j22).mmul(Matrix.columnVector(omega)).to1DArray().map((v) => -v);
+  const nw = inverse(j22)
+    .mmul(Matrix.columnVector(omega))
+    .to1DArray()
+    .map((v) => -v);
   const n = [...nArm, ...nw];
   const len = Math.hypot(...n);
   return n.map((v) => v / len);
@@ -78,7 +85,11 @@ describe("singularityReport: generic 6R at the CHECKS C5 singular poses", () => 
 
   it("wrist at several arm poses and q4, q6: always kind wrist with joints 4 and 6 opposite", () => {
     // CHECKS C5: the wrist condition q5 = 0 holds at any q1–q4, q6.
-    for (const q of [[0, 0.2, 0.3, 0, 0, 0], [-2, 0.9, -0.4, -2.5, 0, 1.3], [1.7, -1.2, 1.0, 0.6, 0, -2.9]]) {
+    for (const q of [
+      [0, 0.2, 0.3, 0, 0, 0],
+      [-2, 0.9, -0.4, -2.5, 0, 1.3],
+      [1.7, -1.2, 1.0, 0.6, 0, -2.9],
+    ]) {
       const rep = singularityReport(chain, flangeJacobian(chain, q));
       expect(rep.kind, `q = ${q}`).toBe("wrist");
       expect(rep.nullVector[3]! * rep.nullVector[5]!, `q = ${q}`).toBeLessThan(0);
@@ -92,8 +103,14 @@ describe("singularityReport: generic 6R at the CHECKS C5 singular poses", () => 
     // = (a2 + L)²). Axes 2 and 3 are parallel, so the wrist centre stays still when q̇2·ρ2 + q̇3·ρ3 = 0:
     // arm part (0, ρ3, −ρ2); the wrist cancels the rotation (nullVectorFromArmPart).
     const q = [0.3, -0.7, -Math.atan2(d4, a3), 1.1, 0.8, -0.2];
-    const w = frame(q, 4).o, o1 = frame(q, 1).o;
-    expectClose(Math.hypot(w[0]! - o1[0]!, w[1]! - o1[1]!, w[2]! - o1[2]!), a2 + L, 1e-12, "premise: stretched, ρ2 = a2 + L");
+    const w = frame(q, 4).o,
+      o1 = frame(q, 1).o;
+    expectClose(
+      Math.hypot(w[0]! - o1[0]!, w[1]! - o1[1]!, w[2]! - o1[2]!),
+      a2 + L,
+      1e-12,
+      "premise: stretched, ρ2 = a2 + L",
+    );
     const rep = singularityReport(chain, flangeJacobian(chain, q));
     expect(rep.kind).toBe("elbow");
     expect(rep.inverseCondition).toBeLessThan(1e-12);
@@ -114,7 +131,8 @@ describe("singularityReport: generic 6R at the CHECKS C5 singular poses", () => 
   /** q2 that puts the wrist centre on axis 1 for a given q3 (CHECKS C5 shoulder condition, solved by hand). */
   function shoulderQ2(q3: number): number {
     // r_w = a1 + P c2 − Q s2 with P = a2 + a3c3 − d4s3, Q = a3s3 + d4c3; P c2 − Q s2 = R cos(q2 + φ), φ = atan2(Q, P).
-    const p = a2 + a3 * Math.cos(q3) - d4 * Math.sin(q3), qq = a3 * Math.sin(q3) + d4 * Math.cos(q3);
+    const p = a2 + a3 * Math.cos(q3) - d4 * Math.sin(q3),
+      qq = a3 * Math.sin(q3) + d4 * Math.cos(q3);
     return -Math.atan2(qq, p) + Math.acos(-a1 / Math.hypot(p, qq));
   }
 
@@ -181,10 +199,34 @@ function scaraRrpr(): ArmKinematicsInput {
   return {
     convention: "dh",
     joints: [
-      { name: "j1", kind: "revolute", dh: { aMm: 400, alphaDeg: 0, dMm: 500, thetaDeg: 0 }, rangeDeg: [-150, 150], maxSpeedDegPerS: 200 },
-      { name: "j2", kind: "revolute", dh: { aMm: 300, alphaDeg: 180, dMm: 0, thetaDeg: 0 }, rangeDeg: [-150, 150], maxSpeedDegPerS: 300 },
-      { name: "j3", kind: "prismatic", dh: { aMm: 0, alphaDeg: 0, dMm: 0, thetaDeg: 0 }, rangeMm: [0, 300], maxSpeedMmPerS: 1000 },
-      { name: "j4", kind: "revolute", dh: { aMm: 0, alphaDeg: 0, dMm: 50, thetaDeg: 0 }, rangeDeg: [-360, 360], maxSpeedDegPerS: 600 },
+      {
+        name: "j1",
+        kind: "revolute",
+        dh: { aMm: 400, alphaDeg: 0, dMm: 500, thetaDeg: 0 },
+        rangeDeg: [-150, 150],
+        maxSpeedDegPerS: 200,
+      },
+      {
+        name: "j2",
+        kind: "revolute",
+        dh: { aMm: 300, alphaDeg: 180, dMm: 0, thetaDeg: 0 },
+        rangeDeg: [-150, 150],
+        maxSpeedDegPerS: 300,
+      },
+      {
+        name: "j3",
+        kind: "prismatic",
+        dh: { aMm: 0, alphaDeg: 0, dMm: 0, thetaDeg: 0 },
+        rangeMm: [0, 300],
+        maxSpeedMmPerS: 1000,
+      },
+      {
+        name: "j4",
+        kind: "revolute",
+        dh: { aMm: 0, alphaDeg: 0, dMm: 50, thetaDeg: 0 },
+        rangeDeg: [-360, 360],
+        maxSpeedDegPerS: 600,
+      },
     ],
     flange: { xyzMm: [0, 0, 0], rpyDeg: [0, 0, 0] },
   };
@@ -200,8 +242,17 @@ describe("singularityReport: SCARA-like chain", () => {
     for (const q1 of [0, 0.7, -1.9]) {
       const rep = singularityReport(chain, flangeJacobian(chain, [q1, 0, 0.1, 0.5]));
       expect(rep.kind, `q1 = ${q1}`).toBe("elbow");
-      const n = [0.3, -0.7, 0, -0.4], len = Math.hypot(...n);
-      expectClose(absDot(rep.nullVector, n.map((v) => v / len)), 1, 1e-9, `q1 = ${q1}: null vector`);
+      const n = [0.3, -0.7, 0, -0.4],
+        len = Math.hypot(...n);
+      expectClose(
+        absDot(
+          rep.nullVector,
+          n.map((v) => v / len),
+        ),
+        1,
+        1e-9,
+        `q1 = ${q1}: null vector`,
+      );
     }
   });
 

@@ -13,7 +13,12 @@ import { describe, expect, it } from "vitest";
 import { loadArms } from "../../../src/catalog/index";
 import { compileChain, createScratch, forwardInto, type ArmKinematicsInput, type Chain } from "../../../src/core";
 import { createIkScratch, solveIkInto } from "../../../src/core/kinematics/inverse";
-import { DEGENERATE, MAX_CLOSED_FORM_SOLUTIONS, solveSphericalWristInto, sphericalWristIk } from "../../../src/core/kinematics/closedForm";
+import {
+  DEGENERATE,
+  MAX_CLOSED_FORM_SOLUTIONS,
+  solveSphericalWristInto,
+  sphericalWristIk,
+} from "../../../src/core/kinematics/closedForm";
 import { DEFAULT_SPEED_MAP, toolSpeedMap } from "../../../src/core/analysis/speedMap";
 import { dhFrameReference, flat4, type DhRowSi } from "../../helpers/testArms";
 import { mulberry32, uniform } from "../../helpers/prng";
@@ -33,13 +38,16 @@ function turnDistance(a: ArrayLike<number>, ao: number, b: ArrayLike<number>, bo
 }
 
 function randomPose(chain: Chain, rnd: () => number): Float64Array {
-  return Float64Array.from({ length: 6 }, (_, i) => uniform(rnd, Math.max(chain.lowerSi[i]!, -Math.PI), Math.min(chain.upperSi[i]!, Math.PI)));
+  return Float64Array.from({ length: 6 }, (_, i) =>
+    uniform(rnd, Math.max(chain.lowerSi[i]!, -Math.PI), Math.min(chain.upperSi[i]!, Math.PI)),
+  );
 }
 
 /** Pose error of flange pose f against target t: position (m) and largest rotation-matrix entry difference. */
 function poseError(f: ArrayLike<number>, t: ArrayLike<number>): { positionM: number; rotation: number } {
   let rotation = 0;
-  for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) rotation = Math.max(rotation, Math.abs(f[r * 4 + c]! - t[r * 4 + c]!));
+  for (let r = 0; r < 3; r++)
+    for (let c = 0; c < 3; c++) rotation = Math.max(rotation, Math.abs(f[r * 4 + c]! - t[r * 4 + c]!));
   return { positionM: Math.hypot(f[3]! - t[3]!, f[7]! - t[7]!, f[11]! - t[11]!), rotation };
 }
 
@@ -52,7 +60,12 @@ function randomSphericalDh(rnd: () => number, general: boolean): { rows: DhRowSi
   const w = pick([-90, 90]);
   const mm = [
     { aMm: uniform(rnd, 0, 300), alphaDeg: alpha1, dMm: uniform(rnd, 200, 700), thetaDeg: uniform(rnd, -30, 30) },
-    { aMm: uniform(rnd, 400, 1200), alphaDeg: alpha2, dMm: general ? uniform(rnd, -200, 200) : 0, thetaDeg: uniform(rnd, -30, 30) },
+    {
+      aMm: uniform(rnd, 400, 1200),
+      alphaDeg: alpha2,
+      dMm: general ? uniform(rnd, -200, 200) : 0,
+      thetaDeg: uniform(rnd, -30, 30),
+    },
     { aMm: uniform(rnd, 0, 250), alphaDeg: alpha3, dMm: uniform(rnd, -150, 150), thetaDeg: uniform(rnd, -30, 30) },
     { aMm: 0, alphaDeg: w, dMm: uniform(rnd, 300, 1200), thetaDeg: 0 },
     { aMm: 0, alphaDeg: -w, dMm: 0, thetaDeg: 0 },
@@ -61,7 +74,13 @@ function randomSphericalDh(rnd: () => number, general: boolean): { rows: DhRowSi
   const rows = mm.map((r) => ({ a: r.aMm / 1000, alpha: r.alphaDeg * DEG, d: r.dMm / 1000, theta: r.thetaDeg * DEG }));
   const input: ArmKinematicsInput = {
     convention: "dh",
-    joints: mm.map((dh, i) => ({ name: `j${i + 1}`, kind: "revolute" as const, dh, rangeDeg: [-180, 180], maxSpeedDegPerS: 200 })),
+    joints: mm.map((dh, i) => ({
+      name: `j${i + 1}`,
+      kind: "revolute" as const,
+      dh,
+      rangeDeg: [-180, 180],
+      maxSpeedDegPerS: 200,
+    })),
     flange: { xyzMm: [0, 0, 0], rpyDeg: [0, 0, 0] },
   };
   return { rows, input };
@@ -112,49 +131,65 @@ describe("solveSphericalWristInto on every spherical-wrist demo arm", () => {
   it("applies to the spherical-wrist 6R arms and to none other", () => {
     // Spherical wrist: the compiler found the wrist centre where the last three axes meet (compile.ts).
     for (const arm of arms) {
-      const expected = arm.chain.drivenCount === 6 && arm.chain.jointCount === 6 && arm.chain.wrist?.basis === "spherical";
+      const expected =
+        arm.chain.drivenCount === 6 && arm.chain.jointCount === 6 && arm.chain.wrist?.basis === "spherical";
       expect(sphericalWristIk(arm.chain) !== null, arm.id).toBe(expected);
     }
     expect(sixAxis.length).toBeGreaterThanOrEqual(1);
   });
 
-  it.each(sixAxis.map((arm) => [arm.id, arm.chain] as const))("%s: round trips, joint ranges, and every branch the numeric solver finds", (_id, chain) => {
-    let converged = 0;
-    const ik = sphericalWristIk(chain)!;
-    const rnd = mulberry32(5);
-    const kin = createScratch(chain), ikScratch = createIkScratch(chain);
-    const out = new Float64Array(MAX_CLOSED_FORM_SOLUTIONS * 6), qNum = new Float64Array(6);
-    for (let p = 0; p < 8; p++) {
-      const q = randomPose(chain, rnd);
-      const target = Float64Array.from(forwardInto(chain, q, kin));
-      const n = solveSphericalWristInto(out, ik, target);
-      expect(n).toBeGreaterThanOrEqual(1);
-      let own = Infinity;
-      for (let k = 0; k < n; k++) {
-        const sol = out.subarray(6 * k, 6 * k + 6);
-        for (let i = 0; i < 6; i++) {
-          expect(sol[i]!).toBeGreaterThanOrEqual(chain.lowerSi[i]!);
-          expect(sol[i]!).toBeLessThanOrEqual(chain.upperSi[i]!);
+  it.each(sixAxis.map((arm) => [arm.id, arm.chain] as const))(
+    "%s: round trips, joint ranges, and every branch the numeric solver finds",
+    (_id, chain) => {
+      let converged = 0;
+      const ik = sphericalWristIk(chain)!;
+      const rnd = mulberry32(5);
+      const kin = createScratch(chain),
+        ikScratch = createIkScratch(chain);
+      const out = new Float64Array(MAX_CLOSED_FORM_SOLUTIONS * 6),
+        qNum = new Float64Array(6);
+      for (let p = 0; p < 8; p++) {
+        const q = randomPose(chain, rnd);
+        const target = Float64Array.from(forwardInto(chain, q, kin));
+        const n = solveSphericalWristInto(out, ik, target);
+        expect(n).toBeGreaterThanOrEqual(1);
+        let own = Infinity;
+        for (let k = 0; k < n; k++) {
+          const sol = out.subarray(6 * k, 6 * k + 6);
+          for (let i = 0; i < 6; i++) {
+            expect(sol[i]!).toBeGreaterThanOrEqual(chain.lowerSi[i]!);
+            expect(sol[i]!).toBeLessThanOrEqual(chain.upperSi[i]!);
+          }
+          const e = poseError(forwardInto(chain, sol, kin), target);
+          expect(e.positionM).toBeLessThan(1e-6);
+          expect(e.rotation).toBeLessThan(1e-5);
+          own = Math.min(own, turnDistance(out, 6 * k, q, 0));
         }
-        const e = poseError(forwardInto(chain, sol, kin), target);
-        expect(e.positionM).toBeLessThan(1e-6);
-        expect(e.rotation).toBeLessThan(1e-5);
-        own = Math.min(own, turnDistance(out, 6 * k, q, 0));
+        expect(own).toBeLessThan(1e-6);
+        // Brute force: the numeric solver from 150 seeded random starts; each converged solution must be a closed-form one.
+        for (let s = 0; s < 150; s++) {
+          const seed = randomPose(chain, rnd);
+          if (
+            !solveIkInto(qNum, chain, target, seed, ikScratch, {
+              maxIterations: 80,
+              toleranceM: 1e-9,
+              toleranceRad: 1e-8,
+            })
+          )
+            continue;
+          converged++;
+          let nearest = Infinity;
+          for (let k = 0; k < n; k++) nearest = Math.min(nearest, turnDistance(out, 6 * k, qNum, 0));
+          expect(
+            nearest,
+            `numeric solution ${Array.from(qNum, (x) => (x / DEG).toFixed(2)).join(", ")} deg not found in closed form`,
+          ).toBeLessThan(1e-5);
+        }
       }
-      expect(own).toBeLessThan(1e-6);
-      // Brute force: the numeric solver from 150 seeded random starts; each converged solution must be a closed-form one.
-      for (let s = 0; s < 150; s++) {
-        const seed = randomPose(chain, rnd);
-        if (!solveIkInto(qNum, chain, target, seed, ikScratch, { maxIterations: 80, toleranceM: 1e-9, toleranceRad: 1e-8 })) continue;
-        converged++;
-        let nearest = Infinity;
-        for (let k = 0; k < n; k++) nearest = Math.min(nearest, turnDistance(out, 6 * k, qNum, 0));
-        expect(nearest, `numeric solution ${Array.from(qNum, (x) => (x / DEG).toFixed(2)).join(", ")} deg not found in closed form`).toBeLessThan(1e-5);
-      }
-    }
-    // The numeric solver stalls from many starts (joint limits); some must converge for the comparison to mean anything.
-    expect(converged).toBeGreaterThan(20);
-  });
+      // The numeric solver stalls from many starts (joint limits); some must converge for the comparison to mean anything.
+      expect(converged).toBeGreaterThan(20);
+    },
+  );
 });
 
 describe("toolSpeedMap with closed-form inverse kinematics", () => {
@@ -162,25 +197,30 @@ describe("toolSpeedMap with closed-form inverse kinematics", () => {
   // headline figures within 0.5 % and shares of the map within 0.02 (the closed form also finds solutions next to
   // singular poses and joint limits where the numeric continuation gives up, so the cell sets differ slightly).
   const arm = sixAxisSmallest();
-  it.each(["down", "outward"] as const)(`${arm?.id ?? "none"} (%s): maximum speeds and shares agree with the numeric path`, (orientation) => {
-    expect(arm).toBeDefined();
-    if (!arm) return;
-    const options = { ...DEFAULT_SPEED_MAP, stepMm: 20 };
-    const numeric = toolSpeedMap(arm.chain, orientation, { ...options, closedForm: false });
-    for (const closedForm of [true, "discovery"] as const) {
-      const closed = toolSpeedMap(arm.chain, orientation, { ...options, closedForm });
-      const max = (xs: Float64Array) => xs.reduce((a, b) => (b > a ? b : a), 0);
-      expect(Math.abs(max(closed.maxMmPerS) / max(numeric.maxMmPerS) - 1)).toBeLessThan(0.005);
-      expect(Math.abs(max(closed.guaranteedMmPerS) / max(numeric.guaranteedMmPerS) - 1)).toBeLessThan(0.005);
-      expect(Math.abs(closed.reachableCells / numeric.reachableCells - 1)).toBeLessThan(0.02);
-      for (const limit of [500, 1000, 2000]) {
-        const share = (m: typeof numeric) => m.guaranteedMmPerS.filter((g) => g >= limit).length / m.reachableCells;
-        expect(Math.abs(share(closed) - share(numeric))).toBeLessThan(0.02);
+  it.each(["down", "outward"] as const)(
+    `${arm?.id ?? "none"} (%s): maximum speeds and shares agree with the numeric path`,
+    (orientation) => {
+      expect(arm).toBeDefined();
+      if (!arm) return;
+      const options = { ...DEFAULT_SPEED_MAP, stepMm: 20 };
+      const numeric = toolSpeedMap(arm.chain, orientation, { ...options, closedForm: false });
+      for (const closedForm of [true, "discovery"] as const) {
+        const closed = toolSpeedMap(arm.chain, orientation, { ...options, closedForm });
+        const max = (xs: Float64Array) => xs.reduce((a, b) => (b > a ? b : a), 0);
+        expect(Math.abs(max(closed.maxMmPerS) / max(numeric.maxMmPerS) - 1)).toBeLessThan(0.005);
+        expect(Math.abs(max(closed.guaranteedMmPerS) / max(numeric.guaranteedMmPerS) - 1)).toBeLessThan(0.005);
+        expect(Math.abs(closed.reachableCells / numeric.reachableCells - 1)).toBeLessThan(0.02);
+        for (const limit of [500, 1000, 2000]) {
+          const share = (m: typeof numeric) => m.guaranteedMmPerS.filter((g) => g >= limit).length / m.reachableCells;
+          expect(Math.abs(share(closed) - share(numeric))).toBeLessThan(0.02);
+        }
       }
-    }
-  });
+    },
+  );
 });
 
 function sixAxisSmallest() {
-  return arms.filter((a) => sphericalWristIk(a.chain) !== null).sort((a, b) => a.chain.characteristicLengthM - b.chain.characteristicLengthM)[0];
+  return arms
+    .filter((a) => sphericalWristIk(a.chain) !== null)
+    .sort((a, b) => a.chain.characteristicLengthM - b.chain.characteristicLengthM)[0];
 }

@@ -48,7 +48,12 @@ describe("compileChain: one arm in three conventions", () => {
     forwardInto(chain, q, s);
     const out = new Float64Array(16);
     for (let i = 0; i < 6; i++) {
-      expectClose(linkFrameInto(out, chain, s, i), flat4(dhFrameReference(GENERIC_6R_SI.rows, q, i + 1)), 1e-12, `frame ${i + 1}`);
+      expectClose(
+        linkFrameInto(out, chain, s, i),
+        flat4(dhFrameReference(GENERIC_6R_SI.rows, q, i + 1)),
+        1e-12,
+        `frame ${i + 1}`,
+      );
     }
   });
 });
@@ -59,7 +64,12 @@ describe("compileChain: units and limits", () => {
     const chain = compileChain(generic6rDh());
     expectClose(chain.lowerSi, Array(6).fill(-Math.PI), 1e-15, "lower");
     expectClose(chain.upperSi, Array(6).fill(Math.PI), 1e-15, "upper");
-    expectClose(chain.maxSpeedSi, [150, 150, 180, 300, 300, 400].map((w) => w * DEG), 1e-15, "speeds");
+    expectClose(
+      chain.maxSpeedSi,
+      [150, 150, 180, 300, 300, 400].map((w) => w * DEG),
+      1e-15,
+      "speeds",
+    );
     expect(chain.characteristicLengthM).toBeGreaterThan(1);
   });
 });

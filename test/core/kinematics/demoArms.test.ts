@@ -25,28 +25,36 @@ describe("loadArms(arms/)", () => {
 });
 
 describe("jacobianInto on every demo arm", () => {
-  it.each(arms.map((arm) => [arm.id, arm] as const))("jacobianInto(%s) matches finite differences at 5 random poses", (id, arm) => {
-    // CHECKS C11: h = 1e-6, tolerance 1e-7 abs at metre scale, scaled by the arm's size (characteristicLengthM,
-    // at least 1 m) since the round-off term grows with it. Poses uniform within the driven limits; where a limit
-    // is open, ±π rad (revolute) or ±1 m (prismatic). The PRNG (mulberry32) starts from a hash of the arm id, so failures reproduce.
-    const chain = arm.chain;
-    const m = chain.drivenCount;
-    const s = createScratch(chain);
-    const pose = (q: Float64Array) => forwardInto(chain, q, s);
-    let start = 0;
-    for (const ch of id) start = (Math.imul(start, 31) + ch.charCodeAt(0)) >>> 0;
-    const rand = mulberry32(start);
-    const tol = 1e-7 * Math.max(1, chain.characteristicLengthM);
-    for (let trial = 0; trial < 5; trial++) {
-      const q = Array.from({ length: m }, (_, c) => {
-        const open = chain.isPrismatic[chain.drivenJoint[c]!] ? 1 : Math.PI;
-        const lo = Number.isFinite(chain.lowerSi[c]!) ? chain.lowerSi[c]! : -open;
-        const hi = Number.isFinite(chain.upperSi[c]!) ? chain.upperSi[c]! : open;
-        return uniform(rand, lo, hi);
-      });
-      const f = forwardInto(chain, q, s);
-      const j = jacobianInto(new Float64Array(6 * m), chain, s, f[3]!, f[7]!, f[11]!);
-      expectClose(j, finiteDifferenceJacobian(pose, q, 1e-6), tol, `${arm.file}, trial ${trial}, q = ${q.map((v) => v.toFixed(4))}`);
-    }
-  });
+  it.each(arms.map((arm) => [arm.id, arm] as const))(
+    "jacobianInto(%s) matches finite differences at 5 random poses",
+    (id, arm) => {
+      // CHECKS C11: h = 1e-6, tolerance 1e-7 abs at metre scale, scaled by the arm's size (characteristicLengthM,
+      // at least 1 m) since the round-off term grows with it. Poses uniform within the driven limits; where a limit
+      // is open, ±π rad (revolute) or ±1 m (prismatic). The PRNG (mulberry32) starts from a hash of the arm id, so failures reproduce.
+      const chain = arm.chain;
+      const m = chain.drivenCount;
+      const s = createScratch(chain);
+      const pose = (q: Float64Array) => forwardInto(chain, q, s);
+      let start = 0;
+      for (const ch of id) start = (Math.imul(start, 31) + ch.charCodeAt(0)) >>> 0;
+      const rand = mulberry32(start);
+      const tol = 1e-7 * Math.max(1, chain.characteristicLengthM);
+      for (let trial = 0; trial < 5; trial++) {
+        const q = Array.from({ length: m }, (_, c) => {
+          const open = chain.isPrismatic[chain.drivenJoint[c]!] ? 1 : Math.PI;
+          const lo = Number.isFinite(chain.lowerSi[c]!) ? chain.lowerSi[c]! : -open;
+          const hi = Number.isFinite(chain.upperSi[c]!) ? chain.upperSi[c]! : open;
+          return uniform(rand, lo, hi);
+        });
+        const f = forwardInto(chain, q, s);
+        const j = jacobianInto(new Float64Array(6 * m), chain, s, f[3]!, f[7]!, f[11]!);
+        expectClose(
+          j,
+          finiteDifferenceJacobian(pose, q, 1e-6),
+          tol,
+          `${arm.file}, trial ${trial}, q = ${q.map((v) => v.toFixed(4))}`,
+        );
+      }
+    },
+  );
 });

@@ -70,10 +70,15 @@ describe("jacobianInto: planar 2R (CHECKS C1)", () => {
     // J = [[−a1 s1 − a2 s12, −a2 s12], [a1 c1 + a2 c12, a2 c12]] (Spong et al. §4.9 [from memory]); 1e-12 abs.
     const rand = mulberry32(1);
     for (let trial = 0; trial < 50; trial++) {
-      const a1 = uniform(rand, 0.1, 2), a2 = uniform(rand, 0.1, 2);
-      const q1 = uniform(rand, -Math.PI, Math.PI), q2 = uniform(rand, -Math.PI, Math.PI);
+      const a1 = uniform(rand, 0.1, 2),
+        a2 = uniform(rand, 0.1, 2);
+      const q1 = uniform(rand, -Math.PI, Math.PI),
+        q2 = uniform(rand, -Math.PI, Math.PI);
       const j = planarBlock(jacobianAtFlange(compileChain(planar2r(a1, a2)), [q1, q2]), 2);
-      const s1 = Math.sin(q1), c1 = Math.cos(q1), s12 = Math.sin(q1 + q2), c12 = Math.cos(q1 + q2);
+      const s1 = Math.sin(q1),
+        c1 = Math.cos(q1),
+        s12 = Math.sin(q1 + q2),
+        c12 = Math.cos(q1 + q2);
       expectClose(j, [-a1 * s1 - a2 * s12, -a2 * s12, a1 * c1 + a2 * c12, a2 * c12], 1e-12, `trial ${trial}`);
       expectClose(j[0]! * j[3]! - j[1]! * j[2]!, a1 * a2 * Math.sin(q2), 1e-12, `det, trial ${trial}`);
     }
@@ -113,8 +118,12 @@ const FD_CASES: readonly FdCase[] = [
 function randomNonSingularPose(chain: Chain, rand: () => number): number[] {
   const m = chain.drivenCount;
   for (let attempt = 0; attempt < 1000; attempt++) {
-    const q = Array.from({ length: m }, (_, c) => uniform(rand, Math.max(chain.lowerSi[c]!, -Math.PI), Math.min(chain.upperSi[c]!, Math.PI)));
-    const sv = new SingularValueDecomposition(Matrix.from1DArray(6, m, Array.from(jacobianAtFlange(chain, q))), { autoTranspose: true }).diagonal;
+    const q = Array.from({ length: m }, (_, c) =>
+      uniform(rand, Math.max(chain.lowerSi[c]!, -Math.PI), Math.min(chain.upperSi[c]!, Math.PI)),
+    );
+    const sv = new SingularValueDecomposition(Matrix.from1DArray(6, m, Array.from(jacobianAtFlange(chain, q))), {
+      autoTranspose: true,
+    }).diagonal;
     if (sv[Math.min(6, m) - 1]! >= 1e-3 * sv[0]!) return q;
   }
   throw new Error("no non-singular pose found in 1000 draws");
@@ -187,8 +196,15 @@ describe("forwardInto and jacobianInto with coupled joints", () => {
     for (let trial = 0; trial < 20; trial++) {
       const q = [uniform(rand, -3, 3), uniform(rand, -1, 1.5), uniform(rand, -1.3, 1), uniform(rand, -6, 6)];
       const f = forwardInto(chain, q, s);
-      const psi = q[0]! + q[3]!, c = Math.cos(psi), sn = Math.sin(psi);
-      expectClose([f[0]!, f[1]!, f[2]!, f[4]!, f[5]!, f[6]!, f[8]!, f[9]!, f[10]!], [c, sn, 0, sn, -c, 0, 0, 0, -1], 1e-12, `trial ${trial}`);
+      const psi = q[0]! + q[3]!,
+        c = Math.cos(psi),
+        sn = Math.sin(psi);
+      expectClose(
+        [f[0]!, f[1]!, f[2]!, f[4]!, f[5]!, f[6]!, f[8]!, f[9]!, f[10]!],
+        [c, sn, 0, sn, -c, 0, 0, 0, -1],
+        1e-12,
+        `trial ${trial}`,
+      );
       // Angular Jacobian: only q1 and q5 turn the flange, both about +z.
       const j = jacobianInto(new Float64Array(24), chain, s, f[3]!, f[7]!, f[11]!);
       expectClose(j.subarray(12, 24), [0, 0, 0, 0, 0, 0, 0, 0, 1, 0, 0, 1], 1e-12, `angular rows, trial ${trial}`);

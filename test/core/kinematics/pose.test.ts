@@ -6,11 +6,26 @@
 import { determinant, Matrix, SingularValueDecomposition } from "ml-matrix";
 import { describe, expect, it } from "vitest";
 import type { Chain } from "../../../src/core";
-import { compileChain, createScratch, createSvdScratch, forwardInto, jacobianInto, poseReport, singularValuesInto } from "../../../src/core";
+import {
+  compileChain,
+  createScratch,
+  createSvdScratch,
+  forwardInto,
+  jacobianInto,
+  poseReport,
+  singularValuesInto,
+} from "../../../src/core";
 import { expectClose, expectRelClose } from "../../helpers/expectClose";
 import { finiteDifferenceJacobian } from "../../helpers/finiteDifference";
 import { mulberry32, uniform } from "../../helpers/prng";
-import { dhFrameReference, generic6rDh, generic6rFramesUrdfStyle, GENERIC_6R_SI, planar2r, Q_STAR } from "../../helpers/testArms";
+import {
+  dhFrameReference,
+  generic6rDh,
+  generic6rFramesUrdfStyle,
+  GENERIC_6R_SI,
+  planar2r,
+  Q_STAR,
+} from "../../helpers/testArms";
 
 const DEG = Math.PI / 180;
 const { a1, a2, a3, d1, d4, d6 } = GENERIC_6R_SI;
@@ -23,13 +38,19 @@ function planarSingularValues(jacobian: Float64Array): Float64Array {
 
 /** ml-matrix singular values, descending (independent reference). */
 function mlSingularValues(a: ArrayLike<number>, rows: number, cols: number): number[] {
-  return new SingularValueDecomposition(Matrix.from1DArray(rows, cols, Array.from(a)), { autoTranspose: true }).diagonal;
+  return new SingularValueDecomposition(Matrix.from1DArray(rows, cols, Array.from(a)), { autoTranspose: true })
+    .diagonal;
 }
 
 /** det J₁₁ of CHECKS C5 (derived there with sympy [derived✓]) for the generic 6R. */
 function detJ11ClosedForm(q: ArrayLike<number>): number {
-  const q2 = q[1]!, q3 = q[2]!;
-  return a2 * (a3 * Math.sin(q3) + d4 * Math.cos(q3)) * (a1 + a2 * Math.cos(q2) + a3 * Math.cos(q2 + q3) - d4 * Math.sin(q2 + q3));
+  const q2 = q[1]!,
+    q3 = q[2]!;
+  return (
+    a2 *
+    (a3 * Math.sin(q3) + d4 * Math.cos(q3)) *
+    (a1 + a2 * Math.cos(q2) + a3 * Math.cos(q2 + q3) - d4 * Math.sin(q2 + q3))
+  );
 }
 
 /** 6 × 6 Jacobian of the generic 6R at q with reference point p (base frame, m). */
@@ -48,7 +69,8 @@ describe("poseReport: planar 2R manipulability (CHECKS C2)", () => {
     // (ωz = 1, 1), so the planar block is taken from its Jacobian. Tolerance 1e-12.
     const rand = mulberry32(22);
     for (let trial = 0; trial < 40; trial++) {
-      const l1 = uniform(rand, 0.1, 1.5), l2 = uniform(rand, 0.1, 1.5);
+      const l1 = uniform(rand, 0.1, 1.5),
+        l2 = uniform(rand, 0.1, 1.5);
       const q = [uniform(rand, -Math.PI, Math.PI), uniform(rand, -Math.PI, Math.PI)];
       const sv = planarSingularValues(poseReport(compileChain(planar2r(l1, l2)), q).jacobian);
       expectClose(sv[0]! * sv[1]!, l1 * l2 * Math.abs(Math.sin(q[1]!)), 1e-12, `trial ${trial}`);
@@ -60,14 +82,20 @@ describe("poseReport: planar 2R manipulability (CHECKS C2)", () => {
     // the singular values unchanged. 1e-12.
     const phi = (1 + Math.sqrt(5)) / 2;
     for (const q1 of [0, 0.4, -2.2]) {
-      expectClose(planarSingularValues(poseReport(compileChain(planar2r(1, 1)), [q1, 90 * DEG]).jacobian), [phi, 1 / phi], 1e-12, `q1 = ${q1}`);
+      expectClose(
+        planarSingularValues(poseReport(compileChain(planar2r(1, 1)), [q1, 90 * DEG]).jacobian),
+        [phi, 1 / phi],
+        1e-12,
+        `q1 = ${q1}`,
+      );
     }
   });
 
   it("poseReport(2R (0.5, 0.3)): w peaks at q2 = ±90° with w_max = 0.15 (grid of 1°)", () => {
     // CHECKS C2: (0.5, 0.3) → w_max = 0.15 at q2 = 90°; argmax within one grid step (1°).
     const chain = compileChain(planar2r(0.5, 0.3));
-    let best = -1, argmax = NaN;
+    let best = -1,
+      argmax = NaN;
     for (let deg = 0; deg <= 180; deg++) {
       const sv = planarSingularValues(poseReport(chain, [0.3, deg * DEG]).jacobian);
       if (sv[0]! * sv[1]! > best) {
@@ -89,10 +117,20 @@ describe("poseReport: planar 2R manipulability (CHECKS C2)", () => {
         const r = poseReport(chain, q);
         const ml = mlSingularValues(r.jacobian, 6, chain.drivenCount);
         expectClose(r.singularValues, ml, 1e-12 * ml[0]!, "singular values");
-        expectRelClose(r.manipulability, ml.reduce((p, v) => p * v, 1), 1e-10, "manipulability");
+        expectRelClose(
+          r.manipulability,
+          ml.reduce((p, v) => p * v, 1),
+          1e-10,
+          "manipulability",
+        );
         expectRelClose(r.conditionNumber, ml[0]! / ml[ml.length - 1]!, 1e-8, "condition number");
         if (chain.drivenCount === 6) {
-          expectRelClose(r.manipulability, Math.abs(determinant(Matrix.from1DArray(6, 6, Array.from(r.jacobian)))), 1e-9, "|det J|");
+          expectRelClose(
+            r.manipulability,
+            Math.abs(determinant(Matrix.from1DArray(6, 6, Array.from(r.jacobian)))),
+            1e-9,
+            "|det J|",
+          );
         }
       }
     }
@@ -111,7 +149,12 @@ describe("poseReport: generic 6R home pose and wrist centre (CHECKS C6)", () => 
     const t = r.baseFromFlange;
     expectClose([t[3]!, t[7]!, t[11]!], [a1 + a2 + a3, 0, d1 - d4 - d6], 1e-12, "position");
     expectClose([t[3]!, t[7]!, t[11]!], [1.4, 0, -0.6], 1e-12, "position, numbers");
-    expectClose([t[0]!, t[1]!, t[2]!, t[4]!, t[5]!, t[6]!, t[8]!, t[9]!, t[10]!], [1, 0, 0, 0, -1, 0, 0, 0, -1], 1e-12, "rotation");
+    expectClose(
+      [t[0]!, t[1]!, t[2]!, t[4]!, t[5]!, t[6]!, t[8]!, t[9]!, t[10]!],
+      [1, 0, 0, 0, -1, 0, 0, 0, -1],
+      1e-12,
+      "rotation",
+    );
     expectClose(r.wcpM!, [a1 + a2 + a3, 0, d1 - d4], 1e-12, "wrist centre at home");
   });
 
@@ -123,7 +166,8 @@ describe("poseReport: generic 6R home pose and wrist centre (CHECKS C6)", () => 
     for (let trial = 0; trial < 20; trial++) {
       const q = Array.from({ length: 6 }, () => uniform(rand, -Math.PI, Math.PI));
       const t4 = dhFrameReference(GENERIC_6R_SI.rows, q, 4);
-      for (const chain of chains) expectClose(poseReport(chain, q).wcpM!, [t4[0]![3]!, t4[1]![3]!, t4[2]![3]!], 1e-12, `trial ${trial}`);
+      for (const chain of chains)
+        expectClose(poseReport(chain, q).wcpM!, [t4[0]![3]!, t4[1]![3]!, t4[2]![3]!], 1e-12, `trial ${trial}`);
     }
   });
 
@@ -136,7 +180,12 @@ describe("poseReport: generic 6R home pose and wrist centre (CHECKS C6)", () => 
       const w = poseReport(compileChain(generic6rDh()), q).wcpM!;
       const rho2 = (w[0]! - t1[0]![3]!) ** 2 + (w[1]! - t1[1]![3]!) ** 2 + (w[2]! - t1[2]![3]!) ** 2;
       const q3 = q[2]!;
-      expectClose(rho2, a2 ** 2 + a3 ** 2 + d4 ** 2 + 2 * a2 * (a3 * Math.cos(q3) - d4 * Math.sin(q3)), 1e-12, `trial ${trial}`);
+      expectClose(
+        rho2,
+        a2 ** 2 + a3 ** 2 + d4 ** 2 + 2 * a2 * (a3 * Math.cos(q3) - d4 * Math.sin(q3)),
+        1e-12,
+        `trial ${trial}`,
+      );
     }
   });
 
@@ -148,7 +197,8 @@ describe("poseReport: generic 6R home pose and wrist centre (CHECKS C6)", () => 
     const toolPose = (q: Float64Array): number[] => {
       const f = forwardInto(chain, q, s);
       const out = Array.from(f);
-      for (let r = 0; r < 3; r++) out[r * 4 + 3] = f[r * 4]! * tool[0]! + f[r * 4 + 1]! * tool[1]! + f[r * 4 + 2]! * tool[2]! + f[r * 4 + 3]!;
+      for (let r = 0; r < 3; r++)
+        out[r * 4 + 3] = f[r * 4]! * tool[0]! + f[r * 4 + 1]! * tool[1]! + f[r * 4 + 2]! * tool[2]! + f[r * 4 + 3]!;
       return out;
     };
     const r = poseReport(chain, Q_STAR, tool);
@@ -166,12 +216,17 @@ describe("poseReport: wrist decoupling and the three singularities of the generi
     // stated (rows v then ω, columns q1…q6, base frame), no absolute value needed. Determinants by ml-matrix.
     const chain = compileChain(generic6rDh());
     const rand = mulberry32(45);
-    const poses = [Array.from(Q_STAR), ...Array.from({ length: 30 }, () => Array.from({ length: 6 }, () => uniform(rand, -Math.PI, Math.PI)))];
+    const poses = [
+      Array.from(Q_STAR),
+      ...Array.from({ length: 30 }, () => Array.from({ length: 6 }, () => uniform(rand, -Math.PI, Math.PI))),
+    ];
     for (const q of poses) {
       const jt = jacobianAt(chain, q, "flange");
       const jw = jacobianAt(chain, q, "wcp");
-      const detT = determinant(jt), detW = determinant(jw);
-      const j11 = determinant(jw.subMatrix(0, 2, 0, 2)), j22 = determinant(jw.subMatrix(3, 5, 3, 5));
+      const detT = determinant(jt),
+        detW = determinant(jw);
+      const j11 = determinant(jw.subMatrix(0, 2, 0, 2)),
+        j22 = determinant(jw.subMatrix(3, 5, 3, 5));
       const label = `q = ${q.map((v) => v.toFixed(3))}`;
       expectRelClose(detT, detW, 1e-9, `det at flange vs wcp, ${label}`, 1e-6);
       expectClose(jw.subMatrix(0, 2, 3, 5).to1DArray(), Array(9).fill(0), 1e-12, `J12 = 0 at the wcp, ${label}`);
@@ -198,12 +253,16 @@ describe("poseReport: wrist decoupling and the three singularities of the generi
   const shoulderQ2 = (() => {
     // r_w(q2; q3 = 0.4) = a1 + (a2 + a3 c3 − d4 s3)·c2 − (a3 s3 + d4 c3)·s2 = a1 + R cos(q2 + φ) = 0.
     const q3 = Q_STAR[2];
-    const A = a2 + a3 * Math.cos(q3) - d4 * Math.sin(q3), B = a3 * Math.sin(q3) + d4 * Math.cos(q3);
+    const A = a2 + a3 * Math.cos(q3) - d4 * Math.sin(q3),
+      B = a3 * Math.sin(q3) + d4 * Math.cos(q3);
     return Math.acos(-a1 / Math.hypot(A, B)) - Math.atan2(B, A);
   })();
   const singular = [
     { name: "elbow (q3 = −atan2(d4, a3))", q: [Q_STAR[0], Q_STAR[1], elbowQ3, Q_STAR[3], Q_STAR[4], Q_STAR[5]] },
-    { name: "elbow (q3 = π − atan2(d4, a3))", q: [Q_STAR[0], Q_STAR[1], Math.PI + elbowQ3, Q_STAR[3], Q_STAR[4], Q_STAR[5]] },
+    {
+      name: "elbow (q3 = π − atan2(d4, a3))",
+      q: [Q_STAR[0], Q_STAR[1], Math.PI + elbowQ3, Q_STAR[3], Q_STAR[4], Q_STAR[5]],
+    },
     { name: "wrist (q5 = 0)", q: [Q_STAR[0], Q_STAR[1], Q_STAR[2], Q_STAR[3], 0, Q_STAR[5]] },
     { name: "wrist (q5 = π)", q: [Q_STAR[0], Q_STAR[1], Q_STAR[2], Q_STAR[3], Math.PI, Q_STAR[5]] },
     { name: "shoulder (r_w = 0)", q: [Q_STAR[0], shoulderQ2, Q_STAR[2], Q_STAR[3], Q_STAR[4], Q_STAR[5]] },

@@ -27,7 +27,7 @@ function rot3(t: ArrayLike<number>): number[][] {
 
 /** Nested 3×3 (mathjs Matrix or array) → flat row-major. */
 function flat3(m: math.Matrix | number[][]): number[] {
-  const a = (Array.isArray(m) ? m : (m.toArray() as number[][]));
+  const a = Array.isArray(m) ? m : (m.toArray() as number[][]);
   return a.flat();
 }
 
@@ -54,9 +54,7 @@ describe("rotationAxisAngleInto", () => {
     const theta = Math.hypot(1, 2, 3);
     const r = rotationAxisAngleInto(mat4(), w[0]! / theta, w[1]! / theta, w[2]! / theta, theta);
     const printed = [
-      -0.69492056, 0.71352099, 0.08929286,
-      -0.19200697, -0.30378504, 0.93319235,
-      0.69297817, 0.6313497, 0.34810748,
+      -0.69492056, 0.71352099, 0.08929286, -0.19200697, -0.30378504, 0.93319235, 0.69297817, 0.6313497, 0.34810748,
     ];
     expectClose(rot3(r).flat(), printed, 5e-9, "exp(S((1,2,3)))");
     expectClose([r[3]!, r[7]!, r[11]!, r[12]!, r[13]!, r[14]!, r[15]!], [0, 0, 0, 0, 0, 0, 1], 0, "homogeneous part");
@@ -100,7 +98,9 @@ describe("fromXyzRpyInto", () => {
     // URDF joint/origin convention: R = Rz(yaw)·Ry(pitch)·Rx(roll) [from memory]; products by mathjs; tol 1e-12.
     const rand = mulberry32(0x2a);
     for (let trial = 0; trial < 50; trial++) {
-      const roll = uniform(rand, -Math.PI, Math.PI), pitch = uniform(rand, -Math.PI, Math.PI), yaw = uniform(rand, -Math.PI, Math.PI);
+      const roll = uniform(rand, -Math.PI, Math.PI),
+        pitch = uniform(rand, -Math.PI, Math.PI),
+        yaw = uniform(rand, -Math.PI, Math.PI);
       const xyz = [uniform(rand, -2, 2), uniform(rand, -2, 2), uniform(rand, -2, 2)];
       const t = fromXyzRpyInto(mat4(), xyz[0]!, xyz[1]!, xyz[2]!, roll, pitch, yaw);
       const expected = math.multiply(
@@ -185,7 +185,15 @@ describe("invertRigidInto", () => {
     // Inverse of a rigid transform [Rᵀ, −Rᵀp] (Spong et al. §2.7 [from memory]); checked against mathjs inv. 1e-12.
     const rand = mulberry32(3);
     for (let trial = 0; trial < 20; trial++) {
-      const t = fromXyzRpyInto(mat4(), uniform(rand, -3, 3), uniform(rand, -3, 3), uniform(rand, -3, 3), uniform(rand, -3, 3), uniform(rand, -1.5, 1.5), uniform(rand, -3, 3));
+      const t = fromXyzRpyInto(
+        mat4(),
+        uniform(rand, -3, 3),
+        uniform(rand, -3, 3),
+        uniform(rand, -3, 3),
+        uniform(rand, -3, 3),
+        uniform(rand, -1.5, 1.5),
+        uniform(rand, -3, 3),
+      );
       const inv = invertRigidInto(mat4(), t);
       expectClose(mul4Into(mat4(), inv, t), identity4Into(mat4()), 1e-12, "inv · t");
       const nested = [0, 1, 2, 3].map((r) => [0, 1, 2, 3].map((c) => t[r * 4 + c]!));

@@ -7,7 +7,13 @@ import { mulberry32 } from "../../helpers/prng";
 
 // Reference: mathjs expm of the skew matrix [ω] (an independent implementation of exp on so(3); CHECKS C7).
 const expSkew = (w: number[]): number[][] =>
-  (expm(matrix([[0, -w[2]!, w[1]!], [w[2]!, 0, -w[0]!], [-w[1]!, w[0]!, 0]])).toArray() as number[][]);
+  expm(
+    matrix([
+      [0, -w[2]!, w[1]!],
+      [w[2]!, 0, -w[0]!],
+      [-w[1]!, w[0]!, 0],
+    ]),
+  ).toArray() as number[][];
 const pose4 = (r: number[][]): Float64Array => Float64Array.from([...r[0]!, 0, ...r[1]!, 0, ...r[2]!, 0, 0, 0, 0, 1]);
 
 describe("rotationErrorInto", () => {
@@ -16,7 +22,8 @@ describe("rotationErrorInto", () => {
     for (let n = 0; n < 50; n++) {
       const rc = expSkew([rnd() * 4 - 2, rnd() * 4 - 2, rnd() * 4 - 2]);
       const axis = [rnd() - 0.5, rnd() - 0.5, rnd() - 0.5];
-      const len = Math.hypot(...axis), angle = 0.05 + 2.9 * rnd();
+      const len = Math.hypot(...axis),
+        angle = 0.05 + 2.9 * rnd();
       const w = axis.map((a) => (a / len) * angle);
       const rt = multiply(expSkew(w), rc) as number[][];
       const e3 = rotationErrorInto(new Float64Array(3), 0, rt.flat(), 3, pose4(rc));
@@ -33,7 +40,8 @@ describe("rotationErrorInto", () => {
     for (let n = 0; n < 200; n++) {
       const rc = expSkew([rnd() * 4 - 2, rnd() * 4 - 2, rnd() * 4 - 2]);
       const axis = [rnd() - 0.5, rnd() - 0.5, rnd() - 0.5];
-      const len = Math.hypot(...axis), angle = 10 ** (-9 + 5 * rnd());
+      const len = Math.hypot(...axis),
+        angle = 10 ** (-9 + 5 * rnd());
       const w = axis.map((a) => (a / len) * angle);
       const rt = multiply(expSkew(w), rc) as number[][];
       const e = rotationErrorInto(new Float64Array(3), 0, rt.flat(), 3, pose4(rc));
@@ -43,7 +51,17 @@ describe("rotationErrorInto", () => {
   });
 
   it("a half turn about z gives |ω| = π along ±z", () => {
-    const e = rotationErrorInto(new Float64Array(3), 0, [-1, 0, 0, 0, -1, 0, 0, 0, 1], 3, pose4([[1, 0, 0], [0, 1, 0], [0, 0, 1]]));
+    const e = rotationErrorInto(
+      new Float64Array(3),
+      0,
+      [-1, 0, 0, 0, -1, 0, 0, 0, 1],
+      3,
+      pose4([
+        [1, 0, 0],
+        [0, 1, 0],
+        [0, 0, 1],
+      ]),
+    );
     expect(Math.abs(Math.abs(e[2]!) - Math.PI)).toBeLessThan(1e-12);
     expect(Math.hypot(e[0]!, e[1]!)).toBeLessThan(1e-12);
   });
@@ -52,8 +70,10 @@ describe("rotationErrorInto", () => {
 describe("solveInPlace", () => {
   it("solves a random 6×6 system (residual against the original matrix) and rejects a singular one", () => {
     const rnd = mulberry32(5);
-    const a = Float64Array.from({ length: 36 }, () => rnd() - 0.5), b = Float64Array.from({ length: 6 }, () => rnd());
-    const work = Float64Array.from(a), x = Float64Array.from(b);
+    const a = Float64Array.from({ length: 36 }, () => rnd() - 0.5),
+      b = Float64Array.from({ length: 6 }, () => rnd());
+    const work = Float64Array.from(a),
+      x = Float64Array.from(b);
     expect(solveInPlace(work, x, 6)).toBe(true);
     for (let r = 0; r < 6; r++) {
       let v = 0;
@@ -72,13 +92,19 @@ describe("choleskySolveInPlace", () => {
     for (const n of [2, 4, 6, 7]) {
       for (let trial = 0; trial < 20; trial++) {
         // A = MᵀM + 1e-3·I (positive definite)
-        const m = Matrix.from1DArray(n, n, Array.from({ length: n * n }, () => rnd() - 0.5));
+        const m = Matrix.from1DArray(
+          n,
+          n,
+          Array.from({ length: n * n }, () => rnd() - 0.5),
+        );
         const a = m.transpose().mmul(m).add(Matrix.eye(n, n).mul(1e-3));
         const b = Array.from({ length: n }, () => rnd() - 0.5);
         const expected = new CholeskyDecomposition(a).solve(Matrix.columnVector(b)).to1DArray();
-        const work = Float64Array.from(a.to1DArray()), x = Float64Array.from(b);
+        const work = Float64Array.from(a.to1DArray()),
+          x = Float64Array.from(b);
         expect(choleskySolveInPlace(work, x, n)).toBe(true);
-        for (let i = 0; i < n; i++) expect(Math.abs(x[i]! - expected[i]!)).toBeLessThan(1e-12 * Math.max(1, Math.abs(expected[i]!)));
+        for (let i = 0; i < n; i++)
+          expect(Math.abs(x[i]! - expected[i]!)).toBeLessThan(1e-12 * Math.max(1, Math.abs(expected[i]!)));
       }
     }
     expect(choleskySolveInPlace(Float64Array.from([1, 2, 2, 1]), Float64Array.from([1, 1]), 2)).toBe(false);

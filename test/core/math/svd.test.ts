@@ -4,7 +4,15 @@
  */
 import { Matrix, SingularValueDecomposition } from "ml-matrix";
 import { describe, expect, it } from "vitest";
-import { compileChain, createScratch, createSvdScratch, forwardInto, jacobianInto, singularValuesInto, svdInto } from "../../../src/core";
+import {
+  compileChain,
+  createScratch,
+  createSvdScratch,
+  forwardInto,
+  jacobianInto,
+  singularValuesInto,
+  svdInto,
+} from "../../../src/core";
 import { expectClose } from "../../helpers/expectClose";
 import { mulberry32, uniform } from "../../helpers/prng";
 import { generic6rDh } from "../../helpers/testArms";
@@ -15,7 +23,11 @@ function svdOurs(a: ArrayLike<number>, rows: number, cols: number): Float64Array
 
 /** ml-matrix singular values, descending, the reference path of STYLE.md C6. */
 function svdMl(a: ArrayLike<number>, rows: number, cols: number): number[] {
-  const svd = new SingularValueDecomposition(Matrix.from1DArray(rows, cols, Array.from(a)), { autoTranspose: true, computeLeftSingularVectors: false, computeRightSingularVectors: false });
+  const svd = new SingularValueDecomposition(Matrix.from1DArray(rows, cols, Array.from(a)), {
+    autoTranspose: true,
+    computeLeftSingularVectors: false,
+    computeRightSingularVectors: false,
+  });
   return svd.diagonal.slice(0, Math.min(rows, cols));
 }
 
@@ -33,8 +45,10 @@ describe("singularValuesInto", () => {
     // exact closed form σ² = eigenvalues of J Jᵀ = (tr ± √(tr² − 4 det))/2 is checked to 1e-12 below.
     // J = [[−a1 s1 − a2 s12, −a2 s12], [a1 c1 + a2 c12, a2 c12]] (Spong et al. §4.9 [from memory]; CHECKS C1).
     const j2r = (a1: number, a2: number, q1: number, q2: number): number[] => [
-      -a1 * Math.sin(q1) - a2 * Math.sin(q1 + q2), -a2 * Math.sin(q1 + q2),
-      a1 * Math.cos(q1) + a2 * Math.cos(q1 + q2), a2 * Math.cos(q1 + q2),
+      -a1 * Math.sin(q1) - a2 * Math.sin(q1 + q2),
+      -a2 * Math.sin(q1 + q2),
+      a1 * Math.cos(q1) + a2 * Math.cos(q1 + q2),
+      a2 * Math.cos(q1 + q2),
     ];
     const deg = Math.PI / 180;
     const cases = [
@@ -46,8 +60,12 @@ describe("singularValuesInto", () => {
       const ours = svdOurs(j, 2, 2);
       expectClose(ours, printed, 1e-7, `printed, a = ${a}`);
       // Closed form from the 2×2 Gram matrix J Jᵀ = [[p, r], [r, t]].
-      const p = j[0]! ** 2 + j[1]! ** 2, t = j[2]! ** 2 + j[3]! ** 2, r = j[0]! * j[2]! + j[1]! * j[3]!;
-      const tr = p + t, det = p * t - r * r, disc = Math.sqrt(tr * tr - 4 * det);
+      const p = j[0]! ** 2 + j[1]! ** 2,
+        t = j[2]! ** 2 + j[3]! ** 2,
+        r = j[0]! * j[2]! + j[1]! * j[3]!;
+      const tr = p + t,
+        det = p * t - r * r,
+        disc = Math.sqrt(tr * tr - 4 * det);
       expectClose(ours, [Math.sqrt((tr + disc) / 2), Math.sqrt((tr - disc) / 2)], 1e-12, `closed form, a = ${a}`);
     }
   });
@@ -114,37 +132,43 @@ describe("svdInto", () => {
     [6, 4],
     [3, 6],
     [6, 7],
-  ])("svdInto(%i × %i random) gives orthonormal V with A vₖ ⟂ A vⱼ, ‖A vₖ‖ = σₖ, and the ml-matrix σ and vₖ (up to sign)", (rows, cols) => {
-    // Definition of the SVD, A V = U Σ (Golub & Van Loan, Matrix Computations, 4th ed., §2.4 [from memory]);
-    // ml-matrix's right singular vectors as the independent reference (random matrices have distinct σ, so each
-    // vₖ is unique up to sign). Tolerances: 1e-12 · σ_max for products, 1e-10 for vectors.
-    const rand = mulberry32(rows * 100 + cols);
-    for (let trial = 0; trial < 10; trial++) {
-      const a = Array.from({ length: rows * cols }, () => uniform(rand, -2, 2));
-      const k = Math.min(rows, cols);
-      const sv = new Float64Array(k), v = new Float64Array(cols * cols);
-      svdInto(sv, v, a, rows, cols, createSvdScratch(rows, cols));
-      const ml = new SingularValueDecomposition(Matrix.from1DArray(rows, cols, a), { autoTranspose: true });
-      const scale = ml.diagonal[0]!;
-      expectClose(sv, ml.diagonal.slice(0, k), 1e-12 * scale, "singular values");
-      // VᵀV = I.
-      const vtv = Matrix.from1DArray(cols, cols, Array.from(v)).transpose().mmul(Matrix.from1DArray(cols, cols, Array.from(v)));
-      expectClose(vtv.to1DArray(), Matrix.eye(cols, cols).to1DArray(), 1e-12, "VᵀV = I");
-      const av = Array.from({ length: cols }, (_, c) => aTimesV(a, v, rows, cols, c));
-      for (let c = 0; c < cols; c++) {
-        // ‖A vₖ‖ = σₖ; columns past min(rows, cols) are in the null space.
-        expectClose(Math.hypot(...av[c]!), c < k ? sv[c]! : 0, 1e-12 * scale, `‖A v${c}‖`);
-        for (let d = c + 1; d < k; d++) {
-          const dot = av[c]!.reduce((p, x, r) => p + x * av[d]![r]!, 0);
-          expectClose(dot, 0, 1e-12 * scale * scale, `A v${c} · A v${d}`);
+  ])(
+    "svdInto(%i × %i random) gives orthonormal V with A vₖ ⟂ A vⱼ, ‖A vₖ‖ = σₖ, and the ml-matrix σ and vₖ (up to sign)",
+    (rows, cols) => {
+      // Definition of the SVD, A V = U Σ (Golub & Van Loan, Matrix Computations, 4th ed., §2.4 [from memory]);
+      // ml-matrix's right singular vectors as the independent reference (random matrices have distinct σ, so each
+      // vₖ is unique up to sign). Tolerances: 1e-12 · σ_max for products, 1e-10 for vectors.
+      const rand = mulberry32(rows * 100 + cols);
+      for (let trial = 0; trial < 10; trial++) {
+        const a = Array.from({ length: rows * cols }, () => uniform(rand, -2, 2));
+        const k = Math.min(rows, cols);
+        const sv = new Float64Array(k),
+          v = new Float64Array(cols * cols);
+        svdInto(sv, v, a, rows, cols, createSvdScratch(rows, cols));
+        const ml = new SingularValueDecomposition(Matrix.from1DArray(rows, cols, a), { autoTranspose: true });
+        const scale = ml.diagonal[0]!;
+        expectClose(sv, ml.diagonal.slice(0, k), 1e-12 * scale, "singular values");
+        // VᵀV = I.
+        const vtv = Matrix.from1DArray(cols, cols, Array.from(v))
+          .transpose()
+          .mmul(Matrix.from1DArray(cols, cols, Array.from(v)));
+        expectClose(vtv.to1DArray(), Matrix.eye(cols, cols).to1DArray(), 1e-12, "VᵀV = I");
+        const av = Array.from({ length: cols }, (_, c) => aTimesV(a, v, rows, cols, c));
+        for (let c = 0; c < cols; c++) {
+          // ‖A vₖ‖ = σₖ; columns past min(rows, cols) are in the null space.
+          expectClose(Math.hypot(...av[c]!), c < k ? sv[c]! : 0, 1e-12 * scale, `‖A v${c}‖`);
+          for (let d = c + 1; d < k; d++) {
+            const dot = av[c]!.reduce((p, x, r) => p + x * av[d]![r]!, 0);
+            expectClose(dot, 0, 1e-12 * scale * scale, `A v${c} · A v${d}`);
+          }
+        }
+        const vMl = ml.rightSingularVectors;
+        for (let c = 0; c < k; c++) {
+          const ours = Array.from({ length: cols }, (_, r) => v[r * cols + c]!);
+          const ref = vMl.getColumn(c);
+          expectClose(Math.abs(ours.reduce((p, x, r) => p + x * ref[r]!, 0)), 1, 1e-10, `|v${c} · v${c},ml|`);
         }
       }
-      const vMl = ml.rightSingularVectors;
-      for (let c = 0; c < k; c++) {
-        const ours = Array.from({ length: cols }, (_, r) => v[r * cols + c]!);
-        const ref = vMl.getColumn(c);
-        expectClose(Math.abs(ours.reduce((p, x, r) => p + x * ref[r]!, 0)), 1, 1e-10, `|v${c} · v${c},ml|`);
-      }
-    }
-  });
+    },
+  );
 });

@@ -21,7 +21,12 @@ export interface ArmFile {
   readonly maker: string;
   readonly model: string;
   readonly joints: readonly ArmFileJoint[];
-  readonly source: { readonly document: string; readonly revision: string; readonly date: string; readonly notes?: string };
+  readonly source: {
+    readonly document: string;
+    readonly revision: string;
+    readonly date: string;
+    readonly notes?: string;
+  };
   readonly fingerprint: string;
 }
 
@@ -29,7 +34,10 @@ function canonical(value: unknown): string {
   if (Array.isArray(value)) return `[${value.map(canonical).join(",")}]`;
   if (value !== null && typeof value === "object") {
     const obj = value as Record<string, unknown>;
-    return `{${Object.keys(obj).sort().map((k) => `${JSON.stringify(k)}:${canonical(obj[k])}`).join(",")}}`;
+    return `{${Object.keys(obj)
+      .sort()
+      .map((k) => `${JSON.stringify(k)}:${canonical(obj[k])}`)
+      .join(",")}}`;
   }
   return JSON.stringify(value);
 }

@@ -14,7 +14,10 @@ export const CHROMIUM_ARGS = [
 ] as const;
 
 export function launchChromium(): Promise<Browser> {
-  return chromium.launch({ executablePath: process.env.CHROMIUM_PATH ?? "/usr/bin/chromium", args: [...CHROMIUM_ARGS] });
+  return chromium.launch({
+    executablePath: process.env.CHROMIUM_PATH ?? "/usr/bin/chromium",
+    args: [...CHROMIUM_ARGS],
+  });
 }
 
 export interface PageProblems {
@@ -33,12 +36,20 @@ declare global {
 
 /** Starts recording problems on `page`; call before the first navigation. */
 export async function watchPage(page: Page, origin: string): Promise<PageProblems> {
-  const problems: PageProblems = { consoleErrors: [], pageErrors: [], cspViolations: [], failedRequests: [], foreignRequests: [] };
+  const problems: PageProblems = {
+    consoleErrors: [],
+    pageErrors: [],
+    cspViolations: [],
+    failedRequests: [],
+    foreignRequests: [],
+  };
   // Init scripts run outside the page's CSP, so recording violations does not itself need an inline script.
   await page.addInitScript(() => {
     window.__armdexCspViolations = [];
     document.addEventListener("securitypolicyviolation", (e) => {
-      window.__armdexCspViolations?.push(`${e.violatedDirective} blocked ${e.blockedURI || "inline"} (${e.sourceFile}:${e.lineNumber})`);
+      window.__armdexCspViolations?.push(
+        `${e.violatedDirective} blocked ${e.blockedURI || "inline"} (${e.sourceFile}:${e.lineNumber})`,
+      );
     });
   });
   page.on("console", (msg) => {
@@ -47,7 +58,8 @@ export async function watchPage(page: Page, origin: string): Promise<PageProblem
   page.on("pageerror", (err) => problems.pageErrors.push(err.message));
   page.on("request", (req) => {
     const url = req.url();
-    if (!url.startsWith(`${origin}/`) && !url.startsWith("data:") && !url.startsWith("about:")) problems.foreignRequests.push(url);
+    if (!url.startsWith(`${origin}/`) && !url.startsWith("data:") && !url.startsWith("about:"))
+      problems.foreignRequests.push(url);
   });
   // A request the page cancelled itself (net::ERR_ABORTED: a reload or navigation while the favicon was still on its
   // way) is not a breakage; a missing file shows as an HTTP status below, a refused one as another net error.

@@ -5,7 +5,18 @@
  */
 export function buildEnv(extra: Readonly<Record<string, string>> = {}): NodeJS.ProcessEnv {
   const env: NodeJS.ProcessEnv = { ...process.env, ...extra, ASTRO_TELEMETRY_DISABLED: "1" };
-  for (const key of ["BASE_URL", "MODE", "DEV", "PROD", "SSR", "TEST", "VITEST", "VITEST_MODE", "VITEST_POOL_ID", "VITEST_WORKER_ID"]) {
+  for (const key of [
+    "BASE_URL",
+    "MODE",
+    "DEV",
+    "PROD",
+    "SSR",
+    "TEST",
+    "VITEST",
+    "VITEST_MODE",
+    "VITEST_POOL_ID",
+    "VITEST_WORKER_ID",
+  ]) {
     delete env[key];
   }
   if (env.NODE_ENV === "test") delete env.NODE_ENV;

@@ -155,7 +155,9 @@ export function pdfPageTexts(pdf: Buffer): PdfPages {
     const fontDict = entry(resources, "Font") ?? "";
     const fontEntries = /^\d+ 0 R$/.test(fontDict) ? get(refs(fontDict)[0]!).dict : fontDict;
     for (const f of fontEntries.matchAll(/\/([\w.+-]+)\s+(\d+) 0 R/g)) fonts.set(f[1]!, Number(f[2]));
-    const contents = refs(entry(page, "Contents") ?? "").map((c) => get(c).stream?.toString("latin1") ?? "").join("\n");
+    const contents = refs(entry(page, "Contents") ?? "")
+      .map((c) => get(c).stream?.toString("latin1") ?? "")
+      .join("\n");
 
     const blocks: string[] = [];
     for (const bt of contents.matchAll(/\bBT\b([\s\S]*?)\bET\b/g)) {
@@ -163,7 +165,8 @@ export function pdfPageTexts(pdf: Buffer): PdfPages {
       let text = "";
       // A span with ActualText (Skia writes one around each ligature glyph) stands for its glyphs until EMC.
       let actual = false;
-      const ops = /\/Span\s*<<\s*\/ActualText\s*\(((?:\\.|[^\\)])*)\)\s*>>\s*BDC|\bEMC\b|\/([\w.+-]+)\s+[\d.]+\s+Tf|<([0-9A-Fa-f\s]*)>\s*Tj|\[([^\]]*)\]\s*TJ/g;
+      const ops =
+        /\/Span\s*<<\s*\/ActualText\s*\(((?:\\.|[^\\)])*)\)\s*>>\s*BDC|\bEMC\b|\/([\w.+-]+)\s+[\d.]+\s+Tf|<([0-9A-Fa-f\s]*)>\s*Tj|\[([^\]]*)\]\s*TJ/g;
       for (const op of bt[1]!.matchAll(ops)) {
         if (op[1] !== undefined) {
           text += op[1].replace(/\\(.)/g, "$1");

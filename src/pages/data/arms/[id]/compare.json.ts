@@ -9,5 +9,7 @@ export const getStaticPaths = armStaticPaths satisfies GetStaticPaths;
 
 export const GET: APIRoute = async ({ props }) => {
   const arm = (props as { arm: Arm }).arm;
-  return new Response(JSON.stringify(compareSummary(arm, await getAnalysis(arm))), { headers: { "content-type": "application/json" } });
+  return new Response(JSON.stringify(compareSummary(arm, await getAnalysis(arm))), {
+    headers: { "content-type": "application/json" },
+  });
 };
