@@ -14,7 +14,7 @@
 import { parseArgs } from "node:util";
 import { loadArms } from "../../src/catalog";
 import { fastKernel, baselineKernel } from "./kernel";
-import { mulberry32 } from "../../src/core/analysis/random";
+import { mulberry32 } from "../../src/core/math/random";
 import { workspaceEnvelope } from "../../src/core/analysis/envelope";
 import {
   createSpeedMapWorkspace,

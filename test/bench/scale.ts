@@ -12,7 +12,7 @@
 import { spawn } from "node:child_process";
 import { mkdirSync, readdirSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { join, resolve } from "node:path";
-import { mulberry32 } from "../../src/core/analysis/random";
+import { mulberry32 } from "../../src/core/math/random";
 import { median } from "./stats";
 
 type Json = Record<string, any>;

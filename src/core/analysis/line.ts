@@ -60,7 +60,7 @@ import { createIkScratch, solveIkInto, type IkOptions, type IkScratch } from "..
 import { fromXyzRpyInto } from "../math/mat4";
 import { mToMm, radToDeg } from "../units";
 import { branchCode, branchFrame, branchName, type BranchFrame } from "./branches";
-import { mulberry32 } from "./random";
+import { mulberry32 } from "../math/random";
 import {
   classifyNullVector,
   createSingularityScratch,

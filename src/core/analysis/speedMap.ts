@@ -33,7 +33,7 @@ import { createSpeedScratch, guaranteedLineSpeed, maxToolSpeed } from "./speed";
 import { createSingularityScratch, scaledInverseCondition, scaledSingularValues } from "./singularity";
 import { createSvdScratch, svdInto } from "../math/svd";
 import { branchCode, branchFrame, branchName, type BranchFrame } from "./branches";
-import { mulberry32 } from "./random";
+import { mulberry32 } from "../math/random";
 import { classifyNullVector, decoupledWristColumns, jointRoles } from "./singularity";
 import { traceSingularityLoci, type SingularityLocus } from "./loci";
 import { wristFlipOf, wristTwinInto } from "../kinematics/wristFlip";
