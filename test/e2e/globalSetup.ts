@@ -1,10 +1,12 @@
 /**
- * Builds the site once for all browser tests (the project's own `npm run build`: arm check, then astro build) and
- * serves dist/ on port 0 under ARMDEX_BASE. ARMDEX_E2E_SKIP_BUILD=1 reuses an existing dist/.
+ * Builds the site once for all browser tests (the project's own `npm run build`: arm check, then astro build) into a
+ * scratch folder under test-results/ with an empty analysis cache of its own, and serves it on port 0 under
+ * ARMDEX_BASE. The user's dist/ and analysis cache are never touched. ARMDEX_E2E_SITE=<folder> serves an existing
+ * build instead (no build).
  */
 import { spawnSync } from "node:child_process";
-import { existsSync } from "node:fs";
-import { join } from "node:path";
+import { existsSync, mkdirSync, rmSync } from "node:fs";
+import { join, resolve } from "node:path";
 import type { TestProject } from "vitest/node";
 import { serveStatic } from "./helpers/staticServer";
 import { buildEnv } from "./helpers/buildEnv";
@@ -21,13 +23,17 @@ declare module "vitest" {
 
 export default async function setup(project: TestProject): Promise<() => Promise<void>> {
   const root = project.config.root;
-  const distDir = join(root, "dist");
-  if (process.env.ARMDEX_E2E_SKIP_BUILD !== "1") {
+  // Inside the project, as dist/ is (Astro lays out a build outside the project differently).
+  const scratch = join(root, "test-results", `e2e-${process.pid}`);
+  const reuse = process.env.ARMDEX_E2E_SITE;
+  const distDir = reuse ? resolve(root, reuse) : join(scratch, "dist");
+  if (!reuse) {
+    mkdirSync(scratch, { recursive: true });
     const started = Date.now();
     const result = spawnSync("npm", ["run", "build"], {
       cwd: root,
       encoding: "utf8",
-      env: buildEnv(),
+      env: buildEnv({ ARMDEX_OUT_DIR: distDir, ARMDEX_CACHE_DIR: join(scratch, "cache") }),
       maxBuffer: 64 * 1024 * 1024,
     });
     if (result.status !== 0) {
@@ -37,12 +43,15 @@ export default async function setup(project: TestProject): Promise<() => Promise
     process.stdout.write(`[e2e] site built in ${((Date.now() - started) / 1000).toFixed(1)} s\n`);
   }
   if (!existsSync(join(distDir, "index.html"))) {
-    throw new Error(`no built site in ${distDir}: run \`npm run build\` or unset ARMDEX_E2E_SKIP_BUILD`);
+    throw new Error(`no built site in ${distDir}: build one or unset ARMDEX_E2E_SITE`);
   }
   const server = await serveStatic(distDir, process.env.ARMDEX_BASE ?? "/");
   project.provide("siteUrl", server.siteUrl);
   project.provide("origin", server.origin);
   project.provide("basePath", server.basePath);
   project.provide("distDir", distDir);
-  return () => server.close();
+  return async () => {
+    await server.close();
+    if (!reuse) rmSync(scratch, { recursive: true, force: true });
+  };
 }
