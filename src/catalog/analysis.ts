@@ -9,10 +9,12 @@
  */
 import { createHash } from "node:crypto";
 import { existsSync, readdirSync, readFileSync } from "node:fs";
-import { mkdir, readFile, rename, rm, writeFile } from "node:fs/promises";
+import { readFile } from "node:fs/promises";
+import { writeFileAtomic } from "./files";
+export { writeFileAtomic } from "./files";
 import { fileURLToPath } from "node:url";
-import { dirname, join, resolve } from "node:path";
-import { threadId, Worker } from "node:worker_threads";
+import { join, resolve } from "node:path";
+import { Worker } from "node:worker_threads";
 import { availableParallelism } from "node:os";
 import {
   ANALYSIS_VERSION,
@@ -150,19 +152,6 @@ function entryPath(arm: Pick<Arm, "specHash">, options: AnalysisOptions, suffix:
   return join(cacheDir(), `${analysisKey(arm, options)}${suffix}.json`);
 }
 
-/** Writes `text` to `path` atomically: a temporary file in the same folder, then one rename. */
-export async function writeFileAtomic(path: string, text: string): Promise<void> {
-  await mkdir(dirname(path), { recursive: true });
-  const tmp = `${path}.${process.pid}.${threadId}.${Math.floor(performance.now() * 1000)}.tmp`;
-  try {
-    await writeFile(tmp, text);
-    await rename(tmp, path);
-  } catch (e) {
-    await rm(tmp, { force: true });
-    throw e;
-  }
-}
-
 const belongsTo = (data: { specHash?: unknown; analysisVersion?: unknown } | null, arm: Pick<Arm, "specHash">) =>
   data !== null &&
   typeof data === "object" &&
@@ -296,7 +285,7 @@ export async function analyseCatalog(
           };
           worker.once("message", onMessage);
           worker.once("error", onError);
-          worker.postMessage({ file: resolve(arm.file) });
+          worker.postMessage({ arm });
         });
         if (!result.ok) throw new Error(`analysis of ${arm.id} (${arm.file}) failed: ${result.error}`);
         analysed.push({ id: arm.id, ms: result.ms });

@@ -1,16 +1,18 @@
-/** Worker thread: analyses one arm file per message and writes the cache entry. */
+/**
+ * Worker thread: analyses one arm per message and writes its cache entry. The message carries the arm as the main
+ * thread validated it (spec, compiled chain, spec hash: plain data and typed arrays, copied by structured clone), so
+ * a worker never reads or validates an arm file again.
+ */
 import { parentPort } from "node:worker_threads";
 import { analyseArm } from "../core/analysis/analyseArm";
-import { loadArmFile } from "./load";
+import type { Arm } from "./load";
 import { armFacts, writeCachedAnalysis } from "./analysis";
 
-parentPort?.on("message", async (msg: { file: string }) => {
+parentPort?.on("message", async (msg: { arm: Arm }) => {
   const t0 = performance.now();
   try {
-    const { arm, issues } = await loadArmFile(msg.file);
-    if (!arm) throw new Error(issues.map((i) => `${i.path}: ${i.message}`).join("; "));
-    const analysis = analyseArm(arm.chain, armFacts(arm));
-    await writeCachedAnalysis(arm, analysis);
+    const analysis = analyseArm(msg.arm.chain, armFacts(msg.arm));
+    await writeCachedAnalysis(msg.arm, analysis);
     parentPort?.postMessage({ ok: true, ms: performance.now() - t0 });
   } catch (e) {
     parentPort?.postMessage({

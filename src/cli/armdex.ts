@@ -7,9 +7,8 @@
  * Exit codes: 0 success, 1 invalid arm data, 2 usage error.
  */
 import { parseArgs } from "node:util";
-import { mkdir, rename, writeFile } from "node:fs/promises";
-import { dirname } from "node:path";
-import { armJsonSchema, formatIssue, loadArmFile, loadArms } from "../catalog";
+import { writeFileAtomic } from "../catalog/files";
+import { armJsonSchema, formatIssue, loadArmFile, loadArms, type LoadResult } from "../catalog";
 import { poseCommand } from "./pose";
 import { joinNegativeValues, lineCommand } from "./line";
 import { stringifyCompact } from "./json";
@@ -35,31 +34,54 @@ usage:
                                  orientation, feasible constant speed, bottleneck, singularities, branch changes
                                  (mm, deg, mm/s; r,p,y in deg, URDF fixed axes; start joints in deg or mm)
   armdex schema [out.json]       write the arm JSON Schema (default: public/schema/arm.schema.json)
+  armdex prepare [folder]        schema, check and analyze --all in one pass (each arm file read once): the
+                                 first step of \`npm run build\`
 `;
 
 async function check(paths: string[], json: boolean): Promise<number> {
-  const { arms, issues } = await loadArms(paths.length ? paths : [defaultArmsDir()]);
+  return reportCheck(await loadArms(paths.length ? paths : [defaultArmsDir()]), json);
+}
+
+/** Prints a load result as `armdex check` does; 1 when any file has an error. */
+function reportCheck({ arms, issues }: LoadResult, json: boolean): number {
   const errors = issues.filter((i) => i.severity === "error");
   const warnings = issues.filter((i) => i.severity === "warning");
   if (json) {
     process.stdout.write(`${JSON.stringify({ valid: arms.map((a) => a.id), errors, warnings }, null, 2)}\n`);
   } else {
     for (const i of issues) (i.severity === "error" ? process.stderr : process.stdout).write(`${formatIssue(i)}\n`);
-    const files = new Set(issues.map((i) => i.file)).size;
     process.stdout.write(
       `${arms.length} arm${arms.length === 1 ? "" : "s"} valid; ${errors.length} error${errors.length === 1 ? "" : "s"}` +
-        `${errors.length ? ` in ${new Set(errors.map((e) => e.file)).size} file(s)` : ""}, ${warnings.length} warning${warnings.length === 1 ? "" : "s"}${files ? "" : ""}\n`,
+        `${errors.length ? ` in ${new Set(errors.map((e) => e.file)).size} file(s)` : ""}, ${warnings.length} warning${warnings.length === 1 ? "" : "s"}\n`,
     );
   }
   return errors.length > 0 ? 1 : 0;
 }
 
-/** Writes a file atomically: a temporary file in the same folder, then rename. */
-export async function writeFileAtomic(path: string, content: string): Promise<void> {
-  await mkdir(dirname(path), { recursive: true });
-  const tmp = `${path}.${process.pid}.tmp`;
-  await writeFile(tmp, content);
-  await rename(tmp, path);
+/** Analyses every arm of a load result into the cache (parallel workers), printing the counts and the warnings. */
+async function analyseAll(arms: LoadResult["arms"], workers: number | undefined): Promise<number> {
+  const { analyseCatalog, getAnalysisSummary } = await import("../catalog/analysis");
+  const t0 = performance.now();
+  const report = await analyseCatalog(arms, { workers, log: (l) => process.stdout.write(`${l}\n`) });
+  process.stdout.write(
+    `${report.analysed.length} analysed, ${report.cached.length} from the cache, in ${((performance.now() - t0) / 1000).toFixed(1)} s\n`,
+  );
+  for (const arm of arms) {
+    for (const w of (await getAnalysisSummary(arm)).warnings)
+      process.stdout.write(`warning: ${arm.file}: ${w.message}\n`);
+  }
+  return 0;
+}
+
+/**
+ * `armdex prepare`: what the site build needs before Astro runs, with each arm file read and validated once:
+ * the JSON Schema, the check of every arm file (stops at the first error), the analyses (cached, in parallel).
+ */
+async function prepare(paths: string[], workers: number | undefined): Promise<number> {
+  const loaded = await loadArms(paths.length ? paths : [defaultArmsDir()]);
+  await schema(undefined);
+  if (reportCheck(loaded, false) !== 0) return 1;
+  return analyseAll(loaded.arms, workers);
 }
 
 async function schema(out: string | undefined): Promise<number> {
@@ -112,7 +134,7 @@ export async function main(argv: string[]): Promise<number> {
         allowPositionals: true,
         options: { all: { type: "boolean" }, workers: { type: "string" } },
       });
-      const { analyseCatalog, getAnalysis, getAnalysisSummary } = await import("../catalog/analysis");
+      const { getAnalysis } = await import("../catalog/analysis");
       if (values.all) {
         const { arms, issues } = await loadArms(positionals.length ? positionals : [defaultArmsDir()]);
         const errors = issues.filter((i) => i.severity === "error");
@@ -120,19 +142,7 @@ export async function main(argv: string[]): Promise<number> {
           for (const i of errors) process.stderr.write(`${formatIssue(i)}\n`);
           return 1;
         }
-        const t0 = performance.now();
-        const report = await analyseCatalog(arms, {
-          workers: values.workers ? Number(values.workers) : undefined,
-          log: (l) => process.stdout.write(`${l}\n`),
-        });
-        process.stdout.write(
-          `${report.analysed.length} analysed, ${report.cached.length} from the cache, in ${((performance.now() - t0) / 1000).toFixed(1)} s\n`,
-        );
-        for (const arm of arms) {
-          for (const w of (await getAnalysisSummary(arm)).warnings)
-            process.stdout.write(`warning: ${arm.file}: ${w.message}\n`);
-        }
-        return 0;
+        return analyseAll(arms, values.workers ? Number(values.workers) : undefined);
       }
       if (positionals.length !== 1) throw new UsageError("analyze needs one arm file, or --all");
       const loaded = await loadArmFile(positionals[0]!);
@@ -173,6 +183,14 @@ export async function main(argv: string[]): Promise<number> {
     }
     case "schema":
       return schema(rest[0]);
+    case "prepare": {
+      const { values, positionals } = parseArgs({
+        args: rest,
+        allowPositionals: true,
+        options: { workers: { type: "string" } },
+      });
+      return prepare(positionals, values.workers ? Number(values.workers) : undefined);
+    }
     default:
       throw new UsageError(`unknown command "${command}"`);
   }

@@ -1,5 +1,5 @@
 /**
- * `npm run build`: schema → check → analyse (cached, parallel) → astro build into a fresh temporary folder →
+ * `npm run build`: schema → check → analyse (cached, parallel; one process: `armdex prepare`) → astro build into a fresh temporary folder →
  * swap it in as dist/. A failed or interrupted build leaves the previous dist/ untouched: the new site appears in
  * one rename, or not at all. Invalid arm files stop the build before anything is written.
  */
@@ -87,7 +87,9 @@ async function main(): Promise<number> {
   const astro = resolve(root, "node_modules/.bin/astro");
   const cli = resolve(root, "src/cli/armdex.ts");
   await removeStaleFolders();
-  for (const step of [["schema"], ["check"], ["analyze", "--all"]]) {
+  // One process reads and validates each arm file once: schema, check, analyses (the Astro build reads them again in
+  // its own process).
+  for (const step of [["prepare"]]) {
     const t0 = performance.now();
     const code = await run(tsx, [cli, ...step]);
     stepTime(`armdex ${step.join(" ")}`, t0);

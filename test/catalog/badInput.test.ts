@@ -189,7 +189,7 @@ describe("the build on a catalog with one bad file (ARMDEX_ARMS_DIR)", () => {
     expect(stderr).toContain(
       "range-reversed.json: joints[1].rangeDeg: expected [min, max] with min < max (deg), found [140,-110]",
     );
-    expect(stderr).toContain('build stopped at "armdex check"');
+    expect(stderr).toContain('build stopped at "armdex prepare"');
     expect(await readdir(outDir)).toEqual(["index.html"]);
     expect(await readFile(join(outDir, "index.html"), "utf8")).toBe("previous site\n");
     // Nothing half-built beside it.
