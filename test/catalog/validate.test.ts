@@ -169,8 +169,94 @@ describe("loadArms", () => {
   });
 });
 
+/**
+ * A minimal JSON Schema (draft 2020-12) checker for the keywords the arm schema uses, written from the specification
+ * (json-schema.org, Validation and Core vocabularies), independent of zod and of its JSON Schema export. Returns the
+ * JSON paths that fail, "" for the root. Unknown keywords fail loudly so the checker never passes by ignoring them.
+ */
+function schemaErrors(schema: Record<string, any>, value: unknown, path = ""): string[] {
+  const known = new Set([
+    ...["$schema", "$id", "title", "description", "format", "type", "properties", "required"],
+    ...["additionalProperties", "propertyNames", "items", "prefixItems", "enum", "minItems", "maxItems"],
+    ...["minimum", "maximum", "exclusiveMinimum", "minLength", "maxLength", "pattern"],
+  ]);
+  const unknown = Object.keys(schema).filter((k) => !known.has(k));
+  if (unknown.length) throw new Error(`schemaErrors: unsupported keywords ${unknown.join(", ")} at ${path}`);
+  const out: string[] = [];
+  const at = (k: string | number) => (typeof k === "number" ? `${path}[${k}]` : path ? `${path}.${k}` : k);
+  const t = schema.type as string | undefined;
+  const isObject = typeof value === "object" && value !== null && !Array.isArray(value);
+  const typeOk =
+    t === undefined ||
+    (t === "object" && isObject) ||
+    (t === "array" && Array.isArray(value)) ||
+    (t === "string" && typeof value === "string") ||
+    (t === "number" && typeof value === "number" && Number.isFinite(value)) ||
+    (t === "integer" && Number.isInteger(value)) ||
+    (t === "boolean" && typeof value === "boolean");
+  if (!typeOk) return [path];
+  if (schema.enum && !(schema.enum as unknown[]).includes(value)) out.push(path);
+  if (typeof value === "number") {
+    if (schema.minimum !== undefined && value < schema.minimum) out.push(path);
+    if (schema.maximum !== undefined && value > schema.maximum) out.push(path);
+    if (schema.exclusiveMinimum !== undefined && value <= schema.exclusiveMinimum) out.push(path);
+  }
+  if (typeof value === "string") {
+    if (schema.minLength !== undefined && [...value].length < schema.minLength) out.push(path);
+    if (schema.maxLength !== undefined && [...value].length > schema.maxLength) out.push(path);
+    if (schema.pattern !== undefined && !new RegExp(schema.pattern, "u").test(value)) out.push(path);
+  }
+  if (Array.isArray(value)) {
+    if (schema.minItems !== undefined && value.length < schema.minItems) out.push(path);
+    if (schema.maxItems !== undefined && value.length > schema.maxItems) out.push(path);
+    const prefix = (schema.prefixItems ?? []) as Record<string, any>[];
+    value.forEach((v, i) => {
+      const s = i < prefix.length ? prefix[i] : schema.items;
+      if (s === false) out.push(at(i));
+      else if (s) out.push(...schemaErrors(s, v, at(i)));
+    });
+  }
+  if (isObject) {
+    const obj = value as Record<string, unknown>;
+    for (const k of (schema.required ?? []) as string[]) if (!(k in obj)) out.push(at(k));
+    for (const [k, v] of Object.entries(obj)) {
+      if (schema.propertyNames) out.push(...schemaErrors(schema.propertyNames, k, at(k)));
+      const s = schema.properties?.[k] ?? schema.additionalProperties;
+      if (s === false) out.push(at(k));
+      else if (s && s !== true) out.push(...schemaErrors(s, v, at(k)));
+    }
+  }
+  return out;
+}
+
 describe("armJsonSchema", () => {
-  it("is what public/schema/arm.schema.json holds (regenerate with `npx armdex schema`)", async () => {
+  it("the committed schema accepts every demo arm file and rejects schema-level defects at their JSON paths", async () => {
+    // Checked by the JSON Schema rules themselves (schemaErrors above), not against the generator's own output: a
+    // schema that lost a field, a constraint or a required entry in the export fails here.
+    const committed = JSON.parse(await readFile("public/schema/arm.schema.json", "utf8")) as Record<string, any>;
+    const { arms } = await loadArms(["arms"]);
+    expect(arms.length).toBeGreaterThanOrEqual(8);
+    for (const arm of arms) {
+      const data = JSON.parse(await readFile(arm.file, "utf8")) as unknown;
+      expect(schemaErrors(committed, data), arm.file).toEqual([]);
+    }
+    const rejected: [file: string, path: string][] = [
+      ["unknown-field-reach-m.json", "reachM"],
+      ["type-mass-string.json", "massKg"],
+      ["type-kind-unknown.json", "joints[2].kind"],
+      ["missing-id.json", "id"],
+      ["type-range-string.json", "joints[1].rangeDeg"],
+      ["type-mountings-string.json", "mountings"],
+      ["range-three-values.json", "joints[0].rangeDeg"],
+      ["negative-mass.json", "massKg"],
+    ];
+    for (const [file, path] of rejected) {
+      const data = JSON.parse(await readFile(`test/fixtures/bad-arms/${file}`, "utf8")) as unknown;
+      expect(schemaErrors(committed, data), file).toContain(path);
+    }
+  });
+
+  it("is what public/schema/arm.schema.json holds: a freshness check of the generated file (regenerate with `npx armdex schema`)", async () => {
     const committed = JSON.parse(await readFile("public/schema/arm.schema.json", "utf8"));
     expect(committed).toEqual(JSON.parse(JSON.stringify(armJsonSchema())));
   });

@@ -84,10 +84,48 @@ describe("lineRatesChart", () => {
     expect(elements(tall, "rect", "lr-gap")).toHaveLength(1);
   });
 
-  it("the node tree written as a string is the chart's SVG", () => {
+  it("svgNodeToString writes a hand-made tree as the SVG written out by hand (escaped text and attributes, nesting)", () => {
+    // Expected string written by hand from the XML rules (five specials escaped; no children: self-closing).
+    const tree: SvgNode = {
+      tag: "g",
+      attrs: { class: "a&b", "data-x": 1.234, hidden: false },
+      children: [
+        { tag: "path", attrs: { d: "M0,0L1,1" } },
+        { tag: "text", attrs: { x: 2 }, text: 'Arm <A> & "co"' },
+        { tag: "title", attrs: {}, text: "x < y" },
+      ],
+    };
+    expect(svgNodeToString(tree)).toBe(
+      '<g class="a&amp;b" data-x="1.23"><path d="M0,0L1,1"/><text x="2">Arm &lt;A&gt; &amp; &quot;co&quot;</text>' +
+        "<title>x &lt; y</title></g>",
+    );
+  });
+
+  it("the node tree the browser draws holds the chart's data unescaped: one path per joint, the title as typed", () => {
+    // The browser turns the tree into elements with d3's .text() / .attr() (which escape), so the tree itself must
+    // carry raw text; walked here without svgNodeToString.
     const node: SvgNode = lineRatesChartNode(input);
     expect(node.tag).toBe("svg");
-    expect(svgNodeToString(node)).toBe(svg);
+    const all: SvgNode[] = [];
+    const walk = (n: SvgNode) => {
+      all.push(n);
+      for (const c of n.children ?? []) walk(c);
+    };
+    walk(node);
+    const joints = all.filter(
+      (n) =>
+        n.tag === "path" &&
+        String(n.attrs.class ?? "")
+          .split(" ")
+          .includes("lr-joint"),
+    );
+    expect(joints.map((n) => n.attrs["data-joint"])).toEqual(["J1", "J2"]);
+    expect(all.some((n) => n.text === "Arm <A> & co: line")).toBe(true);
+    expect(all.some((n) => (n.text ?? "").includes("&amp;"))).toBe(false);
+    // J1's path through the tree has the five samples of the data, its peak (0.8) highest.
+    const j1 = pathPoints(String(joints[0]!.attrs.d));
+    expect(j1).toHaveLength(5);
+    expect(Math.min(...j1.map((p) => p[1]))).toBe(j1[2]![1]);
   });
 
   it("rejects what it cannot draw", () => {

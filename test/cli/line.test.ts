@@ -122,7 +122,7 @@ describe("armdex line (end to end, npx tsx src/cli/armdex.ts)", () => {
   it("exits 1 with the validation messages on an invalid arm file", async () => {
     const [, , invalid] = await runs;
     expect(invalid.code).toBe(1);
-    expect(invalid.stderr).toMatch(/massKg/);
+    expect(invalid.stderr).toContain("massKg: expected value > 0, found -1");
   });
 });
 
@@ -139,7 +139,9 @@ describe("lineCommand usage errors (pure)", async () => {
     ["samples not whole", { ...base, samples: "2.5" }, /--samples/],
     ["zero-length line", { ...base, to: base.from }, /same point/],
   ])("%s", (_, args, message) => {
-    expect(arm).toBeDefined();
+    // The arm file loads without errors (a null arm would pass toBeDefined, so check the issues).
+    expect(loaded.issues.filter((i) => i.severity === "error")).toEqual([]);
+    expect(arm).not.toBeNull();
     const r = lineCommand(arm, args);
     expect(r.ok).toBe(false);
     if (r.ok) return;

@@ -188,15 +188,43 @@ describe("armdex pose (end to end, npx tsx src/cli/armdex.ts)", () => {
   const cli = (args: string[]) =>
     run("npx", ["tsx", "src/cli/armdex.ts", "pose", file, ...args], { cwd: REPO, timeout: 60_000 });
 
-  it("prints the same JSON as poseCommand, and exits 1 outside the ranges without --allow-outside (0 with it)", async () => {
+  it("prints the pose of the mathjs DH product and the CHECKS C12/C13 speeds, and exits 1 outside the ranges without --allow-outside (0 with it)", async () => {
+    // The printed JSON is checked against the same outside references as poseCommand above (not against
+    // poseCommand itself): a CLI that misread the joints (radians, another order) or printed another arm fails here.
     const { stdout } = await cli(["--joints", Q_STAR_DEG.join(",")]);
     const printed = JSON.parse(stdout) as Record<string, any>;
-    const direct = pose(Q_STAR_DEG);
-    expect(Object.keys(printed)).toEqual(Object.keys(direct));
-    expect(printed.flange).toEqual(direct.flange);
-    expect(printed.jacobian).toEqual(direct.jacobian);
-    expect(printed.guaranteedLineSpeedMmPerS).toBe(direct.guaranteedLineSpeedMmPerS);
-    expect(printed.maxToolSpeedMmPerS).toBe(direct.maxToolSpeedMmPerS);
+    expect(printed.arm).toBe(ARM_ID);
+    const t = fkReference(Q_STAR);
+    expectClose(printed.flange.positionMm, [t[3]! * 1000, t[7]! * 1000, t[11]! * 1000], 1e-6, "printed positionMm");
+    expectClose(
+      (printed.flange.rotation as number[][]).flat(),
+      [t[0]!, t[1]!, t[2]!, t[4]!, t[5]!, t[6]!, t[8]!, t[9]!, t[10]!],
+      1e-11,
+      "printed rotation",
+    );
+    // CHECKS C11: central finite differences of the mathjs FK, h = 1e-6, 1e-7 abs.
+    expectClose(
+      (printed.jacobian as number[][]).flat(),
+      finiteDifferenceJacobian(fkReference, Q_STAR, 1e-6),
+      1e-7,
+      "printed J vs finite differences",
+    );
+    // CHECKS C13 with ml-matrix inverse, and C12 by the 64 sign vectors, on the finite-difference Jacobian.
+    const jFd = finiteDifferenceJacobian(fkReference, Q_STAR, 1e-6);
+    const a = inverse(Matrix.from1DArray(6, 6, Array.from(jFd))).subMatrix(0, 5, 0, 2);
+    let guaranteed = Infinity;
+    for (let i = 0; i < 6; i++)
+      guaranteed = Math.min(guaranteed, W[i]! / Math.hypot(a.get(i, 0), a.get(i, 1), a.get(i, 2)));
+    let best = 0;
+    for (let mask = 0; mask < 64; mask++) {
+      const v = [0, 1, 2].map((row) =>
+        W.reduce((sum, w, i) => sum + (mask & (1 << i) ? -1 : 1) * w * jFd[row * 6 + i]!, 0),
+      );
+      best = Math.max(best, Math.hypot(...v));
+    }
+    // The finite-difference Jacobian carries ~1e-9 relative error: 1e-6 relative on the speeds.
+    expectRelClose(printed.guaranteedLineSpeedMmPerS, guaranteed * 1000, 1e-6, "printed guaranteed speed");
+    expectRelClose(printed.maxToolSpeedMmPerS, best * 1000, 1e-6, "printed max tool speed");
     expect(printed.singularity.kind).toBe("none");
 
     const outside = ["--joints", [200, ...Q_STAR_DEG.slice(1)].join(",")];

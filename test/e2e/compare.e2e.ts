@@ -130,8 +130,13 @@ describe("side-by-side page", () => {
     // The payload chart: one curve per arm too, same line styles.
     expect(await page.$$eval("#compare-payload-chart path[data-arm]", (ps) => ps.length)).toBe(3);
     // Accessible name and description on both charts.
-    for (const id of ["compare-envelope-chart", "compare-payload-chart"]) {
-      expect(await page.getAttribute(`#${id}`, "aria-label")).toBeTruthy();
+    // The accessible name is the chart's title (src/charts/compareCharts.ts), not just any non-empty text.
+    const names: Record<string, RegExp> = {
+      "compare-envelope-chart": /^Reach envelopes, side view: \S/,
+      "compare-payload-chart": /^Payload at reach, CG offset [\d,]+ mm$/,
+    };
+    for (const [id, name] of Object.entries(names)) {
+      expect(await page.getAttribute(`#${id}`, "aria-label")).toMatch(name);
       expect((await page.textContent(`#${id}-desc`))?.length ?? 0).toBeGreaterThan(40);
     }
     await page.screenshot({ path: join(shotsDir, "compare-three.png"), fullPage: true });

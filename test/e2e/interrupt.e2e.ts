@@ -150,7 +150,8 @@ it("a complete build afterwards publishes the same analyses as a build that was 
     const ours = readFileSync(join(outDir, "data", "arms", `${id}.json`), "utf8");
     const suite = readFileSync(join(suiteDist, "data", "arms", `${id}.json`), "utf8");
     const hashOf = (text: string) => /"specHash":"([0-9a-f]{64})"/.exec(text)?.[1];
-    expect(hashOf(ours)).toBeDefined();
+    expect(hashOf(ours), `data/arms/${id}.json carries a spec hash`).toMatch(/^[0-9a-f]{64}$/);
+    expect(hashOf(suite), `the suite build's data/arms/${id}.json carries a spec hash`).toMatch(/^[0-9a-f]{64}$/);
     expect(ours.replace(hashOf(ours)!, hashOf(suite)!) === suite, `data/arms/${id}.json equals the suite build's`).toBe(
       true,
     );

@@ -28,7 +28,7 @@ beforeAll(async () => {
 });
 
 describe("runLineCheckForArms", () => {
-  it("checks every arm, in order, with the same figures as the build", () => {
+  it("checks every arm, in order, with the same figures as the build (the served JSON compiles to the catalog's chain)", () => {
     const q: LineQuery = {
       fromMm: [400, -200, 250],
       toMm: [450, 200, 200],
@@ -43,6 +43,27 @@ describe("runLineCheckForArms", () => {
       expect(o.result!.feasibleConstantSpeedMmPerS).toBe(direct.feasibleConstantSpeedMmPerS);
       expect(o.result!.bottleneck).toEqual(direct.bottleneck);
     });
+  });
+
+  it("gives the closed form q̇1max·d for a level tool-down line in front of the six-axis arm (outside reference)", () => {
+    // As in test/view/lineCheckModel.test.ts: corvell-tern-7 has no lateral offset, so at the point of the line
+    // nearest axis 1 the velocity is perpendicular to the radius and joint 1 turns at v / d; joint 1 binds there
+    // (CHECKS C13 along one direction). The browser module compiles the chain itself from the served JSON, so this
+    // checks that path against geometry, not only against the build's runLineQuery.
+    const dMm = 450;
+    const q: LineQuery = {
+      fromMm: [dMm, -300, 400],
+      toMm: [dMm, 300, 400],
+      orientation: { kind: "down" },
+      speedMmPerS: 500,
+    };
+    const [six] = runLineCheckForArms([specs[0]!], q);
+    expect(six!.error).toBeNull();
+    const j1RadPerS = arms[0]!.spec.joints[0]!.maxSpeedDegPerS! * (Math.PI / 180);
+    const feasible = six!.result!.feasibleConstantSpeedMmPerS!;
+    expect(Math.abs(feasible / (j1RadPerS * dMm) - 1)).toBeLessThan(1e-6);
+    expect(six!.result!.bottleneck?.joint).toBe("J1");
+    expect(Math.abs(six!.result!.bottleneck!.fraction - 0.5)).toBeLessThan(1e-6);
   });
 
   it("gives a SCARA a message for an orientation other than down, and still checks the others", () => {

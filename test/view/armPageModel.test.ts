@@ -86,18 +86,65 @@ describe("armPageModel with an analysis", () => {
 });
 
 describe("CSV downloads", () => {
-  it("payload.csv has one row per analysis row under a unit-named header", () => {
-    const lines = payloadCsv(analysis).trimEnd().split("\r\n");
-    expect(lines[0]).toBe(PAYLOAD_CSV_HEADER.join(","));
-    expect(lines).toHaveLength(analysis.payload.atReach.length + 1);
-    expect(lines[1]).toMatch(/^floor,\d/);
+  /** The file's records as header → cell maps (the demo arm's cells hold no commas or quotes). */
+  const records = (csv: string) => {
+    expect(csv.endsWith("\r\n")).toBe(true);
+    const [head, ...lines] = csv.trimEnd().split("\r\n");
+    const names = head!.split(",");
+    return lines.map((l) => {
+      const cells = l.split(",");
+      expect(cells).toHaveLength(names.length);
+      return Object.fromEntries(names.map((n, i) => [n, cells[i]!]));
+    });
+  };
+
+  it("payload.csv has one row per analysis row under a unit-named header, each holding that row's figures", () => {
+    const csv = payloadCsv(analysis);
+    expect(csv.split("\r\n")[0]).toBe(PAYLOAD_CSV_HEADER.join(","));
+    const rows = records(csv);
+    expect(rows).toHaveLength(analysis.payload.atReach.length);
+    expect(rows.length).toBeGreaterThan(0);
+    // Each cell against the analysis field its header names, in the header's unit, to the rounding the file uses
+    // (0.1 mm, 0.001 kg: half a unit of the last digit).
+    analysis.payload.atReach.forEach((r, i) => {
+      const row = rows[i]!;
+      expect(row.mounting).toBe(r.mounting);
+      expect(Math.abs(Number(row.reach_mm) - r.reachMm)).toBeLessThanOrEqual(0.05 + 1e-9);
+      expect(Math.abs(Number(row.cg_offset_mm) - r.offsetMm)).toBeLessThanOrEqual(0.05 + 1e-9);
+      expect(Math.abs(Number(row.payload_kg) - r.payloadKg)).toBeLessThanOrEqual(0.0005 + 1e-12);
+      expect(row.limited_by).toBe(r.limitedBy);
+      expect(row.limiting_joint).toBe(r.limitingJoint ?? "");
+      expect(row.basis).toBe(analysis.payload.basis);
+    });
   });
-  it("joints.csv has one row per joint with numeric ranges", () => {
-    const lines = jointsCsv(arm).trimEnd().split("\r\n");
-    expect(lines).toHaveLength(arm.spec.joints.length + 1);
-    expect(lines[1]).toMatch(/^J1,revolute,driven,,,-?\d/);
+
+  it("joints.csv has one row per joint with the file's ranges and speeds in the units it names", () => {
+    const rows = records(jointsCsv(arm));
+    expect(rows.map((r) => r.joint)).toEqual(arm.spec.joints.map((j) => j.name));
+    arm.spec.joints.forEach((j, i) => {
+      const row = rows[i]!;
+      expect(row.type).toBe(j.kind);
+      const prismatic = j.kind === "prismatic";
+      const range = prismatic ? j.rangeMm : j.rangeDeg;
+      if (!range) expectPassiveRow(row);
+      else {
+        expect(row.drive).toBe("driven");
+        expect([Number(row.range_min), Number(row.range_max)]).toEqual([range[0], range[1]]);
+        expect(row.range_unit).toBe(prismatic ? "mm" : "deg");
+        expect(Number(row.max_speed)).toBe(prismatic ? j.maxSpeedMmPerS : j.maxSpeedDegPerS);
+        expect(row.speed_unit).toBe(prismatic ? "mm/s" : "deg/s");
+      }
+    });
+    // The SCARA's third joint is its vertical stroke, in millimetres.
+    expect(rows.some((r) => r.type === "prismatic" && r.range_unit === "mm")).toBe(true);
   });
 });
+
+/** A joint without a range of its own (passive) has empty limit cells. */
+function expectPassiveRow(row: Record<string, string>): void {
+  expect(row.drive).toBe("passive");
+  expect([row.range_min, row.range_max, row.max_speed]).toEqual(["", "", ""]);
+}
 
 describe("catalogPageModel with analyses", () => {
   it("adds the computed columns and keeps the declared ones", () => {

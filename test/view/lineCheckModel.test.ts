@@ -159,7 +159,11 @@ describe("lineFigures / lineRatesChartInput", () => {
     };
     const r = runLineQuery(arm.chain, arm.spec.mountings, q);
     const f = lineFigures(r);
-    expect(f.feasibleText).toBe("1,963\u00a0mm/s");
+    // The closed form of runLineQuery's test above: q̇1max·d with d = 450 mm, shown in whole mm/s with a thousands
+    // separator (the figure is within 1e-6 of it, far from a rounding edge).
+    const closedFormMmPerS = arm.spec.joints[0]!.maxSpeedDegPerS! * (Math.PI / 180) * 450;
+    expect(f.feasibleText).toBe(`${Math.round(closedFormMmPerS).toLocaleString("en-US")}\u00a0mm/s`);
+    expect(f.feasibleMmPerS).toBeCloseTo(closedFormMmPerS, 2);
     expect(f.commandedFeasible).toBe(true);
     expect(f.bottleneckText).toMatch(/^J1 at 300\u00a0mm from the start \(50 % along\)/);
     expect(f.problems).toEqual([]);
