@@ -25,6 +25,7 @@ import {
   type ArmFacts,
 } from "../core/analysis/analyseArm";
 import type { Arm } from "./load";
+import { analysisSummarySchema, armAnalysisSchema } from "./analysisSchema";
 
 export function cacheDir(): string {
   return resolve(process.env.ARMDEX_CACHE_DIR ?? "node_modules/.cache/armdex-analyses");
@@ -124,6 +125,7 @@ export interface AnalysisSummary {
 
 /** The summary of an analysis: a projection, every value as the analysis has it. */
 export function summariseAnalysis(a: ArmAnalysis): AnalysisSummary {
+  // Every key listed: the summary schema is strict, so a summary never carries more than the pages read.
   return {
     id: a.id,
     specHash: a.specHash,
@@ -178,8 +180,8 @@ export async function readCachedAnalysis(
   options: AnalysisOptions = DEFAULT_ANALYSIS,
 ): Promise<ArmAnalysis | null> {
   try {
-    const data = JSON.parse(await readFile(entryPath(arm, options, ""), "utf8")) as ArmAnalysis;
-    return belongsTo(data, arm) ? data : null;
+    const parsed = armAnalysisSchema.safeParse(JSON.parse(await readFile(entryPath(arm, options, ""), "utf8")));
+    return parsed.success && belongsTo(parsed.data, arm) ? parsed.data : null;
   } catch {
     return null;
   }
@@ -191,8 +193,10 @@ export async function readCachedSummary(
   options: AnalysisOptions = DEFAULT_ANALYSIS,
 ): Promise<AnalysisSummary | null> {
   try {
-    const data = JSON.parse(await readFile(entryPath(arm, options, ".summary"), "utf8")) as AnalysisSummary;
-    return belongsTo(data, arm) ? data : null;
+    const parsed = analysisSummarySchema.safeParse(
+      JSON.parse(await readFile(entryPath(arm, options, ".summary"), "utf8")),
+    );
+    return parsed.success && belongsTo(parsed.data, arm) ? parsed.data : null;
   } catch {
     return null;
   }
@@ -221,7 +225,7 @@ export async function getAnalysisSummary(
   const analysis = await getAnalysis(arm, options);
   const text = JSON.stringify(summariseAnalysis(analysis));
   await writeFileAtomic(entryPath(arm, options, ".summary"), text);
-  return JSON.parse(text) as AnalysisSummary;
+  return analysisSummarySchema.parse(JSON.parse(text));
 }
 
 /** The analysis of one arm: from the cache, or computed here (and cached). */
@@ -230,7 +234,8 @@ export async function getAnalysis(arm: Arm, options: AnalysisOptions = DEFAULT_A
   if (cached) return cached;
   const analysis = analyseArm(arm.chain, armFacts(arm), options);
   await writeCachedAnalysis(arm, analysis, options);
-  return JSON.parse(JSON.stringify(analysis)) as ArmAnalysis;
+  // As a reader of the cache would see it (JSON numbers, no typed arrays), and checked against the contract.
+  return armAnalysisSchema.parse(JSON.parse(JSON.stringify(analysis)));
 }
 
 async function summaryFromAnalysis(arm: Arm): Promise<boolean> {

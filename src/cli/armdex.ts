@@ -8,6 +8,7 @@
  */
 import { parseArgs } from "node:util";
 import { writeFileAtomic } from "../catalog/files";
+import { analysisWarningText } from "../view/warningText";
 import { armJsonSchema, formatIssue, loadArmFile, loadArms, type LoadResult } from "../catalog";
 import { poseCommand } from "./pose";
 import { joinNegativeValues, lineCommand } from "./line";
@@ -68,7 +69,7 @@ async function analyseAll(arms: LoadResult["arms"], workers: number | undefined)
   );
   for (const arm of arms) {
     for (const w of (await getAnalysisSummary(arm)).warnings)
-      process.stdout.write(`warning: ${arm.file}: ${w.message}\n`);
+      process.stdout.write(`warning: ${arm.file}: ${analysisWarningText(w)}\n`);
   }
   return 0;
 }

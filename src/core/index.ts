@@ -9,3 +9,7 @@ export * from "./kinematics/pose";
 export * from "./analysis/envelope";
 export * from "./analysis/speed";
 export * from "./analysis/singularity";
+export * from "./analysis/warnings";
+export type { CycleFailure } from "./analysis/cycle";
+export type { PayloadAnalysis } from "./analysis/payload";
+export type { AnalysisOptions, ArmAnalysis } from "./analysis/armAnalysis";

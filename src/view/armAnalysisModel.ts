@@ -20,6 +20,7 @@ import { armDataPaths } from "./armCsv";
 import { formatNumber, formatQuantity, NOT_STATED } from "./format";
 import { MOUNTING_LABEL } from "./labels";
 import { siteHref } from "./links";
+import { analysisWarningText, cycleFailureText } from "./warningText";
 import type { TableCell, TableModel, TableRow } from "./table";
 
 /** Largest relative difference between stated and computed reach before the sheet flags it. */
@@ -520,7 +521,7 @@ function cycleSection(a: ArmAnalysis, name: string): ArmAnalysisModel["cycle"] {
     : null;
   const valueText = computed
     ? `${formatQuantity(c.standardCycleS!, "s", 2)} per cycle, set by ${c.limitingJoint ?? "\u2014"}${where ? `; ${where}` : ""}.`
-    : `Not computed: ${c.reason ?? "no reason given"}.`;
+    : `Not computed: ${c.failure ? cycleFailureText(c.failure, c.location ? Math.round(c.location.rMm) : null) : "no reason given"}.`;
   const chart = computed
     ? cycleChart({ id: "cycle-moves", armName: name, moves: c.moves, totalS: c.standardCycleS! })
     : null;
@@ -549,7 +550,7 @@ function cycleSection(a: ArmAnalysis, name: string): ArmAnalysisModel["cycle"] {
     chart,
     table,
     assumptions: c.assumptions.map(sentence),
-    reason: computed ? null : (c.reason ?? null),
+    reason: computed || !c.failure ? null : cycleFailureText(c.failure, c.location ? Math.round(c.location.rMm) : null),
   };
 }
 
@@ -607,7 +608,12 @@ export function armAnalysisModel(
         analysis.cycle.standardCycleS === null ? "not computed" : formatQuantity(analysis.cycle.standardCycleS, "s", 2),
       note:
         analysis.cycle.standardCycleS === null
-          ? (analysis.cycle.reason ?? "")
+          ? analysis.cycle.failure
+            ? cycleFailureText(
+                analysis.cycle.failure,
+                analysis.cycle.location ? Math.round(analysis.cycle.location.rMm) : null,
+              )
+            : ""
           : `up 25 mm, across 300 mm, down and back; set by ${analysis.cycle.limitingJoint ?? "\u2014"}; no blending`,
       flag: false,
       href: "#cycle",
@@ -648,7 +654,7 @@ export function armAnalysisModel(
   ];
   return {
     summary,
-    warnings: analysis.warnings.map((w) => ({ code: w.code, text: sentence(w.message) })),
+    warnings: analysis.warnings.map((w) => ({ code: w.code, text: sentence(analysisWarningText(w)) })),
     envelope: envelopeSection(arm, analysis, name),
     speed: speedSection(analysis, name, layout),
     singularities: singularitySection(analysis, name, layout),

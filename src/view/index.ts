@@ -12,3 +12,4 @@ export * from "./armAnalysisModel";
 export * from "./armCsv";
 export * from "./csv";
 export * from "./siteModel";
+export * from "./warningText";

@@ -4,7 +4,7 @@
  * by it.
  */
 import type { Chain } from "../kinematics/chain";
-import { mToMm } from "../units";
+import { mToMm, STANDARD_GRAVITY_M_PER_S2 } from "../units";
 import {
   createSpeedMapWorkspace,
   DEFAULT_SPEED_MAP,
@@ -15,7 +15,15 @@ import {
   type ToolSpeedMap,
 } from "./speedMap";
 import { gravityDirectionInBase, type Mounting } from "./mounting";
-import { analysePayload, payloadInputOf, type PayloadAnalysisOptions, type PayloadSpec } from "./payload";
+import {
+  analysePayload,
+  payloadInputOf,
+  type PayloadAnalysisOptions,
+  type PayloadSpec,
+  type PayloadWarning,
+} from "./payload";
+import type { AnalysisOptions, ArmAnalysis, PointEnvelopeJson, SpeedMapJson } from "./armAnalysis";
+import { reachWarning, repeatabilityWarning, type AnalysisWarning, type PayloadAboveWristRating } from "./warnings";
 import { standardCycle } from "./cycle";
 import {
   DEFAULT_ENVELOPE_OPTIONS,
@@ -37,23 +45,32 @@ export interface ArmFacts extends PayloadSpec {
   readonly mountings: readonly Mounting[];
 }
 
-export interface AnalysisOptions {
-  readonly mapStepMm: number;
-  readonly seed: number;
-  /** Overrides of the envelope options (a coarser envelope for property tests); absent from published analyses. */
-  readonly envelope?: Partial<EnvelopeOptions> | undefined;
-  /** Overrides of the payload options (a coarser posture search for property tests); absent from published analyses. */
-  readonly payload?: Partial<PayloadAnalysisOptions> | undefined;
-}
+export type { AnalysisOptions } from "./armAnalysis";
 
 export const DEFAULT_ANALYSIS: AnalysisOptions = { mapStepMm: 10, seed: 20261202 };
 
 /** Share thresholds of the guaranteed straight-line speed, m/s (the JSON keys). */
 export const SPEED_SHARE_THRESHOLDS_M_PER_S = ["0.5", "1", "2"] as const;
 
-export interface AnalysisWarning {
-  readonly code: string;
-  readonly message: string;
+export type { AnalysisWarning } from "./warnings";
+
+/** A payload plausibility warning as codes and numbers; the lever follows from the rating and the allowed mass. */
+function payloadWarning(w: PayloadWarning, facts: ArmFacts): PayloadAboveWristRating {
+  const kind = w.code === "rated-payload-beyond-wrist-moment" ? "moment" : "inertia";
+  const rating =
+    kind === "moment" ? (facts.wrist?.momentNm?.[w.joint] ?? NaN) : (facts.wrist?.inertiaKgM2?.[w.joint] ?? NaN);
+  // M = m·g·L and J = m·L² at the allowed mass m (payload.ts payloadWarnings).
+  const leverM =
+    kind === "moment" ? rating / (STANDARD_GRAVITY_M_PER_S2 * w.allowedKg) : Math.sqrt(rating / w.allowedKg);
+  return {
+    code: "payload-above-wrist-rating",
+    kind,
+    joint: w.joint,
+    ratedPayloadKg: w.ratedPayloadKg,
+    allowedKg: Math.round(w.allowedKg * 1000) / 1000,
+    rating,
+    leverMm: Math.round(leverM * 10000) / 10,
+  };
 }
 
 const round = (x: number, decimals: number) => (Number.isFinite(x) ? Number(x.toFixed(decimals)) + 0 : null);
@@ -78,7 +95,7 @@ function shareAtLeast(map: ToolSpeedMap): Record<string, number> {
 /** Largest number of columns a map keeps in the JSON output (the figures use the full grid). */
 export const MAX_OUTPUT_COLUMNS = 160;
 
-function mapJson(map: ToolSpeedMap) {
+function mapJson(map: ToolSpeedMap): SpeedMapJson {
   let maxG = 0,
     maxV = 0;
   for (let i = 0; i < map.guaranteedMmPerS.length; i++) {
@@ -117,7 +134,7 @@ function mapJson(map: ToolSpeedMap) {
  * Runs every analysis of one arm.
  * @returns plain data, serialisable as it stands; numbers rounded to the resolution the figures carry
  */
-export function analyseArm(chain: Chain, facts: ArmFacts, options: AnalysisOptions = DEFAULT_ANALYSIS) {
+export function analyseArm(chain: Chain, facts: ArmFacts, options: AnalysisOptions = DEFAULT_ANALYSIS): ArmAnalysis {
   const warnings: AnalysisWarning[] = [];
   const primary: Mounting = facts.mountings[0] ?? "floor";
   const gravity = gravityDirectionInBase(primary);
@@ -153,35 +170,33 @@ export function analyseArm(chain: Chain, facts: ArmFacts, options: AnalysisOptio
     map.loci.map((l) => ({
       kind: l.kind,
       orientation: map.orientation,
-      polylinesMm: l.polylinesMm.map((p) => p.map(([r, z]) => [round(r, 1), round(z, 1)])),
+      polylinesMm: l.polylinesMm.map((p) =>
+        p.map(([r, z]): [number | null, number | null] => [round(r, 1), round(z, 1)]),
+      ),
     })),
   );
 
   // 4. Payload.
   const payload = analysePayload(chain, payloadInputOf(facts, chain), options.payload ?? {});
-  for (const w of payload.warnings) warnings.push({ code: "payload-above-wrist-rating", message: w.message });
+  for (const w of payload.warnings) warnings.push(payloadWarning(w, facts));
 
   // 5. Cycle: at 60 % of the flange reach, at the height of the best guaranteed speed in the "down" map there.
   const cycle = cycleAt(chain, down, facts, gravity);
 
   // 6. Warnings.
   const computedReachMm = wcp ? wcp.maxReachMm : flange.maxReachMm;
-  if (facts.reachMm !== undefined && computedReachMm > 0) {
-    const deviation = facts.reachMm / computedReachMm - 1;
-    if (Math.abs(deviation) > 0.02) {
-      warnings.push({
-        code: "stated-reach-mismatch",
-        message: `stated reach ${facts.reachMm} mm differs from the computed ${wcp ? "wrist-centre" : "flange"} reach ${Math.round(computedReachMm)} mm by ${(deviation * 100).toFixed(1)} % (more than 2 %)${Math.abs(facts.reachMm / computedReachMm - 1000) < 100 || Math.abs((facts.reachMm * 1000) / computedReachMm - 1) < 0.1 ? "; check the units (metres typed as millimetres?)" : ""}`,
-      });
-    }
-  }
-  if (facts.repeatabilityMm < 0.005 || facts.repeatabilityMm > 2) {
+  const reachIssue =
+    facts.reachMm === undefined ? null : reachWarning(facts.reachMm, computedReachMm, wcp ? "wrist centre" : "flange");
+  if (reachIssue) warnings.push(reachIssue);
+  const repeatabilityIssue = repeatabilityWarning(facts.repeatabilityMm);
+  if (repeatabilityIssue) warnings.push(repeatabilityIssue);
+  if (cycle.failure)
     warnings.push({
-      code: "repeatability-implausible",
-      message: `declared repeatability ${facts.repeatabilityMm} mm is outside the usual 0.005–2 mm (common practice, no source)`,
+      code: "cycle-not-computed",
+      reason: cycle.failure.reason,
+      point: cycle.failure.point,
+      rMm: cycle.location ? Math.round(cycle.location.rMm) : null,
     });
-  }
-  if (cycle.reason) warnings.push({ code: "cycle-not-computed", message: cycle.reason });
 
   return {
     id: facts.id,
@@ -232,10 +247,10 @@ export function analyseArm(chain: Chain, facts: ArmFacts, options: AnalysisOptio
   };
 }
 
-export type ArmAnalysis = ReturnType<typeof analyseArm>;
+export type { ArmAnalysis } from "./armAnalysis";
 
 /** A point envelope for the JSON: polygons rounded to 0.1 mm, `areaM2` = the side-view area (the contract name). */
-function pointEnvelopeJson(e: PointEnvelope) {
+function pointEnvelopeJson(e: PointEnvelope): PointEnvelopeJson {
   const r1 = (x: number) => Number(x.toFixed(1)) + 0;
   const ring = (r: readonly (readonly [number, number])[]): [number, number][] => r.map((p) => [r1(p[0]), r1(p[1])]);
   const roundRings = (polygons: readonly PolygonMm[]) =>
@@ -344,7 +359,7 @@ function cycleAt(chain: Chain, down: ToolSpeedMap, facts: ArmFacts, gravity: rea
       location: null,
       moves: [],
       assumptions: [],
-      reason: "no location with the tool pointing down was found for the cycle",
+      failure: { reason: "no-location", point: null },
     }
   );
 }

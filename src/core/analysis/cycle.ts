@@ -46,7 +46,14 @@ export interface CycleResult {
     readonly limitingJoint: string;
   }[];
   readonly assumptions: readonly string[];
-  readonly reason?: string;
+  /** Why there is no cycle time (absent when there is one). */
+  readonly failure?: CycleFailure;
+}
+
+/** start-unreachable: the start point at the location's reach; point-unreachable: the named cycle point. */
+export interface CycleFailure {
+  readonly reason: "start-unreachable" | "point-unreachable" | "no-location";
+  readonly point: string | null;
 }
 
 export interface CycleOptions {
@@ -87,15 +94,13 @@ export function standardCycle(
   for (let s = 1; s <= steps; s++) {
     targetPose((points[0]!.lat * s) / steps, location.rMm, location.zMm, 0, target);
     const next = new Float64Array(m);
-    if (!solveIkInto(next, chain, target, q, ik))
-      return failed(`the cycle start at ${Math.round(location.rMm)} mm reach cannot be reached with the tool down`);
+    if (!solveIkInto(next, chain, target, q, ik)) return failed({ reason: "start-unreachable", point: null });
     q = next;
   }
   for (const p of points) {
     targetPose(p.lat, location.rMm, location.zMm, p.dz, target);
     const next = new Float64Array(m);
-    if (!solveIkInto(next, chain, target, q, ik))
-      return failed(`point ${p.name} of the cycle cannot be reached with the tool down`);
+    if (!solveIkInto(next, chain, target, q, ik)) return failed({ reason: "point-unreachable", point: p.name });
     solutions.push(next);
     q = next;
   }
@@ -140,8 +145,8 @@ export function standardCycle(
     assumptions: ASSUMPTIONS(chain),
   };
 
-  function failed(reason: string): CycleResult {
-    return { standardCycleS: null, limitingJoint: null, location, moves: [], assumptions: ASSUMPTIONS(chain), reason };
+  function failed(failure: CycleFailure): CycleResult {
+    return { standardCycleS: null, limitingJoint: null, location, moves: [], assumptions: ASSUMPTIONS(chain), failure };
   }
 }
 

@@ -124,7 +124,7 @@ describe("standardCycle on a Cartesian gantry (every move is a single-joint move
       acrossMm: 300,
       jointNames: names,
     });
-    expect(r.reason).toBeUndefined();
+    expect(r.failure).toBeUndefined();
     expectClose(r.standardCycleS ?? Number.NaN, 0.7828427, 1e-6, "cycle time");
     expectClose(
       r.standardCycleS ?? Number.NaN,
@@ -173,6 +173,6 @@ describe("standardCycle on a Cartesian gantry (every move is a single-joint move
     });
     expect(r.standardCycleS).toBeNull();
     expect(r.limitingJoint).toBeNull();
-    expect(r.reason ?? "").toMatch(/cannot be reached/);
+    expect(r.failure?.reason).toMatch(/^(start|point)-unreachable$/);
   });
 });
