@@ -7,5 +7,5 @@ export * from "./kinematics/compile";
 export * from "./kinematics/forward";
 export * from "./kinematics/pose";
 export * from "./analysis/envelope";
-export * from "./analysis/speed";
-export * from "./analysis/singularity";
+export * from "./measures/speed";
+export * from "./measures/singularity";
