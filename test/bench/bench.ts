@@ -21,7 +21,7 @@ import {
   referenceOrientations,
   toolSpeedMap,
   DEFAULT_SPEED_MAP,
-} from "../../src/core/analysis/speedMap";
+} from "../../src/core/analysis/speedMap/speedMap";
 import { payloadAtReach, payloadInputOf, loadDiagram } from "../../src/core/analysis/payload";
 import { analyseArm, MAX_OUTPUT_COLUMNS } from "../../src/core/analysis/analyseArm";
 import { gravityDirectionInBase } from "../../src/core/analysis/mounting";

@@ -6,8 +6,8 @@
 import { Matrix, SingularValueDecomposition, inverse } from "ml-matrix";
 import type { Chain } from "../../src/core";
 import { createScratch, forwardInto, jacobianInto } from "../../src/core";
-import { createSpeedScratch, guaranteedLineSpeed, maxToolSpeed } from "../../src/core/analysis/speed";
-import { createSingularityScratch, scaledInverseCondition } from "../../src/core/analysis/singularity";
+import { createSpeedScratch, guaranteedLineSpeed, maxToolSpeed } from "../../src/core/measures/speed";
+import { createSingularityScratch, scaledInverseCondition } from "../../src/core/measures/singularity";
 
 export function fastKernel(chain: Chain) {
   const m = chain.drivenCount,

@@ -10,7 +10,7 @@ import type { Arm } from "../../src/catalog/load";
 import { analyseArm, type AnalysisOptions, type ArmAnalysis } from "../../src/core/analysis/analyseArm";
 import type { Chain } from "../../src/core/kinematics/chain";
 import { createScratch, forwardInto, jacobianInto, wristCentreInto } from "../../src/core/kinematics/forward";
-import { createSpeedScratch, guaranteedLineSpeed, maxToolSpeed } from "../../src/core/analysis/speed";
+import { createSpeedScratch, guaranteedLineSpeed, maxToolSpeed } from "../../src/core/measures/speed";
 import { mulberry32 } from "../helpers/prng";
 
 /** Reduced resolution so one arm takes well under a second or two on one core (published analyses use the defaults). */

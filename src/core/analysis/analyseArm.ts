@@ -13,7 +13,7 @@ import {
   type ReferenceOrientation,
   type SpeedMapOptions,
   type ToolSpeedMap,
-} from "./speedMap";
+} from "./speedMap/speedMap";
 import { gravityDirectionInBase, type Mounting } from "./mounting";
 import {
   analysePayload,

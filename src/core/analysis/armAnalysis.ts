@@ -9,7 +9,7 @@
 import type { EnvelopeLayout, EnvelopeOptions, PointEnvelope, Axis1 } from "./envelope";
 import type { PayloadAnalysis, PayloadAnalysisOptions } from "./payload";
 import type { CycleResult } from "./cycle";
-import type { ReferenceOrientation } from "./speedMap";
+import type { ReferenceOrientation } from "./speedMap/speedMap";
 import type { AnalysisWarning } from "./warnings";
 
 /** What an analysis ran with; published analyses use DEFAULT_ANALYSIS (analyseArm.ts). */

@@ -59,7 +59,7 @@ import {
 import { createIkScratch, solveIkInto, type IkOptions, type IkScratch } from "../kinematics/inverse";
 import { fromXyzRpyInto } from "../math/mat4";
 import { mToMm, radToDeg } from "../units";
-import { branchCode, branchFrame, branchName, type BranchFrame } from "./branches";
+import { branchCode, branchFrame, branchName, type BranchFrame } from "../measures/branches";
 import { mulberry32 } from "../math/random";
 import {
   classifyNullVector,
@@ -70,8 +70,8 @@ import {
   type JointRoles,
   type SingularityKind,
   type SingularityScratch,
-} from "./singularity";
-import { createSpeedScratch, lineRatesInto, type SpeedScratch } from "./speed";
+} from "../measures/singularity";
+import { createSpeedScratch, lineRatesInto, type SpeedScratch } from "../measures/speed";
 
 // ---------------------------------------------------------------------------------------------------------------
 // Input, options, result

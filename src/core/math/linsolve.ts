@@ -1,10 +1,11 @@
 /**
- * Solves a·x = b in place for one right-hand side (a: n × n row-major, overwritten; x: b on entry, the solution on
- * return) by Gaussian elimination with partial pivoting. Returns false when a pivot is not above
- * max(relTol × the largest |entry|, 1e-300). Allocates nothing.
+ * Solves a·x = b in place for `rhs` right-hand sides (a: n × n row-major, overwritten; x: n × rhs row-major, b on
+ * entry, the solution on return) by Gaussian elimination with partial pivoting. Returns false when a pivot is not
+ * above max(relTol × the largest |entry|, 1e-300). Allocates nothing.
  * @see Golub & Van Loan, Matrix Computations, 4th ed., §3.4 (partial pivoting) [from memory]
+ * @example solveInPlace(Float64Array.of(2, 1, 1, 3), Float64Array.of(3, 5), 2) // x = (0.8, 1.4)
  */
-export function solveInPlace(a: Float64Array, x: Float64Array, n: number, relTol = 0): boolean {
+export function solveInPlace(a: Float64Array, x: Float64Array, n: number, relTol = 0, rhs = 1): boolean {
   let scale = 0;
   for (let i = 0; i < n * n; i++) scale = Math.max(scale, Math.abs(a[i]!));
   if (!(scale > 0)) return false;
@@ -26,22 +27,27 @@ export function solveInPlace(a: Float64Array, x: Float64Array, n: number, relTol
         a[c * n + k] = a[p * n + k]!;
         a[p * n + k] = t;
       }
-      const t = x[c]!;
-      x[c] = x[p]!;
-      x[p] = t;
+      for (let j = 0; j < rhs; j++) {
+        const t = x[c * rhs + j]!;
+        x[c * rhs + j] = x[p * rhs + j]!;
+        x[p * rhs + j] = t;
+      }
     }
     const piv = a[c * n + c]!;
     for (let r = c + 1; r < n; r++) {
       const f = a[r * n + c]! / piv;
       if (f === 0) continue;
       for (let k = c; k < n; k++) a[r * n + k] = a[r * n + k]! - f * a[c * n + k]!;
-      x[r] = x[r]! - f * x[c]!;
+      for (let j = 0; j < rhs; j++) x[r * rhs + j] = x[r * rhs + j]! - f * x[c * rhs + j]!;
     }
   }
   for (let c = n - 1; c >= 0; c--) {
-    let v = x[c]!;
-    for (let r = c + 1; r < n; r++) v -= a[c * n + r]! * x[r]!;
-    x[c] = v / a[c * n + c]!;
+    const piv = a[c * n + c]!;
+    for (let j = 0; j < rhs; j++) {
+      let v = x[c * rhs + j]!;
+      for (let r = c + 1; r < n; r++) v -= a[c * n + r]! * x[r * rhs + j]!;
+      x[c * rhs + j] = v / piv;
+    }
   }
   return true;
 }
@@ -78,4 +84,39 @@ export function choleskySolveInPlace(a: Float64Array, x: Float64Array, n: number
     x[i] = v / a[i * n + i]!;
   }
   return true;
+}
+
+/**
+ * Determinant of a k × k row-major matrix in `work` (overwritten) by LU with partial pivoting.
+ * @see Golub & Van Loan, Matrix Computations, 4th ed., §3.2 (LU factorization) [from memory]
+ */
+export function determinantInPlace(work: Float64Array, k: number): number {
+  let det = 1;
+  for (let c = 0; c < k; c++) {
+    let p = c,
+      best = Math.abs(work[c * k + c]!);
+    for (let r = c + 1; r < k; r++) {
+      const v = Math.abs(work[r * k + c]!);
+      if (v > best) {
+        best = v;
+        p = r;
+      }
+    }
+    if (best === 0) return 0;
+    if (p !== c) {
+      det = -det;
+      for (let i = 0; i < k; i++) {
+        const t = work[c * k + i]!;
+        work[c * k + i] = work[p * k + i]!;
+        work[p * k + i] = t;
+      }
+    }
+    const piv = work[c * k + c]!;
+    det *= piv;
+    for (let r = c + 1; r < k; r++) {
+      const f = work[r * k + c]! / piv;
+      for (let i = c; i < k; i++) work[r * k + i] = work[r * k + i]! - f * work[c * k + i]!;
+    }
+  }
+  return det;
 }

@@ -19,7 +19,7 @@ import {
   solveSphericalWristInto,
   sphericalWristIk,
 } from "../../../src/core/kinematics/closedForm";
-import { DEFAULT_SPEED_MAP, toolSpeedMap } from "../../../src/core/analysis/speedMap";
+import { DEFAULT_SPEED_MAP, toolSpeedMap } from "../../../src/core/analysis/speedMap/speedMap";
 import { dhFrameReference, flat4, type DhRowSi } from "../../helpers/testArms";
 import { mulberry32, uniform } from "../../helpers/prng";
 

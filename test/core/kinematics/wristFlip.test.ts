@@ -11,7 +11,7 @@ import * as math from "mathjs";
 import { Matrix, inverse } from "ml-matrix";
 import { compileChain } from "../../../src/core";
 import { wristFlipOf, wristTwinInto } from "../../../src/core/kinematics/wristFlip";
-import { DEFAULT_SPEED_MAP, toolSpeedMap } from "../../../src/core/analysis/speedMap";
+import { DEFAULT_SPEED_MAP, toolSpeedMap } from "../../../src/core/analysis/speedMap/speedMap";
 import { expectClose } from "../../helpers/expectClose";
 import { mulberry32, uniform } from "../../helpers/prng";
 import { dhFrameReference, flat4, generic6rDh, GENERIC_6R_SI, type DhRowSi } from "../../helpers/testArms";

@@ -3,45 +3,8 @@
  * traced by marching squares into polylines (mm) and labelled by the kind of the nearest singular pose.
  * @see Lorensen & Cline 1987 (marching cubes; squares in 2-D) [from memory]
  */
-import type { Grid2 } from "./speedMap";
-import type { SingularityKind } from "./singularity";
-
-export interface SingularityLocus {
-  readonly kind: Exclude<SingularityKind, "none">;
-  /** Polylines as [rMm, zMm] points. */
-  readonly polylinesMm: [number, number][][];
-}
-
-/** Per (cell, slot) data the tracer needs. */
-export interface SheetData {
-  readonly grid: Grid2;
-  readonly slots: number;
-  readonly count: Uint8Array;
-  /** Sheet id (union-find root) per cell·slots + slot. */
-  readonly sheet: Int32Array;
-  /** Scaled det J per cell·slots + slot (NaN when not defined). */
-  readonly det: Float64Array;
-  /** Driven joint values, m each (rad or m): those of (cell, slot) start at jointsAt[cell·slots + slot]·m. */
-  readonly joints: Float64Array;
-  readonly jointsAt: Int32Array;
-  readonly m: number;
-  /**
-   * Largest joint change (rad or m) between the solution at a square's first corner and the one taken at another
-   * corner. A sheet joined by continuation can come back to a cell on another branch (it winds around a point where
-   * branches meet), so "same sheet" alone does not pick one solution per corner; the nearest one within this bound
-   * does, and a square without one is skipped.
-   */
-  readonly maxCornerJump: number;
-  /**
-   * Kind of the singularity crossed inside a square, from its four corner solutions (cells and slots in the order
-   * (0,0), (1,0), (1,1), (0,1)) and the index of the corner nearest to singular (smallest |det|).
-   */
-  readonly kindAt: (
-    cells: readonly number[],
-    slots: readonly number[],
-    near: number,
-  ) => Exclude<SingularityKind, "none">;
-}
+import type { SheetData, SingularityLocus } from "./types";
+import type { SingularityKind } from "../../measures/singularity";
 
 type Pt = [number, number];
 

@@ -11,6 +11,10 @@
  * @see Boyd & Vandenberghe, Convex Optimization, §8.5.1 (Chebyshev centre of a polyhedron) [from memory];
  *   Kokkinis & Paden 1989 and Bicchi et al. 1995 (velocity polytopes) [from memory]
  */
+import { solveInPlace } from "../math/linsolve";
+
+/** Pivots below this share of the largest entry count as singular in the joint-rate solves. */
+const LINE_RATES_REL_TOL = 1e-13;
 
 export interface SpeedScratch {
   readonly m: number;
@@ -39,69 +43,8 @@ export function createSpeedScratch(m: number): SpeedScratch {
 }
 
 /**
- * Solves a·x = rhs in place (a: k × k row-major, x: k × 3 row-major) by Gaussian elimination with partial pivoting.
- * Returns false when a pivot falls below `relTol` × the largest entry (numerically singular).
- */
-export function solveInPlace3(
-  a: Float64Array,
-  x: Float64Array,
-  k: number,
-  relTol = 1e-13,
-  det?: { value: number },
-): boolean {
-  let scale = 0;
-  for (let i = 0; i < k * k; i++) scale = Math.max(scale, Math.abs(a[i]!));
-  if (det) det.value = 0;
-  if (!(scale > 0)) return false;
-  const tol = relTol * scale;
-  let product = 1;
-  for (let c = 0; c < k; c++) {
-    let p = c,
-      best = Math.abs(a[c * k + c]!);
-    for (let r = c + 1; r < k; r++) {
-      const v = Math.abs(a[r * k + c]!);
-      if (v > best) {
-        best = v;
-        p = r;
-      }
-    }
-    if (!(best > tol)) return false;
-    if (p !== c) {
-      for (let j = 0; j < k; j++) {
-        const t = a[c * k + j]!;
-        a[c * k + j] = a[p * k + j]!;
-        a[p * k + j] = t;
-      }
-      for (let j = 0; j < 3; j++) {
-        const t = x[c * 3 + j]!;
-        x[c * 3 + j] = x[p * 3 + j]!;
-        x[p * 3 + j] = t;
-      }
-    }
-    const piv = a[c * k + c]!;
-    product *= p !== c ? -piv : piv;
-    for (let r = c + 1; r < k; r++) {
-      const f = a[r * k + c]! / piv;
-      if (f === 0) continue;
-      for (let j = c; j < k; j++) a[r * k + j] = a[r * k + j]! - f * a[c * k + j]!;
-      for (let j = 0; j < 3; j++) x[r * 3 + j] = x[r * 3 + j]! - f * x[c * 3 + j]!;
-    }
-  }
-  if (det) det.value = product;
-  for (let c = k - 1; c >= 0; c--) {
-    const piv = a[c * k + c]!;
-    for (let j = 0; j < 3; j++) {
-      let v = x[c * 3 + j]!;
-      for (let r = c + 1; r < k; r++) v -= a[c * k + r]! * x[r * 3 + j]!;
-      x[c * 3 + j] = v / piv;
-    }
-  }
-  return true;
-}
-
-/**
- * lineRatesInto for six joints: solveInPlace3 written out for 6 × 6 with the right-hand side E = [I₃; 0] (the same
- * pivots, operations and rounding, so the same B and det J to the bit), about twice as fast: the speed maps call it
+ * lineRatesInto for six joints: solveInPlace (math/linsolve.ts, three right-hand sides) written out for 6 × 6 with the
+ * right-hand side E = [I₃; 0] (the same pivots, operations and rounding, so the same B to the bit; det J as a by-product), about twice as fast: the speed maps call it
  * once per solution. Writes B into s.b and det J into s.lastDet (0 when singular).
  */
 function lineRates6Into(j: ArrayLike<number>, s: SpeedScratch): boolean {
@@ -119,7 +62,7 @@ function lineRates6Into(j: ArrayLike<number>, s: SpeedScratch): boolean {
   x[8] = 1;
   s.lastDet = 0;
   if (!(scale > 0)) return false;
-  const tol = 1e-13 * scale;
+  const tol = LINE_RATES_REL_TOL * scale;
   let product = 1;
   for (let c = 0; c < 6; c++) {
     let p = c,
@@ -209,7 +152,7 @@ export function lineRatesInto(j: ArrayLike<number>, m: number, s: SpeedScratch):
     x[0] = 1;
     x[4] = 1;
     x[8] = 1;
-    if (!solveInPlace3(a, x, 6)) return false;
+    if (!solveInPlace(a, x, 6, LINE_RATES_REL_TOL, 3)) return false;
     for (let k = 0; k < m; k++) {
       for (let c = 0; c < 3; c++) {
         let v = 0;
@@ -231,7 +174,7 @@ export function lineRatesInto(j: ArrayLike<number>, m: number, s: SpeedScratch):
     }
     for (let c = 0; c < 3; c++) x[r * 3 + c] = j[c * m + r]!;
   }
-  if (!solveInPlace3(a, x, m)) return false;
+  if (!solveInPlace(a, x, m, LINE_RATES_REL_TOL, 3)) return false;
   for (let i = 0; i < m * 3; i++) b[i] = x[i]!;
   return residualOk(j, m, b);
 }

@@ -14,7 +14,7 @@ import { describe, expect, it } from "vitest";
 import { loadArms } from "../../../src/catalog/index";
 import type { ArmKinematicsInput, Chain } from "../../../src/core";
 import { compileChain, createScratch, forwardInto, jacobianInto } from "../../../src/core";
-import { createSpeedScratch, guaranteedLineSpeed, lineRatesInto, maxToolSpeed } from "../../../src/core/analysis/speed";
+import { createSpeedScratch, guaranteedLineSpeed, lineRatesInto, maxToolSpeed } from "../../../src/core/measures/speed";
 import { expectClose, expectRelClose } from "../../helpers/expectClose";
 import { mulberry32, uniform } from "../../helpers/prng";
 import { generic6rDh, palletizerPassiveFrames, Q_STAR } from "../../helpers/testArms";

@@ -13,7 +13,7 @@ import { Matrix, SingularValueDecomposition, inverse } from "ml-matrix";
 import { describe, expect, it } from "vitest";
 import type { ArmKinematicsInput, Chain } from "../../../src/core";
 import { compileChain, createScratch, forwardInto, jacobianInto } from "../../../src/core";
-import { SINGULAR_INVERSE_CONDITION, singularityReport } from "../../../src/core/analysis/singularity";
+import { SINGULAR_INVERSE_CONDITION, singularityReport } from "../../../src/core/measures/singularity";
 import { expectClose, expectRelClose } from "../../helpers/expectClose";
 import { dhFrameReference, generic6rDh, GENERIC_6R_SI, Q_STAR } from "../../helpers/testArms";
 

@@ -1,5 +1,5 @@
 /**
- * Tests of src/core/analysis/speedMap.ts (toolSpeedMap) and its singularity loci (loci.ts), on the generic 6R of
+ * Tests of src/core/analysis/speedMap/ (toolSpeedMap) and its singularity loci (loci.ts), on the generic 6R of
  * CHECKS §0 (standard DH, θ offsets 0, all ranges ±180°), 20 mm grid.
  *
  * Closed forms the loci are checked against (derived here from CHECKS C5/C6, and the arm-plane formulas checked
@@ -31,18 +31,18 @@
  * kernels), and the kept joint values reproduce the cell's target.
  */
 import { describe, expect, it } from "vitest";
-import { compileChain, createScratch, forwardInto, jacobianInto } from "../../../src/core";
-import { createSpeedScratch, guaranteedLineSpeed, maxToolSpeed } from "../../../src/core/analysis/speed";
+import { compileChain, createScratch, forwardInto, jacobianInto } from "../../../../src/core";
+import { createSpeedScratch, guaranteedLineSpeed, maxToolSpeed } from "../../../../src/core/measures/speed";
 import {
   DEFAULT_SPEED_MAP,
   toolSpeedMap,
   type ReferenceOrientation,
   type ToolSpeedMap,
-} from "../../../src/core/analysis/speedMap";
-import { expectClose } from "../../helpers/expectClose";
+} from "../../../../src/core/analysis/speedMap/speedMap";
+import { expectClose } from "../../../helpers/expectClose";
 import { Matrix, SingularValueDecomposition } from "ml-matrix";
-import { mulberry32, uniform } from "../../helpers/prng";
-import { dhFrameReference, flat4, generic6rDh, GENERIC_6R_SI } from "../../helpers/testArms";
+import { mulberry32, uniform } from "../../../helpers/prng";
+import { dhFrameReference, flat4, generic6rDh, GENERIC_6R_SI } from "../../../helpers/testArms";
 
 const { a1, a2, a3, d1, d4, d6 } = GENERIC_6R_SI;
 const L = Math.hypot(a3, d4);

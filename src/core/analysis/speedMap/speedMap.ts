@@ -1,0 +1,52 @@
+/**
+ * Tool-speed maps on a side-view grid: for each cell of the vertical plane through axis 1 (distance from axis 1
+ * against height, mm), the arm is put at that flange position with a reference tool orientation by inverse
+ * kinematics, on every branch found; the best branch per cell (highest guaranteed straight-line speed) is kept
+ * and named. Per cell: guaranteed straight-line speed at constant orientation, maximum tool speed, scaled inverse
+ * condition, the sign of det J (square Jacobians) and the branch.
+ *
+ * Symmetry: a rotation about a vertical axis 1 turns every figure with it, so the maps are drawn against the
+ * distance from axis 1 (r ≥ 0) and hold at every J1 heading. The TCP is the flange centre (no tool).
+ * Reference orientations: "down" = flange z along gravity of the primary mounting, flange x pointing away from
+ * axis 1; "outward" = flange z pointing away from axis 1, flange x down. Arms with fewer than six driven joints
+ * get "down" only, with the rotation about the tool axis left free.
+ */
+import type { Chain } from "../../kinematics/chain";
+import { discoverAndFlood } from "./discovery";
+import { mapOutput } from "./output";
+import { createMapRun, type SpeedMapWorkspace } from "./state";
+import type { ReferenceOrientation, SpeedMapOptions, ToolSpeedMap } from "./types";
+import { DEFAULT_SPEED_MAP } from "./types";
+
+export type { Grid2 } from "../../geometry/grid";
+export { createSpeedMapWorkspace, type SpeedMapWorkspace } from "./state";
+export { taskDeterminant } from "./verify";
+export {
+  DEFAULT_SPEED_MAP,
+  type ReferenceOrientation,
+  type SingularityLocus,
+  type SpeedMapOptions,
+  type ToolSpeedMap,
+} from "./types";
+
+/** Orientations an arm gets maps for. */
+export function referenceOrientations(chain: Chain): ReferenceOrientation[] {
+  return chain.drivenCount >= 6 ? ["down", "outward"] : ["down"];
+}
+
+/**
+ * Computes the tool-speed map of one reference orientation: grid and plane setup (plane.ts, state.ts), discovery
+ * seeding and continuation (discovery.ts, continuation.ts, each solution verified in verify.ts), then the per-cell
+ * output and the loci (output.ts, loci.ts, labels.ts).
+ * @see module comment for definitions; DOMAIN: guaranteed straight-line speed and maximum tool speed
+ */
+export function toolSpeedMap(
+  chain: Chain,
+  orientation: ReferenceOrientation,
+  options: SpeedMapOptions = DEFAULT_SPEED_MAP,
+  workspace?: SpeedMapWorkspace,
+): ToolSpeedMap {
+  const run = createMapRun(chain, orientation, options, workspace);
+  discoverAndFlood(run);
+  return mapOutput(run);
+}
