@@ -14,9 +14,9 @@ import {
   type SpeedMapOptions,
   type ToolSpeedMap,
 } from "./speedMap";
-import { gravityDirectionInBase, type Mounting } from "./mounting";
+import { gravityDirectionInBase, type Mounting } from "../kinematics/statics";
 import { analysePayload, payloadInputOf, type PayloadAnalysisOptions, type PayloadSpec } from "./payload";
-import { standardCycle } from "./cycle";
+import { standardCycle } from "./cycle/cycle";
 import {
   DEFAULT_ENVELOPE_OPTIONS,
   workspaceEnvelope,

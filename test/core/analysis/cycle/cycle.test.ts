@@ -8,11 +8,11 @@
  * gantry whose every cycle move is a single-joint move, so the expected time is a sum of single trapezoids.
  */
 import { describe, expect, it } from "vitest";
-import type { ArmKinematicsInput } from "../../../src/core";
-import { compileChain } from "../../../src/core";
-import { DEFAULT_TIME_TO_TOP_SPEED_S, standardCycle, trapezoidTimeS } from "../../../src/core/analysis/cycle";
-import { expectClose } from "../../helpers/expectClose";
-import { mulberry32, uniform } from "../../helpers/prng";
+import type { ArmKinematicsInput } from "../../../../src/core";
+import { compileChain } from "../../../../src/core";
+import { DEFAULT_TIME_TO_TOP_SPEED_S, standardCycle, trapezoidTimeS } from "../../../../src/core/analysis/cycle/cycle";
+import { expectClose } from "../../../helpers/expectClose";
+import { mulberry32, uniform } from "../../../helpers/prng";
 
 describe("trapezoidTimeS (CHECKS C17)", () => {
   it("trapezoidTimeS(0.3 m, 2 m/s, 20 m/s²) = 0.25 s (trapezoid: D ≥ V²/A = 0.2 m)", () => {

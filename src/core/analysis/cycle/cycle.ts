@@ -7,8 +7,8 @@
  * @see Biagiotti & Melchiorri, Trajectory Planning for Automatic Machines and Robots, §3.2 (trapezoidal profile)
  *   [from memory]; CHECKS C17
  */
-import type { Chain } from "../kinematics/chain";
-import { createIkScratch, solveIkInto } from "../kinematics/inverse";
+import type { Chain } from "../../kinematics/chain";
+import { createIkScratch, solveIkInto } from "../../kinematics/inverse";
 
 /** When a file gives no acceleration: the joint reaches its top speed in this time (common practice, no source). */
 export const DEFAULT_TIME_TO_TOP_SPEED_S = 0.4;
