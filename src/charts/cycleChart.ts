@@ -3,6 +3,7 @@
  * the joint that sets it.
  */
 import { scaleBand, scaleLinear } from "d3-scale";
+import { STANDARD_CYCLE_MOVES } from "../core/analysis/cycle/cycle";
 import { axisBottomSvg } from "./axes";
 import { DEFAULT_MARGINS } from "./layout";
 import { el, fmt, label, svgRoot, textEl, type ChartResult } from "./svg";
@@ -74,9 +75,10 @@ export function cycleChart(input: CycleChartInput): ChartResult {
     );
   });
 
+  const { upMm, acrossMm } = STANDARD_CYCLE_MOVES;
   const title = `${input.armName}: standard cycle, ${label(input.totalS, 2)} s`;
   const description =
-    `Time of each move of the standard cycle (up 25 mm, across 300 mm, down 25 mm and back), in seconds, with the joint that sets it; ` +
+    `Time of each move of the standard cycle (up ${upMm} mm, across ${acrossMm} mm, down ${upMm} mm and back), in seconds, with the joint that sets it; ` +
     `total ${label(input.totalS, 2)} s. ${input.moves.map((m) => `${m.from} to ${m.to}: ${label(m.timeS, 3)} s (${m.limitingJoint})`).join("; ")}.`;
   const caption =
     "Point-to-point joint moves with trapezoidal speed profiles inside each joint's speed and acceleration limits, all joints finishing together; " +

@@ -10,6 +10,6 @@ export * from "./analysis/envelope";
 export * from "./measures/speed";
 export * from "./measures/singularity";
 export * from "./analysis/warnings";
-export type { CycleFailure } from "./analysis/cycle";
+export type { CycleFailure } from "./analysis/cycle/cycle";
 export type { PayloadAnalysis } from "./analysis/payload";
 export type { AnalysisOptions, ArmAnalysis } from "./analysis/armAnalysis";

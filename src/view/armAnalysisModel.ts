@@ -5,6 +5,7 @@
  */
 import type { Arm } from "../catalog";
 import type { ArmAnalysis } from "../core/analysis/analyseArm";
+import { STANDARD_CYCLE_MOVES } from "../core/analysis/cycle/cycle";
 import {
   cycleChart,
   envelopeChart,
@@ -614,7 +615,7 @@ export function armAnalysisModel(
                 analysis.cycle.location ? Math.round(analysis.cycle.location.rMm) : null,
               )
             : ""
-          : `up 25 mm, across 300 mm, down and back; set by ${analysis.cycle.limitingJoint ?? "\u2014"}; no blending`,
+          : `up ${STANDARD_CYCLE_MOVES.upMm} mm, across ${STANDARD_CYCLE_MOVES.acrossMm} mm, down and back; set by ${analysis.cycle.limitingJoint ?? "\u2014"}; no blending`,
       flag: false,
       href: "#cycle",
     },

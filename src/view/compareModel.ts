@@ -2,6 +2,7 @@
  * The side-by-side page's tables and choices, DOM-free: which arms the address names, the spec table and the speed
  * table with the best value of each row marked, and what "best" means per row (no mark where it is not meaningful).
  */
+import { STANDARD_CYCLE_MOVES } from "../core/analysis/cycle/cycle";
 import type { CompareArmSummary } from "./compareData";
 import { formatNumber, formatQuantity, NOT_STATED } from "./format";
 
@@ -246,7 +247,7 @@ export function speedRows(arms: readonly CompareArmSummary[]): CompareRow[] {
   rows.push(
     row(
       "cycle",
-      "Standard cycle (25/300/25 mm, lower bound)",
+      `Standard cycle (${STANDARD_CYCLE_MOVES.upMm}/${STANDARD_CYCLE_MOVES.acrossMm}/${STANDARD_CYCLE_MOVES.upMm} mm, lower bound)`,
       "lower",
       "shortest cycle time",
       arms.map((a) => a.cycle.standardCycleS),

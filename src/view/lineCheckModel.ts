@@ -7,7 +7,7 @@
  */
 import type { Chain } from "../core/kinematics/chain";
 import { lineCheck, referenceToolRotation, rpyToolRotation, type LineCheckResult } from "../core/analysis/line";
-import { gravityDirectionInBase, type Mounting } from "../core/analysis/mounting";
+import { gravityDirectionInBase, type Mounting } from "../core/kinematics/statics";
 import { degToRad, mmToM } from "../core/units";
 import type { LineRatesChartInput } from "../charts/lineRatesChart";
 import { formatNumber, formatQuantity } from "./format";

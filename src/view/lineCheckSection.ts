@@ -6,7 +6,7 @@
 import type { ArmAnalysis } from "../core/analysis/analyseArm";
 import type { AnalysisSummary } from "../catalog/analysis";
 import type { Chain } from "../core/kinematics/chain";
-import type { Mounting } from "../core/analysis/mounting";
+import type { Mounting } from "../core/kinematics/statics";
 import { siteHref } from "./links";
 import { lineQueryPairs, orientationKindsFor, type LineOrientation, type LineQuery } from "./lineCheckModel";
 import {

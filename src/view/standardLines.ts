@@ -12,7 +12,7 @@
 import type { Chain } from "../core/kinematics/chain";
 import type { ArmAnalysis } from "../core/analysis/analyseArm";
 import type { AnalysisSummary } from "../catalog/analysis";
-import { gravityDirectionInBase, type Mounting } from "../core/analysis/mounting";
+import { gravityDirectionInBase, type Mounting } from "../core/kinematics/statics";
 import type { LineCheckResult } from "../core/analysis/line";
 import { lineRatesChart } from "../charts/lineRatesChart";
 import type { ChartResult } from "../charts/svg";

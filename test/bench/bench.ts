@@ -24,7 +24,7 @@ import {
 } from "../../src/core/analysis/speedMap/speedMap";
 import { payloadAtReach, payloadInputOf, loadDiagram } from "../../src/core/analysis/payload";
 import { analyseArm, MAX_OUTPUT_COLUMNS } from "../../src/core/analysis/analyseArm";
-import { gravityDirectionInBase } from "../../src/core/analysis/mounting";
+import { gravityDirectionInBase } from "../../src/core/kinematics/statics";
 import { armFacts } from "../../src/catalog/analysis";
 import { runScaleBench, timedBuild } from "./scale";
 import { measureCompareInteractive } from "./compareInteractive";

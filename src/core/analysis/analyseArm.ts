@@ -14,7 +14,7 @@ import {
   type SpeedMapOptions,
   type ToolSpeedMap,
 } from "./speedMap/speedMap";
-import { gravityDirectionInBase, type Mounting } from "./mounting";
+import { gravityDirectionInBase, type Mounting } from "../kinematics/statics";
 import {
   analysePayload,
   payloadInputOf,
@@ -24,7 +24,7 @@ import {
 } from "./payload";
 import type { AnalysisOptions, ArmAnalysis, PointEnvelopeJson, SpeedMapJson } from "./armAnalysis";
 import { reachWarning, repeatabilityWarning, type AnalysisWarning, type PayloadAboveWristRating } from "./warnings";
-import { standardCycle } from "./cycle";
+import { standardCycle } from "./cycle/cycle";
 import {
   DEFAULT_ENVELOPE_OPTIONS,
   workspaceEnvelope,

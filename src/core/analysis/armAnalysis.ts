@@ -8,7 +8,7 @@
  */
 import type { EnvelopeLayout, EnvelopeOptions, PointEnvelope, Axis1 } from "./envelope";
 import type { PayloadAnalysis, PayloadAnalysisOptions } from "./payload";
-import type { CycleResult } from "./cycle";
+import type { CycleResult } from "./cycle/cycle";
 import type { ReferenceOrientation } from "./speedMap/speedMap";
 import type { AnalysisWarning } from "./warnings";
 

@@ -8,11 +8,23 @@
  * gantry whose every cycle move is a single-joint move, so the expected time is a sum of single trapezoids.
  */
 import { describe, expect, it } from "vitest";
-import type { ArmKinematicsInput } from "../../../src/core";
-import { compileChain } from "../../../src/core";
-import { DEFAULT_TIME_TO_TOP_SPEED_S, standardCycle, trapezoidTimeS } from "../../../src/core/analysis/cycle";
-import { expectClose } from "../../helpers/expectClose";
-import { mulberry32, uniform } from "../../helpers/prng";
+import type { ArmKinematicsInput } from "../../../../src/core";
+import { compileChain } from "../../../../src/core";
+import {
+  DEFAULT_TIME_TO_TOP_SPEED_S,
+  STANDARD_CYCLE_MOVES,
+  standardCycle,
+  trapezoidTimeS,
+} from "../../../../src/core/analysis/cycle/cycle";
+import { expectClose } from "../../../helpers/expectClose";
+import { mulberry32, uniform } from "../../../helpers/prng";
+
+describe("STANDARD_CYCLE_MOVES", () => {
+  it("STANDARD_CYCLE_MOVES is the trade's test cycle: up 25 mm, across 300 mm (CHECKS §4, common practice)", () => {
+    // CHECKS §4 states the cycle geometry; the numbers here are typed from it, not from our output.
+    expect(STANDARD_CYCLE_MOVES).toEqual({ upMm: 25, acrossMm: 300 });
+  });
+});
 
 describe("trapezoidTimeS (CHECKS C17)", () => {
   it("trapezoidTimeS(0.3 m, 2 m/s, 20 m/s²) = 0.25 s (trapezoid: D ≥ V²/A = 0.2 m)", () => {

@@ -1,14 +1,20 @@
 /**
- * Standard pick-and-place cycle estimate: up 25 mm, across 300 mm, down 25 mm and back (common practice, no
- * source), at a stated reference location, tool pointing down. Each of the six moves is a point-to-point joint
+ * Standard pick-and-place cycle estimate: up 25 mm, across 300 mm, down 25 mm and back (STANDARD_CYCLE_MOVES; common
+ * practice, no source), at a stated reference location, tool pointing down. Each of the six moves is a point-to-point joint
  * move between inverse-kinematics solutions, every joint on a trapezoidal (or triangular) velocity profile within
  * its speed and acceleration limits, all joints finishing together (the slowest sets the time). No blending and no
  * dwell: a lower bound under these assumptions, not a maker's cycle time.
  * @see Biagiotti & Melchiorri, Trajectory Planning for Automatic Machines and Robots, §3.2 (trapezoidal profile)
  *   [from memory]; CHECKS C17
  */
-import type { Chain } from "../kinematics/chain";
-import { createIkScratch, solveIkInto } from "../kinematics/inverse";
+import type { Chain } from "../../kinematics/chain";
+import { createIkScratch, solveIkInto } from "../../kinematics/inverse";
+
+/**
+ * The standard cycle's moves (common practice, no source): up `upMm`, across `acrossMm`, down `upMm` and back. The
+ * one place these numbers live: the analysis, the pages and the charts read them from here.
+ */
+export const STANDARD_CYCLE_MOVES: { readonly upMm: number; readonly acrossMm: number } = { upMm: 25, acrossMm: 300 };
 
 /** When a file gives no acceleration: the joint reaches its top speed in this time (common practice, no source). */
 export const DEFAULT_TIME_TO_TOP_SPEED_S = 0.4;
@@ -62,8 +68,6 @@ export interface CycleOptions {
   /** Driven-joint names, for the output. */
   readonly jointNames: readonly string[];
 }
-
-export const DEFAULT_CYCLE: Omit<CycleOptions, "jointNames"> = { upMm: 25, acrossMm: 300 };
 
 /**
  * Estimates the standard cycle at `location`. `seed` is a joint solution near the location (tool down) and
@@ -151,9 +155,10 @@ export function standardCycle(
 }
 
 function ASSUMPTIONS(chain: Chain): string[] {
+  const { upMm, acrossMm } = STANDARD_CYCLE_MOVES;
   const missing = Array.from(chain.maxAccelSi).some((a) => !Number.isFinite(a));
   return [
-    "Cycle: up 25 mm, across 300 mm, down 25 mm and back (common practice, no source); no dwell, no blending.",
+    `Cycle: up ${upMm} mm, across ${acrossMm} mm, down ${upMm} mm and back (common practice, no source); no dwell, no blending.`,
     "Each move is a point-to-point joint move; every joint follows a trapezoidal speed profile within its speed and acceleration limits; all joints finish together.",
     "Tool pointing down, flange centre as the tool point, no payload dynamics: a lower bound under these assumptions, not a maker's cycle time.",
     ...(missing
