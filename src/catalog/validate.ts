@@ -104,6 +104,9 @@ interface PathMessage {
   readonly message: string;
 }
 
+/** Path of a joint's field (or of the joint itself), e.g. `joints[2].axis`. */
+type JointPath = (field?: string) => string;
+
 /**
  * Rules a type cannot express, run defensively on the raw file so they are reported together with schema issues:
  * the parameter block matches the convention, fields match the joint kind, driven joints have a range and a speed,
@@ -122,120 +125,16 @@ export function semanticIssues(data: unknown): PathMessage[] {
   const kinds: (string | undefined)[] = [];
   let driven = 0;
   joints.forEach((j, i) => {
-    const at = (field?: string) => toPath(field ? ["joints", i, field] : ["joints", i]);
+    const at: JointPath = (field?: string) => toPath(field ? ["joints", i, field] : ["joints", i]);
     if (!isObject(j)) return;
     const kind = typeof j.kind === "string" ? j.kind : undefined;
     kinds.push(kind);
-    if (typeof j.name === "string") {
-      if (names.has(j.name))
-        out.push({
-          path: at("name"),
-          message: `expected a unique joint name, found ${describeValue(j.name)} again (first at joints[${names.get(j.name)}])`,
-        });
-      else names.set(j.name, i);
-    }
-    // Parameter block must match the convention.
-    const blocks = { dh: "dh", mdh: "mdh", frames: "origin" } as const;
-    if (convention === "dh" || convention === "mdh" || convention === "frames") {
-      const want = blocks[convention];
-      if (j[want] === undefined)
-        out.push({
-          path: at(want),
-          message: `missing required field: convention "${convention}" needs "${want}" on every joint`,
-        });
-      if (convention === "frames" && j.axis === undefined)
-        out.push({
-          path: at("axis"),
-          message: `missing required field: convention "frames" needs a unit "axis" on every joint`,
-        });
-      for (const other of ["dh", "mdh", "origin", "axis"] as const) {
-        if (other === want || (convention === "frames" && other === "axis")) continue;
-        if (j[other] !== undefined)
-          out.push({
-            path: at(other),
-            message: `not used with convention "${convention}": expected ${convention === "frames" ? "origin and axis" : want}`,
-          });
-      }
-    }
-    if (Array.isArray(j.axis) && j.axis.length === 3 && j.axis.every(isNumber)) {
-      const len = Math.hypot(j.axis[0] as number, j.axis[1] as number, j.axis[2] as number);
-      if (!(Math.abs(len - 1) <= 1e-3))
-        out.push({
-          path: at("axis"),
-          message: `expected a unit vector (length 1 ± 0.001), found length ${len.toPrecision(4)}`,
-        });
-    }
-    // Fields must match the kind.
-    const degFields = ["rangeDeg", "maxSpeedDegPerS", "maxAccelDegPerS2", "ratedTorqueNm"];
-    const mmFields = ["rangeMm", "maxSpeedMmPerS", "maxAccelMmPerS2", "ratedForceN"];
-    const wrong = kind === "revolute" ? mmFields : kind === "prismatic" ? degFields : [];
-    for (const f of wrong) {
-      if (j[f] !== undefined)
-        out.push({
-          path: at(f),
-          message: `not used on a ${kind} joint: expected ${kind === "revolute" ? degFields[mmFields.indexOf(f)] : mmFields[degFields.indexOf(f)]}`,
-        });
-    }
-    const rangeField = kind === "prismatic" ? "rangeMm" : "rangeDeg";
-    const speedField = kind === "prismatic" ? "maxSpeedMmPerS" : "maxSpeedDegPerS";
-    const coupling = j.coupling;
-    const passive = coupling !== undefined && j[rangeField] === undefined;
-    if (passive) {
-      for (const f of [
-        speedField,
-        kind === "prismatic" ? "maxAccelMmPerS2" : "maxAccelDegPerS2",
-        kind === "prismatic" ? "ratedForceN" : "ratedTorqueNm",
-      ]) {
-        if (j[f] !== undefined)
-          out.push({ path: at(f), message: `a passive joint (coupling and no ${rangeField}) has no ${f} of its own` });
-      }
-    } else if (kind === "revolute" || kind === "prismatic") {
-      driven++;
-      if (j[rangeField] === undefined)
-        out.push({
-          path: at(rangeField),
-          message: `missing required field: a driven ${kind} joint needs ${rangeField} [min, max]`,
-        });
-      if (j[speedField] === undefined)
-        out.push({
-          path: at(speedField),
-          message: `missing required field: a driven ${kind} joint needs ${speedField}`,
-        });
-    }
-    if (isObject(coupling) && Array.isArray(coupling.terms)) {
-      coupling.terms.forEach((t, k) => {
-        if (!isObject(t) || typeof t.joint !== "string") return;
-        const p = toPath(["joints", i, "coupling", "terms", k, "joint"]);
-        const target = names.get(t.joint);
-        if (t.joint === j.name)
-          out.push({ path: p, message: `a joint cannot follow itself, found ${describeValue(t.joint)}` });
-        else if (target === undefined) {
-          const later = joints.findIndex((o, idx) => idx > i && isObject(o) && o.name === t.joint);
-          out.push({
-            path: p,
-            message:
-              later >= 0
-                ? `expected an earlier joint, found ${describeValue(t.joint)} which comes later (joints[${later}]); couplings follow the chain from base to flange`
-                : `expected the name of an earlier joint, found ${describeValue(t.joint)} which is not a joint of this arm`,
-          });
-        } else if (kinds[target] !== kind) {
-          out.push({
-            path: p,
-            message: `expected a ${kind} joint (gains are unitless), found ${describeValue(t.joint)} which is ${kinds[target]}`,
-          });
-        }
-      });
-      if (kind === "revolute" && coupling.offsetMm !== undefined)
-        out.push({
-          path: toPath(["joints", i, "coupling", "offsetMm"]),
-          message: "not used on a revolute joint: expected offsetDeg",
-        });
-      if (kind === "prismatic" && coupling.offsetDeg !== undefined)
-        out.push({
-          path: toPath(["joints", i, "coupling", "offsetDeg"]),
-          message: "not used on a prismatic joint: expected offsetMm",
-        });
-    }
+    uniqueNameIssues(out, j, i, names, at);
+    conventionIssues(out, j, convention, at);
+    axisIssues(out, j, at);
+    kindFieldIssues(out, j, kind, at);
+    if (drivenOrPassiveIssues(out, j, kind, at)) driven++;
+    couplingIssues(out, j, i, kind, joints, names, kinds);
   });
   if (joints.length > 0 && driven === 0) {
     out.push({
@@ -246,6 +145,153 @@ export function semanticIssues(data: unknown): PathMessage[] {
   }
   // Without a joints array the names used elsewhere cannot be checked (the joints error says enough).
   if (!Array.isArray(data.joints)) return out;
+  jointReferenceIssues(out, data, names);
+  return out;
+}
+
+/** Joint names are unique; records the first index of each name in `names`. */
+function uniqueNameIssues(out: PathMessage[], j: Loose, i: number, names: Map<string, number>, at: JointPath): void {
+  if (typeof j.name !== "string") return;
+  if (names.has(j.name))
+    out.push({
+      path: at("name"),
+      message: `expected a unique joint name, found ${describeValue(j.name)} again (first at joints[${names.get(j.name)}])`,
+    });
+  else names.set(j.name, i);
+}
+
+/** The parameter block matches the convention (dh, mdh, or origin and axis for frames), and no other block is given. */
+function conventionIssues(out: PathMessage[], j: Loose, convention: unknown, at: JointPath): void {
+  const blocks = { dh: "dh", mdh: "mdh", frames: "origin" } as const;
+  if (convention !== "dh" && convention !== "mdh" && convention !== "frames") return;
+  const want = blocks[convention];
+  if (j[want] === undefined)
+    out.push({
+      path: at(want),
+      message: `missing required field: convention "${convention}" needs "${want}" on every joint`,
+    });
+  if (convention === "frames" && j.axis === undefined)
+    out.push({
+      path: at("axis"),
+      message: `missing required field: convention "frames" needs a unit "axis" on every joint`,
+    });
+  for (const other of ["dh", "mdh", "origin", "axis"] as const) {
+    if (other === want || (convention === "frames" && other === "axis")) continue;
+    if (j[other] !== undefined)
+      out.push({
+        path: at(other),
+        message: `not used with convention "${convention}": expected ${convention === "frames" ? "origin and axis" : want}`,
+      });
+  }
+}
+
+/** A given axis of three numbers is a unit vector. */
+function axisIssues(out: PathMessage[], j: Loose, at: JointPath): void {
+  if (Array.isArray(j.axis) && j.axis.length === 3 && j.axis.every(isNumber)) {
+    const len = Math.hypot(j.axis[0] as number, j.axis[1] as number, j.axis[2] as number);
+    if (!(Math.abs(len - 1) <= 1e-3))
+      out.push({
+        path: at("axis"),
+        message: `expected a unit vector (length 1 ± 0.001), found length ${len.toPrecision(4)}`,
+      });
+  }
+}
+
+/** Fields match the joint kind: no mm fields on a revolute joint, no degree fields on a prismatic one. */
+function kindFieldIssues(out: PathMessage[], j: Loose, kind: string | undefined, at: JointPath): void {
+  const degFields = ["rangeDeg", "maxSpeedDegPerS", "maxAccelDegPerS2", "ratedTorqueNm"];
+  const mmFields = ["rangeMm", "maxSpeedMmPerS", "maxAccelMmPerS2", "ratedForceN"];
+  const wrong = kind === "revolute" ? mmFields : kind === "prismatic" ? degFields : [];
+  for (const f of wrong) {
+    if (j[f] !== undefined)
+      out.push({
+        path: at(f),
+        message: `not used on a ${kind} joint: expected ${kind === "revolute" ? degFields[mmFields.indexOf(f)] : mmFields[degFields.indexOf(f)]}`,
+      });
+  }
+}
+
+/**
+ * A passive joint (a coupling and no range) has no speed, acceleration or rating of its own; a driven one has a
+ * range and a speed. Returns whether the joint counts as driven.
+ */
+function drivenOrPassiveIssues(out: PathMessage[], j: Loose, kind: string | undefined, at: JointPath): boolean {
+  const rangeField = kind === "prismatic" ? "rangeMm" : "rangeDeg";
+  const speedField = kind === "prismatic" ? "maxSpeedMmPerS" : "maxSpeedDegPerS";
+  const passive = j.coupling !== undefined && j[rangeField] === undefined;
+  if (passive) {
+    for (const f of [
+      speedField,
+      kind === "prismatic" ? "maxAccelMmPerS2" : "maxAccelDegPerS2",
+      kind === "prismatic" ? "ratedForceN" : "ratedTorqueNm",
+    ]) {
+      if (j[f] !== undefined)
+        out.push({ path: at(f), message: `a passive joint (coupling and no ${rangeField}) has no ${f} of its own` });
+    }
+    return false;
+  }
+  if (kind !== "revolute" && kind !== "prismatic") return false;
+  if (j[rangeField] === undefined)
+    out.push({
+      path: at(rangeField),
+      message: `missing required field: a driven ${kind} joint needs ${rangeField} [min, max]`,
+    });
+  if (j[speedField] === undefined)
+    out.push({
+      path: at(speedField),
+      message: `missing required field: a driven ${kind} joint needs ${speedField}`,
+    });
+  return true;
+}
+
+/** Coupling terms name an earlier joint of the same kind (not the joint itself); the offset has the joint's unit. */
+function couplingIssues(
+  out: PathMessage[],
+  j: Loose,
+  i: number,
+  kind: string | undefined,
+  joints: unknown[],
+  names: Map<string, number>,
+  kinds: (string | undefined)[],
+): void {
+  const coupling = j.coupling;
+  if (!isObject(coupling) || !Array.isArray(coupling.terms)) return;
+  coupling.terms.forEach((t, k) => {
+    if (!isObject(t) || typeof t.joint !== "string") return;
+    const p = toPath(["joints", i, "coupling", "terms", k, "joint"]);
+    const target = names.get(t.joint);
+    if (t.joint === j.name)
+      out.push({ path: p, message: `a joint cannot follow itself, found ${describeValue(t.joint)}` });
+    else if (target === undefined) {
+      const later = joints.findIndex((o, idx) => idx > i && isObject(o) && o.name === t.joint);
+      out.push({
+        path: p,
+        message:
+          later >= 0
+            ? `expected an earlier joint, found ${describeValue(t.joint)} which comes later (joints[${later}]); couplings follow the chain from base to flange`
+            : `expected the name of an earlier joint, found ${describeValue(t.joint)} which is not a joint of this arm`,
+      });
+    } else if (kinds[target] !== kind) {
+      out.push({
+        path: p,
+        message: `expected a ${kind} joint (gains are unitless), found ${describeValue(t.joint)} which is ${kinds[target]}`,
+      });
+    }
+  });
+  if (kind === "revolute" && coupling.offsetMm !== undefined)
+    out.push({
+      path: toPath(["joints", i, "coupling", "offsetMm"]),
+      message: "not used on a revolute joint: expected offsetDeg",
+    });
+  if (kind === "prismatic" && coupling.offsetDeg !== undefined)
+    out.push({
+      path: toPath(["joints", i, "coupling", "offsetDeg"]),
+      message: "not used on a prismatic joint: expected offsetMm",
+    });
+}
+
+/** Joint names used outside the joints (wristCentre.joints, wrist moments and inertias, links[].after) exist. */
+function jointReferenceIssues(out: PathMessage[], data: Loose, names: Map<string, number>): void {
   const known = (name: unknown) => typeof name === "string" && names.has(name);
   if (isObject(data.wristCentre) && Array.isArray(data.wristCentre.joints)) {
     data.wristCentre.joints.forEach((name, k) => {
@@ -278,7 +324,6 @@ export function semanticIssues(data: unknown): PathMessage[] {
         });
     });
   }
-  return out;
 }
 
 /**

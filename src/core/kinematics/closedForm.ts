@@ -28,14 +28,27 @@
  */
 import type { Chain } from "./chain";
 import { createScratch, forwardInto, wristCentreInto, type KinematicsScratch } from "./forward";
+import {
+  cross,
+  dot,
+  mul3,
+  mul3At,
+  mulRtvAt,
+  mulRv,
+  mulRtv,
+  mulRvAt,
+  norm,
+  rotInto,
+  subproblem1,
+  transpose3,
+  type Vec3,
+} from "../math/mat3";
 
 /** Largest number of solutions of a 6R arm with a spherical wrist: 4 for the position × 2 for the wrist. */
 export const MAX_CLOSED_FORM_SOLUTIONS = 8;
 
 /** Result of {@link solveSphericalWristInto} when the pose is degenerate (a family of solutions): use a numeric solver. */
 export const DEGENERATE = -1;
-
-type Vec3 = [number, number, number];
 
 export interface SphericalWristIk {
   readonly chain: Chain;
@@ -74,101 +87,6 @@ export interface SphericalWristIk {
   /** Work buffers. */
   readonly work: Float64Array;
   readonly kinSol: Float64Array;
-}
-
-const dot = (a: ArrayLike<number>, b: ArrayLike<number>) => a[0]! * b[0]! + a[1]! * b[1]! + a[2]! * b[2]!;
-const cross = (a: ArrayLike<number>, b: ArrayLike<number>): Vec3 => [
-  a[1]! * b[2]! - a[2]! * b[1]!,
-  a[2]! * b[0]! - a[0]! * b[2]!,
-  a[0]! * b[1]! - a[1]! * b[0]!,
-];
-const norm = (a: ArrayLike<number>) => Math.hypot(a[0]!, a[1]!, a[2]!);
-/** R·x for a row-major 3×3. */
-const mulRv = (r: ArrayLike<number>, x: ArrayLike<number>): Vec3 => [
-  r[0]! * x[0]! + r[1]! * x[1]! + r[2]! * x[2]!,
-  r[3]! * x[0]! + r[4]! * x[1]! + r[5]! * x[2]!,
-  r[6]! * x[0]! + r[7]! * x[1]! + r[8]! * x[2]!,
-];
-/** Rᵀ·x. */
-const mulRtv = (r: ArrayLike<number>, x: ArrayLike<number>): Vec3 => [
-  r[0]! * x[0]! + r[3]! * x[1]! + r[6]! * x[2]!,
-  r[1]! * x[0]! + r[4]! * x[1]! + r[7]! * x[2]!,
-  r[2]! * x[0]! + r[5]! * x[1]! + r[8]! * x[2]!,
-];
-function mul3(a: ArrayLike<number>, b: ArrayLike<number>): Float64Array {
-  const out = new Float64Array(9);
-  for (let i = 0; i < 3; i++)
-    for (let j = 0; j < 3; j++)
-      out[i * 3 + j] = a[i * 3]! * b[j]! + a[i * 3 + 1]! * b[3 + j]! + a[i * 3 + 2]! * b[6 + j]!;
-  return out;
-}
-function transpose3(a: ArrayLike<number>): Float64Array {
-  return Float64Array.from([a[0]!, a[3]!, a[6]!, a[1]!, a[4]!, a[7]!, a[2]!, a[5]!, a[8]!]);
-}
-
-/** Writes the rotation by `angle` about unit `a` (Rodrigues) into out[o..o+8]. */
-function rotInto(out: Float64Array, o: number, a: ArrayLike<number>, angle: number): void {
-  const c = Math.cos(angle),
-    s = Math.sin(angle),
-    v = 1 - c,
-    x = a[0]!,
-    y = a[1]!,
-    z = a[2]!;
-  out[o] = c + x * x * v;
-  out[o + 1] = x * y * v - z * s;
-  out[o + 2] = x * z * v + y * s;
-  out[o + 3] = y * x * v + z * s;
-  out[o + 4] = c + y * y * v;
-  out[o + 5] = y * z * v - x * s;
-  out[o + 6] = z * x * v - y * s;
-  out[o + 7] = z * y * v + x * s;
-  out[o + 8] = c + z * z * v;
-}
-
-/** In-place out[o..o+8] = A·B, with A at a[ao..] and B at b[bo..] (3×3 row-major); out must not alias A or B. */
-function mul3At(
-  out: Float64Array,
-  o: number,
-  a: ArrayLike<number>,
-  ao: number,
-  b: ArrayLike<number>,
-  bo: number,
-): void {
-  for (let i = 0; i < 3; i++) {
-    const a0 = a[ao + i * 3]!,
-      a1 = a[ao + i * 3 + 1]!,
-      a2 = a[ao + i * 3 + 2]!;
-    for (let j = 0; j < 3; j++) out[o + i * 3 + j] = a0 * b[bo + j]! + a1 * b[bo + 3 + j]! + a2 * b[bo + 6 + j]!;
-  }
-}
-
-/**
- * Paden–Kahan subproblem 1: the angle θ with Rot(ω, θ)·p = q (directions through the origin), from the components
- * perpendicular to ω; NaN when p has none (p ∥ ω).
- */
-function subproblem1(
-  w: ArrayLike<number>,
-  px: number,
-  py: number,
-  pz: number,
-  qx: number,
-  qy: number,
-  qz: number,
-  tiny: number,
-): number {
-  const wp = w[0]! * px + w[1]! * py + w[2]! * pz,
-    wq = w[0]! * qx + w[1]! * qy + w[2]! * qz;
-  const ax = px - wp * w[0]!,
-    ay = py - wp * w[1]!,
-    az = pz - wp * w[2]!;
-  const bx = qx - wq * w[0]!,
-    by = qy - wq * w[1]!,
-    bz = qz - wq * w[2]!;
-  if (ax * ax + ay * ay + az * az < tiny * tiny || bx * bx + by * by + bz * bz < tiny * tiny) return NaN;
-  const cx = ay * bz - az * by,
-    cy = az * bx - ax * bz,
-    cz = ax * by - ay * bx;
-  return Math.atan2(w[0]! * cx + w[1]! * cy + w[2]! * cz, ax * bx + ay * by + az * bz);
 }
 
 /** Set when a root was taken at (or rounded onto) a double root: its solutions are then checked by forward kinematics. */
@@ -346,39 +264,6 @@ const ENABLE_UNVERIFIED_REDUCTIONS = false;
 /** Number of samples of the q₁ scan (general geometry only). */
 const SCAN_SAMPLES = 180;
 
-/** out[o..o+2] = R·x (R row-major 3×3 at r[ro..], x at x[xo..]). */
-function mulRvAt(
-  out: Float64Array,
-  o: number,
-  r: ArrayLike<number>,
-  ro: number,
-  x: ArrayLike<number>,
-  xo: number,
-): void {
-  const x0 = x[xo]!,
-    x1 = x[xo + 1]!,
-    x2 = x[xo + 2]!;
-  out[o] = r[ro]! * x0 + r[ro + 1]! * x1 + r[ro + 2]! * x2;
-  out[o + 1] = r[ro + 3]! * x0 + r[ro + 4]! * x1 + r[ro + 5]! * x2;
-  out[o + 2] = r[ro + 6]! * x0 + r[ro + 7]! * x1 + r[ro + 8]! * x2;
-}
-/** out[o..o+2] = Rᵀ·x. */
-function mulRtvAt(
-  out: Float64Array,
-  o: number,
-  r: ArrayLike<number>,
-  ro: number,
-  x: ArrayLike<number>,
-  xo: number,
-): void {
-  const x0 = x[xo]!,
-    x1 = x[xo + 1]!,
-    x2 = x[xo + 2]!;
-  out[o] = r[ro]! * x0 + r[ro + 3]! * x1 + r[ro + 6]! * x2;
-  out[o + 1] = r[ro + 1]! * x0 + r[ro + 4]! * x1 + r[ro + 7]! * x2;
-  out[o + 2] = r[ro + 2]! * x0 + r[ro + 5]! * x1 + r[ro + 8]! * x2;
-}
-
 // Offsets into the work buffer.
 const W_Q0 = 0,
   W_Q2 = 4,
@@ -394,8 +279,12 @@ const W_RA = 40,
   W_ROT = 49,
   W_TMP = 58,
   W_WP = 67,
-  W_Q = 76,
-  W_CS = 82;
+  W_CS = 82,
+  /** q₁-side coefficients of the target: D₁, E₁, H₁, D₂, E₂, H₂. */
+  W_K = 84;
+
+/** Set when a wrist solution lies near the wrist-singular pose: the solutions are then checked by forward kinematics. */
+let wristNearSingular = false;
 
 /**
  * Every inverse-kinematics solution for the flange pose `baseFromFlangeTarget` (row-major 4×4, m), as driven joint
@@ -403,6 +292,8 @@ const W_RA = 40,
  * nearest to 0 within its range. Writes `out` (at least 8·6 long) and returns the number of solutions, or
  * {@link DEGENERATE} when the pose lies on a family of solutions (wrist centre on axis 1 or 2, axes 4 and 6 in
  * line), where the caller should fall back to a numeric solver. Allocates nothing.
+ * Steps: the target's coefficients, the position branches (q0, q2), per branch q1 and the wrist (kinematic joint
+ * values into ik.kinSol), then the driven values inside the ranges.
  * @example the forward kinematics of any pose within the ranges, solved back, gives that pose among the solutions
  *   (test/core/kinematics/closedForm.test.ts).
  */
@@ -413,13 +304,43 @@ export function solveSphericalWristInto(
   outOffset = 0,
 ): number {
   nearTangent = false;
+  wristNearSingular = false;
   const T = baseFromFlangeTarget,
-    chain = ik.chain,
     tiny = 1e-9 * ik.lengthM,
-    w = ik.work,
-    kinSol = ik.kinSol;
-  const wf = ik.wInFlange,
-    k2 = ik.k2;
+    w = ik.work;
+  if (!targetCoefficientsInto(ik, T, tiny)) return DEGENERATE;
+  // Position branches: pairs (q0, q2) in w[W_Q0..] and w[W_Q2..].
+  const pairs =
+    ik.mode === "elbow-first-q1"
+      ? elbowFirstPairs(ik, tiny)
+      : ik.mode === "q3-first"
+        ? q3FirstPairs(ik, tiny)
+        : scanPairs(ik);
+  if (pairs < 0) return DEGENERATE;
+  // q1 per pair, then the wrist; kinematic solutions into kinSol.
+  let count = 0;
+  for (let p = 0; p < pairs; p++) {
+    const q0 = w[W_Q0 + p]!,
+      q2 = w[W_Q2 + p]!;
+    const q1 = shoulderAngle(ik, q0, q2, tiny);
+    if (Number.isNaN(q1)) return DEGENERATE;
+    wristTargetInto(ik, T, q0, q1, q2);
+    count = wristSolutionsInto(ik, q0, q1, q2, count);
+    if (count < 0) return DEGENERATE;
+  }
+  // Exact roots satisfy the decoupled equations and so the pose; double roots (edge of reach), the scanned
+  // general case and a wrist near a singular pose are checked by forward kinematics of the whole chain.
+  const check = nearTangent || ik.mode === "scan" || wristNearSingular;
+  return keepSolutionsInto(out, outOffset, ik, T, count, check);
+}
+
+/**
+ * The wrist centre of target T in the frame joint 0 acts in (w[W_P0..]) and the q0-side coefficients of the two
+ * position equations (w[W_K..]); false when the wrist centre lies on axis 0 (a family of solutions).
+ */
+function targetCoefficientsInto(ik: SphericalWristIk, T: ArrayLike<number>, tiny: number): boolean {
+  const w = ik.work,
+    wf = ik.wInFlange;
   // Wrist centre in the base frame, then in the frame joint 0 acts in: p0 = F0⁻¹·p_w.
   const t0 = ik.t[0]!;
   w[W_F] = T[0]! * wf[0] + T[1]! * wf[1] + T[2]! * wf[2] + T[3]! - t0[0];
@@ -439,255 +360,309 @@ export function solveSphericalWristInto(
   const axx = a0[1] * p0z - a0[2] * p0y,
     axy = a0[2] * p0x - a0[0] * p0z,
     axz = a0[0] * p0y - a0[1] * p0x;
-  if (ppx * ppx + ppy * ppy + ppz * ppz < tiny * tiny) return DEGENERATE;
-  const D1 = -2 * (t1[0] * ppx + t1[1] * ppy + t1[2] * ppz),
-    E1 = 2 * (t1[0] * axx + t1[1] * axy + t1[2] * axz);
-  const H1 = p0x * p0x + p0y * p0y + p0z * p0z + ik.t1Sq - 2 * pPar * ik.t1a0;
-  const D2 = c1[0] * ppx + c1[1] * ppy + c1[2] * ppz,
-    E2 = -(c1[0] * axx + c1[1] * axy + c1[2] * axz);
-  const H2 = pPar * ik.c1a0 - ik.c1t1;
+  if (ppx * ppx + ppy * ppy + ppz * ppz < tiny * tiny) return false;
+  w[W_K] = -2 * (t1[0] * ppx + t1[1] * ppy + t1[2] * ppz); // D1
+  w[W_K + 1] = 2 * (t1[0] * axx + t1[1] * axy + t1[2] * axz); // E1
+  w[W_K + 2] = p0x * p0x + p0y * p0y + p0z * p0z + ik.t1Sq - 2 * pPar * ik.t1a0; // H1
+  w[W_K + 3] = c1[0] * ppx + c1[1] * ppy + c1[2] * ppz; // D2
+  w[W_K + 4] = -(c1[0] * axx + c1[1] * axy + c1[2] * axz); // E2
+  w[W_K + 5] = pPar * ik.c1a0 - ik.c1t1; // H2
+  return true;
+}
+
+/** Mode "elbow-first-q1": q0 from the combined equation, then q2 from the distance one; the pair count or DEGENERATE. */
+function elbowFirstPairs(ik: SphericalWristIk, tiny: number): number {
+  const w = ik.work,
+    k2 = ik.k2,
+    l = ik.factor;
+  const A1 = k2[0]!,
+    B1 = k2[1]!,
+    C1 = k2[2]!,
+    C2 = k2[5]!;
+  const D1 = w[W_K]!,
+    E1 = w[W_K + 1]!,
+    H1 = w[W_K + 2]!,
+    D2 = w[W_K + 3]!,
+    E2 = w[W_K + 4]!,
+    H2 = w[W_K + 5]!;
+  let pairs = 0;
+  const nq0 = sinusoidRoots(w, W_ROOTS, D2 - l * D1, E2 - l * E1, C2 - l * C1 - (H2 - l * H1), tiny);
+  if (nq0 < 0) return DEGENERATE;
+  for (let i = 0; i < nq0; i++) {
+    const q0 = w[W_ROOTS + i]!;
+    const nq2 = sinusoidRoots(
+      w,
+      W_ROOTS + 4,
+      A1,
+      B1,
+      D1 * Math.cos(q0) + E1 * Math.sin(q0) + H1 - C1,
+      tiny * ik.lengthM,
+    );
+    for (let k = 0; k < nq2 && pairs < 4; k++, pairs++) {
+      w[W_Q0 + pairs] = q0;
+      w[W_Q2 + pairs] = w[W_ROOTS + 4 + k]!;
+    }
+  }
+  return pairs;
+}
+
+/** Mode "q3-first": q2 from the combined equation, then q0 from the axial one; the pair count or DEGENERATE. */
+function q3FirstPairs(ik: SphericalWristIk, tiny: number): number {
+  const w = ik.work,
+    k2 = ik.k2,
+    f = ik.factor;
   const A1 = k2[0]!,
     B1 = k2[1]!,
     C1 = k2[2]!,
     A2 = k2[3]!,
     B2 = k2[4]!,
     C2 = k2[5]!;
-
-  // Position branches: pairs (q0, q2) in w[W_Q0..] and w[W_Q2..].
+  const H1 = w[W_K + 2]!,
+    D2 = w[W_K + 3]!,
+    E2 = w[W_K + 4]!,
+    H2 = w[W_K + 5]!;
   let pairs = 0;
-  if (ik.mode === "elbow-first-q1") {
-    const l = ik.factor;
-    const nq0 = sinusoidRoots(w, W_ROOTS, D2 - l * D1, E2 - l * E1, C2 - l * C1 - (H2 - l * H1), tiny);
+  const nq2 = sinusoidRoots(w, W_ROOTS, A1 - f * A2, B1 - f * B2, H1 - f * H2 - (C1 - f * C2), tiny * ik.lengthM);
+  if (nq2 < 0) return DEGENERATE;
+  for (let i = 0; i < nq2; i++) {
+    const q2 = w[W_ROOTS + i]!;
+    const nq0 = sinusoidRoots(w, W_ROOTS + 4, D2, E2, A2 * Math.cos(q2) + B2 * Math.sin(q2) + C2 - H2, tiny);
     if (nq0 < 0) return DEGENERATE;
-    for (let i = 0; i < nq0; i++) {
-      const q0 = w[W_ROOTS + i]!;
-      const nq2 = sinusoidRoots(
-        w,
-        W_ROOTS + 4,
-        A1,
-        B1,
-        D1 * Math.cos(q0) + E1 * Math.sin(q0) + H1 - C1,
-        tiny * ik.lengthM,
-      );
-      for (let k = 0; k < nq2 && pairs < 4; k++, pairs++) {
-        w[W_Q0 + pairs] = q0;
-        w[W_Q2 + pairs] = w[W_ROOTS + 4 + k]!;
-      }
-    }
-  } else if (ik.mode === "q3-first") {
-    const f = ik.factor;
-    const nq2 = sinusoidRoots(w, W_ROOTS, A1 - f * A2, B1 - f * B2, H1 - f * H2 - (C1 - f * C2), tiny * ik.lengthM);
-    if (nq2 < 0) return DEGENERATE;
-    for (let i = 0; i < nq2; i++) {
-      const q2 = w[W_ROOTS + i]!;
-      const nq0 = sinusoidRoots(w, W_ROOTS + 4, D2, E2, A2 * Math.cos(q2) + B2 * Math.sin(q2) + C2 - H2, tiny);
-      if (nq0 < 0) return DEGENERATE;
-      for (let k = 0; k < nq0 && pairs < 4; k++, pairs++) {
-        w[W_Q0 + pairs] = w[W_ROOTS + 4 + k]!;
-        w[W_Q2 + pairs] = q2;
-      }
-    }
-  } else {
-    // [A1 B1; A2 B2]·(cos q2, sin q2) = (D1 cos q0 + E1 sin q0 + H1 − C1, D2 cos q0 + E2 sin q0 + H2 − C2);
-    // h(q0) = cos² + sin² − 1 = 0 (a quartic in tan(q0/2): at most four roots).
-    const det = A1 * B2 - A2 * B1;
-    const step = (2 * Math.PI) / SCAN_SAMPLES;
-    let qa = -Math.PI,
-      ha = scanResidual(w, qa, det, A1, B1, A2, B2, D1 * 1, E1, H1 - C1, D2, E2, H2 - C2);
-    for (let i = 1; i <= SCAN_SAMPLES && pairs < 4; i++) {
-      const qb = -Math.PI + i * step,
-        hb = scanResidual(w, qb, det, A1, B1, A2, B2, D1, E1, H1 - C1, D2, E2, H2 - C2);
-      if (ha === 0 || ha < 0 !== hb < 0) {
-        // Bisection to machine precision (h changes sign in [qa, qb]).
-        let lo = qa,
-          hi = qb,
-          hlo = ha;
-        for (let it = 0; it < 60 && hi - lo > 1e-15; it++) {
-          const mid = 0.5 * (lo + hi),
-            hm = scanResidual(w, mid, det, A1, B1, A2, B2, D1, E1, H1 - C1, D2, E2, H2 - C2);
-          if (hm < 0 === hlo < 0 && hm !== 0) {
-            lo = mid;
-            hlo = hm;
-          } else hi = mid;
-        }
-        const q0 = 0.5 * (lo + hi);
-        scanResidual(w, q0, det, A1, B1, A2, B2, D1, E1, H1 - C1, D2, E2, H2 - C2);
-        w[W_Q0 + pairs] = q0;
-        w[W_Q2 + pairs] = Math.atan2(w[W_CS + 1]!, w[W_CS]!);
-        pairs++;
-      }
-      qa = qb;
-      ha = hb;
+    for (let k = 0; k < nq0 && pairs < 4; k++, pairs++) {
+      w[W_Q0 + pairs] = w[W_ROOTS + 4 + k]!;
+      w[W_Q2 + pairs] = q2;
     }
   }
+  return pairs;
+}
 
-  // q1 per pair, then the wrist; kinematic solutions into kinSol.
-  let count = 0,
-    wristNearSingular = false;
-  const a1 = ik.axis[1]!,
-    a2 = ik.axis[2]!,
-    a3 = ik.axis[3]!,
-    r1 = ik.r[1]!,
-    r2 = ik.r[2]!,
+/**
+ * Mode "scan" (general geometry):
+ * [A1 B1; A2 B2]·(cos q2, sin q2) = (D1 cos q0 + E1 sin q0 + H1 − C1, D2 cos q0 + E2 sin q0 + H2 − C2);
+ * h(q0) = cos² + sin² − 1 = 0 (a quartic in tan(q0/2): at most four roots). Returns the pair count.
+ */
+function scanPairs(ik: SphericalWristIk): number {
+  const w = ik.work,
+    k2 = ik.k2;
+  let pairs = 0;
+  const det = k2[0]! * k2[4]! - k2[3]! * k2[1]!; // A1·B2 − A2·B1
+  const step = (2 * Math.PI) / SCAN_SAMPLES;
+  let qa = -Math.PI,
+    ha = scanResidual(ik, qa, det);
+  for (let i = 1; i <= SCAN_SAMPLES && pairs < 4; i++) {
+    const qb = -Math.PI + i * step,
+      hb = scanResidual(ik, qb, det);
+    if (ha === 0 || ha < 0 !== hb < 0) {
+      // Bisection to machine precision (h changes sign in [qa, qb]).
+      let lo = qa,
+        hi = qb,
+        hlo = ha;
+      for (let it = 0; it < 60 && hi - lo > 1e-15; it++) {
+        const mid = 0.5 * (lo + hi),
+          hm = scanResidual(ik, mid, det);
+        if (hm < 0 === hlo < 0 && hm !== 0) {
+          lo = mid;
+          hlo = hm;
+        } else hi = mid;
+      }
+      const q0 = 0.5 * (lo + hi);
+      scanResidual(ik, q0, det);
+      w[W_Q0 + pairs] = q0;
+      w[W_Q2 + pairs] = Math.atan2(w[W_CS + 1]!, w[W_CS]!);
+      pairs++;
+    }
+    qa = qb;
+    ha = hb;
+  }
+  return pairs;
+}
+
+/** q1 of the branch (q0, q2) by subproblem 1; NaN when the wrist centre lies on axis 1 (a family of solutions). */
+function shoulderAngle(ik: SphericalWristIk, q0: number, q2: number, tiny: number): number {
+  const w = ik.work,
+    t1 = ik.t[1]!,
     t2 = ik.t[2]!;
-  const b4 = ik.b4,
+  // x1 = R_F1ᵀ·(Rot(a0, −q0)·p0 − t1); v = R_F2·Rot(a2, q2)·u + t2.
+  rotInto(w, W_ROT, ik.axis[0]!, -q0);
+  mulRvAt(w, W_Y, w, W_ROT, w, W_P0);
+  w[W_Y] = w[W_Y]! - t1[0];
+  w[W_Y + 1] = w[W_Y + 1]! - t1[1];
+  w[W_Y + 2] = w[W_Y + 2]! - t1[2];
+  mulRtvAt(w, W_X, ik.r[1]!, 0, w, W_Y);
+  rotInto(w, W_ROT, ik.axis[2]!, q2);
+  mulRvAt(w, W_Y, w, W_ROT, ik.u, 0);
+  mulRvAt(w, W_V, ik.r[2]!, 0, w, W_Y);
+  return subproblem1(
+    ik.axis[1]!,
+    w[W_V]! + t2[0],
+    w[W_V + 1]! + t2[1],
+    w[W_V + 2]! + t2[2],
+    w[W_X]!,
+    w[W_X + 1]!,
+    w[W_X + 2]!,
+    tiny,
+  );
+}
+
+/** The rotation the wrist must make, W' = R_Aᵀ·R_target·Q with R_A = R_F0·Rot0·R_F1·Rot1·R_F2·Rot2·R_F3, into w[W_WP..]. */
+function wristTargetInto(ik: SphericalWristIk, T: ArrayLike<number>, q0: number, q1: number, q2: number): void {
+  const w = ik.work;
+  for (let i = 0; i < 9; i++) w[W_RA + i] = ik.r[0]![i]!;
+  for (let i = 0; i < 3; i++) {
+    rotInto(w, W_ROT, ik.axis[i]!, i === 0 ? q0 : i === 1 ? q1 : q2);
+    mul3At(w, W_TMP, w, W_RA, w, W_ROT);
+    mul3At(w, W_RA, w, W_TMP, ik.r[i + 1]!, 0);
+  }
+  for (let i = 0; i < 3; i++) {
+    for (let j = 0; j < 3; j++)
+      w[W_TMP + i * 3 + j] = w[W_RA + i]! * T[j]! + w[W_RA + 3 + i]! * T[4 + j]! + w[W_RA + 6 + i]! * T[8 + j]!;
+  }
+  mul3At(w, W_WP, w, W_TMP, ik.q, 0);
+}
+
+/**
+ * The wrist angles q3, q4, q5 for W' (w[W_WP..]): up to two solutions (wrist flip), appended with q0..q2 to
+ * ik.kinSol after the first `count`. Returns the new count, or DEGENERATE when axes 4 and 6 are in line.
+ */
+function wristSolutionsInto(ik: SphericalWristIk, q0: number, q1: number, q2: number, count: number): number {
+  const w = ik.work,
+    kinSol = ik.kinSol,
+    a3 = ik.axis[3]!,
+    b4 = ik.b4,
     b5 = ik.b5,
     e5 = ik.e5,
     n = ik.n;
-  for (let p = 0; p < pairs; p++) {
-    const q0 = w[W_Q0 + p]!,
-      q2 = w[W_Q2 + p]!;
-    // x1 = R_F1ᵀ·(Rot(a0, −q0)·p0 − t1); v = R_F2·Rot(a2, q2)·u + t2.
-    rotInto(w, W_ROT, a0, -q0);
-    mulRvAt(w, W_Y, w, W_ROT, w, W_P0);
-    w[W_Y] = w[W_Y]! - t1[0];
-    w[W_Y + 1] = w[W_Y + 1]! - t1[1];
-    w[W_Y + 2] = w[W_Y + 2]! - t1[2];
-    mulRtvAt(w, W_X, r1, 0, w, W_Y);
-    rotInto(w, W_ROT, a2, q2);
-    mulRvAt(w, W_Y, w, W_ROT, ik.u, 0);
-    mulRvAt(w, W_V, r2, 0, w, W_Y);
-    const q1 = subproblem1(
-      a1,
-      w[W_V]! + t2[0],
-      w[W_V + 1]! + t2[1],
-      w[W_V + 2]! + t2[2],
-      w[W_X]!,
-      w[W_X + 1]!,
-      w[W_X + 2]!,
-      tiny,
-    );
-    if (Number.isNaN(q1)) return DEGENERATE;
-    // R_A = R_F0·Rot0·R_F1·Rot1·R_F2·Rot2·R_F3.
-    for (let i = 0; i < 9; i++) w[W_RA + i] = ik.r[0]![i]!;
-    for (let i = 0; i < 3; i++) {
-      rotInto(w, W_ROT, ik.axis[i]!, i === 0 ? q0 : i === 1 ? q1 : q2);
-      mul3At(w, W_TMP, w, W_RA, w, W_ROT);
-      mul3At(w, W_RA, w, W_TMP, ik.r[i + 1]!, 0);
-    }
-    // W' = R_Aᵀ·R_target·Q.
-    for (let i = 0; i < 3; i++) {
-      for (let j = 0; j < 3; j++)
-        w[W_TMP + i * 3 + j] = w[W_RA + i]! * T[j]! + w[W_RA + 3 + i]! * T[4 + j]! + w[W_RA + 6 + i]! * T[8 + j]!;
-    }
-    mul3At(w, W_WP, w, W_TMP, ik.q, 0);
-    // Subproblem 2: Rot(a3, q3)·Rot(b4, q4)·b5 = W'·b5 = qv.
-    mulRvAt(w, W_QV, w, W_WP, b5, 0);
-    const qvx = w[W_QV]!,
-      qvy = w[W_QV + 1]!,
-      qvz = w[W_QV + 2]!;
-    const cw = ik.cw,
-      a3q = a3[0] * qvx + a3[1] * qvy + a3[2] * qvz,
-      b4p = ik.b4b5;
-    const den = cw * cw - 1;
-    const alpha = (cw * b4p - a3q) / den,
-      beta = (cw * a3q - b4p) / den;
-    const gamma2 = (1 - alpha * alpha - beta * beta - 2 * alpha * beta * cw) / ik.nn;
-    if (gamma2 < -1e-9) continue;
-    const gamma = Math.sqrt(Math.max(0, gamma2));
-    if (gamma2 < 1e-9) wristNearSingular = true;
-    mulRvAt(w, W_E, w, W_WP, e5, 0);
-    for (let sgn = 0; sgn < 2; sgn++) {
-      if (sgn === 1 && gamma < 1e-12) break;
-      const gs = sgn === 0 ? gamma : -gamma;
-      const zx = alpha * a3[0] + beta * b4[0] + gs * n[0],
-        zy = alpha * a3[1] + beta * b4[1] + gs * n[1],
-        zz = alpha * a3[2] + beta * b4[2] + gs * n[2];
-      const q4 = subproblem1(b4, b5[0], b5[1], b5[2], zx, zy, zz, 1e-9);
-      const q3 = subproblem1(a3, zx, zy, zz, qvx, qvy, qvz, 1e-9);
-      // Axes 4 and 6 in line: q3 and q5 share one degree of freedom.
-      if (Number.isNaN(q3) || Number.isNaN(q4)) return DEGENERATE;
-      // Rot(b5, q5) = Rot(b4, q4)ᵀ·Rot(a3, q3)ᵀ·W'; from its action on e5.
-      rotInto(w, W_ROT, a3, -q3);
-      mulRvAt(w, W_Y, w, W_ROT, w, W_E);
-      rotInto(w, W_ROT, b4, -q4);
-      mulRvAt(w, W_X, w, W_ROT, w, W_Y);
-      const q5 = subproblem1(b5, e5[0], e5[1], e5[2], w[W_X]!, w[W_X + 1]!, w[W_X + 2]!, 1e-9);
-      if (Number.isNaN(q5) || count >= MAX_CLOSED_FORM_SOLUTIONS) continue;
-      const o = count * 6;
-      kinSol[o] = q0;
-      kinSol[o + 1] = q1;
-      kinSol[o + 2] = q2;
-      kinSol[o + 3] = q3;
-      kinSol[o + 4] = q4;
-      kinSol[o + 5] = q5;
-      count++;
-    }
+  // Subproblem 2: Rot(a3, q3)·Rot(b4, q4)·b5 = W'·b5 = qv.
+  mulRvAt(w, W_QV, w, W_WP, b5, 0);
+  const qvx = w[W_QV]!,
+    qvy = w[W_QV + 1]!,
+    qvz = w[W_QV + 2]!;
+  const cw = ik.cw,
+    a3q = a3[0] * qvx + a3[1] * qvy + a3[2] * qvz,
+    b4p = ik.b4b5;
+  const den = cw * cw - 1;
+  const alpha = (cw * b4p - a3q) / den,
+    beta = (cw * a3q - b4p) / den;
+  const gamma2 = (1 - alpha * alpha - beta * beta - 2 * alpha * beta * cw) / ik.nn;
+  if (gamma2 < -1e-9) return count;
+  const gamma = Math.sqrt(Math.max(0, gamma2));
+  if (gamma2 < 1e-9) wristNearSingular = true;
+  mulRvAt(w, W_E, w, W_WP, e5, 0);
+  for (let sgn = 0; sgn < 2; sgn++) {
+    if (sgn === 1 && gamma < 1e-12) break;
+    const gs = sgn === 0 ? gamma : -gamma;
+    const zx = alpha * a3[0] + beta * b4[0] + gs * n[0],
+      zy = alpha * a3[1] + beta * b4[1] + gs * n[1],
+      zz = alpha * a3[2] + beta * b4[2] + gs * n[2];
+    const q4 = subproblem1(b4, b5[0], b5[1], b5[2], zx, zy, zz, 1e-9);
+    const q3 = subproblem1(a3, zx, zy, zz, qvx, qvy, qvz, 1e-9);
+    // Axes 4 and 6 in line: q3 and q5 share one degree of freedom.
+    if (Number.isNaN(q3) || Number.isNaN(q4)) return DEGENERATE;
+    // Rot(b5, q5) = Rot(b4, q4)ᵀ·Rot(a3, q3)ᵀ·W'; from its action on e5.
+    rotInto(w, W_ROT, a3, -q3);
+    mulRvAt(w, W_Y, w, W_ROT, w, W_E);
+    rotInto(w, W_ROT, b4, -q4);
+    mulRvAt(w, W_X, w, W_ROT, w, W_Y);
+    const q5 = subproblem1(b5, e5[0], e5[1], e5[2], w[W_X]!, w[W_X + 1]!, w[W_X + 2]!, 1e-9);
+    if (Number.isNaN(q5) || count >= MAX_CLOSED_FORM_SOLUTIONS) continue;
+    const o = count * 6;
+    kinSol[o] = q0;
+    kinSol[o + 1] = q1;
+    kinSol[o + 2] = q2;
+    kinSol[o + 3] = q3;
+    kinSol[o + 4] = q4;
+    kinSol[o + 5] = q5;
+    count++;
   }
+  return count;
+}
 
-  // Driven values q_d = G⁻¹·(q_kin − offset) (G unit lower triangular, integer), into the ranges, checked by FK.
-  const g = chain.couplingGain,
-    off = chain.couplingOffset,
-    lo = chain.lowerSi,
-    hi = chain.upperSi;
+/**
+ * Driven values of the `count` kinematic solutions in ik.kinSol, inside the ranges, checked by forward kinematics
+ * when `check`, without repeats, written to out from `outOffset`; returns how many were kept.
+ */
+function keepSolutionsInto(
+  out: Float64Array,
+  outOffset: number,
+  ik: SphericalWristIk,
+  T: ArrayLike<number>,
+  count: number,
+  check: boolean,
+): number {
   let kept = 0;
   const q = ik.q6;
-  // Exact roots satisfy the decoupled equations and so the pose; double roots (edge of reach), the scanned
-  // general case and a wrist near a singular pose are checked by forward kinematics of the whole chain.
-  const check = nearTangent || ik.mode === "scan" || wristNearSingular;
   for (let s = 0; s < count; s++) {
-    let inRange = true;
-    for (let i = 0; i < 6; i++) {
-      let v = kinSol[s * 6 + i]! - off[i]!;
-      for (let j = 0; j < i; j++) v -= g[i * 6 + j]! * q[j]!;
-      q[i] = v;
-    }
-    for (let i = 0; i < 6 && inRange; i++) {
-      const v = wrapNear(q[i]!, 0, lo[i]!, hi[i]!);
-      if (Number.isNaN(v)) inRange = false;
-      else q[i] = v;
-    }
-    if (!inRange) continue;
-    if (check) {
-      const f = forwardInto(chain, q, ik.kin);
-      const ex = f[3]! - T[3]!,
-        ey = f[7]! - T[7]!,
-        ez = f[11]! - T[11]!,
-        ep = Math.sqrt(ex * ex + ey * ey + ez * ez);
-      let er = 0;
-      for (let rr = 0; rr < 3; rr++)
-        for (let cc = 0; cc < 3; cc++) er = Math.max(er, Math.abs(f[rr * 4 + cc]! - T[rr * 4 + cc]!));
-      if (ep > 1e-6 || er > 1e-5) continue;
-    }
+    if (!drivenInRangeInto(q, ik.chain, ik.kinSol, s)) continue;
+    if (check && !reachesTarget(ik, q, T)) continue;
     // Distinct modulo whole turns (double roots at the edge of reach come out twice).
-    let dup = false;
-    for (let k = 0; k < kept && !dup; k++) {
-      let same = true;
-      for (let i = 0; i < 6 && same; i++) {
-        const d = Math.abs(out[outOffset + k * 6 + i]! - q[i]!);
-        if (Math.abs(d - 2 * Math.PI * Math.round(d / (2 * Math.PI))) > 1e-6) same = false;
-      }
-      dup = same;
-    }
-    if (dup) continue;
+    if (isRepeat(out, outOffset, kept, q)) continue;
     out.set(q, outOffset + kept * 6);
     kept++;
   }
   return kept;
 }
 
-/** h(q0) of the general reduction; writes cos q2, sin q2 (unnormalised) to w[W_CS], w[W_CS + 1]. */
-function scanResidual(
-  w: Float64Array,
-  q0: number,
-  det: number,
-  A1: number,
-  B1: number,
-  A2: number,
-  B2: number,
-  D1: number,
-  E1: number,
-  K1: number,
-  D2: number,
-  E2: number,
-  K2: number,
-): number {
+/**
+ * Driven values q_d = G⁻¹·(q_kin − offset) (G unit lower triangular, integer) of kinematic solution `s` into q,
+ * taken into the ranges by whole turns; false when a joint cannot be brought inside its range.
+ */
+function drivenInRangeInto(q: Float64Array, chain: Chain, kinSol: Float64Array, s: number): boolean {
+  const g = chain.couplingGain,
+    off = chain.couplingOffset,
+    lo = chain.lowerSi,
+    hi = chain.upperSi;
+  let inRange = true;
+  for (let i = 0; i < 6; i++) {
+    let v = kinSol[s * 6 + i]! - off[i]!;
+    for (let j = 0; j < i; j++) v -= g[i * 6 + j]! * q[j]!;
+    q[i] = v;
+  }
+  for (let i = 0; i < 6 && inRange; i++) {
+    const v = wrapNear(q[i]!, 0, lo[i]!, hi[i]!);
+    if (Number.isNaN(v)) inRange = false;
+    else q[i] = v;
+  }
+  return inRange;
+}
+
+/** Whether the flange at driven values q lies on target T (position to 1 µm, rotation entries to 1e-5). */
+function reachesTarget(ik: SphericalWristIk, q: Float64Array, T: ArrayLike<number>): boolean {
+  const f = forwardInto(ik.chain, q, ik.kin);
+  const ex = f[3]! - T[3]!,
+    ey = f[7]! - T[7]!,
+    ez = f[11]! - T[11]!,
+    ep = Math.sqrt(ex * ex + ey * ey + ez * ez);
+  let er = 0;
+  for (let rr = 0; rr < 3; rr++)
+    for (let cc = 0; cc < 3; cc++) er = Math.max(er, Math.abs(f[rr * 4 + cc]! - T[rr * 4 + cc]!));
+  return !(ep > 1e-6 || er > 1e-5);
+}
+
+/** Whether q equals one of the first `kept` solutions in out modulo whole turns. */
+function isRepeat(out: Float64Array, outOffset: number, kept: number, q: Float64Array): boolean {
+  let dup = false;
+  for (let k = 0; k < kept && !dup; k++) {
+    let same = true;
+    for (let i = 0; i < 6 && same; i++) {
+      const d = Math.abs(out[outOffset + k * 6 + i]! - q[i]!);
+      if (Math.abs(d - 2 * Math.PI * Math.round(d / (2 * Math.PI))) > 1e-6) same = false;
+    }
+    dup = same;
+  }
+  return dup;
+}
+
+/** h(q0) of the general reduction from the coefficients in ik.k2 and w[W_K..]; writes cos q2, sin q2 (unnormalised) to w[W_CS], w[W_CS + 1]. */
+function scanResidual(ik: SphericalWristIk, q0: number, det: number): number {
+  const w = ik.work,
+    k2 = ik.k2;
   const cq = Math.cos(q0),
     sq = Math.sin(q0);
-  const y1 = D1 * cq + E1 * sq + K1,
-    y2 = D2 * cq + E2 * sq + K2;
-  const c = (B2 * y1 - B1 * y2) / det,
-    s = (A1 * y2 - A2 * y1) / det;
+  // D1 cos q0 + E1 sin q0 + (H1 − C1), D2 cos q0 + E2 sin q0 + (H2 − C2).
+  const y1 = w[W_K]! * cq + w[W_K + 1]! * sq + (w[W_K + 2]! - k2[2]!),
+    y2 = w[W_K + 3]! * cq + w[W_K + 4]! * sq + (w[W_K + 5]! - k2[5]!);
+  const c = (k2[4]! * y1 - k2[1]! * y2) / det,
+    s = (k2[0]! * y2 - k2[3]! * y1) / det;
   w[W_CS] = c;
   w[W_CS + 1] = s;
   return c * c + s * s - 1;
