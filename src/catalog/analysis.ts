@@ -23,9 +23,9 @@ import {
   type AnalysisOptions,
   type ArmAnalysis,
   type ArmFacts,
-} from "../core/analysis/analyseArm";
+} from "../core";
 import type { Arm } from "./load";
-import { analysisSummarySchema, armAnalysisSchema } from "./analysisSchema";
+import { analysisSummarySchema, armAnalysisSchema, type AnalysisSummary } from "./analysisSchema";
 
 export function cacheDir(): string {
   return resolve(process.env.ARMDEX_CACHE_DIR ?? "node_modules/.cache/armdex-analyses");
@@ -92,36 +92,7 @@ export function analysisKey(arm: Pick<Arm, "specHash">, options: AnalysisOptions
     .slice(0, 32);
 }
 
-type SpeedMap = ArmAnalysis["speed"]["maps"][number];
-
-/**
- * The part of an analysis that pages listing every arm use: reach, warnings, axis 1 and the flange's top view, the
- * speed figures and the reach maps (the standard lines start from the "tool down" one), the cycle time. The same shape as the analysis (an ArmAnalysis is one), so
- * view functions typed with it take either.
- */
-export interface AnalysisSummary {
-  readonly id: string;
-  readonly specHash: string;
-  readonly analysisVersion: ArmAnalysis["analysisVersion"];
-  readonly reach: ArmAnalysis["reach"];
-  readonly warnings: ArmAnalysis["warnings"];
-  readonly envelope: Pick<ArmAnalysis["envelope"], "layout" | "axis1"> & {
-    readonly flange: Pick<ArmAnalysis["envelope"]["flange"], "top">;
-  };
-  readonly speed: Pick<ArmAnalysis["speed"], "maxToolSpeedMmPerS" | "shareAtLeast"> & {
-    readonly maps: readonly Pick<
-      SpeedMap,
-      | "orientation"
-      | "grid"
-      | "reachableCells"
-      | "maxGuaranteedMmPerS"
-      | "maxToolSpeedMmPerS"
-      | "shareAtLeast"
-      | "guaranteedMmPerS"
-    >[];
-  };
-  readonly cycle: Pick<ArmAnalysis["cycle"], "standardCycleS">;
-}
+export type { AnalysisSummary } from "./analysisSchema";
 
 /** The summary of an analysis: a projection, every value as the analysis has it. */
 export function summariseAnalysis(a: ArmAnalysis): AnalysisSummary {

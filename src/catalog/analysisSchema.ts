@@ -8,7 +8,6 @@
  */
 import { z } from "zod";
 import type { AnalysisOptions, AnalysisWarning, ArmAnalysis, PayloadAnalysis } from "../core";
-import type { AnalysisSummary } from "./analysis";
 
 const num = z.number();
 const numOrNull = z.number().nullable();
@@ -196,6 +195,37 @@ export const armAnalysisSchema: z.ZodType<ArmAnalysis> = z.strictObject({
   cycle,
   warnings: z.array(analysisWarningSchema),
 });
+
+type SpeedMap = ArmAnalysis["speed"]["maps"][number];
+
+/**
+ * The part of an analysis that pages listing every arm use: reach, warnings, axis 1 and the flange's top view, the
+ * speed figures and the reach maps (the standard lines start from the "tool down" one), the cycle time. The same shape as the analysis (an ArmAnalysis is one), so
+ * view functions typed with it take either.
+ */
+export interface AnalysisSummary {
+  readonly id: string;
+  readonly specHash: string;
+  readonly analysisVersion: ArmAnalysis["analysisVersion"];
+  readonly reach: ArmAnalysis["reach"];
+  readonly warnings: ArmAnalysis["warnings"];
+  readonly envelope: Pick<ArmAnalysis["envelope"], "layout" | "axis1"> & {
+    readonly flange: Pick<ArmAnalysis["envelope"]["flange"], "top">;
+  };
+  readonly speed: Pick<ArmAnalysis["speed"], "maxToolSpeedMmPerS" | "shareAtLeast"> & {
+    readonly maps: readonly Pick<
+      SpeedMap,
+      | "orientation"
+      | "grid"
+      | "reachableCells"
+      | "maxGuaranteedMmPerS"
+      | "maxToolSpeedMmPerS"
+      | "shareAtLeast"
+      | "guaranteedMmPerS"
+    >[];
+  };
+  readonly cycle: Pick<ArmAnalysis["cycle"], "standardCycleS">;
+}
 
 /** The summary kept beside each analysis: the fields of the analysis that pages listing every arm read. */
 export const analysisSummarySchema: z.ZodType<AnalysisSummary> = z.strictObject({

@@ -4,7 +4,7 @@
  * a worker never reads or validates an arm file again.
  */
 import { parentPort } from "node:worker_threads";
-import { analyseArm } from "../core/analysis/analyseArm";
+import { analyseArm } from "../core";
 import type { Arm } from "./load";
 import { armFacts, writeCachedAnalysis } from "./analysis";
 

@@ -3,7 +3,6 @@
  * the joint that sets it.
  */
 import { scaleBand, scaleLinear } from "d3-scale";
-import { STANDARD_CYCLE_MOVES } from "../core/analysis/cycle/cycle";
 import { axisBottomSvg } from "./axes";
 import { DEFAULT_MARGINS } from "./layout";
 import { el, fmt, label, svgRoot, textEl, type ChartResult } from "./svg";
@@ -20,6 +19,8 @@ export interface CycleChartInput {
   readonly armName: string;
   readonly moves: readonly CycleMoveData[];
   readonly totalS: number;
+  /** The cycle's moves in words, e.g. "up 25 mm, across 300 mm, down 25 mm and back" (the caller knows the cycle). */
+  readonly pathText: string;
   readonly widthPx?: number;
 }
 
@@ -27,7 +28,7 @@ const ROW_PX = 26;
 
 /**
  * The cycle chart: one <rect class="cycle-bar"> per move.
- * @example cycleChart({ id: "cycle", armName: "Demo", totalS: 0.2, moves: [{ from: "A", to: "A up", timeS: 0.1, limitingJoint: "J2" },
+ * @example cycleChart({ id: "cycle", armName: "Demo", totalS: 0.2, pathText: "up 25 mm, …", moves: [{ from: "A", to: "A up", timeS: 0.1, limitingJoint: "J2" },
  *   { from: "A up", to: "A", timeS: 0.1, limitingJoint: "J2" }] })
  */
 export function cycleChart(input: CycleChartInput): ChartResult {
@@ -75,10 +76,9 @@ export function cycleChart(input: CycleChartInput): ChartResult {
     );
   });
 
-  const { upMm, acrossMm } = STANDARD_CYCLE_MOVES;
   const title = `${input.armName}: standard cycle, ${label(input.totalS, 2)} s`;
   const description =
-    `Time of each move of the standard cycle (up ${upMm} mm, across ${acrossMm} mm, down ${upMm} mm and back), in seconds, with the joint that sets it; ` +
+    `Time of each move of the standard cycle (${input.pathText}), in seconds, with the joint that sets it; ` +
     `total ${label(input.totalS, 2)} s. ${input.moves.map((m) => `${m.from} to ${m.to}: ${label(m.timeS, 3)} s (${m.limitingJoint})`).join("; ")}.`;
   const caption =
     "Point-to-point joint moves with trapezoidal speed profiles inside each joint's speed and acceleration limits, all joints finishing together; " +

@@ -6,7 +6,7 @@
 import type { Arm } from "../catalog";
 import { degToRad, mmToM } from "../core";
 import { lineCheck, referenceToolRotation, rpyToolRotation, type LineCheckResult } from "../core/analysis/line";
-import { gravityDirectionInBase } from "../core/kinematics/statics";
+import { gravityDirectionInBase } from "../core";
 import { parseNumberList, type CommandResult } from "./pose";
 
 /** Option strings as they come from the command line. */

@@ -1,8 +1,8 @@
 /** `armdex pose`: one pose of one arm as JSON (file units outside, SI Jacobian as the contract says). Pure. */
 import type { Arm } from "../catalog";
 import { degToRad, mmToM, mToMm, poseReport, radToDeg, rpyOfInto } from "../core";
-import { createSpeedScratch, guaranteedLineSpeed, maxToolSpeed } from "../core/measures/speed";
-import { SINGULAR_INVERSE_CONDITION, singularityReport } from "../core/measures/singularity";
+import { createSpeedScratch, guaranteedLineSpeed, maxToolSpeed } from "../core";
+import { SINGULAR_INVERSE_CONDITION, singularityReport } from "../core";
 
 export type CommandResult<T> = { ok: true; value: T } | { ok: false; message: string; usage?: boolean };
 

@@ -10,7 +10,7 @@
  */
 import { compileChain, type ArmKinematicsInput, type Chain } from "../core";
 import type { LineCheckResult } from "../core/analysis/line";
-import type { Mounting } from "../core/kinematics/statics";
+import type { Mounting } from "../core";
 import { lineRatesChartNode, type SvgNode } from "../charts/lineRatesChart";
 import {
   LINE_QUERY_KEYS,

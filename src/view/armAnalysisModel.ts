@@ -4,8 +4,8 @@
  * Pure: (arm, analysis, options) → props.
  */
 import type { Arm } from "../catalog";
-import type { ArmAnalysis } from "../core/analysis/analyseArm";
-import { STANDARD_CYCLE_MOVES } from "../core/analysis/cycle/cycle";
+import type { ArmAnalysis } from "../core";
+import { STANDARD_CYCLE_MOVES } from "../core";
 import {
   cycleChart,
   envelopeChart,
@@ -524,7 +524,13 @@ function cycleSection(a: ArmAnalysis, name: string): ArmAnalysisModel["cycle"] {
     ? `${formatQuantity(c.standardCycleS!, "s", 2)} per cycle, set by ${c.limitingJoint ?? "\u2014"}${where ? `; ${where}` : ""}.`
     : `Not computed: ${c.failure ? cycleFailureText(c.failure, c.location ? Math.round(c.location.rMm) : null) : "no reason given"}.`;
   const chart = computed
-    ? cycleChart({ id: "cycle-moves", armName: name, moves: c.moves, totalS: c.standardCycleS! })
+    ? cycleChart({
+        id: "cycle-moves",
+        armName: name,
+        moves: c.moves,
+        totalS: c.standardCycleS!,
+        pathText: `up ${STANDARD_CYCLE_MOVES.upMm} mm, across ${STANDARD_CYCLE_MOVES.acrossMm} mm, down ${STANDARD_CYCLE_MOVES.upMm} mm and back`,
+      })
     : null;
   const table: TableModel | null = computed
     ? {

@@ -3,7 +3,7 @@
  * analysis). Plain numbers in the file units named in each header; text cells escaped by csv.ts.
  */
 import type { Arm } from "../catalog";
-import type { ArmAnalysis } from "../core/analysis/analyseArm";
+import type { ArmAnalysis } from "../core";
 import { couplingFormula, drivenJointIndices } from "./jointTables";
 import { csvRound, toCsv, type CsvCell } from "./csv";
 

@@ -1,6 +1,6 @@
 /** Props of an arm sheet, `/arms/<id>/`: every value formatted, every link joined with the base path. */
 import type { Arm } from "../catalog";
-import type { ArmAnalysis } from "../core/analysis/analyseArm";
+import type { ArmAnalysis } from "../core";
 import { armAnalysisModel, type ArmAnalysisModel } from "./armAnalysisModel";
 import { CAUTIONS, type Cautions } from "./cautions";
 import type { ViewOptions } from "./catalogPageModel";

@@ -15,7 +15,7 @@
  * Pure over (arm, analysis): no filesystem, no Astro.
  */
 import type { Arm } from "../catalog/load";
-import type { ArmAnalysis } from "../core/analysis/analyseArm";
+import type { ArmAnalysis } from "../core";
 import { simplifyRing, type PointData, type PolygonData } from "../charts/geometry";
 
 /** Side of a speed block, mm (rounded up to a multiple of the map's node spacing). */

@@ -2,7 +2,7 @@
  * The side-by-side page's tables and choices, DOM-free: which arms the address names, the spec table and the speed
  * table with the best value of each row marked, and what "best" means per row (no mark where it is not meaningful).
  */
-import { STANDARD_CYCLE_MOVES } from "../core/analysis/cycle/cycle";
+import { STANDARD_CYCLE_MOVES } from "../core";
 import type { CompareArmSummary } from "./compareData";
 import { formatNumber, formatQuantity, NOT_STATED } from "./format";
 

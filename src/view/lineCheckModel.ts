@@ -5,10 +5,10 @@
  * the line's start, roll-pitch-yaw as URDF, flange centre as the tool point, 101 samples), and the result turned
  * into display sentences and chart data. Pure: no DOM, no Astro, no I/O.
  */
-import type { Chain } from "../core/kinematics/chain";
+import type { Chain } from "../core";
 import { lineCheck, referenceToolRotation, rpyToolRotation, type LineCheckResult } from "../core/analysis/line";
-import { gravityDirectionInBase, type Mounting } from "../core/kinematics/statics";
-import { degToRad, mmToM } from "../core/units";
+import { gravityDirectionInBase, type Mounting } from "../core";
+import { degToRad, mmToM } from "../core";
 import type { LineRatesChartInput } from "../charts/lineRatesChart";
 import { formatNumber, formatQuantity } from "./format";
 

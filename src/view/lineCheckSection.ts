@@ -3,10 +3,10 @@
  * (checked at build time) and the settings of the in-browser form, for one arm (arm sheet) or several (comparison
  * page). Pure; the catalog's Arm and ArmAnalysis come in, finished strings and plain data go out.
  */
-import type { ArmAnalysis } from "../core/analysis/analyseArm";
+import type { ArmAnalysis } from "../core";
 import type { AnalysisSummary } from "../catalog/analysis";
-import type { Chain } from "../core/kinematics/chain";
-import type { Mounting } from "../core/kinematics/statics";
+import type { Chain } from "../core";
+import type { Mounting } from "../core";
 import { siteHref } from "./links";
 import { lineQueryPairs, orientationKindsFor, type LineOrientation, type LineQuery } from "./lineCheckModel";
 import {

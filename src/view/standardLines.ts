@@ -9,10 +9,10 @@
  * Every line holds the tool "down". Coordinates are whole millimetres in the base frame, so the form, the URL and
  * `armdex line` reproduce the figures exactly. Pure: analysis data and the chain in, plain data out.
  */
-import type { Chain } from "../core/kinematics/chain";
-import type { ArmAnalysis } from "../core/analysis/analyseArm";
+import type { Chain } from "../core";
+import type { ArmAnalysis } from "../core";
 import type { AnalysisSummary } from "../catalog/analysis";
-import { gravityDirectionInBase, type Mounting } from "../core/kinematics/statics";
+import { gravityDirectionInBase, type Mounting } from "../core";
 import type { LineCheckResult } from "../core/analysis/line";
 import { lineRatesChart } from "../charts/lineRatesChart";
 import type { ChartResult } from "../charts/svg";

@@ -8,7 +8,13 @@ describe("cycleChart", () => {
     { from: "A up", to: "B up", timeS: 0.4, limitingJoint: "J1" },
     { from: "B up", to: "B", timeS: 0.1, limitingJoint: "J2" },
   ];
-  const chart = cycleChart({ id: "cycle-moves", armName: "Demo", moves, totalS: 0.6 });
+  const chart = cycleChart({
+    id: "cycle-moves",
+    armName: "Demo",
+    moves,
+    totalS: 0.6,
+    pathText: "up 25 mm, across 300 mm, down 25 mm and back",
+  });
 
   it("is accessible, with the time axis in seconds and the assumptions in the caption", () => {
     expectAccessible(chart.svg, expect);
