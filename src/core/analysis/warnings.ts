@@ -67,7 +67,8 @@ export function reachWarning(
 ): StatedReachMismatch | null {
   if (!(computedMm > 0)) return null;
   const deviation = statedMm / computedMm - 1;
-  if (!(Math.abs(deviation) > REACH_MISMATCH_FRACTION)) return null;
+  // 1e-12: exactly 2 % (1020 mm against 1000 mm, 1020/1000 − 1 = 0.020000000000000018 in doubles) is not "more".
+  if (!(Math.abs(deviation) > REACH_MISMATCH_FRACTION + 1e-12)) return null;
   const unitsSuspect =
     Math.abs(statedMm / computedMm - 1000) < 100 || Math.abs((statedMm * 1000) / computedMm - 1) < 0.1;
   return {
