@@ -5,7 +5,7 @@
  */
 import type { Arm } from "../catalog";
 import type { ArmAnalysis } from "../core";
-import { STANDARD_CYCLE_MOVES } from "../core";
+import { REACH_MISMATCH_FRACTION, STANDARD_CYCLE_MOVES } from "../core";
 import {
   cycleChart,
   envelopeChart,
@@ -23,9 +23,6 @@ import { MOUNTING_LABEL } from "./labels";
 import { siteHref } from "./links";
 import { analysisWarningText, cycleFailureText } from "./warningText";
 import type { TableCell, TableModel, TableRow } from "./table";
-
-/** Largest relative difference between stated and computed reach before the sheet flags it. */
-export const REACH_MISMATCH_LIMIT = 0.02;
 
 export type Orientation = "down" | "outward";
 
@@ -60,7 +57,7 @@ export function reachCheck(analysis: Pick<ArmAnalysis, "reach">): ReachCheck {
     basis: wcp !== null ? "wcp" : "flange",
     statedMm,
     deviation,
-    mismatch: deviation !== null && Math.abs(deviation) > REACH_MISMATCH_LIMIT,
+    mismatch: deviation !== null && Math.abs(deviation) > REACH_MISMATCH_FRACTION,
   };
 }
 

@@ -1,5 +1,6 @@
 /** The catalog summary written to data/catalog.json: one row per arm with its key declared and computed figures. */
 import type { Arm } from "../catalog/load";
+import { REACH_MISMATCH_FRACTION } from "../core";
 import type { AnalysisSummary } from "../catalog/analysis";
 import { bestGuaranteedLineSpeedDownMPerS } from "./catalogPageModel";
 
@@ -20,7 +21,7 @@ export function catalogSummaryRow(arm: Arm, analysis: AnalysisSummary) {
       basis: analysis.reach.basis,
       statedMm: s.reachMm ?? null,
       deviation: deviation === null ? null : Number(deviation.toFixed(4)),
-      mismatch: deviation !== null && Math.abs(deviation) > 0.02,
+      mismatch: deviation !== null && Math.abs(deviation) > REACH_MISMATCH_FRACTION,
     },
     maxHeightMm: analysis.reach.maxHeightMm,
     minHeightMm: analysis.reach.minHeightMm,

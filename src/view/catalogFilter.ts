@@ -9,6 +9,7 @@
  * mounting, column or arm, is dropped (as if absent), never an error.
  */
 import { siteHref } from "./links";
+import { MAX_COMPARE_ARMS, MIN_COMPARE_ARMS } from "./compareModel";
 
 /** Query keys of the catalog state. */
 export const CATALOG_QUERY_KEYS = {
@@ -25,8 +26,6 @@ export const CATALOG_QUERY_KEYS = {
 } as const;
 
 /** Ticked arms the side-by-side page takes: at least 2, at most 6. */
-export const COMPARE_MIN_ARMS = 2;
-export const COMPARE_MAX_ARMS = 6;
 
 export interface CatalogFilter {
   /** Arm class key ("articulated", "scara", …); null: any. */
@@ -189,11 +188,6 @@ export function urlWithCatalogState(href: string, state: CatalogState): string {
   return url.href;
 }
 
-/** True when the filter holds anything. */
-export function filterIsActive(filter: CatalogFilter): boolean {
-  return Object.values(filter).some((v) => v !== null);
-}
-
 /**
  * Does the arm pass every filter? An arm whose figure is unknown (not stated, not computed) fails a filter on it.
  * Height band: the arm's computed height range [minHeightMm, maxHeightMm] must cover [from, to] (ends in either
@@ -265,14 +259,14 @@ export function shownText(shown: number, total: number): string {
 
 /** Why "Open side by side" cannot be used with these ticks; null when it can. */
 export function pickProblem(pick: readonly string[]): string | null {
-  if (pick.length < COMPARE_MIN_ARMS) {
+  if (pick.length < MIN_COMPARE_ARMS) {
     return pick.length === 0
-      ? `Tick ${COMPARE_MIN_ARMS} to ${COMPARE_MAX_ARMS} arms to compare them side by side.`
-      : `Tick at least one more arm: side by side takes ${COMPARE_MIN_ARMS} to ${COMPARE_MAX_ARMS}.`;
+      ? `Tick ${MIN_COMPARE_ARMS} to ${MAX_COMPARE_ARMS} arms to compare them side by side.`
+      : `Tick at least one more arm: side by side takes ${MIN_COMPARE_ARMS} to ${MAX_COMPARE_ARMS}.`;
   }
-  if (pick.length > COMPARE_MAX_ARMS) {
-    const over = pick.length - COMPARE_MAX_ARMS;
-    return `Untick ${over} arm${over === 1 ? "" : "s"}: side by side takes at most ${COMPARE_MAX_ARMS}.`;
+  if (pick.length > MAX_COMPARE_ARMS) {
+    const over = pick.length - MAX_COMPARE_ARMS;
+    return `Untick ${over} arm${over === 1 ? "" : "s"}: side by side takes at most ${MAX_COMPARE_ARMS}.`;
   }
   return null;
 }

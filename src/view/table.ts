@@ -43,8 +43,3 @@ export interface TableModel {
   /** The first cell of each row is a row header (th scope="row"). */
   readonly rowHeaders: boolean;
 }
-
-/** Header text: "Rated payload (kg)". */
-export function columnHeading(column: TableColumn): string {
-  return column.unit ? `${column.label} (${column.unit})` : column.label;
-}
