@@ -5,7 +5,8 @@
  */
 import type { Arm } from "../catalog";
 import { degToRad, mmToM } from "../core";
-import { lineCheck, referenceToolRotation, rpyToolRotation, type LineCheckResult } from "../core/analysis/line";
+import { lineCheck, type LineCheckResult } from "../core/analysis/line";
+import { referenceToolRotation, rpyToolRotation } from "../core/kinematics/toolOrientation";
 import { gravityDirectionInBase } from "../core/analysis/mounting";
 import { parseNumberList, type CommandResult } from "./pose";
 

@@ -6,7 +6,8 @@
  * into display sentences and chart data. Pure: no DOM, no Astro, no I/O.
  */
 import type { Chain } from "../core/kinematics/chain";
-import { lineCheck, referenceToolRotation, rpyToolRotation, type LineCheckResult } from "../core/analysis/line";
+import { lineCheck, type LineCheckResult } from "../core/analysis/line";
+import { referenceToolRotation, rpyToolRotation } from "../core/kinematics/toolOrientation";
 import { gravityDirectionInBase, type Mounting } from "../core/analysis/mounting";
 import { degToRad, mmToM } from "../core/units";
 import type { LineRatesChartInput } from "../charts/lineRatesChart";
