@@ -146,9 +146,9 @@ export function lineCommand(arm: Arm, args: LineArgs): CommandResult<Record<stri
       ...result,
       notes: [
         "Computed with idealised rigid-body kinematics from the arm file: joint rates needed to keep the tool on the line at constant orientation, against each joint's declared speed limit. No acceleration limits, controller behaviour, payload dynamics or blending; not a maker specification and not safety data.",
-        "feasibleConstantSpeedMmPerS: the largest constant speed the whole line allows (0 when a point is out of reach or the joints must jump); speedProfile: the largest speed per sample if the controller may slow down locally.",
+        "feasibleConstantSpeedMmPerS: the largest constant speed the whole line allows; 0 when no start branch follows the whole line (a point out of reach, a joint leaving its range, a joint jump, or a pose needing an unbounded rate: startBranches[].reason says which); speedProfile: the largest speed per sample if the controller may slow down locally.",
         "rateRatios: |needed joint rate| / joint speed limit at the commanded speed; above 1 the joint cannot keep up. jointsDeg and joint rates are in mm and mm/s for prismatic joints.",
-        `Start branch: ${result.startRule === "best run" ? "of the IK solutions at the start (one per branch name), the run with the fewest joint jumps and range violations, then the highest feasible speed, then the start nearest the zero pose" : "the IK solution nearest --start-joints"}.`,
+        `Start branch: ${result.startRule === "best run" ? "of the IK solutions at the start (one per branch name), the fastest run that follows the whole line within reach, within the joint ranges and without a jump; when none does, the run with the fewest problems (jumps, range violations, out-of-reach intervals), then the highest speed its joint rates allow, then the start nearest the zero pose" : "the IK solution nearest --start-joints"}.`,
         "inverseCondition: σ_min/σ_max of the Jacobian with its linear rows divided by the arm's characteristic length (1 isotropic, 0 singular); the singularity kind comes from the joint motion that moves the tool least.",
       ],
     }) as Record<string, unknown>,

@@ -1,7 +1,7 @@
 /**
  * Continuation along the line: the adaptive predictor–corrector walk between positions, the run of one start
  * solution over the whole line (re-entry after out-of-reach intervals), the golden-section refinement of the
- * bottleneck and the nearest singularity, and a run's feasible constant speed.
+ * bottleneck and the nearest singularity.
  * @see Allgower & Georg, Introduction to Numerical Continuation Methods, ch. 2 (predictor–corrector) [from memory];
  *   Kiefer, Proc. AMS 4(3), 1953 (golden-section search) [from memory]
  */
@@ -193,11 +193,4 @@ export function runLine(ctx: Context, start: Point, k0: number): Run {
     );
   }
   return run;
-}
-
-/** Feasible constant speed of a run, m/s. */
-export function feasibleSpeed(run: Run): number {
-  if (run.gaps.length > 0 || run.jumps > 0 || !run.anyPoint) return 0;
-  const r = run.worst.maxRatio;
-  return r === Infinity ? 0 : r > 0 ? 1 / r : Infinity;
 }

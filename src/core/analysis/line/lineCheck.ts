@@ -17,8 +17,12 @@
  *   speed.ts; the minimum-norm rates for redundant arms; least squares with an exactness check for arms with fewer
  *   than six joints). rateRatioᵢ = |q̇ᵢ| / q̇maxᵢ. The largest constant speed the line allows is
  *   commanded / max over the line and the joints of rateRatioᵢ (the ratios scale with the speed, so the figure does
- *   not depend on the commanded speed); it is 0 when a point is out of reach, when the joints must jump (no
- *   continuous solution), or at a pose where the motion needs unbounded rates. Where J cannot be inverted but the
+ *   not depend on the commanded speed). The rule (verdict.ts): a line the arm cannot follow has no feasible
+ *   speed. It is 0, and the commanded speed is not feasible, unless a start branch follows the whole line within
+ *   reach, within every joint range and without a jump (no continuous solution); also 0 at a pose where the motion
+ *   needs unbounded rates. Each start branch says why it does not follow (`reason`, `atFraction`, `joint`). A
+ *   continuous front ↔ back change (the wrist centre passing axis 1, the arm reaching behind it with finite rates)
+ *   is labelled `passesAxis1`, not a problem. Where J cannot be inverted but the
  *   motion is still possible (a line crossing a singular pose exactly), the minimum-norm rates are used.
  * - Every accepted continuation point (the samples and the adaptive steps between them) counts for the bottleneck,
  *   the nearest singularity, branch changes and range violations; the bottleneck and the nearest singularity are
@@ -34,8 +38,9 @@
  *
  * Default start branch ("best run"): every distinct IK solution at the start (one per branch name, inside the
  * joint ranges when it can be, the one nearest the zero pose for each name) is followed along the whole line, and
- * the run kept is the one with the fewest problems (joint jumps plus range violations), then the highest feasible
- * constant speed, then the start nearest the arm's zero pose. Why: Armdex answers whether the arm can do this
+ * the run kept is the fastest of those that follow the line (then the start nearest the arm's zero pose); when
+ * none does, the one with the fewest problems (joint jumps, range violations, out-of-reach intervals), then the
+ * highest speed its joint rates allow, then the start nearest the zero pose. Why: Armdex answers whether the arm can do this
  * line, and an integrator teaches the start point in whichever posture works, so each arm is credited with its
  * best posture instead of an arbitrary one; the other starts are listed (`startBranches`) and `startJointsSi`
  * picks the solution nearest given joints instead.
@@ -47,9 +52,10 @@
  */
 import type { Chain } from "../../kinematics/chain";
 import { createContext, type Context, type Point } from "./context";
-import { feasibleSpeed, runLine } from "./continuation";
+import { runLine } from "./continuation";
 import { lineReport, type StartRun } from "./report";
 import { discover, distance2 } from "./solutions";
+import { feasibleSpeed, rateLimitedSpeed, runVerdict } from "./verdict";
 import { DEFAULT_LINE_CHECK, type LineCheckInput, type LineCheckOptions, type LineCheckResult } from "./types";
 
 /**
@@ -81,8 +87,10 @@ export function lineCheck(
     const run = runLine(ctx, c, k0);
     runs.push({
       run,
-      feasible: feasibleSpeed(run),
-      problems: run.jumps + run.violations.length,
+      followed: runVerdict(ctx, run) === null,
+      feasible: feasibleSpeed(ctx, run),
+      rateLimited: rateLimitedSpeed(run),
+      problems: run.jumps + run.violations.length + run.gaps.length,
       d: distance2(ctx, c.q, null),
     });
   }
@@ -156,12 +164,17 @@ function startSolutions(ctx: Context, reference: Float64Array | null): { candida
   return { candidates, k0 };
 }
 
-/** The run reported: the fewest problems, then the highest feasible speed, then the start nearest the zero pose. */
+/**
+ * The run reported: the fastest of the runs that follow the line (nearest the zero pose among equals); when none
+ * does, the one with the fewest problems (jumps, range violations, out-of-reach intervals), then the highest speed
+ * its joint rates allow, then the start nearest the zero pose.
+ */
 function bestRun(runs: readonly StartRun[]) {
   const ranked = [...runs].sort((a, b) => {
+    if (a.followed !== b.followed) return a.followed ? -1 : 1;
     if (a.problems !== b.problems) return a.problems - b.problems;
-    const fa = a.feasible,
-      fb = b.feasible;
+    const fa = a.rateLimited,
+      fb = b.rateLimited;
     const close = Number.isFinite(fa) && Number.isFinite(fb) && Math.abs(fa - fb) <= 1e-9 * Math.max(fa, fb);
     if (fa !== fb && !close) return fb > fa ? 1 : -1;
     return a.d - b.d;

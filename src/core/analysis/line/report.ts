@@ -8,9 +8,9 @@ import { mToMm, radToDeg } from "../../units";
 import { branchName } from "../branches";
 import { SINGULAR_INVERSE_CONDITION } from "../singularity";
 import { KINDS, type Context } from "./context";
-import { feasibleSpeed } from "./continuation";
 import type { Event, Run } from "./record";
 import { positionMm } from "./solutions";
+import { feasibleSpeed, passesAxis1, runVerdict } from "./verdict";
 import type {
   LineBranchChange,
   LineCheckResult,
@@ -23,9 +23,14 @@ import type {
 /** One start solution followed over the line, with the figures that rank it. */
 export interface StartRun {
   readonly run: Run;
-  /** Feasible constant speed, m/s (Infinity when no joint with a speed limit moves). */
+  /** True when it follows the whole line (verdict.ts runVerdict null). */
+  readonly followed: boolean;
+  /** Feasible constant speed, m/s: 0 unless followed (Infinity when no joint with a speed limit moves). */
   readonly feasible: number;
-  /** Joint jumps plus range violations. */
+  /** Speed its joint rates allow, m/s, ignoring range violations (verdict.ts rateLimitedSpeed); ranks the runs
+   * that do not follow the line. */
+  readonly rateLimited: number;
+  /** Joint jumps plus range violations plus out-of-reach intervals. */
   readonly problems: number;
   /** Squared distance of the start joints from the zero pose (prismatic joints in characteristic lengths). */
   readonly d: number;
@@ -63,18 +68,26 @@ export function lineReport(
   const out = outputJoints(chain);
   const { names, units, toOut } = out;
   const codeName = (code: number) => branchName(ctx.frame, code);
-  const summary = (x: StartRun): LineStartBranch => ({
-    branch: codeName(x.run.startCode),
-    startJointsDeg: Array.from(x.run.startQ, (v, i) => toOut(i, v)),
-    feasibleConstantSpeedMmPerS: Number.isFinite(x.feasible) ? mToMm(x.feasible) : null,
-    jumps: x.run.jumps,
-    jointLimitViolations: x.run.violations.length,
-    chosen: x.run === chosen,
-  });
+  const summary = (x: StartRun): LineStartBranch => {
+    const verdict = runVerdict(ctx, x.run);
+    return {
+      branch: codeName(x.run.startCode),
+      startJointsDeg: Array.from(x.run.startQ, (v, i) => toOut(i, v)),
+      feasibleConstantSpeedMmPerS: Number.isFinite(x.feasible) ? mToMm(x.feasible) : null,
+      jumps: x.run.jumps,
+      jointLimitViolations: x.run.violations.length,
+      chosen: x.run === chosen,
+      followed: verdict === null,
+      reason: verdict ? verdict.reason : null,
+      atFraction: verdict ? verdict.s / L : null,
+      joint: verdict && verdict.joint >= 0 ? names[verdict.joint]! : null,
+    };
+  };
   const startBranches = runs.map(summary);
   const startBranch = startBranches.find((b) => b.chosen) ?? null;
   const { samples, speedProfile } = sampleReport(ctx, speed, chosen, out);
-  const feasible = chosen ? feasibleSpeed(chosen) : 0;
+  const feasible = chosen ? feasibleSpeed(ctx, chosen) : 0;
+  const followed = chosen !== null && runVerdict(ctx, chosen) === null;
   const nearestSingularity = nearestSingularityOf(ctx, chosen);
   const branchChanges: LineBranchChange[] = chosen
     ? chosen.events.map((e) => {
@@ -90,6 +103,10 @@ export function lineReport(
           continuous: e.continuous,
           acrossGap: e.acrossGap,
           jointChangeDeg: Array.from(e.dq, (v, i) => toOut(i, v)),
+          passesAxis1: passesAxis1(e.fromCode, e.toCode, e.continuous),
+          note: passesAxis1(e.fromCode, e.toCode, e.continuous)
+            ? "passes axis 1: the arm reaches behind axis 1 continuously (finite joint rates); not a posture change"
+            : null,
         };
       })
     : [];
@@ -125,8 +142,10 @@ export function lineReport(
     startRule: byReference ? "nearest start joints" : "best run",
     startBranch,
     startBranches,
+    followed,
     feasibleConstantSpeedMmPerS: Number.isFinite(feasible) ? mToMm(feasible) : null,
-    commandedSpeedFeasible: feasible >= speed * (1 - 1e-12),
+    commandedSpeedFeasible: followed && feasible >= speed * (1 - 1e-12),
+    passesAxis1: branchChanges.some((c) => c.passesAxis1),
     bottleneck: bottleneckOf(ctx, speed, chosen, names),
     nearestSingularity,
     branchChanges,
@@ -238,6 +257,16 @@ function bottleneckOf(
       fraction: sM / L,
       rateRatio: null,
       reason: "jump",
+    };
+  } else if (chosen && chosen.violations.length > 0) {
+    const v = runVerdict(ctx, chosen)!;
+    return {
+      joint: names[v.joint]!,
+      jointIndex: v.joint,
+      positionMm: positionMm(ctx, v.s),
+      fraction: v.s / L,
+      rateRatio: null,
+      reason: "joint limit",
     };
   } else if (chosen && chosen.anyPoint) {
     const w = chosen.worst;

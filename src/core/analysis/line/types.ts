@@ -91,6 +91,11 @@ export interface LineBranchChange {
   readonly acrossGap: boolean;
   /** Joint change between the two points, deg or mm. */
   readonly jointChangeDeg: number[];
+  /** True when the wrist centre passes axis 1 continuously (front ↔ back, the arm reaching behind the axis with
+   * finite rates): the arm keeps following the line; not a posture change and not a problem. */
+  readonly passesAxis1: boolean;
+  /** A plain note on the change, or null. */
+  readonly note: string | null;
 }
 
 export interface LineOutOfReach {
@@ -114,13 +119,28 @@ export interface LineJointLimitViolation {
   readonly toPositionMm: number[];
 }
 
+/**
+ * Why a start branch does not follow the line (the first of these that applies): a point out of reach, a joint
+ * jump (no continuous solution), a joint leaving its range, or a pose needing unbounded joint rates.
+ */
+export type LineNotFollowedReason = "out of reach" | "jump" | "joint limit" | "singular";
+
 export interface LineStartBranch {
   readonly branch: string;
   readonly startJointsDeg: number[];
+  /** 0 whenever `followed` is false. */
   readonly feasibleConstantSpeedMmPerS: number | null;
   readonly jumps: number;
   readonly jointLimitViolations: number;
   readonly chosen: boolean;
+  /** True when this start follows the whole line within reach, within every joint range and without a jump. */
+  readonly followed: boolean;
+  /** Why it does not (null when followed). */
+  readonly reason: LineNotFollowedReason | null;
+  /** Where along the line the reason applies (0 … 1; null when followed). */
+  readonly atFraction: number | null;
+  /** The joint concerned (the one leaving its range, jumping most, or needing the unbounded rate), or null. */
+  readonly joint: string | null;
 }
 
 export interface LineCheckResult {
@@ -133,11 +153,17 @@ export interface LineCheckResult {
   readonly startRule: "best run" | "nearest start joints";
   readonly startBranch: LineStartBranch | null;
   readonly startBranches: LineStartBranch[];
-  /** Largest constant TCP speed the whole line allows, mm/s (0 if a point is out of reach or exactly singular;
-   * null when no joint with a speed limit moves). */
+  /** True when the reported start branch follows the whole line within reach, within every joint range and
+   * without a jump (see LineStartBranch.followed); the start branches are ranked followed first. */
+  readonly followed: boolean;
+  /** Largest constant TCP speed the whole line allows, mm/s: 0 when no start branch follows the line (a point out
+   * of reach, a joint leaving its range, a jump, or an exactly singular pose); null when no joint with a speed
+   * limit moves. */
   readonly feasibleConstantSpeedMmPerS: number | null;
-  /** True when the commanded speed is within it. */
+  /** True when the line is followed and the commanded speed is within the feasible speed. */
   readonly commandedSpeedFeasible: boolean;
+  /** True when the reported run passes axis 1 continuously (see LineBranchChange.passesAxis1). */
+  readonly passesAxis1: boolean;
   readonly bottleneck: {
     readonly joint: string | null;
     readonly jointIndex: number | null;
@@ -146,8 +172,9 @@ export interface LineCheckResult {
     /** Rate ratio of that joint at the commanded speed (null when unbounded). */
     readonly rateRatio: number | null;
     /** What limits the speed: a joint's rate; a point out of reach; a joint jump (no continuous solution: the arm
-     * must stop and reconfigure); a pose where the motion needs unbounded rates. */
-    readonly reason: "joint rate" | "out of reach" | "jump" | "singular";
+     * must stop and reconfigure); a joint leaving its range (fraction: where it leaves); a pose where the motion
+     * needs unbounded rates. */
+    readonly reason: "joint rate" | LineNotFollowedReason;
   } | null;
   readonly nearestSingularity: {
     readonly kind: LineSingularityKind;

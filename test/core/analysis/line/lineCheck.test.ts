@@ -185,7 +185,7 @@ describe("lineCheck(planar 3R, (x, y, θ) task)", () => {
     expect(hole.feasibleConstantSpeedMmPerS).toBe(0);
   });
 
-  it("a joint range crossed: jointLimitViolations names j1 and the fraction where the closed-form q1 reaches −30°", () => {
+  it("a joint range crossed: jointLimitViolations names j1 where the closed-form q1 reaches −30°; no feasible speed", () => {
     const limited = compileChain(planar3r([-30, 170]));
     const v = lineCheck(
       limited,
@@ -222,8 +222,14 @@ describe("lineCheck(planar 3R, (x, y, θ) task)", () => {
     // The extreme is taken over the accepted continuation points, at most one sample spacing (16 mm) apart; near the
     // minimum that is within q1''·h²/8 of the true minimum: 0.01° here.
     expectClose(viol.extremeValue, minQ1 / DEG, 0.01, "extreme q1");
-    // A violation is a problem of the run, not a reason to stop: the speed figure is still given.
-    expect(v.feasibleConstantSpeedMmPerS!).toBeGreaterThan(0);
+    // A line the arm cannot follow within its joint ranges has no feasible speed: 0, not feasible, and the start
+    // branch says why and where (the closed-form crossing above).
+    expect(v.feasibleConstantSpeedMmPerS).toBe(0);
+    expect(v.commandedSpeedFeasible).toBe(false);
+    expect(v.followed).toBe(false);
+    expect(v.bottleneck).toMatchObject({ reason: "joint limit", joint: "j1" });
+    expect(v.startBranch).toMatchObject({ followed: false, reason: "joint limit", joint: "j1" });
+    expectClose(v.startBranch!.atFraction!, lo, 1e-4, "reason at the crossing");
   });
 });
 
