@@ -23,27 +23,16 @@ export interface LineArgs {
 
 export const DEFAULT_LINE_SAMPLES = 101;
 
-const VALUE_OPTIONS = new Set(["--from", "--to", "--orientation", "--speed", "--start-joints", "--tool", "--samples"]);
-
-/**
- * Joins an option and a following value that starts with a minus sign ("--from -300,20,600") into one argument
- * ("--from=-300,20,600"), so node:util parseArgs takes negative coordinates instead of reporting an ambiguous
- * option.
- */
-export function joinNegativeValues(args: readonly string[]): string[] {
-  const out: string[] = [];
-  for (let i = 0; i < args.length; i++) {
-    const a = args[i]!,
-      next = args[i + 1];
-    if (VALUE_OPTIONS.has(a) && next !== undefined && /^-[\d.]/.test(next)) {
-      out.push(`${a}=${next}`);
-      i++;
-    } else {
-      out.push(a);
-    }
-  }
-  return out;
-}
+/** The options of `armdex line` (node:util parseArgs form). */
+export const LINE_OPTIONS = {
+  from: { type: "string" },
+  to: { type: "string" },
+  orientation: { type: "string" },
+  speed: { type: "string" },
+  "start-joints": { type: "string" },
+  tool: { type: "string" },
+  samples: { type: "string" },
+} as const;
 
 /** Rounds every number to 9 significant digits (display only; removes float noise such as 1e-13 mm). */
 function roundDeep(value: unknown): unknown {
