@@ -10,8 +10,9 @@ import { parseArgs } from "node:util";
 import { writeFileAtomic } from "../catalog/files";
 import { analysisWarningText } from "../view/warningText";
 import { armJsonSchema, formatIssue, loadArmFile, loadArms, type LoadResult } from "../catalog";
-import { poseCommand } from "./pose";
-import { joinNegativeValues, lineCommand } from "./line";
+import { joinNegativeValues } from "./args";
+import { POSE_OPTIONS, poseCommand } from "./pose";
+import { LINE_OPTIONS, lineCommand } from "./line";
 import { stringifyCompact } from "./json";
 
 export class UsageError extends Error {}
@@ -109,9 +110,9 @@ export async function main(argv: string[]): Promise<number> {
     }
     case "pose": {
       const { values, positionals } = parseArgs({
-        args: rest,
+        args: joinNegativeValues(rest, POSE_OPTIONS),
         allowPositionals: true,
-        options: { joints: { type: "string" }, tool: { type: "string" }, "allow-outside": { type: "boolean" } },
+        options: POSE_OPTIONS,
       });
       if (positionals.length !== 1) throw new UsageError("pose needs exactly one arm file");
       if (!values.joints) throw new UsageError("pose needs --joints q1,q2,… (driven joints, deg or mm)");
@@ -156,17 +157,9 @@ export async function main(argv: string[]): Promise<number> {
     }
     case "line": {
       const { values, positionals } = parseArgs({
-        args: joinNegativeValues(rest),
+        args: joinNegativeValues(rest, LINE_OPTIONS),
         allowPositionals: true,
-        options: {
-          from: { type: "string" },
-          to: { type: "string" },
-          orientation: { type: "string" },
-          speed: { type: "string" },
-          "start-joints": { type: "string" },
-          tool: { type: "string" },
-          samples: { type: "string" },
-        },
+        options: LINE_OPTIONS,
       });
       if (positionals.length !== 1) throw new UsageError("line needs exactly one arm file");
       const loaded = await loadArmFile(positionals[0]!);

@@ -5,8 +5,7 @@
  */
 import type { Arm } from "../catalog";
 import { degToRad, mmToM } from "../core";
-import { lineCheck, referenceToolRotation, rpyToolRotation, type LineCheckResult } from "../core/analysis/line";
-import { gravityDirectionInBase } from "../core";
+import { gravityDirectionInBase, lineCheck, referenceToolRotation, rpyToolRotation, type LineCheckResult } from "../core";
 import { parseNumberList, type CommandResult } from "./pose";
 
 /** Option strings as they come from the command line. */
@@ -22,27 +21,16 @@ export interface LineArgs {
 
 export const DEFAULT_LINE_SAMPLES = 101;
 
-const VALUE_OPTIONS = new Set(["--from", "--to", "--orientation", "--speed", "--start-joints", "--tool", "--samples"]);
-
-/**
- * Joins an option and a following value that starts with a minus sign ("--from -300,20,600") into one argument
- * ("--from=-300,20,600"), so node:util parseArgs takes negative coordinates instead of reporting an ambiguous
- * option.
- */
-export function joinNegativeValues(args: readonly string[]): string[] {
-  const out: string[] = [];
-  for (let i = 0; i < args.length; i++) {
-    const a = args[i]!,
-      next = args[i + 1];
-    if (VALUE_OPTIONS.has(a) && next !== undefined && /^-[\d.]/.test(next)) {
-      out.push(`${a}=${next}`);
-      i++;
-    } else {
-      out.push(a);
-    }
-  }
-  return out;
-}
+/** The options of `armdex line` (node:util parseArgs form). */
+export const LINE_OPTIONS = {
+  from: { type: "string" },
+  to: { type: "string" },
+  orientation: { type: "string" },
+  speed: { type: "string" },
+  "start-joints": { type: "string" },
+  tool: { type: "string" },
+  samples: { type: "string" },
+} as const;
 
 /** Rounds every number to 9 significant digits (display only; removes float noise such as 1e-13 mm). */
 function roundDeep(value: unknown): unknown {
@@ -145,9 +133,9 @@ export function lineCommand(arm: Arm, args: LineArgs): CommandResult<Record<stri
       ...result,
       notes: [
         "Computed with idealised rigid-body kinematics from the arm file: joint rates needed to keep the tool on the line at constant orientation, against each joint's declared speed limit. No acceleration limits, controller behaviour, payload dynamics or blending; not a maker specification and not safety data.",
-        "feasibleConstantSpeedMmPerS: the largest constant speed the whole line allows (0 when a point is out of reach or the joints must jump); speedProfile: the largest speed per sample if the controller may slow down locally.",
+        "feasibleConstantSpeedMmPerS: the largest constant speed the whole line allows; 0 when no start branch follows the whole line (a point out of reach, a joint leaving its range, a joint jump, or a pose needing an unbounded rate: startBranches[].reason says which); speedProfile: the largest speed per sample if the controller may slow down locally.",
         "rateRatios: |needed joint rate| / joint speed limit at the commanded speed; above 1 the joint cannot keep up. jointsDeg and joint rates are in mm and mm/s for prismatic joints.",
-        `Start branch: ${result.startRule === "best run" ? "of the IK solutions at the start (one per branch name), the run with the fewest joint jumps and range violations, then the highest feasible speed, then the start nearest the zero pose" : "the IK solution nearest --start-joints"}.`,
+        `Start branch: ${result.startRule === "best run" ? "of the IK solutions at the start (one per branch name), the fastest run that follows the whole line within reach, within the joint ranges and without a jump; when none does, the run with the fewest problems (jumps, range violations, out-of-reach intervals), then the highest speed its joint rates allow, then the start nearest the zero pose" : "the IK solution nearest --start-joints"}.`,
         "inverseCondition: σ_min/σ_max of the Jacobian with its linear rows divided by the arm's characteristic length (1 isotropic, 0 singular); the singularity kind comes from the joint motion that moves the tool least.",
       ],
     }) as Record<string, unknown>,

@@ -4,6 +4,13 @@ import { degToRad, mmToM, mToMm, poseReport, radToDeg, rpyOfInto } from "../core
 import { createSpeedScratch, guaranteedLineSpeed, maxToolSpeed } from "../core";
 import { SINGULAR_INVERSE_CONDITION, singularityReport } from "../core";
 
+/** The options of `armdex pose` (node:util parseArgs form). */
+export const POSE_OPTIONS = {
+  joints: { type: "string" },
+  tool: { type: "string" },
+  "allow-outside": { type: "boolean" },
+} as const;
+
 export type CommandResult<T> = { ok: true; value: T } | { ok: false; message: string; usage?: boolean };
 
 export function parseNumberList(text: string, label: string, count?: number): number[] | string {

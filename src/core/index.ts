@@ -16,3 +16,5 @@ export type { AnalysisOptions, ArmAnalysis } from "./analysis/armAnalysis";
 export * from "./kinematics/statics";
 export * from "./analysis/analyseArm";
 export { STANDARD_CYCLE_MOVES } from "./analysis/cycle/cycle";
+export * from "./kinematics/toolOrientation";
+export * from "./analysis/line";

@@ -5,10 +5,8 @@
  * the line's start, roll-pitch-yaw as URDF, flange centre as the tool point, 101 samples), and the result turned
  * into display sentences and chart data. Pure: no DOM, no Astro, no I/O.
  */
-import type { Chain } from "../core";
-import { lineCheck, referenceToolRotation, rpyToolRotation, type LineCheckResult } from "../core/analysis/line";
-import { gravityDirectionInBase, type Mounting } from "../core";
-import { degToRad, mmToM } from "../core";
+import type { Chain, LineCheckResult, Mounting } from "../core";
+import { degToRad, gravityDirectionInBase, lineCheck, mmToM, referenceToolRotation, rpyToolRotation } from "../core";
 import type { LineRatesChartInput } from "../charts/lineRatesChart";
 import { formatNumber, formatQuantity } from "./format";
 
@@ -185,7 +183,8 @@ export interface LineFigures {
   readonly feasibleText: string;
   /** The raw figure (mm/s) behind feasibleText; null when unbounded. */
   readonly feasibleMmPerS: number | null;
-  /** What the figure leaves out, when the line has a problem it does not count (joint ranges); null otherwise. */
+  /** Why the figure is 0 when no start posture follows the line (out of reach, a joint range, a jump, a singular
+   * pose); null when the line is followed. */
   readonly feasibleCaveat: string | null;
   /** "within" / "above" the commanded speed, as a sentence. */
   readonly commandedText: string;
@@ -220,6 +219,23 @@ function constantRatio(r: LineCheckResult, i: number): boolean {
   return hi > 0 && hi - lo <= 1e-9 * hi;
 }
 
+/** Why the reported start posture does not follow the line, from its reason in the core's result. */
+function notFollowedText(r: LineCheckResult): string {
+  const b = r.startBranch;
+  const where = b && b.atFraction !== null ? ` at ${along(b.atFraction, r.lengthMm)}` : "";
+  const reason = b?.reason ?? "out of reach";
+  const what =
+    reason === "joint limit"
+      ? `${b?.joint ?? "a joint"} leaves its range${where}`
+      : reason === "jump"
+        ? `${b?.joint ?? "the joints"} must jump${where}`
+        : reason === "singular"
+          ? `${b?.joint ?? "a joint"} would need an unbounded rate${where}`
+          : `out of reach${where}`;
+  const others = r.startBranches.length > 1 ? `, and every other start posture fails too` : "";
+  return `not followed: ${what}${others} (see below)`;
+}
+
 /** The result as sentences. */
 export function lineFigures(r: LineCheckResult): LineFigures {
   const f = r.feasibleConstantSpeedMmPerS;
@@ -227,7 +243,9 @@ export function lineFigures(r: LineCheckResult): LineFigures {
   const commanded = formatQuantity(r.speedMmPerS, "mm/s", speedDecimals(r.speedMmPerS));
   const commandedText = r.commandedSpeedFeasible
     ? `The commanded ${commanded} is within it.`
-    : `The commanded ${commanded} is above it: at least one joint cannot keep up.`;
+    : !r.followed
+      ? `The commanded ${commanded} is not feasible: no start posture follows the whole line within reach, within the joint ranges and without a jump.`
+      : `The commanded ${commanded} is above it: at least one joint cannot keep up.`;
   const b = r.bottleneck;
   let bottleneckText = "none";
   if (b) {
@@ -239,6 +257,8 @@ export function lineFigures(r: LineCheckResult): LineFigures {
           ? `${b.joint ?? "a joint"}, the same all along the line, ${needing}`
           : `${b.joint ?? "a joint"} at ${where}, ${needing}`;
     } else if (b.reason === "out of reach") bottleneckText = `out of reach at ${where}`;
+    else if (b.reason === "joint limit")
+      bottleneckText = `${b.joint ?? "a joint"} leaves its range at ${where} (no start posture stays within the joint ranges)`;
     else if (b.reason === "jump")
       bottleneckText = `${b.joint ?? "the joints"} must jump at ${where} (no continuous motion: the arm stops and changes posture)`;
     else bottleneckText = `${b.joint ?? "a joint"} would need an unbounded rate at ${where} (singular pose)`;
@@ -266,7 +286,9 @@ export function lineFigures(r: LineCheckResult): LineFigures {
   }
   for (const c of r.branchChanges) {
     problems.push(
-      `Posture change (${c.kind}${c.continuous ? ", continuous" : ", a jump"}) at ${formatQuantity(c.fraction * r.lengthMm, "mm")}: ${c.from} → ${c.to}.`,
+      c.passesAxis1
+        ? `Passes axis 1 at ${formatQuantity(c.fraction * r.lengthMm, "mm")} (${c.from} → ${c.to}): the arm reaches behind axis 1 continuously, with finite joint rates; not a posture change.`
+        : `Posture change (${c.kind}${c.continuous ? ", continuous" : ", a jump"}) at ${formatQuantity(c.fraction * r.lengthMm, "mm")}: ${c.from} → ${c.to}.`,
     );
   }
   if (r.orientationHeld === "tool axis")
@@ -275,11 +297,7 @@ export function lineFigures(r: LineCheckResult): LineFigures {
     );
   if (r.jointsWithoutSpeedLimit.length > 0)
     problems.push(`No speed limit in the file for ${r.jointsWithoutSpeedLimit.join(", ")}: not counted.`);
-  const ranges = [...new Set(r.jointLimitViolations.map((v) => v.joint))];
-  const feasibleCaveat =
-    ranges.length > 0 && r.outOfReach.length === 0
-      ? `joint speeds only: ${ranges.join(", ")} ${ranges.length === 1 ? "leaves its" : "leave their"} range on this line (see below)`
-      : null;
+  const feasibleCaveat = r.followed ? null : notFollowedText(r);
   return {
     feasibleText,
     feasibleMmPerS: f,
@@ -318,7 +336,9 @@ export function lineRatesChartInput(r: LineCheckResult, id: string, title: strin
                 ? "out of reach"
                 : b.reason === "jump"
                   ? `${b.joint ?? "joints"} jump`
-                  : "singular",
+                  : b.reason === "joint limit"
+                    ? `${b.joint ?? "joint"} out of range`
+                    : "singular",
         }
       : null,
     gapsMm: r.outOfReach.map((g) => [g.fromFraction * r.lengthMm, g.toFraction * r.lengthMm] as const),

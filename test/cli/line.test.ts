@@ -17,7 +17,7 @@ import { fileURLToPath } from "node:url";
 import { promisify } from "node:util";
 import { afterAll, describe, expect, it } from "vitest";
 import { loadArmFile } from "../../src/catalog/index";
-import { joinNegativeValues, lineCommand } from "../../src/cli/line";
+import { lineCommand } from "../../src/cli/line";
 import { expectClose, expectRelClose } from "../helpers/expectClose";
 import { generic6rDh } from "../helpers/testArms";
 
@@ -169,25 +169,5 @@ describe("lineCommand usage errors (pure)", async () => {
       1e-8,
       "feasible",
     );
-  });
-});
-
-describe("joinNegativeValues", () => {
-  it("joins an option with a value starting with a minus sign, so parseArgs takes negative coordinates", () => {
-    expect(
-      joinNegativeValues([
-        "arm.json",
-        "--from",
-        "-300,20,600",
-        "--to",
-        "300,20,600",
-        "--orientation",
-        "-90,0,0",
-        "--speed",
-        "500",
-      ]),
-    ).toEqual(["arm.json", "--from=-300,20,600", "--to", "300,20,600", "--orientation=-90,0,0", "--speed", "500"]);
-    // A following option is not a value.
-    expect(joinNegativeValues(["--from", "--to", "1,2,3"])).toEqual(["--from", "--to", "1,2,3"]);
   });
 });

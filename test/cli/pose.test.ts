@@ -237,4 +237,19 @@ describe("armdex pose (end to end, npx tsx src/cli/armdex.ts)", () => {
     const { stdout: anyway } = await cli([...outside, "--allow-outside"]);
     expect((JSON.parse(anyway) as { outsideRange: string[] }).outsideRange).toHaveLength(1);
   }, 120_000);
+
+  it("takes joints whose first value is negative ('--joints -30,…'), as `line` takes negative coordinates", async () => {
+    const qDeg = [-30, 10, 20, 0, 45, 0];
+    const { stdout } = await cli(["--joints", qDeg.join(",")]);
+    const printed = JSON.parse(stdout) as Record<string, any>;
+    expect(printed.flange).toEqual(pose(qDeg).flange);
+    // Independent: the flange is where the mathjs DH product puts it for these joints (-30° on joint 1).
+    const t = flat4(
+      dhFrameReference(
+        GENERIC_6R_SI.rows,
+        qDeg.map((v) => v * DEG),
+      ),
+    );
+    expectClose(printed.flange.positionMm, [t[3]! * 1000, t[7]! * 1000, t[11]! * 1000], 1e-6, "positionMm");
+  }, 120_000);
 });

@@ -188,4 +188,22 @@ describe("lineFigures / lineRatesChartInput", () => {
     expect(f.problems.some((p) => p.startsWith("Out of reach from "))).toBe(true);
     expect(lineRatesChartInput(r, "lr-gap", "Gap").gapsMm.length).toBeGreaterThan(0);
   });
+
+  it("says a line no posture follows within the joint ranges is not feasible, with the joint and the place", async () => {
+    // The first reproduction of the issue "Numbers at their edges": J3 starts above its 25° limit (arm file).
+    const pal = await loadArmFile("arms/yarrowfield-pl-180.json");
+    if (!pal.arm) throw new Error("demo arm did not load");
+    const q: LineQuery = {
+      fromMm: [1500, -800, 1000],
+      toMm: [2200, 400, 1500],
+      orientation: { kind: "down" },
+      speedMmPerS: 1000,
+    };
+    const f = lineFigures(runLineQuery(pal.arm.chain, pal.arm.spec.mountings, q));
+    expect(f.feasibleMmPerS).toBe(0);
+    expect(f.commandedFeasible).toBe(false);
+    expect(f.commandedText).toMatch(/is not feasible: no start posture follows the whole line/);
+    expect(f.feasibleCaveat).toMatch(/^not followed: J3 leaves its range at 0\u00a0mm from the start/);
+    expect(f.bottleneckText).toMatch(/^J3 leaves its range at /);
+  });
 });

@@ -159,8 +159,10 @@ describe("standardLinesModel", () => {
         startRule: "best run",
         startBranch: null,
         startBranches: [],
+        followed: true,
         feasibleConstantSpeedMmPerS: 1000,
         commandedSpeedFeasible: true,
+        passesAxis1: false,
         bottleneck: {
           joint: "J1",
           jointIndex: 0,
