@@ -6,6 +6,6 @@ export type { Chain, WristCentre } from "./kinematics/chain";
 export * from "./kinematics/compile";
 export * from "./kinematics/forward";
 export * from "./kinematics/pose";
-export * from "./analysis/envelope";
+export * from "./analysis/envelope/envelope";
 export * from "./analysis/speed";
 export * from "./analysis/singularity";
