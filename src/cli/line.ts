@@ -5,7 +5,13 @@
  */
 import type { Arm } from "../catalog";
 import { degToRad, mmToM } from "../core";
-import { gravityDirectionInBase, lineCheck, referenceToolRotation, rpyToolRotation, type LineCheckResult } from "../core";
+import {
+  gravityDirectionInBase,
+  lineCheck,
+  referenceToolRotation,
+  rpyToolRotation,
+  type LineCheckResult,
+} from "../core";
 import { parseNumberList, type CommandResult } from "./pose";
 
 /** Option strings as they come from the command line. */

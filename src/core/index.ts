@@ -6,7 +6,7 @@ export type { Chain, WristCentre } from "./kinematics/chain";
 export * from "./kinematics/compile";
 export * from "./kinematics/forward";
 export * from "./kinematics/pose";
-export * from "./analysis/envelope";
+export * from "./analysis/envelope/envelope";
 export * from "./measures/speed";
 export * from "./measures/singularity";
 export * from "./analysis/warnings";

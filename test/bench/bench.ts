@@ -15,7 +15,7 @@ import { parseArgs } from "node:util";
 import { loadArms } from "../../src/catalog";
 import { fastKernel, baselineKernel } from "./kernel";
 import { mulberry32 } from "../../src/core/math/random";
-import { workspaceEnvelope } from "../../src/core/analysis/envelope";
+import { workspaceEnvelope } from "../../src/core/analysis/envelope/envelope";
 import {
   createSpeedMapWorkspace,
   referenceOrientations,

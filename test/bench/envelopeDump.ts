@@ -5,7 +5,7 @@
 import { mkdirSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { loadArms } from "../../src/catalog";
-import { workspaceEnvelope } from "../../src/core/analysis/envelope";
+import { workspaceEnvelope } from "../../src/core/analysis/envelope/envelope";
 
 const [outDir, armsDir = "arms"] = process.argv.slice(2);
 if (!outDir) throw new Error("usage: envelopeDump.ts <outDir> [armsDir]");

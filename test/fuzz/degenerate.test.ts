@@ -5,7 +5,7 @@
  */
 import { describe, expect, it } from "vitest";
 import { validateArm } from "../../src/catalog/validate";
-import { workspaceEnvelope } from "../../src/core/analysis/envelope";
+import { workspaceEnvelope } from "../../src/core/analysis/envelope/envelope";
 import { DEGENERATE_ARMS } from "./degenerateArms";
 import redundantNearRankDrop from "./redundantNearRankDrop.json" with { type: "json" };
 import { checkArm, DEFAULT_CHECK, distanceToBoundary, insidePolygons, UNSUPPORTED_MARK } from "./properties";

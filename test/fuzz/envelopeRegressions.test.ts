@@ -3,12 +3,12 @@
  * drawn in envelopeRegressions.json), checked independently of the envelope code: joint vectors drawn with a seeded
  * PRNG within the limits (brute-force sampling of joint space), the point by forward kinematics, its side-view
  * coordinates from the definition in the envelope's module doc, and a winding-number point-in-polygon written in
- * properties.ts (not src/core/analysis/polygon.ts). Every sampled point must lie inside the side view or within its
+ * properties.ts (not src/core/geometry/polygon.ts). Every sampled point must lie inside the side view or within its
  * stated boundary tolerance (+ 0.1 mm of rounding).
  */
 import { describe, expect, it } from "vitest";
 import { validateArm } from "../../src/catalog/validate";
-import { DEFAULT_ENVELOPE_OPTIONS, workspaceEnvelope } from "../../src/core/analysis/envelope";
+import { DEFAULT_ENVELOPE_OPTIONS, workspaceEnvelope } from "../../src/core/analysis/envelope/envelope";
 import { createScratch, forwardInto, wristCentreInto } from "../../src/core/kinematics/forward";
 import { mulberry32 } from "../helpers/prng";
 import regressions from "./envelopeRegressions.json" with { type: "json" };

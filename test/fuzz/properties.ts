@@ -66,7 +66,7 @@ interface Polygon {
 
 /**
  * Winding number of a closed ring about (x, y) (Sunday's crossing rule; the ring's first point repeats at its end).
- * Written here independently of src/core/analysis/polygon.ts. @see D. Sunday, "Inclusion of a point in a polygon"
+ * Written here independently of src/core/geometry/polygon.ts. @see D. Sunday, "Inclusion of a point in a polygon"
  * (winding number algorithm) [from memory]
  */
 export function windingNumber(x: number, y: number, ring: Ring): number {

@@ -32,7 +32,7 @@ import {
   type PointEnvelope,
   type PolygonMm,
   type WorkspaceEnvelope,
-} from "./envelope";
+} from "./envelope/envelope";
 
 export const ANALYSIS_VERSION = "6";
 

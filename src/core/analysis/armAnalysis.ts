@@ -6,7 +6,7 @@
  * The catalog reads cached analyses back through a zod schema of this shape (src/catalog/analysisSchema.ts); a test
  * checks that the two agree in both directions.
  */
-import type { EnvelopeLayout, EnvelopeOptions, PointEnvelope, Axis1 } from "./envelope";
+import type { EnvelopeLayout, EnvelopeOptions, PointEnvelope, Axis1 } from "./envelope/envelope";
 import type { PayloadAnalysis, PayloadAnalysisOptions } from "./payload";
 import type { CycleResult } from "./cycle/cycle";
 import type { ReferenceOrientation } from "./speedMap/speedMap";

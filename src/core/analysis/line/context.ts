@@ -17,7 +17,12 @@ import {
 } from "../../kinematics/forward";
 import { createIkScratch, type IkOptions, type IkScratch } from "../../kinematics/inverse";
 import { branchFrame, type BranchFrame } from "../../measures/branches";
-import { createSingularityScratch, jointRoles, type JointRoles, type SingularityScratch } from "../../measures/singularity";
+import {
+  createSingularityScratch,
+  jointRoles,
+  type JointRoles,
+  type SingularityScratch,
+} from "../../measures/singularity";
 import { createSpeedScratch, type SpeedScratch } from "../../measures/speed";
 import type { LineCheckInput, LineCheckOptions, LineSingularityKind } from "./types";
 

@@ -9,7 +9,7 @@
  */
 import { fileURLToPath } from "node:url";
 import { describe, expect, it } from "vitest";
-import { loadArms } from "../../../src/catalog/index";
+import { loadArms } from "../../../../src/catalog/index";
 import {
   compileChain,
   createScratch,
@@ -18,16 +18,16 @@ import {
   type ArmKinematicsInput,
   type Chain,
   type JointInput,
-} from "../../../src/core";
+} from "../../../../src/core";
 import {
   DEFAULT_ENVELOPE_OPTIONS,
   workspaceEnvelope,
   type PointEnvelope,
   type PolygonMm,
   type WorkspaceEnvelope,
-} from "../../../src/core/analysis/envelope";
-import { mulberry32, uniform } from "../../helpers/prng";
-import { generic6rDh, GENERIC_6R_SI } from "../../helpers/testArms";
+} from "../../../../src/core/analysis/envelope/envelope";
+import { mulberry32, uniform } from "../../../helpers/prng";
+import { generic6rDh, GENERIC_6R_SI } from "../../../helpers/testArms";
 
 // ---------------------------------------------------------------------------------------------------------------
 // Independent geometry helpers (no code from src/core/analysis)
@@ -446,7 +446,7 @@ describe("workspaceEnvelope(gantry)", () => {
 
 // ---------------------------------------------------------------------------------------------------------------
 
-const ARMS_DIR = process.env.ARMDEX_ARMS_DIR ?? fileURLToPath(new URL("../../../arms", import.meta.url));
+const ARMS_DIR = process.env.ARMDEX_ARMS_DIR ?? fileURLToPath(new URL("../../../../arms", import.meta.url));
 const { arms } = await loadArms([ARMS_DIR]);
 
 describe("workspaceEnvelope on every demo arm", () => {

@@ -1,17 +1,16 @@
 /**
  * The raster-to-polygon steps of the workspace envelope on hand-made inputs with known answers: the outline of a
  * RowCover keeps every interval (coverOutline.ts), the scanline fill keeps the parts of a region that lie between
- * two row lines (sliceCover.ts), and polygon assembly never drops an outer ring and drops only narrow holes
- * (polygon.ts). Each case was a stage where the property tests (test/fuzz) saw reachable points fall out of the
+ * two row lines (sliceCover.ts) (polygon assembly: test/core/geometry/polygon.test.ts). Each case was a stage where the property tests (test/fuzz) saw reachable points fall out of the
  * side view. Containment is checked with the winding-number test and edge distance of test/fuzz/properties.ts,
- * written independently of src/core/analysis/polygon.ts.
+ * written independently of src/core/geometry/polygon.ts.
  */
 import { describe, expect, it } from "vitest";
-import { coverRings } from "../../../src/core/analysis/coverOutline";
-import { assemblePolygons, polygonsArea, simplifyFlatRing } from "../../../src/core/analysis/polygon";
-import { RowCover } from "../../../src/core/analysis/rowCover";
-import { addTriangles, SliceScratch } from "../../../src/core/analysis/sliceCover";
-import { distanceToBoundary, windingNumber } from "../../fuzz/properties";
+import { coverRings } from "../../../../src/core/analysis/envelope/coverOutline";
+import { RowCover } from "../../../../src/core/analysis/envelope/rowCover";
+import { addTriangles } from "../../../../src/core/analysis/envelope/sliceCover";
+import { SliceScratch } from "../../../../src/core/analysis/envelope/sliceScratch";
+import { distanceToBoundary, windingNumber } from "../../../fuzz/properties";
 
 type Ring = [number, number][];
 
@@ -109,36 +108,5 @@ describe("addTriangles (scanline fill)", () => {
         y = (95 * x) / 400 + 0.5;
       expect(covered(x, y, rings, 5 + 1e-9), `(${x}, ${y.toFixed(2)})`).toBe(true);
     }
-  });
-});
-
-describe("assemblePolygons and simplifyFlatRing", () => {
-  const square = (x0: number, y0: number, s: number, ccw = true) =>
-    ccw
-      ? Float64Array.of(x0, y0, x0 + s, y0, x0 + s, y0 + s, x0, y0 + s)
-      : Float64Array.of(x0, y0, x0, y0 + s, x0 + s, y0 + s, x0 + s, y0);
-
-  it("keeps an outer ring below the area threshold (dropping it would lose reachable points)", () => {
-    const polygons = assemblePolygons([square(0, 0, 1)], 9);
-    expect(polygons).toHaveLength(1);
-    // elementary geometry: a 1 mm square has 1 mm²
-    expect(polygonsArea(polygons)).toBeCloseTo(1, 12);
-  });
-
-  it("drops holes narrower than minHoleMm (by 2·area/perimeter), however long, and keeps wide ones", () => {
-    // 500 mm square; a 2 mm × 300 mm sliver hole (width 2·600/604 ≈ 1.99 mm) and a 50 mm square hole (width 25 mm)
-    const sliver = Float64Array.of(100, 100, 100, 102, 400, 102, 400, 100);
-    const polygons = assemblePolygons([square(0, 0, 500), sliver, square(200, 300, 50, false)], 1, 10);
-    expect(polygons).toHaveLength(1);
-    expect(polygons[0]!.holes).toHaveLength(1);
-    // elementary geometry: 500² − 50² mm²
-    expect(polygonsArea(polygons)).toBeCloseTo(500 * 500 - 50 * 50, 6);
-  });
-
-  it("keeps at least three points of a ring thinner than the simplification distance", () => {
-    // a 0.5 mm thick sliver 100 mm long, simplified with epsilon 2 mm: Douglas–Peucker alone keeps its two anchors
-    const flat = Float64Array.of(0, 0, 25, 0.1, 50, 0.2, 75, 0.3, 100, 0.4, 100, 0.9, 50, 0.7, 0, 0.5);
-    const out = simplifyFlatRing(flat, 2);
-    expect(out.length / 2).toBeGreaterThanOrEqual(3);
   });
 });

@@ -4,7 +4,7 @@
  * interpolation then puts each crossing along a row exactly at the interval end; between rows the crossing falls
  * midway (the resolution in y is the row spacing).
  */
-import { isolineRings } from "./isolines";
+import { isolineRings } from "../../geometry/isolines";
 import type { RowCover } from "./rowCover";
 
 /**

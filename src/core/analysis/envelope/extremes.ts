@@ -4,10 +4,11 @@
  * limits (Kolda, Lewis & Torczon, SIAM Review 45(3), 2003 [from memory]), so a figure is the local optimum next to
  * the best sample rather than the sample itself (which falls short by up to the sagitta of the joint grid).
  */
-import { PointProbe, type SamplingPlan, type SliceBuffers } from "./jointSampling";
+import { PointProbe, type SamplingPlan } from "./jointSampling";
+import type { SliceBuffers } from "./sliceGrid";
 
 /** Which figure: 0 largest ρ, 1 smallest ρ, 2 largest height, 3 smallest height. */
-export type Extreme = 0 | 1 | 2 | 3;
+type Extreme = 0 | 1 | 2 | 3;
 
 export class Extremes {
   /** Best sampled value per figure: ρ², −ρ², h, −h. */

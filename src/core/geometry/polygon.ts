@@ -15,7 +15,7 @@ export interface PolygonMm {
 }
 
 /** Twice the signed area (shoelace) of an open flat ring [x0, y0, x1, y1, …]; positive when counter-clockwise. */
-export function flatRingArea2(ring: ArrayLike<number>): number {
+function flatRingArea2(ring: ArrayLike<number>): number {
   const n = ring.length >> 1;
   let sum = 0;
   for (let k = 0, p = n - 1; k < n; p = k++) sum += ring[2 * p]! * ring[2 * k + 1]! - ring[2 * k]! * ring[2 * p + 1]!;
@@ -23,7 +23,7 @@ export function flatRingArea2(ring: ArrayLike<number>): number {
 }
 
 /** Signed area of a closed ring (mm²); positive when counter-clockwise. @example ringArea([[0,0],[1,0],[1,1],[0,0]]) // 0.5 */
-export function ringArea(ring: RingMm): number {
+function ringArea(ring: RingMm): number {
   let sum = 0;
   for (let k = 1; k < ring.length; k++) sum += ring[k - 1]![0] * ring[k]![1] - ring[k]![0] * ring[k - 1]![1];
   return sum / 2;

@@ -7,7 +7,8 @@
  * 2-D cell of the secondary grid, the corner point itself spans a quad. Together with the slices this is the image of
  * the piecewise-linear map on the faces of the product grid that can carry a corner.
  */
-import type { SamplingPlan, SliceBuffers } from "./jointSampling";
+import type { SamplingPlan } from "./jointSampling";
+import type { SliceBuffers } from "./sliceGrid";
 
 export class CornerSweep {
   private readonly na: number;

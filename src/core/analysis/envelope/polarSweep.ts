@@ -8,7 +8,7 @@
  * exactly on the arc ends. The row below ρ₀ is the antipode of row 0 (ρ = −½Δρ), so a region containing the axis
  * closes through it.
  */
-import { isolineRings } from "./isolines";
+import { isolineRings } from "../../geometry/isolines";
 
 const TWO_PI = 2 * Math.PI;
 
@@ -130,7 +130,7 @@ export function arcsMeasure(arcs: ArrayLike<number>): number {
 }
 
 /** Union of arcs as disjoint arcs with starts in [0, 2π); a full circle is [0, 2π]. */
-export function mergeArcs(arcs: ArrayLike<number>): Float64Array {
+function mergeArcs(arcs: ArrayLike<number>): Float64Array {
   const list: [number, number][] = [];
   for (let k = 0; k < arcs.length; k += 2) {
     const len = arcs[k + 1]!;
@@ -182,7 +182,7 @@ export function intersectArcs(a: number, la: number, b: number, lb: number, out:
 }
 
 /** Where the swept plan sits: plan angle θ = phi0 + sense·(ψ + t); centre = the axis in plan coordinates (mm). */
-export interface PlanPlacement {
+interface PlanPlacement {
   readonly tLoRad: number;
   readonly tHiRad: number;
   readonly phi0Rad: number;

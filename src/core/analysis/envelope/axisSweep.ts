@@ -7,7 +7,8 @@
  * for every 2-D cell of the secondary grid, each primary grid point whose four images straddle both is spanned by a
  * quad. The quads are faces of the product grid, clipped like any other triangle.
  */
-import type { SamplingPlan, SliceBuffers } from "./jointSampling";
+import type { SamplingPlan } from "./jointSampling";
+import type { SliceBuffers } from "./sliceGrid";
 
 export class AxisSweep {
   private readonly na: number;

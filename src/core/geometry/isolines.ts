@@ -13,7 +13,7 @@
  * the last is column 0.
  */
 
-export interface IsolineSource {
+interface IsolineSource {
   /** Number of node columns. */
   readonly nx: number;
   readonly jMin: number;
@@ -37,33 +37,14 @@ interface Fragment {
   tail: number[];
 }
 
-/**
- * Traces the zero isolines of the source's field.
- * @returns rings in grid coordinates, inside on the left
- */
-export function isolineRings(src: IsolineSource): Float64Array[] {
-  const { nx, jMin, jMax, periodicX } = src;
-  if (!(nx >= 1) || !Number.isInteger(nx)) throw new RangeError(`invalid nx: ${nx}`);
-  const rings: Float64Array[] = [];
-  if (jMax < jMin) return rings;
-  const stride = nx + 2;
-  const byStart = new Map<number, Fragment>();
-  const byEnd = new Map<number, Fragment>();
-  const node = (i: number, j: number): number => {
-    if (j < jMin || j > jMax) return -1;
-    if (i >= nx) {
-      if (!periodicX) return -1;
-      i -= nx;
-    }
-    if (i < 0) return -1;
-    return src.value(i, j);
-  };
-  // Edge-point ids: horizontal edge on row j between columns i and i+1 → even; vertical edge on column i between
-  // rows j and j+1 → odd.
-  const hId = (i: number, j: number) => ((j - jMin + 1) * stride + (i + 1)) * 2;
-  const vId = (i: number, j: number) => ((j - jMin + 1) * stride + (i + 1)) * 2 + 1;
+/** Joins the segments of marching squares into rings by their shared edge points (ids). */
+class Stitcher {
+  readonly rings: Float64Array[] = [];
+  readonly byStart = new Map<number, Fragment>();
+  readonly byEnd = new Map<number, Fragment>();
 
-  const emit = (sId: number, sx: number, sy: number, eId: number, ex: number, ey: number): void => {
+  emit(sId: number, sx: number, sy: number, eId: number, ex: number, ey: number): void {
+    const { byStart, byEnd, rings } = this;
     const f = byEnd.get(sId);
     const g = byStart.get(eId);
     if (f && g) {
@@ -104,7 +85,36 @@ export function isolineRings(src: IsolineSource): Float64Array[] {
       byStart.set(sId, fr);
       byEnd.set(eId, fr);
     }
+  }
+}
+
+/**
+ * Traces the zero isolines of the source's field.
+ * @returns rings in grid coordinates, inside on the left
+ */
+export function isolineRings(src: IsolineSource): Float64Array[] {
+  const { nx, jMin, jMax, periodicX } = src;
+  if (!(nx >= 1) || !Number.isInteger(nx)) throw new RangeError(`invalid nx: ${nx}`);
+  if (jMax < jMin) return [];
+  const stride = nx + 2;
+  const node = (i: number, j: number): number => {
+    if (j < jMin || j > jMax) return -1;
+    if (i >= nx) {
+      if (!periodicX) return -1;
+      i -= nx;
+    }
+    if (i < 0) return -1;
+    return src.value(i, j);
   };
+  // Edge-point ids: horizontal edge on row j between columns i and i+1 → even; vertical edge on column i between
+  // rows j and j+1 → odd.
+  const hId = (i: number, j: number) => ((j - jMin + 1) * stride + (i + 1)) * 2;
+  const vId = (i: number, j: number) => ((j - jMin + 1) * stride + (i + 1)) * 2 + 1;
+
+  const stitcher = new Stitcher();
+  const rings = stitcher.rings;
+  const emit = (sId: number, sx: number, sy: number, eId: number, ex: number, ey: number): void =>
+    stitcher.emit(sId, sx, sy, eId, ex, ey);
 
   const ranges: number[] = [];
   const lo = periodicX ? 0 : -1;
@@ -123,7 +133,7 @@ export function isolineRings(src: IsolineSource): Float64Array[] {
       if (i1 + 1 > next) next = i1 + 1;
     }
   }
-  if (byStart.size > 0) throw new Error("isolineRings: unclosed contour (internal error)");
+  if (stitcher.byStart.size > 0) throw new Error("isolineRings: unclosed contour (internal error)");
   return rings;
 
   function cell(i: number, j: number): void {

@@ -1,0 +1,110 @@
+/**
+ * What the envelope's layouts share: vector helpers, view matrices, the tolerance and its stated bound, one view
+ * pass over a sampling plan (accumulate: slices, corner and axis sweeps into a RowCover) and the outline's polygons.
+ */
+import { assemblePolygons, simplifyFlatRing, type PolygonMm } from "../../geometry/polygon";
+import { mToMm } from "../../units";
+import { AxisSweep } from "./axisSweep";
+import { CornerSweep } from "./cornerSweep";
+import type { EnvelopeOptions } from "./envelopeTypes";
+import type { SamplingPlan } from "./jointSampling";
+import type { RowCover } from "./rowCover";
+import { addSlice, addTriangles } from "./sliceCover";
+import type { SliceScratch } from "./sliceScratch";
+import { forEachSlice, type SliceBuffers } from "./sliceGrid";
+
+export const MM_PER_M = mToMm(1);
+export const MM2_PER_M2 = MM_PER_M * MM_PER_M;
+export const MM3_PER_M3 = MM2_PER_M2 * MM_PER_M;
+export const TWO_PI = 2 * Math.PI;
+/** Row gaps narrower than this share of the tolerance are closed; rings smaller than (share × tolerance)² dropped. */
+export const GAP_SHARE = 0.3;
+
+export type Vec3 = [number, number, number];
+export const dot = (a: Vec3, b: Vec3) => a[0] * b[0] + a[1] * b[1] + a[2] * b[2];
+export const cross = (a: Vec3, b: Vec3): Vec3 => [
+  a[1] * b[2] - a[2] * b[1],
+  a[2] * b[0] - a[0] * b[2],
+  a[0] * b[1] - a[1] * b[0],
+];
+export const norm = (a: Vec3) => Math.hypot(a[0], a[1], a[2]);
+export const scale = (a: Vec3, s: number): Vec3 => [a[0] * s, a[1] * s, a[2] * s];
+export const sub = (a: Vec3, b: Vec3): Vec3 => [a[0] - b[0], a[1] - b[1], a[2] - b[2]];
+export const unit = (a: Vec3): Vec3 => scale(a, 1 / norm(a));
+
+/** View matrix rows (unit vectors, base frame) with translation −row·origin, scaled to mm. */
+export function viewMatrix(rows: readonly Vec3[], origin: Vec3, translate: readonly boolean[]): Float64Array {
+  const v = new Float64Array(12);
+  rows.forEach((r, i) => {
+    v[4 * i] = r[0] * MM_PER_M;
+    v[4 * i + 1] = r[1] * MM_PER_M;
+    v[4 * i + 2] = r[2] * MM_PER_M;
+    v[4 * i + 3] = translate[i] ? -dot(r, origin) * MM_PER_M : 0;
+  });
+  return v;
+}
+
+export function toleranceFn(o: EnvelopeOptions): (radiusMm: number) => number {
+  return (r) => Math.max(o.minToleranceMm, o.toleranceOfReach * r);
+}
+
+/**
+ * Simplified, assembled polygons. Holes narrower than `pocketMm` (2 · area / perimeter) are dropped: points reached
+ * only for secondary-joint values strictly between two samples can leave such pockets inside the union (slivers as
+ * wide as the secondary step at most, however long), while the holes of a real envelope (around the shoulder, behind
+ * a joint limit) are far wider. Outer rings are never dropped (see assemblePolygons).
+ */
+export function polygonsOf(
+  rings: readonly Float64Array[],
+  tolMm: number,
+  o: EnvelopeOptions,
+  pocketMm = 0,
+): PolygonMm[] {
+  const eps = o.simplifyShare * tolMm;
+  return assemblePolygons(
+    rings.map((r) => simplifyFlatRing(r, eps)),
+    (GAP_SHARE * tolMm) ** 2,
+    pocketMm,
+  );
+}
+
+/**
+ * Stated bound on the boundary error: the sampling budget (sagitta of the joint grid) + half a row spacing (a
+ * boundary between two rows is placed midway; along a row it is exact) + the simplification distance.
+ */
+export function statedTolerance(plan: SamplingPlan, rowMm: number, o: EnvelopeOptions, targetMm: number): number {
+  return Math.max(targetMm, plan.samplingSigmaMm + rowMm / 2 + o.simplifyShare * targetMm + (GAP_SHARE / 2) * targetMm);
+}
+
+/**
+ * Accumulates the image of every slice of the plan into `cover` (signed radius: (±√(c₀² + c₁²), c₂); otherwise
+ * (c₀, c₁)), with the corner sweeps between neighbouring slices. `onSlice` sees every slice first.
+ */
+export function accumulate(
+  plan: SamplingPlan,
+  cover: RowCover,
+  signedRadius: boolean,
+  rowMm: number,
+  scratch: SliceScratch,
+  onSlice?: (b: SliceBuffers) => void,
+): void {
+  const na = plan.a.values.length,
+    nb = plan.b.values.length;
+  // a periodic primary joint leaves the region no corners to sweep
+  const sweep = plan.a.periodic || plan.b.periodic ? null : new CornerSweep(plan, 1);
+  // the signed radius jumps across x = 0: close the axis gap where the lateral offset changes sign between slices
+  const axis = signedRadius && plan.secondaries.length > 0 ? new AxisSweep(plan) : null;
+  const mode = { signedRadius, nodeSpacingMm: rowMm, periodicA: plan.a.periodic, periodicB: plan.b.periodic };
+  forEachSlice(plan, (buf, slice) => {
+    onSlice?.(buf);
+    addSlice(cover, buf.c0, buf.c1, buf.c2, na, nb, mode, scratch);
+    if (sweep) {
+      sweep.visit(buf, slice);
+      if (sweep.count > 0) addTriangles(cover, sweep.tris, sweep.count, signedRadius, scratch);
+    }
+    if (axis) {
+      axis.visit(buf, slice);
+      if (axis.count > 0) addTriangles(cover, axis.tris, axis.count, true, scratch);
+    }
+  });
+}
