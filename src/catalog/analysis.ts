@@ -118,6 +118,17 @@ export function summariseAnalysis(a: ArmAnalysis): AnalysisSummary {
       })),
     },
     cycle: { standardCycleS: a.cycle.standardCycleS },
+    standardLines: {
+      speedMmPerS: a.standardLines.speedMmPerS,
+      lines: a.standardLines.lines.map(({ key, placement, fromMm, toMm, speedMmPerS }) => ({
+        key,
+        placement,
+        fromMm,
+        toMm,
+        speedMmPerS,
+      })),
+      notes: a.standardLines.notes,
+    },
   };
 }
 

@@ -7,7 +7,7 @@
  * arm's fresh analysis passes.
  */
 import { z } from "zod";
-import type { AnalysisOptions, AnalysisWarning, ArmAnalysis, PayloadAnalysis } from "../core";
+import type { AnalysisOptions, AnalysisWarning, ArmAnalysis, PayloadAnalysis, StandardLines } from "../core";
 
 const num = z.number();
 const numOrNull = z.number().nullable();
@@ -151,6 +151,58 @@ const options = z.custom<AnalysisOptions>(
   { message: "expected the analysis options { mapStepMm, seed }" },
 );
 
+const point3Mm = z.tuple([num, num, num]);
+const placement = z.discriminatedUnion("kind", [
+  z.strictObject({ kind: z.literal("across"), rMm: num, zMm: num }),
+  z.strictObject({ kind: z.literal("radial"), zMm: num }),
+  z.strictObject({ kind: z.literal("near-axis1"), dMm: num, zMm: num, closest: z.boolean() }),
+  z.strictObject({ kind: z.literal("to-edge"), endMm: num, insideEdgeMm: num, zMm: num }),
+  z.strictObject({ kind: z.literal("area-across"), xMm: num, zMm: num }),
+  z.strictObject({ kind: z.literal("area-out"), marginMm: num, zMm: num }),
+]);
+const lineKey = z.enum(["front", "axis1", "edge"]);
+/** The line check's report: its key figures checked, the rest typed as the core writes it (it is the JSON
+ * `armdex line` prints, validated there by its own tests). */
+const lineResultShape = z.looseObject({
+  lengthMm: num,
+  speedMmPerS: num,
+  followed: z.boolean(),
+  feasibleConstantSpeedMmPerS: numOrNull,
+  commandedSpeedFeasible: z.boolean(),
+  jointNames: z.array(z.string()),
+  startBranches: z.array(z.looseObject({ followed: z.boolean() })),
+  samples: z.array(z.looseObject({ fraction: num, reachable: z.boolean() })),
+});
+const lineResult = z.custom<StandardLines["lines"][number]["result"]>((v) => lineResultShape.safeParse(v).success, {
+  message: "expected a line check report",
+});
+const standardLineNote = z.discriminatedUnion("code", [
+  z.strictObject({ code: z.literal("no-tool-down-region") }),
+  z.strictObject({ code: z.literal("region-too-small") }),
+  z.strictObject({ code: z.literal("no-top-view") }),
+  z.strictObject({
+    code: z.literal("too-short"),
+    key: lineKey,
+    placement: z.enum(["across", "radial", "near-axis1", "to-edge", "area-across", "area-out"]),
+  }),
+  z.strictObject({ code: z.literal("no-line-near-axis1") }),
+  z.strictObject({ code: z.literal("no-axis1") }),
+]);
+const standardLines: z.ZodType<StandardLines> = z.strictObject({
+  speedMmPerS: num,
+  lines: z.array(
+    z.strictObject({
+      key: lineKey,
+      placement,
+      fromMm: point3Mm,
+      toMm: point3Mm,
+      speedMmPerS: num,
+      result: lineResult,
+    }),
+  ),
+  notes: z.array(standardLineNote),
+});
+
 const reach = z.strictObject({
   wcpMaxMm: numOrNull,
   wcpMinMm: numOrNull,
@@ -193,6 +245,7 @@ export const armAnalysisSchema: z.ZodType<ArmAnalysis> = z.strictObject({
   }),
   payload,
   cycle,
+  standardLines,
   warnings: z.array(analysisWarningSchema),
 });
 
@@ -225,6 +278,10 @@ export interface AnalysisSummary {
     >[];
   };
   readonly cycle: Pick<ArmAnalysis["cycle"], "standardCycleS">;
+  /** The standard lines without their check reports (the side-by-side page's default line is the first). */
+  readonly standardLines: Omit<StandardLines, "lines"> & {
+    readonly lines: readonly Omit<StandardLines["lines"][number], "result">[];
+  };
 }
 
 /** The summary kept beside each analysis: the fields of the analysis that pages listing every arm read. */
@@ -255,4 +312,9 @@ export const analysisSummarySchema: z.ZodType<AnalysisSummary> = z.strictObject(
     ),
   }),
   cycle: z.strictObject({ standardCycleS: numOrNull }),
+  standardLines: z.strictObject({
+    speedMmPerS: num,
+    lines: z.array(z.strictObject({ key: lineKey, placement, fromMm: point3Mm, toMm: point3Mm, speedMmPerS: num })),
+    notes: z.array(standardLineNote),
+  }),
 });

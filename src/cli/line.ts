@@ -4,7 +4,7 @@
  * keys freely, do not rename.
  */
 import type { Arm } from "../catalog";
-import { degToRad, mmToM } from "../core";
+import { DEFAULT_LINE_CHECK, degToRad, mmToM } from "../core";
 import {
   gravityDirectionInBase,
   lineCheck,
@@ -25,7 +25,7 @@ export interface LineArgs {
   readonly samples?: string | undefined;
 }
 
-export const DEFAULT_LINE_SAMPLES = 101;
+export const DEFAULT_LINE_SAMPLES = DEFAULT_LINE_CHECK.samples;
 
 /** The options of `armdex line` (node:util parseArgs form). */
 export const LINE_OPTIONS = {

@@ -18,3 +18,4 @@ export * from "./analysis/analyseArm";
 export { STANDARD_CYCLE_MOVES } from "./analysis/cycle/cycle";
 export * from "./kinematics/toolOrientation";
 export * from "./analysis/line";
+export * from "./analysis/standardLines/standardLines";

@@ -9,7 +9,7 @@
  * arms; `mountLineCheck` wires one section; `mountAllLineChecks` every section of the page.
  */
 import { compileChain, type ArmKinematicsInput, type Chain } from "../core";
-import type { LineCheckResult } from "../core/analysis/line";
+import type { LineCheckResult } from "../core";
 import type { Mounting } from "../core";
 import { lineRatesChartNode, type SvgNode } from "../charts/lineRatesChart";
 import {

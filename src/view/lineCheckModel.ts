@@ -6,7 +6,7 @@
  * into display sentences and chart data. Pure: no DOM, no Astro, no I/O.
  */
 import type { Chain, LineCheckResult, Mounting } from "../core";
-import { degToRad, gravityDirectionInBase, lineCheck, mmToM, referenceToolRotation, rpyToolRotation } from "../core";
+import { checkLineMm, DEFAULT_LINE_CHECK, gravityDirectionInBase } from "../core";
 import type { LineRatesChartInput } from "../charts/lineRatesChart";
 import { formatNumber, formatQuantity } from "./format";
 
@@ -28,7 +28,7 @@ export interface LineQuery {
 export const LINE_QUERY_KEYS = ["from", "to", "orientation", "speed"] as const;
 
 /** Samples along the line: the CLI's default, so the site and `armdex line` report the same figures. */
-export const LINE_SAMPLES = 101;
+export const LINE_SAMPLES = DEFAULT_LINE_CHECK.samples;
 
 /** Largest line length accepted from the form, mm (a typo guard; no arm in the catalog reaches 20 m). */
 export const MAX_LINE_COORDINATE_MM = 20_000;
@@ -154,18 +154,15 @@ export function runLineQuery(
   q: LineQuery,
   samples = LINE_SAMPLES,
 ): LineCheckResult {
-  const gravity = gravityDirectionInBase(mountings[0] ?? "floor");
-  const startM = q.fromMm.map(mmToM),
-    endM = q.toMm.map(mmToM);
   const o = q.orientation;
-  const rotation =
-    o.kind === "rpy"
-      ? rpyToolRotation(degToRad(o.rpyDeg[0]), degToRad(o.rpyDeg[1]), degToRad(o.rpyDeg[2]))
-      : referenceToolRotation(chain, o.kind, startM, gravity);
-  return lineCheck(
+  return checkLineMm(
     chain,
-    { startM, endM, baseFromToolRotation: rotation, speedMPerS: mmToM(q.speedMmPerS), toolInFlangeM: [0, 0, 0] },
-    { samples, gravity },
+    gravityDirectionInBase(mountings[0] ?? "floor"),
+    q.fromMm,
+    q.toMm,
+    o.kind === "rpy" ? { rpyDeg: o.rpyDeg } : o.kind,
+    q.speedMmPerS,
+    samples,
   );
 }
 

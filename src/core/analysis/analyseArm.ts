@@ -25,6 +25,7 @@ import {
 import type { AnalysisOptions, ArmAnalysis, PointEnvelopeJson, SpeedMapJson } from "./armAnalysis";
 import { reachWarning, repeatabilityWarning, type AnalysisWarning, type PayloadAboveWristRating } from "./warnings";
 import { standardCycle } from "./cycle/cycle";
+import { standardLines } from "./standardLines/standardLines";
 import {
   DEFAULT_ENVELOPE_OPTIONS,
   workspaceEnvelope,
@@ -34,7 +35,7 @@ import {
   type WorkspaceEnvelope,
 } from "./envelope/envelope";
 
-export const ANALYSIS_VERSION = "6";
+export const ANALYSIS_VERSION = "7";
 
 /** Arm facts the analysis needs besides the chain (plain types; the catalog fills them from the arm file). */
 export interface ArmFacts extends PayloadSpec {
@@ -183,7 +184,23 @@ export function analyseArm(chain: Chain, facts: ArmFacts, options: AnalysisOptio
   // 5. Cycle: at 60 % of the flange reach, at the height of the best guaranteed speed in the "down" map there.
   const cycle = cycleAt(chain, down, facts, gravity);
 
-  // 6. Warnings.
+  // 6. Standard lines, chosen from the published tool-down map and envelope (as the sheets show them).
+  const mapsJson = maps.map(mapJson);
+  const flangeJson = pointEnvelopeJson(flange);
+  const downJson = mapsJson.find((m) => m.orientation === "down") ?? null;
+  const lines = standardLines(
+    chain,
+    {
+      downMap: downJson,
+      flangeMaxMm: round(flange.maxReachMm, 1),
+      layout: envelope.layout,
+      axis1: envelope.axis1,
+      flangeTopMm: flangeJson.top.map((p) => p.outer),
+    },
+    gravity,
+  );
+
+  // 7. Warnings.
   const computedReachMm = wcp ? wcp.maxReachMm : flange.maxReachMm;
   const reachIssue =
     facts.reachMm === undefined ? null : reachWarning(facts.reachMm, computedReachMm, wcp ? "wrist centre" : "flange");
@@ -219,7 +236,7 @@ export function analyseArm(chain: Chain, facts: ArmFacts, options: AnalysisOptio
       topAxes: envelope.topAxes,
       axis1: envelope.axis1,
       wcp: wcp ? pointEnvelopeJson(wcp) : null,
-      flange: pointEnvelopeJson(flange),
+      flange: flangeJson,
       notes: envelope.notes,
     },
     speed: {
@@ -228,7 +245,7 @@ export function analyseArm(chain: Chain, facts: ArmFacts, options: AnalysisOptio
       shareBasis: `share of the side-view cells (${options.mapStepMm} mm grid) the flange reaches with the tool pointing down`,
       redundancy: chain.drivenCount > 6 ? "minimum-norm joint rates (redundant arm)" : null,
       tcp: "flange centre, no tool",
-      maps: maps.map(mapJson),
+      maps: mapsJson,
     },
     singularities: {
       lengthScaleMm: round(mToMm(chain.characteristicLengthM), 1),
@@ -243,6 +260,7 @@ export function analyseArm(chain: Chain, facts: ArmFacts, options: AnalysisOptio
     },
     payload,
     cycle,
+    standardLines: lines,
     warnings,
   };
 }

@@ -11,6 +11,7 @@ import type { PayloadAnalysis, PayloadAnalysisOptions } from "./payload";
 import type { CycleResult } from "./cycle/cycle";
 import type { ReferenceOrientation } from "./speedMap/speedMap";
 import type { AnalysisWarning } from "./warnings";
+import type { StandardLines } from "./standardLines/standardLines";
 
 /** What an analysis ran with; published analyses use DEFAULT_ANALYSIS (analyseArm.ts). */
 export interface AnalysisOptions {
@@ -125,5 +126,7 @@ export interface ArmAnalysis {
   };
   readonly payload: PayloadAnalysis;
   readonly cycle: CycleResult & { readonly lateralShiftMm?: number };
+  /** The sheet's standard straight lines, chosen from the tool-down map and checked at build time. */
+  readonly standardLines: StandardLines;
   readonly warnings: readonly AnalysisWarning[];
 }

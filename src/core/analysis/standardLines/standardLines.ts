@@ -1,0 +1,85 @@
+/**
+ * The standard straight lines of an arm, chosen from its tool-down map (choose.ts) and checked with the line check
+ * (../line) at the standard speed, the tool pointing down, the flange centre as the tool point. They run inside the
+ * analysis, so the sheets read them from the cache like every other figure.
+ */
+import type { Chain } from "../../kinematics/chain";
+import { referenceToolRotation, rpyToolRotation } from "../../kinematics/toolOrientation";
+import { degToRad, mmToM } from "../../units";
+import { lineCheck, DEFAULT_LINE_CHECK, type LineCheckResult } from "../line";
+import { chooseStandardLines, type StandardLineNote, type StandardLineSource, type StandardLineSpec } from "./choose";
+
+export * from "./choose";
+
+/** Commanded speed of the standard lines, mm/s (the rate ratios are at this speed; the largest constant speed does
+ * not depend on it). */
+export const STANDARD_LINE_SPEED_MM_PER_S = 500;
+
+export interface CheckedStandardLineJson extends StandardLineSpec {
+  readonly speedMmPerS: number;
+  /** The line check's report (the JSON `armdex line` prints for the same line). */
+  readonly result: LineCheckResult;
+}
+
+export interface StandardLines {
+  readonly speedMmPerS: number;
+  readonly lines: readonly CheckedStandardLineJson[];
+  readonly notes: readonly StandardLineNote[];
+}
+
+/** A line's tool orientation: a reference orientation, or roll-pitch-yaw in deg (R = Rz·Ry·Rx, fixed axes). */
+export type LineOrientationSpec = "down" | "outward" | { readonly rpyDeg: readonly [number, number, number] };
+
+/**
+ * Checks one line with the flange centre as the tool point, in file units, as the sheets, the browser form and
+ * `armdex line` set it up: a reference orientation is taken at the line's start, gravity from the arm's primary
+ * mounting.
+ * @param gravity unit gravity direction in the base frame
+ * @example checkLineMm(chain, [0, 0, -1], [500, -300, 400], [500, 300, 400], "down", 1000).feasibleConstantSpeedMmPerS
+ */
+export function checkLineMm(
+  chain: Chain,
+  gravity: readonly [number, number, number],
+  fromMm: readonly number[],
+  toMm: readonly number[],
+  orientation: LineOrientationSpec,
+  speedMmPerS: number,
+  samples = DEFAULT_LINE_CHECK.samples,
+): LineCheckResult {
+  const startM = fromMm.map(mmToM),
+    endM = toMm.map(mmToM);
+  const rotation =
+    typeof orientation === "object"
+      ? rpyToolRotation(
+          degToRad(orientation.rpyDeg[0]),
+          degToRad(orientation.rpyDeg[1]),
+          degToRad(orientation.rpyDeg[2]),
+        )
+      : referenceToolRotation(chain, orientation, startM, gravity);
+  return lineCheck(
+    chain,
+    { startM, endM, baseFromToolRotation: rotation, speedMPerS: mmToM(speedMmPerS), toolInFlangeM: [0, 0, 0] },
+    { samples, gravity },
+  );
+}
+
+/**
+ * Chooses and checks the standard lines of an arm.
+ * @param gravity unit gravity direction in the base frame (the arm's primary mounting)
+ */
+export function standardLines(
+  chain: Chain,
+  source: StandardLineSource,
+  gravity: readonly [number, number, number],
+): StandardLines {
+  const { lines, notes } = chooseStandardLines(source);
+  return {
+    speedMmPerS: STANDARD_LINE_SPEED_MM_PER_S,
+    lines: lines.map((line) => ({
+      ...line,
+      speedMmPerS: STANDARD_LINE_SPEED_MM_PER_S,
+      result: checkLineMm(chain, gravity, line.fromMm, line.toMm, "down", STANDARD_LINE_SPEED_MM_PER_S),
+    })),
+    notes,
+  };
+}
