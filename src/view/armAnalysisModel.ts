@@ -325,11 +325,18 @@ function speedSection(
       (m) =>
         `Inverse-kinematics branches kept, ${orientationWords(m.orientation).short}: ${m.branchNames.length > 0 ? m.branchNames.join("; ") : "\u2014"} (the best per cell).`,
     ),
-    ...(a.speed.redundancy ? [sentence(`joint rates: ${a.speed.redundancy}`)] : []),
+    ...(a.speed.redundancy ? [sentence(`joint rates: ${a.speed.redundancy}`), REDUNDANT_POSTURE_RULE] : []),
     `Tool point: ${a.speed.tcp}. Maps are drawn on a ${formatNumber(maps[0]?.grid.stepMm ?? a.options.mapStepMm)}\u00a0mm grid; figures use the ${formatNumber(a.options.mapStepMm)}\u00a0mm computation grid.`,
   ];
   return { charts, table, notes };
 }
+
+/**
+ * How a seven-axis arm's posture is chosen where a figure is called the best: among the postures the map's
+ * continuation reaches, not over the arm's whole self-motion (which is not searched).
+ */
+export const REDUNDANT_POSTURE_RULE =
+  "Posture rule for this redundant arm: each cell keeps the best of the postures the map carries from cell to cell (one per branch); the arm's self-motion at a cell is not searched, so another posture of the same flange pose can be faster than the figure shown.";
 
 function singularitySection(
   a: ArmAnalysis,

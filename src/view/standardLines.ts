@@ -172,5 +172,11 @@ export function standardLinesModel(arm: StandardLinesArm, analysis: ArmAnalysis)
       command: lineCommandText(arm.file, line.query),
     };
   });
-  return { speedMmPerS: STANDARD_LINE_SPEED_MM_PER_S, lines: checked, notes };
+  const postureNote =
+    analysis.speed.redundancy !== null
+      ? [
+          "Posture rule for this redundant arm: each line follows the start postures the check finds and keeps the fastest that follows the whole line; the self-motion along the line is not optimised, so another start posture (the form's start joints, or --start-joints) can be faster.",
+        ]
+      : [];
+  return { speedMmPerS: STANDARD_LINE_SPEED_MM_PER_S, lines: checked, notes: [...notes, ...postureNote] };
 }

@@ -12,7 +12,11 @@ import { bandSource } from "../helpers/standardLineSource";
 
 const length = (q: LineQuery) => Math.hypot(q.toMm[0] - q.fromMm[0], q.toMm[1] - q.fromMm[1], q.toMm[2] - q.fromMm[2]);
 
-function analysisWith(check: (q: LineQuery) => LineCheckResult, layout?: "prismatic-base"): ArmAnalysis {
+function analysisWith(
+  check: (q: LineQuery) => LineCheckResult,
+  layout?: "prismatic-base",
+  redundancy: string | null = null,
+): ArmAnalysis {
   const chosen = layout
     ? chooseStandardLines(bandSource(0, 1900, 500, 1500, layout))
     : chooseStandardLines(bandSource(100, 800, 0, 600));
@@ -25,7 +29,7 @@ function analysisWith(check: (q: LineQuery) => LineCheckResult, layout?: "prisma
     })),
     notes: chosen.notes,
   };
-  return { standardLines } as unknown as ArmAnalysis;
+  return { standardLines, speed: { redundancy } } as unknown as ArmAnalysis;
 }
 
 const seen: LineQuery[] = [];
@@ -115,5 +119,12 @@ describe("standardLinesModel", () => {
     expect(model.lines[0]!.formHref).toMatch(/^\?from=.*&to=.*&orientation=down&speed=500#line-check$/);
     expect(model.lines[0]!.command).toContain("npx armdex line arms/band.json --from ");
     expect(model.lines[0]!.figures.feasibleText).toBe("1,000\u00a0mm/s");
+  });
+
+  it("names the posture rule for a redundant arm, and only there", () => {
+    const arm = { id: "band", file: "arms/band.json", spec: { model: "Band", mountings: ["floor" as const] } };
+    expect(standardLinesModel(arm, analysisWith(fake)).notes.join(" ")).not.toContain("Posture rule");
+    const seven = standardLinesModel(arm, analysisWith(fake, undefined, "minimum-norm joint rates (redundant arm)"));
+    expect(seven.notes.join(" ")).toContain("Posture rule for this redundant arm");
   });
 });
