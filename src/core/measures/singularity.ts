@@ -106,8 +106,8 @@ export function scaledInverseCondition(
  * squared norm on axis 1 (a), the shoulder/elbow pair (p) and the wrist or tool-roll joints (module comment). A group
  * whose share is below `negligibleShare` does not take part: wrist when a + p is negligible (the wrist joints only);
  * shoulder when the pair does not take part but axis 1 does (axis 1 with the wrist or tool roll); elbow when the pair
- * takes part and axis 1 holds less than TAKES_PART (a SCARA's stretched arm turns axis 1 a little with it); other
- * otherwise (axis 1 and the pair both, as on the cylinder of a lateral shoulder offset).
+ * takes part and holds more than axis 1 (a stretched planar 2R or SCARA turns axis 1 too, less than the elbow);
+ * other otherwise (axis 1 leading the pair, as on the cylinder of a lateral shoulder offset).
  * `negligibleShare` defaults to TAKES_PART for a pose merely near a singularity, whose σ_min vector mixes in the
  * other groups to first order in the distance; at a pose on the singularity (det J = 0 to rounding) the shares of
  * the groups that do not take part are rounding noise, so a far smaller bound separates the kinds (labels.ts).
@@ -134,7 +134,7 @@ export function classifyNullVector(
     p = arm / total;
   if (roles.wrist.length > 0 && a + p < negligibleShare) return "wrist";
   if (p < negligibleShare) return a >= negligibleShare ? "shoulder" : "other";
-  return a < TAKES_PART ? "elbow" : "other";
+  return p > a ? "elbow" : "other";
 }
 
 export interface SingularityReport {

@@ -11,6 +11,7 @@ import {
   classifyNullVector,
   decoupledWristColumns,
   jointRoles,
+  type JointRoles,
   type SingularityKind,
 } from "../../measures/singularity";
 import { solAt, type MapRun } from "./state";
@@ -85,6 +86,14 @@ export function createCrossingNullMotion(
   };
 }
 
+/**
+ * Kind of the singularity whose null motion is column m − 1 of `v` (from createCrossingNullMotion): classifyNullVector
+ * with the crossing's negligible share.
+ */
+export function crossingKind(v: ArrayLike<number>, m: number, roles: JointRoles): Exclude<SingularityKind, "none"> {
+  return classifyNullVector(v, m, m - 1, roles, CROSSING_NEGLIGIBLE_SHARE);
+}
+
 /** Determinant of the m × m matrix a (m = 4 or 6) by Gaussian elimination with partial pivoting on a copy. */
 function det(a: Float64Array, m: number): number {
   const w = Float64Array.from(a);
@@ -132,7 +141,7 @@ export function locusLabeller(run: MapRun): SheetData["kindAt"] {
     ] as const) {
       if (!(run.detVal[idx(a)]! * run.detVal[idx(b)]! < 0)) continue;
       if (nullMotion?.(joints(a), joints(b), v)) {
-        kind = classifyNullVector(v, m, m - 1, roles, CROSSING_NEGLIGIBLE_SHARE);
+        kind = crossingKind(v, m, roles);
         break;
       }
     }
