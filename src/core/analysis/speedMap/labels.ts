@@ -16,7 +16,7 @@ import {
 } from "../../measures/singularity";
 import { solAt, type MapRun } from "./state";
 import type { SheetData } from "./types";
-import { taskMatrixInto } from "./verify";
+import { taskMatrixInto } from "./taskMatrix";
 
 /** Regula falsi (Illinois) steps of the search for det J = 0 along a square's edge. */
 const CROSSING_STEPS = 60;
@@ -31,7 +31,8 @@ const CROSSING_NEGLIGIBLE_SHARE = 1e-12;
 /**
  * Null motion at the singular pose between two solutions qa, qb of one sheet whose task determinants have opposite
  * signs: det J is followed along the joint-space segment qa + t·(qb − qa) (continuous, so it has a zero there) to its
- * zero by the Illinois regula falsi; the right singular vectors of the scaled square task Jacobian there go into
+ * zero by the Illinois regula falsi (or taken at the corner of smaller |det J| when the signs recomputed here agree: a
+ * corner on the singular pose); the right singular vectors of the scaled square task Jacobian there go into
  * `v` (m × m, row-major; the null motion in column m − 1). Corners can lie near a second, uncrossed singularity whose
  * σ_min is smaller than the crossing one's; at the crossing itself σ_min is the crossing's (det J ≈ 0 to rounding).
  */
@@ -62,7 +63,13 @@ export function createCrossingNullMotion(
       b = 1,
       fa = detAt(qa, qb, 0),
       fb = detAt(qa, qb, 1);
-    if (!(fa * fb < 0)) return false;
+    // A corner refined onto the singular pose (refine.ts) has det J at rounding level, of either sign: it is the
+    // singular pose.
+    if (!(fa * fb < 0)) {
+      taskAt(qa, qb, Math.abs(fa) <= Math.abs(fb) ? 0 : 1);
+      svdInto(sv, v, task, m, m, svd);
+      return true;
+    }
     let best = Math.abs(fa) < Math.abs(fb) ? a : b,
       fBest = Math.min(Math.abs(fa), Math.abs(fb));
     for (let it = 0; it < CROSSING_STEPS && Math.abs(b - a) > 1e-15; it++) {
