@@ -95,7 +95,7 @@ describe("generic 6R (CHECKS §0): kind at a det J crossing between two poses", 
 
   it("wrist: q5 from −0.1 to 0.1 crosses q5 = 0 (axes 4 and 6 in line): wrist", () => {
     // CHECKS C5: det J22 = −sin q5; null motion e4 − e6, the arm joints still.
-    const q = [...Q_STAR];
+    const q: number[] = [...Q_STAR];
     q[4] = 0;
     expect(kindAcross(q, 4, 0.1)).toBe("wrist");
   });
