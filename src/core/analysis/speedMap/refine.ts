@@ -94,8 +94,9 @@ function errorAlong(
 
 /**
  * Whether the pose with this Jacobian and flange pose is near singular: inverse condition of its scaled square task
- * Jacobian below REFINE_INVERSE_CONDITION. `detScaled` is that matrix's determinant: since |det| = Π σᵢ ≤
- * σ_min·σ_max^(m−1) and σ_max ≤ ‖·‖_F, a pose with |det| ≥ REFINE_INVERSE_CONDITION·‖·‖_F^m is not, and costs no
+ * Jacobian T below REFINE_INVERSE_CONDITION (c). `detScaled` is det T: by the inequality of arithmetic and geometric
+ * means the other m − 1 singular values have Π ≤ (‖T‖_F²/(m − 1))^((m−1)/2), and σ_min < c·σ_max ≤ c·‖T‖_F, so a pose
+ * with |det T| ≥ c·‖T‖_F·(‖T‖_F²/(m − 1))^((m−1)/2) is not near singular and costs no
  * SVD. Leaves the singular vectors in s.v when it is.
  */
 export function nearSingular(
@@ -108,7 +109,8 @@ export function nearSingular(
   taskMatrixInto(s.task, jacobian, m, s.chain.characteristicLengthM, baseFromFlange);
   let frob2 = 0;
   for (let i = 0; i < m * m; i++) frob2 += s.task[i]! * s.task[i]!;
-  if (!(Math.abs(detScaled) < REFINE_INVERSE_CONDITION * frob2 ** (m / 2))) return false;
+  const bound = REFINE_INVERSE_CONDITION * Math.sqrt(frob2) * (frob2 / (m - 1)) ** ((m - 1) / 2);
+  if (!(Math.abs(detScaled) < bound)) return false;
   svdInto(s.sv, s.v, s.task, m, m, s.svd);
   return s.sv[m - 1]! < REFINE_INVERSE_CONDITION * s.sv[0]!;
 }
