@@ -3,11 +3,15 @@
  *
  * Proximity: singular values of the Jacobian with its linear rows divided by a characteristic length L (so both row
  * blocks are per radian and comparable); inverseCondition = σ_min / σ_max of that scaled Jacobian (1 isotropic,
- * 0 singular). Kind: from the right singular vector of σ_min (the joint motion that barely moves the tool):
- * - elbow:    the arm joints after axis 1 take part (upper arm and forearm folding or stretching);
- * - shoulder: axis 1 takes part without them (wrist centre on axis 1: joint 1 spins, the wrist compensates);
- * - wrist:    only the wrist joints take part (axes 4 and 6 in line, turning against each other);
- * - other:    anything else.
+ * 0 singular). Kind: from the null motion, the right singular vector of σ_min of the driven-joint Jacobian J·G (the
+ * joint motion that barely moves the tool), by the share of its squared norm on three joint groups (jointRoles):
+ * axis 1 (driven column 1), the shoulder/elbow pair (driven columns 2–3) and the wrist or tool-roll joints (the
+ * rest), the same rule for every arm class:
+ * - wrist:    the wrist joints only (axes 4 and 6 in line, turning against each other);
+ * - shoulder: axis 1 with wrist/tool-roll joints, the pair not taking part (flange or wrist centre on axis 1: joint 1
+ *             spins, the wrist or tool roll turns it back);
+ * - elbow:    the pair takes part, axis 1 not (upper arm and forearm folding or stretching; the wrist may compensate);
+ * - other:    anything else (axis 1 and the pair together, or no group clearly).
  * @see Salisbury & Craig, IJRR 1(1), 1982 (condition number) [from memory];
  *   Spong, Hutchinson & Vidyasagar, Robot Modeling and Control, §4.9 (decoupling of singularities) [from memory]
  */
@@ -21,7 +25,12 @@ export const SINGULAR_INVERSE_CONDITION = 0.01;
 /** Share of the null vector's squared norm that makes a joint group "take part". */
 const TAKES_PART = 0.15;
 
-/** Driven-joint roles used to name a singularity. Indices are driven-joint columns. */
+/**
+ * Driven-joint roles used to name a singularity. Indices are driven-joint columns: axis 1 is column 0, `arm` the
+ * shoulder/elbow pair (columns 1 and 2, the second and third driven joints), `wrist` every later column (the wrist of
+ * a six-axis arm, the tool roll of a palletizer or SCARA, the forearm and wrist joints of a seven-axis arm) together
+ * with any declared wrist axis.
+ */
 export interface JointRoles {
   readonly axis1: number;
   readonly arm: readonly number[];
@@ -31,14 +40,15 @@ export interface JointRoles {
 export function jointRoles(chain: Chain): JointRoles {
   const m = chain.drivenCount;
   const columnOf = new Map(Array.from(chain.drivenJoint, (k, c) => [k, c] as const));
-  let wrist: number[] = [];
-  if (chain.wrist) wrist = chain.wrist.axes.map((k) => columnOf.get(k)).filter((c): c is number => c !== undefined);
-  if (wrist.length === 0 && m >= 6) {
-    const revolute = Array.from(chain.drivenJoint, (k, c) => (chain.isPrismatic[k] ? -1 : c)).filter((c) => c >= 0);
-    wrist = revolute.slice(-3);
-  }
-  const arm: number[] = [];
-  for (let c = 1; c < m; c++) if (!wrist.includes(c)) arm.push(c);
+  const declared = new Set<number>();
+  if (chain.wrist)
+    for (const k of chain.wrist.axes) {
+      const c = columnOf.get(k);
+      if (c !== undefined && c > 0) declared.add(c);
+    }
+  const arm = [1, 2].filter((c) => c < m && !declared.has(c));
+  const wrist: number[] = [];
+  for (let c = 1; c < m; c++) if (!arm.includes(c)) wrist.push(c);
   return { axis1: 0, arm, wrist };
 }
 
@@ -91,29 +101,40 @@ export function scaledInverseCondition(
   return max > 0 ? s.sv[k - 1]! / max : 0;
 }
 
-/** Kind of singularity from the null vector in column `col` of the m × m matrix v (row-major). */
+/**
+ * Kind of singularity from the null vector in column `col` of the m × m matrix v (row-major), by the shares of its
+ * squared norm on axis 1 (a), the shoulder/elbow pair (p) and the wrist or tool-roll joints (module comment). A group
+ * whose share is below `negligibleShare` does not take part: wrist when a + p is negligible (the wrist joints only);
+ * shoulder when the pair does not take part but axis 1 does (axis 1 with the wrist or tool roll); elbow when the pair
+ * takes part and holds more than axis 1 (a stretched planar 2R or SCARA turns axis 1 too, less than the elbow);
+ * other otherwise (axis 1 leading the pair, as on the cylinder of a lateral shoulder offset).
+ * `negligibleShare` defaults to TAKES_PART for a pose merely near a singularity, whose σ_min vector mixes in the
+ * other groups to first order in the distance; at a pose on the singularity (det J = 0 to rounding) the shares of
+ * the groups that do not take part are rounding noise, so a far smaller bound separates the kinds (labels.ts).
+ * @example a palletizer with its flange on axis 1: null motion (J1, J2, J3, J4) ∝ (1, 0, 0, −1) → "shoulder"
+ */
 export function classifyNullVector(
   v: ArrayLike<number>,
   m: number,
   col: number,
   roles: JointRoles,
+  negligibleShare = TAKES_PART,
 ): Exclude<SingularityKind, "none"> {
   let total = 0,
     axis1 = 0,
-    arm = 0,
-    wrist = 0;
+    arm = 0;
   for (let i = 0; i < m; i++) {
     const w = v[i * m + col]! * v[i * m + col]!;
     total += w;
     if (i === roles.axis1) axis1 += w;
     else if (roles.arm.includes(i)) arm += w;
-    else if (roles.wrist.includes(i)) wrist += w;
   }
   if (!(total > 0)) return "other";
-  if (arm / total >= TAKES_PART) return "elbow";
-  if (axis1 / total >= TAKES_PART) return "shoulder";
-  if (roles.wrist.length > 0 && wrist / total >= 1 - TAKES_PART) return "wrist";
-  return "other";
+  const a = axis1 / total,
+    p = arm / total;
+  if (roles.wrist.length > 0 && a + p < negligibleShare) return "wrist";
+  if (p < negligibleShare) return a >= negligibleShare ? "shoulder" : "other";
+  return p > a ? "elbow" : "other";
 }
 
 export interface SingularityReport {

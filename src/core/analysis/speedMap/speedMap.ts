@@ -17,6 +17,7 @@ import { mapOutput } from "./output";
 import { createMapRun, type SpeedMapWorkspace } from "./state";
 import type { ReferenceOrientation, SpeedMapOptions, ToolSpeedMap } from "./types";
 import { DEFAULT_SPEED_MAP } from "./types";
+import { refineNearSingular } from "./verify";
 
 export type { Grid2 } from "../../geometry/grid";
 export { createSpeedMapWorkspace, type SpeedMapWorkspace } from "./state";
@@ -48,5 +49,6 @@ export function toolSpeedMap(
 ): ToolSpeedMap {
   const run = createMapRun(chain, orientation, options, workspace);
   discoverAndFlood(run);
+  refineNearSingular(run);
   return mapOutput(run);
 }

@@ -25,6 +25,7 @@ import { mulberry32 } from "../../math/random";
 import type { Grid2 } from "../../geometry/grid";
 import { branchFrame, type BranchFrame } from "../../measures/branches";
 import { createSpeedScratch, type SpeedScratch } from "../../measures/speed";
+import { createNullStepScratch, type NullStepScratch } from "./refine";
 import { mapGrid, sampledBounds, sidePlane, targetInto, targetPositionInto, type Plane } from "./plane";
 import type { ReferenceOrientation, SpeedMapOptions } from "./types";
 
@@ -130,6 +131,10 @@ export interface MapRun {
   readonly detWork: Float64Array;
   readonly lengthCubed: number;
   readonly poseError: Float64Array;
+  /** Scratch of the null-motion refinement near singular poses (refine.ts); null without a square task Jacobian. */
+  readonly nullStep: NullStepScratch | null;
+  /** Per solution: 1 when verification found it near a singular pose (refined after the flood, refine.ts). */
+  readonly singularMark: Uint8Array;
   readonly usePredictor: boolean;
   readonly tangentB: Float64Array;
   readonly qPred: Float64Array;
@@ -240,6 +245,8 @@ export function createMapRun(
     detWork: new Float64Array(36),
     lengthCubed: chain.characteristicLengthM ** 3,
     poseError: new Float64Array(6),
+    nullStep: createNullStepScratch(chain),
+    singularMark: ws.u8("singularMark", cells * K).fill(0),
     // Not for redundant arms: there the predictor's minimum-norm tangent and the damped solver's step move along the
     // self-motion differently, and the map follows the path taken.
     usePredictor: m <= 6,

@@ -7,6 +7,8 @@ import { ikSeedPoseInto, solveIkInto, taskErrorInto, withinIkTolerance } from ".
 import { wristTwinInto } from "../../kinematics/wristFlip";
 import { determinantInPlace } from "../../math/linsolve";
 import { guaranteedLineSpeed } from "../../measures/speed";
+import { nearSingular, refineAlongNullMotion } from "./refine";
+import { taskMatrixInto } from "./taskMatrix";
 import { setTargetInto, solAt, type MapRun } from "./state";
 
 /** Forward kinematics and Jacobian of solution (cell, slot) = q into seedPose, and its figures into guaranteedVal, detVal. */
@@ -51,6 +53,10 @@ export function verifyAndFigure(run: MapRun, cell: number, slot: number, from: n
     if (twin >= 0 && wristTwinInto(run.qTwin, run.pool, run.flip!, chain, from))
       run.pool.set(run.qTwin, solAt(run, cell * K + twin));
   }
+  // Near a singular pose the solver's tolerance leaves the solution off the target's pose along the null motion
+  // (refine.ts): marked here, where the Jacobian is at hand, and refined once the flood is over.
+  if (run.nullStep && nearSingular(run.nullStep, run.seedPose.jacobian, run.seedPose.flange, run.detVal[fromIdx]!))
+    run.singularMark[fromIdx] = 1;
   // B, the joint rates per unit tool velocity at constant orientation, is the speed figure's by-product (none
   // at a singular pose, where the figure is 0): the tangent of the solution sheet along the plane.
   if (run.usePredictor && run.guaranteedVal[fromIdx]! > 0) {
@@ -60,10 +66,7 @@ export function verifyAndFigure(run: MapRun, cell: number, slot: number, from: n
   return false;
 }
 
-/**
- * Determinant of the square task Jacobian with linear rows divided by `lengthM` (dimensionless): the 6 × 6 J for
- * six driven joints; for four, the rows (vx, vy, vz, ω·z_tool) (the tool keeps its axis). NaN otherwise.
- */
+/** Determinant of the square task Jacobian of taskMatrixInto (dimensionless; `work` is overwritten). NaN for other m. */
 export function taskDeterminant(
   j: ArrayLike<number>,
   m: number,
@@ -71,18 +74,42 @@ export function taskDeterminant(
   baseFromFlange: Float64Array,
   work: Float64Array,
 ): number {
-  if (m === 6) {
-    for (let i = 0; i < 18; i++) work[i] = j[i]! / lengthM;
-    for (let i = 18; i < 36; i++) work[i] = j[i]!;
-    return determinantInPlace(work, 6);
+  return taskMatrixInto(work, j, m, lengthM, baseFromFlange) ? determinantInPlace(work, m) : NaN;
+}
+
+/**
+ * After the flood: every solution verification marked near singular, and its wrist-flip twin (which took its figures
+ * without verification), is stepped along its own null motion onto the pose its cell's target asks for
+ * (refine.ts), and its figures recomputed; det J keeps the flood's sign. Done after the flood so the continuation,
+ * and with it every other cell, stays as it was.
+ */
+export function refineNearSingular(run: MapRun): void {
+  const { K, singularMark, nullStep, twinSlot, flip } = run;
+  if (!nullStep) return;
+  for (let idx = 0; idx < singularMark.length; idx++) {
+    const cell = Math.floor(idx / K);
+    const twin = flip ? twinSlot[idx]! : -1;
+    if (singularMark[idx] || (twin >= 0 && singularMark[cell * K + twin])) refineSolution(run, cell, idx - cell * K);
   }
-  if (m === 4) {
-    for (let i = 0; i < 12; i++) work[i] = j[i]! / lengthM;
-    const tx = baseFromFlange[2]!,
-      ty = baseFromFlange[6]!,
-      tz = baseFromFlange[10]!;
-    for (let c = 0; c < 4; c++) work[12 + c] = j[12 + c]! * tx + j[16 + c]! * ty + j[20 + c]! * tz;
-    return determinantInPlace(work, 4);
-  }
-  return NaN;
+}
+
+/** refineNearSingular for one solution (cell, slot). */
+function refineSolution(run: MapRun, cell: number, slot: number): void {
+  const { chain, m, K, nullStep, seedPose, popTarget } = run;
+  const idx = cell * K + slot;
+  const from = solAt(run, idx);
+  const q = run.qFix;
+  q.set(run.pool.subarray(from, from + m));
+  ikSeedPoseInto(seedPose, chain, q, run.popKin);
+  setTargetInto(run, popTarget, cell);
+  const detScaled = run.detVal[idx]!;
+  if (
+    !refineAlongNullMotion(nullStep!, q, seedPose.jacobian, seedPose.flange, detScaled, popTarget, run.task === "axis")
+  )
+    return;
+  run.pool.set(q, from);
+  slotFigures(run, cell, slot, q);
+  // The sign of det J stays the flood's: on the singular pose it is rounding noise, and a flipped sign would draw
+  // loci through squares the sheet does not cross. Same sign: the smaller value places the locus closer to it.
+  if (!(run.detVal[idx]! * detScaled > 0)) run.detVal[idx] = detScaled;
 }
