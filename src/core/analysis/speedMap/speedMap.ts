@@ -14,6 +14,7 @@
 import type { Chain } from "../../kinematics/chain";
 import { discoverAndFlood } from "./discovery";
 import { mapOutput } from "./output";
+import { discoverAlongAxis, sweepJointSpace } from "./sweep";
 import { createMapRun, type SpeedMapWorkspace } from "./state";
 import type { ReferenceOrientation, SpeedMapOptions, ToolSpeedMap } from "./types";
 import { DEFAULT_SPEED_MAP } from "./types";
@@ -48,5 +49,7 @@ export function toolSpeedMap(
 ): ToolSpeedMap {
   const run = createMapRun(chain, orientation, options, workspace);
   discoverAndFlood(run);
+  if (run.options.jointSamples) discoverAlongAxis(run);
+  sweepJointSpace(run);
   return mapOutput(run);
 }
