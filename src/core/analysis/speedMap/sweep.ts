@@ -18,7 +18,7 @@ export const SWEEP_CONE_RAD = (20 * Math.PI) / 180;
 const AXIS_EVERY_ROWS = 5;
 const AXIS_SEEDS = 8;
 /** Snaps tried at one empty cell before the sweep gives it up. */
-const SWEEP_TRIES_PER_CELL = 3;
+const SWEEP_TRIES_PER_CELL = 2;
 
 /** Rotates the vector (x, y, z) about unit axis u by angle φ (Rodrigues) into out[0..2]. */
 function rotateInto(out: number[], u: readonly number[], phi: number, x: number, y: number, z: number): void {
@@ -115,6 +115,9 @@ export function sweepJointSpace(run: MapRun): void {
   ];
   const dir = [0, 0, 0];
   const q = new Float64Array(m);
+  // Held cells are snapped to on redundant arms only: there the flood follows one path through the self-motion and
+  // leaves better points of it (and the sheets beyond) unvisited; a six-axis arm's sheets are found from empty cells.
+  const redundant = m > 6;
   for (let n = 0; n < samples; n++) {
     for (let i = 0; i < m; i++) {
       const lo = Math.max(chain.lowerSi[i]!, -2 * Math.PI),
@@ -141,7 +144,7 @@ export function sweepJointSpace(run: MapRun): void {
       if (ix < 0 || ix >= nx || (c === 1 && d === 0)) continue;
       const cell = ix + iy * nx;
       const held = count[cell]!;
-      if (held >= run.K || tries[cell]! >= (held > 0 ? 1 : SWEEP_TRIES_PER_CELL)) continue;
+      if (held >= run.K || (held > 0 && !redundant) || tries[cell]! >= (held > 0 ? 1 : SWEEP_TRIES_PER_CELL)) continue;
       const phi = c === 0 ? -heading : Math.PI - heading;
       rotateInto(dir, up, phi, t[2]!, t[6]!, t[10]!);
       if (dir[0]! * tz[0]! + dir[1]! * tz[1]! + dir[2]! * tz[2]! < cosCone) continue;
