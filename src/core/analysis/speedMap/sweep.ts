@@ -4,7 +4,9 @@
  * found from seeded random joint values within the ranges. Each sample is turned about axis 1 into the plane (on
  * either side of the axis); when its tool direction lies within a cone about the reference direction and the cell
  * nearest its flange is not full, inverse kinematics from it snaps it to that cell, and a solution on a new sheet
- * floods it (continuation.ts). Deterministic: the samples come from the seeded generator.
+ * floods it (continuation.ts). Before the sweep, discoverAlongAxis seeds the columns at r ≤ 0 directly (samples
+ * rarely land there). Deterministic: the samples come from the seeded generator. Test: sweep.test.ts (the issue's
+ * reproductions, Monte Carlo coverage).
  */
 import { forwardInto } from "../../kinematics/forward";
 import { solveIkInto } from "../../kinematics/inverse";
@@ -89,7 +91,7 @@ function axisSense(run: MapRun): number {
 
 /**
  * The sweep: `options.jointSamples` seeded samples (none when 0 or absent). An empty cell is tried up to
- * SWEEP_TRIES_PER_CELL times, a held one once, and a solution found there is kept only when it is not within a
+ * SWEEP_TRIES_PER_CELL times, a held one once and on redundant arms only, and a solution found there is kept only when it is not within a
  * continuation step of one held already (a new sheet, not a point of a known one). Each new solution floods its
  * sheet into every cell it reaches, filled or not; the output keeps the best branch per cell, so a held figure
  * only changes when a better branch is found.
