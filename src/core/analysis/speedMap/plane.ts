@@ -82,7 +82,11 @@ export function sampledBounds(chain: Chain, plane: Plane, seed: number): { rMax:
   return { rMax: (rMax + margin) * 1000, zMin: (zMin - margin) * 1000, zMax: (zMax + margin) * 1000 };
 }
 
-/** Target flange pose (row-major 4×4, m) for a cell. */
+/**
+ * Target flange pose (row-major 4×4, m) for a cell. "Outward" is +radial·outwardSign, the same for every cell: at
+ * r < 0 (the columns behind axis 1) it points towards axis 1, not away from it, so the targets are continuous
+ * across the axis (a line through axis 1 at one orientation); the methods page says so.
+ */
 export function targetInto(
   out: Float64Array,
   plane: Plane,

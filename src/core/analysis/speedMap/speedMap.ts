@@ -8,12 +8,15 @@
  * Symmetry: a rotation about a vertical axis 1 turns every figure with it, so the maps are drawn against the
  * distance from axis 1 (r ≥ 0) and hold at every J1 heading. The TCP is the flange centre (no tool).
  * Reference orientations: "down" = flange z along gravity of the primary mounting, flange x pointing away from
- * axis 1; "outward" = flange z pointing away from axis 1, flange x down. Arms with fewer than six driven joints
- * get "down" only, with the rotation about the tool axis left free.
+ * axis 1; "outward" = flange z pointing away from axis 1, flange x down. "Away from axis 1" is the +radial direction
+ * of the plane, the same in every cell: in the two columns behind axis 1 (r < 0, there so a locus on the axis is
+ * crossed) it points back towards the axis, so the targets stay continuous across it (methods page, tool speed).
+ * Arms with fewer than six driven joints get "down" only, with the rotation about the tool axis left free.
  */
 import type { Chain } from "../../kinematics/chain";
 import { discoverAndFlood } from "./discovery";
 import { mapOutput } from "./output";
+import { discoverAlongAxis, sweepJointSpace } from "./sweep";
 import { createMapRun, type SpeedMapWorkspace } from "./state";
 import type { ReferenceOrientation, SpeedMapOptions, ToolSpeedMap } from "./types";
 import { DEFAULT_SPEED_MAP } from "./types";
@@ -49,6 +52,9 @@ export function toolSpeedMap(
 ): ToolSpeedMap {
   const run = createMapRun(chain, orientation, options, workspace);
   discoverAndFlood(run);
+  if (run.options.jointSamples) discoverAlongAxis(run);
+  sweepJointSpace(run);
+  // After every solution is in (flood and sweep): near-singular solutions moved onto their singular pose.
   refineNearSingular(run);
   return mapOutput(run);
 }

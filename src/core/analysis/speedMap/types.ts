@@ -62,6 +62,11 @@ export interface SpeedMapOptions {
    * (the nodes a coarser output grid keeps; NaN elsewhere). Default: every cell.
    */
   readonly conditionMaxColumns?: number;
+  /**
+   * Seeded random joint samples of the joint-space sweep (sweep.ts) after discovery and flood: islands of solutions
+   * neither reaches (near axis 1, near the base) are found from them. 0 or absent: no sweep.
+   */
+  readonly jointSamples?: number;
 }
 
 export const DEFAULT_SPEED_MAP: SpeedMapOptions = {
@@ -71,6 +76,7 @@ export const DEFAULT_SPEED_MAP: SpeedMapOptions = {
   discoverySeeds: 24,
   maxBranches: 8,
   seed: 20261202,
+  jointSamples: 60000,
 };
 
 export interface SingularityLocus {
