@@ -22,7 +22,7 @@ import { Matrix, inverse } from "ml-matrix";
 import { describe, expect, it } from "vitest";
 import { compileChain } from "../../../../src/core";
 import { solveIkInto, createIkScratch } from "../../../../src/core/kinematics/inverse";
-import { DEFAULT_ENVELOPE_OPTIONS, workspaceEnvelope } from "../../../../src/core/analysis/envelope";
+import { DEFAULT_ENVELOPE_OPTIONS, workspaceEnvelope } from "../../../../src/core/analysis/envelope/envelope";
 import { DEFAULT_SPEED_MAP, toolSpeedMap, type ToolSpeedMap } from "../../../../src/core/analysis/speedMap/speedMap";
 import { mulberry32 } from "../../../helpers/prng";
 
