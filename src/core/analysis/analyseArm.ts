@@ -26,6 +26,9 @@ import type { AnalysisOptions, ArmAnalysis, PointEnvelopeJson, SpeedMapJson } fr
 import { reachWarning, repeatabilityWarning, type AnalysisWarning, type PayloadAboveWristRating } from "./warnings";
 import { standardCycle } from "./cycle/cycle";
 import { standardLines } from "./standardLines/standardLines";
+import { referenceAxesInto } from "../kinematics/toolOrientation";
+
+const BASE_X = [1, 0, 0] as const;
 import {
   DEFAULT_ENVELOPE_OPTIONS,
   workspaceEnvelope,
@@ -312,33 +315,10 @@ function cycleAt(chain: Chain, down: ToolSpeedMap, facts: ArmFacts, gravity: rea
     const px = (r - gx * upMm) / 1000,
       py = (lateralMm + shiftMm - gy * upMm) / 1000,
       pz = (z - gz * upMm) / 1000;
-    let xx = 1 - gx * gx,
-      xy = -gx * gy,
-      xz = -gx * gz;
-    let n = Math.hypot(xx, xy, xz);
-    if (n < 1e-9) {
-      xx = -gz * gx;
-      xy = -gz * gy;
-      xz = 1 - gz * gz;
-      n = Math.hypot(xx, xy, xz) || 1;
-    }
-    xx /= n;
-    xy /= n;
-    xz /= n;
-    const yx = gy * xz - gz * xy,
-      yy = gz * xx - gx * xz,
-      yz = gx * xy - gy * xx;
-    out[0] = xx;
-    out[1] = yx;
-    out[2] = gx;
+    // Tool down, tool x towards base x made perpendicular to gravity.
+    referenceAxesInto(out, "down", BASE_X, gravity, 4);
     out[3] = px;
-    out[4] = xy;
-    out[5] = yy;
-    out[6] = gy;
     out[7] = py;
-    out[8] = xz;
-    out[9] = yz;
-    out[10] = gz;
     out[11] = pz;
     out[15] = 1;
     return out;

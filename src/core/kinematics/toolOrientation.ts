@@ -37,10 +37,65 @@ function anyPerpendicular(z: readonly number[]): number[] {
   return x;
 }
 
-/** Row-major 3×3 with columns x, y = z × x, z. */
-function rotationFromXz(x: readonly number[], z: readonly number[]): Float64Array {
-  const y = [z[1]! * x[2]! - z[2]! * x[1]!, z[2]! * x[0]! - z[0]! * x[2]!, z[0]! * x[1]! - z[1]! * x[0]!];
-  return Float64Array.from([x[0]!, y[0]!, z[0]!, x[1]!, y[1]!, z[1]!, x[2]!, y[2]!, z[2]!]);
+/**
+ * The one builder of the reference tool orientations: writes the rotation baseFromTool of "down" (tool z along
+ * gravity, tool x towards `outward` made perpendicular to it) or "outward" (tool z along `outward`, tool x towards
+ * gravity made perpendicular to it) into `out`, row-major with `rowStride` 3 (a 3×3) or 4 (the rotation block of a
+ * 4×4 pose); y = z × x. Where the two directions are parallel, x is the base axis least aligned with z, made
+ * perpendicular. Allocates nothing: the speed maps call it for every cell.
+ * @param outward unit direction pointing away from axis 1 (base frame)
+ * @param gravity unit gravity direction (base frame)
+ * @example referenceAxesInto(new Float64Array(9), "down", [1, 0, 0], [0, 0, -1], 3)
+ *   // rows (1, 0, 0), (0, −1, 0), (0, 0, −1): tool z down, tool x along base x
+ */
+export function referenceAxesInto(
+  out: Float64Array,
+  name: ReferenceOrientation,
+  outward: ArrayLike<number>,
+  gravity: ArrayLike<number>,
+  rowStride: 3 | 4,
+): Float64Array {
+  const down = name === "down";
+  // z: the tool axis; t: the direction tool x leans towards.
+  const zx = down ? gravity[0]! : outward[0]!,
+    zy = down ? gravity[1]! : outward[1]!,
+    zz = down ? gravity[2]! : outward[2]!;
+  const tx = down ? outward[0]! : gravity[0]!,
+    ty = down ? outward[1]! : gravity[1]!,
+    tz = down ? outward[2]! : gravity[2]!;
+  const d = tx * zx + ty * zy + tz * zz;
+  let xx = tx - d * zx,
+    xy = ty - d * zy,
+    xz = tz - d * zz;
+  let n = Math.hypot(xx, xy, xz);
+  if (!(n > 1e-9)) {
+    // Parallel: the base axis least aligned with z, made perpendicular to it.
+    const ax = Math.abs(zx),
+      ay = Math.abs(zy),
+      az = Math.abs(zz);
+    const ex = ax <= ay && ax <= az ? 1 : 0,
+      ey = ex === 0 && ay <= az ? 1 : 0,
+      ez = ex === 0 && ey === 0 ? 1 : 0;
+    const e = ex * zx + ey * zy + ez * zz;
+    xx = ex - e * zx;
+    xy = ey - e * zy;
+    xz = ez - e * zz;
+    n = Math.hypot(xx, xy, xz);
+  }
+  xx /= n;
+  xy /= n;
+  xz /= n;
+  const r = rowStride;
+  out[0] = xx;
+  out[1] = zy * xz - zz * xy;
+  out[2] = zx;
+  out[r] = xy;
+  out[r + 1] = zz * xx - zx * xz;
+  out[r + 2] = zy;
+  out[2 * r] = xz;
+  out[2 * r + 1] = zx * xy - zy * xx;
+  out[2 * r + 2] = zz;
+  return out;
 }
 
 /**
@@ -88,13 +143,7 @@ export function referenceToolRotation(
   const g = [gravity[0]!, gravity[1]!, gravity[2]!];
   if (!normalise3(g)) throw new RangeError(`invalid gravity: ${Array.from(gravity).join(",")}`);
   const up = [-g[0]!, -g[1]!, -g[2]!];
-  const out = outwardDirection(chain, pointM, up);
-  if (name === "down") {
-    const x = reject3(out, g);
-    return rotationFromXz(normalise3(x) ? x : anyPerpendicular(g), g);
-  }
-  const x = reject3(g, out);
-  return rotationFromXz(normalise3(x) ? x : anyPerpendicular(out), out);
+  return referenceAxesInto(new Float64Array(9), name, outwardDirection(chain, pointM, up), g, 3);
 }
 
 /**

@@ -6,7 +6,7 @@ import type { Chain } from "../../kinematics/chain";
 import { createScratch, forwardInto } from "../../kinematics/forward";
 import { mulberry32 } from "../../math/random";
 import type { Grid2 } from "../../geometry/grid";
-import type { ReferenceOrientation } from "./types";
+import { referenceAxesInto, type ReferenceOrientation } from "../../kinematics/toolOrientation";
 
 /** The plane: origin on axis 1, radial and up unit vectors in the base frame. */
 export interface Plane {
@@ -96,62 +96,9 @@ export function targetInto(
   gravity: readonly number[],
   outwardSign: number,
 ): Float64Array {
-  const up = plane.up,
-    rad = plane.radial;
-  let xx: number, xy: number, xz: number, zx: number, zy: number, zz: number;
-  const ox = rad[0]! * outwardSign,
-    oy = rad[1]! * outwardSign,
-    oz = rad[2]! * outwardSign;
-  if (orientation === "down") {
-    zx = gravity[0]!;
-    zy = gravity[1]!;
-    zz = gravity[2]!;
-    // x: outward made perpendicular to z.
-    const d = ox * zx + oy * zy + oz * zz;
-    xx = ox - d * zx;
-    xy = oy - d * zy;
-    xz = oz - d * zz;
-    let n = Math.hypot(xx, xy, xz);
-    if (n < 1e-9) {
-      xx = up[0]!;
-      xy = up[1]!;
-      xz = up[2]!;
-      n = 1;
-    }
-    xx /= n;
-    xy /= n;
-    xz /= n;
-  } else {
-    zx = ox;
-    zy = oy;
-    zz = oz;
-    const d = gravity[0]! * zx + gravity[1]! * zy + gravity[2]! * zz;
-    xx = gravity[0]! - d * zx;
-    xy = gravity[1]! - d * zy;
-    xz = gravity[2]! - d * zz;
-    let n = Math.hypot(xx, xy, xz);
-    if (n < 1e-9) {
-      xx = -up[0]!;
-      xy = -up[1]!;
-      xz = -up[2]!;
-      n = 1;
-    }
-    xx /= n;
-    xy /= n;
-    xz /= n;
-  }
-  const yx = zy * xz - zz * xy,
-    yy = zz * xx - zx * xz,
-    yz = zx * xy - zy * xx;
-  out[0] = xx;
-  out[1] = yx;
-  out[2] = zx;
-  out[4] = xy;
-  out[5] = yy;
-  out[6] = zy;
-  out[8] = xz;
-  out[9] = yz;
-  out[10] = zz;
+  const rad = plane.radial;
+  const outward = outwardSign === 1 ? rad : [rad[0]! * outwardSign, rad[1]! * outwardSign, rad[2]! * outwardSign];
+  referenceAxesInto(out, orientation, outward, gravity, 4);
   out[12] = 0;
   out[13] = 0;
   out[14] = 0;

@@ -5,7 +5,8 @@
 import type { Grid2 } from "../../geometry/grid";
 import type { SingularityKind } from "../../measures/singularity";
 
-export type ReferenceOrientation = "down" | "outward";
+import type { ReferenceOrientation } from "../../kinematics/toolOrientation";
+export type { ReferenceOrientation };
 
 export interface ToolSpeedMap {
   readonly orientation: ReferenceOrientation;
