@@ -24,7 +24,7 @@ export type LocusKind = (typeof LOCUS_KINDS)[number];
 
 export const LOCUS_LABEL: Readonly<Record<LocusKind, string>> = {
   wrist: "wrist (axes 4 and 6 in line)",
-  shoulder: "shoulder (wrist centre over axis 1)",
+  shoulder: "shoulder (wrist centre or flange over axis 1)",
   elbow: "elbow (upper arm and forearm in line)",
   other: "other",
 };

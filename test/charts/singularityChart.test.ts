@@ -96,7 +96,7 @@ describe("singularityChart", () => {
     expect(labels[1]).toMatch(/^near a singularity/);
     expect(labels.slice(2)).toEqual([
       "wrist (axes 4 and 6 in line)",
-      "shoulder (wrist centre over axis 1)",
+      "shoulder (wrist centre or flange over axis 1)",
       "elbow (upper arm and forearm in line)",
       "other",
       "axis 1",
