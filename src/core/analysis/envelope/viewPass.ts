@@ -49,22 +49,34 @@ export function toleranceFn(o: EnvelopeOptions): (radiusMm: number) => number {
 }
 
 /**
- * Simplified, assembled polygons. Holes narrower than `pocketMm` (2 · area / perimeter) are dropped: points reached
- * only for secondary-joint values strictly between two samples can leave such pockets inside the union (slivers as
- * wide as the secondary step at most, however long), while the holes of a real envelope (around the shoulder, behind
- * a joint limit) are far wider. Outer rings are never dropped (see assemblePolygons).
+ * Widest hole (2 · area / perimeter) filled as a pocket. Points reached only for secondary-joint values strictly
+ * between two samples can leave pockets inside the union of the sampled slices: slivers at most as wide as the
+ * secondary step, however long, whose points lie within half that width of their edge. Filling one up to twice the
+ * stated tolerance therefore keeps its points within the tolerance of the computed set; a wider hole is real
+ * (around the shoulder, behind a joint limit, as wide as the tolerance allows to tell) and is kept.
+ */
+export function pocketWidthMm(plan: SamplingPlan, statedToleranceMm: number): number {
+  return Math.min(plan.secondaryStepMm, 2 * statedToleranceMm);
+}
+
+/**
+ * Simplified, assembled polygons. Holes narrower than `pocketMm` (2 · area / perimeter; see pocketWidthMm) are
+ * filled. Outer rings are never dropped (see assemblePolygons). `filled` gains the area of every hole filled (mm²):
+ * the stated area is that of the set as drawn.
  */
 export function polygonsOf(
   rings: readonly Float64Array[],
   tolMm: number,
   o: EnvelopeOptions,
-  pocketMm = 0,
+  pocketMm: number,
+  filled: { areaMm2: number },
 ): PolygonMm[] {
   const eps = o.simplifyShare * tolMm;
   return assemblePolygons(
     rings.map((r) => simplifyFlatRing(r, eps)),
     (GAP_SHARE * tolMm) ** 2,
     pocketMm,
+    filled,
   );
 }
 
@@ -92,7 +104,7 @@ export function accumulate(
     nb = plan.b.values.length;
   // a periodic primary joint leaves the region no corners to sweep
   const sweep = plan.a.periodic || plan.b.periodic ? null : new CornerSweep(plan, 1);
-  // the signed radius jumps across x = 0: close the axis gap where the lateral offset changes sign between slices
+  // the signed radius folds at x = 0: sweep between slices where x changes sign (axisSweep.ts)
   const axis = signedRadius && plan.secondaries.length > 0 ? new AxisSweep(plan) : null;
   const mode = { signedRadius, nodeSpacingMm: rowMm, periodicA: plan.a.periodic, periodicB: plan.b.periodic };
   forEachSlice(plan, (buf, slice) => {
@@ -103,7 +115,7 @@ export function accumulate(
       if (sweep.count > 0) addTriangles(cover, sweep.tris, sweep.count, signedRadius, scratch);
     }
     if (axis) {
-      axis.visit(buf, slice);
+      axis.visit(buf, slice, cover);
       if (axis.count > 0) addTriangles(cover, axis.tris, axis.count, true, scratch);
     }
   });
