@@ -6,6 +6,7 @@ import { coverRings } from "./coverOutline";
 import type { EnvelopeOptions, PointEnvelope, WorkspaceEnvelope } from "./envelopeTypes";
 import { Extremes } from "./extremes";
 import { chainPoint, planSampling } from "./jointSampling";
+import { PocketProbe } from "./pocketProbe";
 import { RowCover } from "./rowCover";
 import { SliceScratch } from "./sliceScratch";
 import {
@@ -15,7 +16,6 @@ import {
   MM2_PER_M2,
   MM3_PER_M3,
   MM_PER_M,
-  pocketWidthMm,
   polygonsOf,
   statedTolerance,
   toleranceFn,
@@ -79,8 +79,10 @@ export function projectedBase(
       topTol = statedTolerance(topPlan, row, o, target);
     const sideFilled = { areaMm2: 0 },
       topFilled = { areaMm2: 0 };
-    const sidePolygons = polygonsOf(coverRings(side, row), target, o, pocketWidthMm(sidePlan, sideTol), sideFilled);
-    const topPolygons = polygonsOf(coverRings(top, row), target, o, pocketWidthMm(topPlan, topTol), topFilled);
+    const sideProbe = new PocketProbe(sidePlan, false),
+      topProbe = new PocketProbe(topPlan, false);
+    const sidePolygons = polygonsOf(coverRings(side, row), target, o, sidePlan, sideTol, sideProbe, sideFilled);
+    const topPolygons = polygonsOf(coverRings(top, row), target, o, topPlan, topTol, topProbe, topFilled);
     let volumeM3: number | null = null;
     let samples = sidePlan.pointCount + topPlan.pointCount;
     let tol = Math.max(sideTol, topTol);

@@ -6,6 +6,7 @@ import { coverMinAbsX, coverRings } from "./coverOutline";
 import type { EnvelopeOptions, PointEnvelope, WorkspaceEnvelope } from "./envelopeTypes";
 import { Extremes } from "./extremes";
 import { chainPoint, planSampling, type ChainPoint } from "./jointSampling";
+import { PocketProbe } from "./pocketProbe";
 import { polarProfile, sweptPlanArcs, sweptPlanRings } from "./polarSweep";
 import { revolvedVolume } from "./revolvedVolume";
 import { RowCover } from "./rowCover";
@@ -19,7 +20,6 @@ import {
   MM3_PER_M3,
   MM_PER_M,
   norm,
-  pocketWidthMm,
   polygonsOf,
   scale,
   statedTolerance,
@@ -166,7 +166,15 @@ export function revoluteBase(chain: Chain, o: EnvelopeOptions): WorkspaceEnvelop
     const sideTol = statedTolerance(plan, row, o, target),
       topTol = statedTolerance(planView, row, o, target);
     const sideFilled = { areaMm2: 0 };
-    const sidePolygons = polygonsOf(coverRings(side, row), target, o, pocketWidthMm(plan, sideTol), sideFilled);
+    const sidePolygons = polygonsOf(
+      coverRings(side, row),
+      target,
+      o,
+      plan,
+      sideTol,
+      new PocketProbe(plan, true),
+      sideFilled,
+    );
     const planRings = coverRings(plane, row).map((r) => simplifyFlatRing(r, o.simplifyShare * target));
     const profile = polarProfile(planRings, row);
     const place = { tLoRad: tLo, tHiRad: tHi, phi0Rad: phi0, sense, centreMm: centre } as const;
@@ -174,7 +182,9 @@ export function revoluteBase(chain: Chain, o: EnvelopeOptions): WorkspaceEnvelop
       sweptPlanRings(sweptPlanArcs(profile, place), row, centre),
       target,
       o,
-      pocketWidthMm(planView, topTol),
+      planView,
+      topTol,
+      null,
       { areaMm2: 0 },
     );
     const volumeMm3 = revolvedVolume(side, profile, tLo, tHi);

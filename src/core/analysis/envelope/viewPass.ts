@@ -8,6 +8,7 @@ import { AxisSweep } from "./axisSweep";
 import { CornerSweep } from "./cornerSweep";
 import type { EnvelopeOptions } from "./envelopeTypes";
 import type { SamplingPlan } from "./jointSampling";
+import { deepestPoint, type PocketProbe } from "./pocketProbe";
 import type { RowCover } from "./rowCover";
 import { addSlice, addTriangles } from "./sliceCover";
 import type { SliceScratch } from "./sliceScratch";
@@ -49,34 +50,37 @@ export function toleranceFn(o: EnvelopeOptions): (radiusMm: number) => number {
 }
 
 /**
- * Widest hole (2 · area / perimeter) filled as a pocket. Points reached only for secondary-joint values strictly
- * between two samples can leave pockets inside the union of the sampled slices: slivers at most as wide as the
- * secondary step, however long, whose points lie within half that width of their edge. Filling one up to twice the
- * stated tolerance therefore keeps its points within the tolerance of the computed set; a wider hole is real
- * (around the shoulder, behind a joint limit, as wide as the tolerance allows to tell) and is kept.
- */
-export function pocketWidthMm(plan: SamplingPlan, statedToleranceMm: number): number {
-  return Math.min(plan.secondaryStepMm, 2 * statedToleranceMm);
-}
-
-/**
- * Simplified, assembled polygons. Holes narrower than `pocketMm` (2 · area / perimeter; see pocketWidthMm) are
- * filled. Outer rings are never dropped (see assemblePolygons). `filled` gains the area of every hole filled (mm²):
- * the stated area is that of the set as drawn.
+ * Pocket rule. Points reached only for secondary-joint values strictly between two samples can leave pockets inside
+ * the union of the sampled slices, at most as wide (2 · area / perimeter) as the secondary step; a hole of the
+ * envelope (around the shoulder, behind a joint limit) may be as narrow. A hole narrower than the secondary step is
+ * filled when it is at most twice the stated tolerance wide (a sliver that narrow keeps its points within the
+ * tolerance of its edge) or when a pose puts the point within the tolerance of its deepest point (PocketProbe);
+ * otherwise it is kept. So a filled pocket never shows unreachable points beyond the tolerance and a kept hole is
+ * one no pose reaches into. `probe` evaluates points in the rings' own coordinates (null: none, keep such holes).
  */
 export function polygonsOf(
   rings: readonly Float64Array[],
   tolMm: number,
   o: EnvelopeOptions,
-  pocketMm: number,
+  plan: SamplingPlan,
+  statedTolMm: number,
+  probe: PocketProbe | null,
   filled: { areaMm2: number },
 ): PolygonMm[] {
   const eps = o.simplifyShare * tolMm;
+  // without a probe (a view that is not the plan's own, e.g. the swept top view) a wider hole is kept
+  const keepNarrowHole = (ring: Float64Array, widthMm: number): boolean => {
+    if (widthMm <= 2 * statedTolMm) return false;
+    if (!probe) return true;
+    const [u, v] = deepestPoint(ring);
+    return !probe.reaches(u, v, statedTolMm);
+  };
   return assemblePolygons(
     rings.map((r) => simplifyFlatRing(r, eps)),
     (GAP_SHARE * tolMm) ** 2,
-    pocketMm,
+    plan.secondaryStepMm,
     filled,
+    keepNarrowHole,
   );
 }
 
