@@ -189,16 +189,28 @@ function flatRingWidth(ring: Float64Array, areaMm2: number): number {
  * each hole goes to the smallest outer ring that contains it. Holes with |area| below `minAreaMm2` are dropped, and
  * holes narrower than `minHoleMm` (2 · area / perimeter; filling a hole errs on the outside). Outer rings are
  * kept whatever their size: dropping one would lose points the region holds (a thin strip, or a point that does not
- * move at all, outlines as a sliver).
+ * move at all, outlines as a sliver). `filled`, when given, gains the area of every hole dropped (mm²), so a caller
+ * can state the area of the set as drawn; `keepNarrowHole`, when given, keeps a hole narrower than `minHoleMm` (not
+ * one below `minAreaMm2`) for which it returns true.
  */
-export function assemblePolygons(rings: readonly Float64Array[], minAreaMm2: number, minHoleMm = 0): PolygonMm[] {
+export function assemblePolygons(
+  rings: readonly Float64Array[],
+  minAreaMm2: number,
+  minHoleMm = 0,
+  filled?: { areaMm2: number },
+  keepNarrowHole?: (ring: Float64Array, widthMm: number) => boolean,
+): PolygonMm[] {
   const outers: { ring: Float64Array; area: number; holes: Float64Array[] }[] = [];
   const holes: Float64Array[] = [];
   for (const r of rings) {
     if (r.length < 6) continue;
     const a2 = flatRingArea2(r);
     if (a2 > 0) outers.push({ ring: r, area: a2 / 2, holes: [] });
-    else if (a2 < 0 && -a2 / 2 >= minAreaMm2 && flatRingWidth(r, -a2 / 2) >= minHoleMm) holes.push(r);
+    else if (a2 < 0) {
+      const w = -a2 / 2 >= minAreaMm2 ? flatRingWidth(r, -a2 / 2) : -1;
+      if (w >= minHoleMm || (w >= 0 && keepNarrowHole?.(r, w))) holes.push(r);
+      else if (filled) filled.areaMm2 -= a2 / 2;
+    }
   }
   outers.sort((p, q) => p.area - q.area);
   for (const h of holes) {

@@ -29,6 +29,14 @@ describe("assemblePolygons and simplifyFlatRing", () => {
     expect(polygonsArea(polygons)).toBeCloseTo(500 * 500 - 50 * 50, 6);
   });
 
+  it("reports the area of the holes it fills, so the set as drawn has a known area", () => {
+    // elementary geometry: the 2 mm × 300 mm sliver hole has 600 mm²; the 50 mm square hole is kept
+    const sliver = Float64Array.of(100, 100, 100, 102, 400, 102, 400, 100);
+    const filled = { areaMm2: 0 };
+    assemblePolygons([square(0, 0, 500), sliver, square(200, 300, 50, false)], 1, 10, filled);
+    expect(filled.areaMm2).toBeCloseTo(600, 9);
+  });
+
   it("keeps at least three points of a ring thinner than the simplification distance", () => {
     // a 0.5 mm thick sliver 100 mm long, simplified with epsilon 2 mm: Douglas–Peucker alone keeps its two anchors
     const flat = Float64Array.of(0, 0, 25, 0.1, 50, 0.2, 75, 0.3, 100, 0.4, 100, 0.9, 50, 0.7, 0, 0.5);

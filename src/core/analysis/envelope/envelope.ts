@@ -44,13 +44,15 @@
  * The joints that move the point are sampled on a grid (steps from the sagitta of each joint, jointSampling.ts): two
  * "primary" joints form a grid whose cells, split into triangles, are filled as piecewise-linear images (winding
  * numbers on the rows of a run-length raster, sliceCover.ts) for every combination ("slice") of the other joints.
- * Between neighbouring slices the corners of the joint box (two limits at once) and, in the side view, the axis gap
- * (lateral offset changing sign) are swept explicitly (cornerSweep.ts, axisSweep.ts): sampled slices alone would
- * leave saw-teeth of first order there. Each row holds the region's extent within its band (|z − z_j| ≤ half a row
+ * Between neighbouring slices the corners of the joint box (two limits at once) and, in the side view, the fold at
+ * axis 1 (where x changes sign, r piles up at ±|y|: one spike per slice, and the gap −|y| < r < |y| when y changes
+ * sign) are swept explicitly (cornerSweep.ts, axisSweep.ts): sampled slices alone would leave saw-teeth of first
+ * order there. Each row holds the region's extent within its band (|z − z_j| ≤ half a row
  * spacing), so corners and thin strips between two row lines are kept (sliceCover.ts); outlines come from marching
  * squares (isolines.ts), which keep every row interval however narrow (coverOutline.ts), and are simplified
- * (Douglas–Peucker). Outer rings are never dropped; only holes narrower than the secondary-joint step (pockets
- * between sampled slices) are filled. A secondary prismatic joint is sampled finely enough for the curved boundary
+ * (Douglas–Peucker). Outer rings are never dropped; only holes narrower than the secondary-joint step and than
+ * twice the stated tolerance (sliver pockets between sampled slices, see viewPass.ts) are filled, and the stated
+ * side area is that of the set as drawn (the rows' area plus the pockets filled). A secondary prismatic joint is sampled finely enough for the curved boundary
  * it translates, and a prismatic joint for the bend of ρ along its line (jointSampling.ts). Reach and height figures are refined from the best grid sample
  * by a bounded compass search (extremes.ts), so they are local optima, not grid values.
  *

@@ -45,7 +45,7 @@ export interface PointEnvelope {
   /** Largest and smallest coordinate along axis 1 (base z for a vertical axis 1), mm. */
   readonly maxHeightMm: number;
   readonly minHeightMm: number;
-  /** Area of the side-view region, m². */
+  /** Area of the side-view region as drawn (the polygons, pockets filled), m². */
   readonly sideAreaM2: number;
   /** Area of the top-view region, m². */
   readonly topAreaM2: number;

@@ -6,6 +6,7 @@ import { coverRings } from "./coverOutline";
 import type { EnvelopeOptions, PointEnvelope, WorkspaceEnvelope } from "./envelopeTypes";
 import { Extremes } from "./extremes";
 import { chainPoint, planSampling } from "./jointSampling";
+import { PocketProbe } from "./pocketProbe";
 import { RowCover } from "./rowCover";
 import { SliceScratch } from "./sliceScratch";
 import {
@@ -73,11 +74,18 @@ export function projectedBase(
     const maxReach = topExt.refined(0);
     side.closeGaps(GAP_SHARE * target);
     top.closeGaps(GAP_SHARE * target);
-    const sidePolygons = polygonsOf(coverRings(side, row), target, o, sidePlan.secondaryStepMm);
-    const topPolygons = polygonsOf(coverRings(top, row), target, o, topPlan.secondaryStepMm);
+    // pockets are filled only up to the stated tolerance of their own view (see polygonsOf)
+    const sideTol = statedTolerance(sidePlan, row, o, target),
+      topTol = statedTolerance(topPlan, row, o, target);
+    const sideFilled = { areaMm2: 0 },
+      topFilled = { areaMm2: 0 };
+    const sideProbe = new PocketProbe(sidePlan, false),
+      topProbe = new PocketProbe(topPlan, false);
+    const sidePolygons = polygonsOf(coverRings(side, row), target, o, sidePlan, sideTol, sideProbe, sideFilled);
+    const topPolygons = polygonsOf(coverRings(top, row), target, o, topPlan, topTol, topProbe, topFilled);
     let volumeM3: number | null = null;
     let samples = sidePlan.pointCount + topPlan.pointCount;
-    let tol = Math.max(statedTolerance(sidePlan, row, o, target), statedTolerance(topPlan, row, o, target));
+    let tol = Math.max(sideTol, topTol);
     if (layout === "prismatic-base") {
       const f0 = chain.fixed,
         ax = chain.axisLocal;
@@ -125,8 +133,9 @@ export function projectedBase(
         : Math.max(0, Math.min(topExt.refined(1), distanceToPolygons(0, 0, topPolygons))),
       maxHeightMm: maxH,
       minHeightMm: minH,
-      sideAreaM2: side.area() / MM2_PER_M2,
-      topAreaM2: top.area() / MM2_PER_M2,
+      // the sets as drawn: the rows' area and the pockets filled
+      sideAreaM2: (side.area() + sideFilled.areaMm2) / MM2_PER_M2,
+      topAreaM2: (top.area() + topFilled.areaMm2) / MM2_PER_M2,
       volumeM3,
       targetToleranceMm: target,
       toleranceMm: tol,

@@ -6,6 +6,7 @@ import { coverMinAbsX, coverRings } from "./coverOutline";
 import type { EnvelopeOptions, PointEnvelope, WorkspaceEnvelope } from "./envelopeTypes";
 import { Extremes } from "./extremes";
 import { chainPoint, planSampling, type ChainPoint } from "./jointSampling";
+import { PocketProbe } from "./pocketProbe";
 import { polarProfile, sweptPlanArcs, sweptPlanRings } from "./polarSweep";
 import { revolvedVolume } from "./revolvedVolume";
 import { RowCover } from "./rowCover";
@@ -161,7 +162,19 @@ export function revoluteBase(chain: Chain, o: EnvelopeOptions): WorkspaceEnvelop
     // slices whose lateral offset is small): closing them moves the boundary by at most half that
     side.closeGaps(GAP_SHARE * target);
     plane.closeGaps(GAP_SHARE * target);
-    const sidePolygons = polygonsOf(coverRings(side, row), target, o, plan.secondaryStepMm);
+    // pockets are filled only up to the stated tolerance of their own view (see polygonsOf)
+    const sideTol = statedTolerance(plan, row, o, target),
+      topTol = statedTolerance(planView, row, o, target);
+    const sideFilled = { areaMm2: 0 };
+    const sidePolygons = polygonsOf(
+      coverRings(side, row),
+      target,
+      o,
+      plan,
+      sideTol,
+      new PocketProbe(plan, true),
+      sideFilled,
+    );
     const planRings = coverRings(plane, row).map((r) => simplifyFlatRing(r, o.simplifyShare * target));
     const profile = polarProfile(planRings, row);
     const place = { tLoRad: tLo, tHiRad: tHi, phi0Rad: phi0, sense, centreMm: centre } as const;
@@ -169,10 +182,13 @@ export function revoluteBase(chain: Chain, o: EnvelopeOptions): WorkspaceEnvelop
       sweptPlanRings(sweptPlanArcs(profile, place), row, centre),
       target,
       o,
-      planView.secondaryStepMm,
+      planView,
+      topTol,
+      null,
+      { areaMm2: 0 },
     );
     const volumeMm3 = revolvedVolume(side, profile, tLo, tHi);
-    const tol = Math.max(statedTolerance(plan, row, o, target), statedTolerance(planView, row, o, target));
+    const tol = Math.max(sideTol, topTol);
     if (tol > target * 1.0001)
       notes.push(
         `${kind}: the sample budget (workBudget ${o.workBudget}) coarsened the joint grid; boundary error up to ${tol.toFixed(1)} mm instead of ${target.toFixed(1)} mm`,
@@ -185,7 +201,8 @@ export function revoluteBase(chain: Chain, o: EnvelopeOptions): WorkspaceEnvelop
       minReachMm: Math.max(0, Math.min(minRho, coverMinAbsX(side))),
       maxHeightMm: ext.refined(2),
       minHeightMm: ext.refined(3),
-      sideAreaM2: side.area() / MM2_PER_M2,
+      // the set as drawn: the rows' area and the pockets filled
+      sideAreaM2: (side.area() + sideFilled.areaMm2) / MM2_PER_M2,
       topAreaM2: polygonsArea(topPolygons) / MM2_PER_M2,
       volumeM3: volumeMm3 / MM3_PER_M3,
       targetToleranceMm: target,

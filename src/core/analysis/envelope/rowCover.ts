@@ -87,6 +87,35 @@ export class RowCover {
     return lo < n && v[2 * lo]! <= a && v[2 * lo + 1]! >= b;
   }
 
+  /** True when every row from jLo to jHi holds both [a, b] and its mirror [−b, −a] inside one interval each. */
+  coversMirrored(jLo: number, jHi: number, a: number, b: number): boolean {
+    const kLo = jLo - this.firstRow,
+      kHi = jHi - this.firstRow;
+    if (kLo < 0 || kHi >= this.data.length) return false;
+    for (let k = kLo; k <= kHi; k++) {
+      const v = this.data[k]!,
+        n = this.size[k]! >> 1;
+      if (n === 0 || v[0]! > -b || v[2 * n - 1]! < b) return false;
+      // first interval whose end ≥ −b, then the first whose end ≥ a
+      let lo = 0,
+        hi = n;
+      while (lo < hi) {
+        const mid = (lo + hi) >> 1;
+        if (v[2 * mid + 1]! < -b) lo = mid + 1;
+        else hi = mid;
+      }
+      if (!(v[2 * lo]! <= -b && v[2 * lo + 1]! >= -a)) return false;
+      hi = n;
+      while (lo < hi) {
+        const mid = (lo + hi) >> 1;
+        if (v[2 * mid + 1]! < a) lo = mid + 1;
+        else hi = mid;
+      }
+      if (!(lo < n && v[2 * lo]! <= a && v[2 * lo + 1]! >= b)) return false;
+    }
+    return true;
+  }
+
   /** Adds [a, b] (a ≤ b) to row j, merging with the intervals it touches. */
   add(j: number, a: number, b: number): void {
     if (!(a <= b)) return;

@@ -8,6 +8,7 @@ import { AxisSweep } from "./axisSweep";
 import { CornerSweep } from "./cornerSweep";
 import type { EnvelopeOptions } from "./envelopeTypes";
 import type { SamplingPlan } from "./jointSampling";
+import { deepestPoint, type PocketProbe } from "./pocketProbe";
 import type { RowCover } from "./rowCover";
 import { addSlice, addTriangles } from "./sliceCover";
 import type { SliceScratch } from "./sliceScratch";
@@ -49,22 +50,37 @@ export function toleranceFn(o: EnvelopeOptions): (radiusMm: number) => number {
 }
 
 /**
- * Simplified, assembled polygons. Holes narrower than `pocketMm` (2 · area / perimeter) are dropped: points reached
- * only for secondary-joint values strictly between two samples can leave such pockets inside the union (slivers as
- * wide as the secondary step at most, however long), while the holes of a real envelope (around the shoulder, behind
- * a joint limit) are far wider. Outer rings are never dropped (see assemblePolygons).
+ * Pocket rule. Points reached only for secondary-joint values strictly between two samples can leave pockets inside
+ * the union of the sampled slices, at most as wide (2 · area / perimeter) as the secondary step; a hole of the
+ * envelope (around the shoulder, behind a joint limit) may be as narrow. A hole narrower than the secondary step is
+ * filled when it is at most twice the stated tolerance wide (a sliver that narrow keeps its points within the
+ * tolerance of its edge) or when a pose puts the point within the tolerance of its deepest point (PocketProbe);
+ * otherwise it is kept. So a filled pocket never shows unreachable points beyond the tolerance and a kept hole is
+ * one no pose reaches into. `probe` evaluates points in the rings' own coordinates (null: none, keep such holes).
  */
 export function polygonsOf(
   rings: readonly Float64Array[],
   tolMm: number,
   o: EnvelopeOptions,
-  pocketMm = 0,
+  plan: SamplingPlan,
+  statedTolMm: number,
+  probe: PocketProbe | null,
+  filled: { areaMm2: number },
 ): PolygonMm[] {
   const eps = o.simplifyShare * tolMm;
+  // without a probe (a view that is not the plan's own, e.g. the swept top view) a wider hole is kept
+  const keepNarrowHole = (ring: Float64Array, widthMm: number): boolean => {
+    if (widthMm <= 2 * statedTolMm) return false;
+    if (!probe) return true;
+    const [u, v] = deepestPoint(ring);
+    return !probe.reaches(u, v, statedTolMm);
+  };
   return assemblePolygons(
     rings.map((r) => simplifyFlatRing(r, eps)),
     (GAP_SHARE * tolMm) ** 2,
-    pocketMm,
+    plan.secondaryStepMm,
+    filled,
+    keepNarrowHole,
   );
 }
 
@@ -92,7 +108,7 @@ export function accumulate(
     nb = plan.b.values.length;
   // a periodic primary joint leaves the region no corners to sweep
   const sweep = plan.a.periodic || plan.b.periodic ? null : new CornerSweep(plan, 1);
-  // the signed radius jumps across x = 0: close the axis gap where the lateral offset changes sign between slices
+  // the signed radius folds at x = 0: sweep between slices where x changes sign (axisSweep.ts)
   const axis = signedRadius && plan.secondaries.length > 0 ? new AxisSweep(plan) : null;
   const mode = { signedRadius, nodeSpacingMm: rowMm, periodicA: plan.a.periodic, periodicB: plan.b.periodic };
   forEachSlice(plan, (buf, slice) => {
@@ -103,7 +119,7 @@ export function accumulate(
       if (sweep.count > 0) addTriangles(cover, sweep.tris, sweep.count, signedRadius, scratch);
     }
     if (axis) {
-      axis.visit(buf, slice);
+      axis.visit(buf, slice, cover);
       if (axis.count > 0) addTriangles(cover, axis.tris, axis.count, true, scratch);
     }
   });
