@@ -211,7 +211,7 @@ function buildJoint(group: Movable[], extra: MergeJoint, errors: string[], effor
     const offset = mimics.reduce((s, m) => s + m.offset, 0) * scale;
     out.coupling = {
       terms: mimics.map((m) => ({ joint: m.joint, gain: m.multiplier })),
-      ...(offset !== 0 ? { [prismatic ? "offsetMm" : "offsetDeg"]: round(offset, 9) } : {}),
+      ...(offset !== 0 ? { [prismatic ? "offsetMm" : "offsetDeg"]: round(offset, 12) } : {}),
     };
   }
   for (const [k, v] of Object.entries(extra ?? {})) if (v !== undefined) out[k] = v;
