@@ -146,3 +146,16 @@ describe("export against Orocos KDL reading the exported URDF (python3-pykdl fix
     }
   });
 });
+
+describe("export escapes text", () => {
+  it("joint names with XML's special characters come back unchanged through the import", async () => {
+    const arm = await loadDemo("quenby-span-g3.json");
+    const names = [`X<&>`, `Y"'`, "Z --", "C]]>"];
+    const spec = { ...arm.spec, joints: arm.spec.joints.map((j, i) => ({ ...j, name: names[i]! })) };
+    const chain = compileChain(spec);
+    const text = exportUrdf(spec, chain);
+    expect(text).toContain(`name="X&lt;&amp;&gt;"`);
+    const back = importUrdf(text, { root: "base", tip: "flange", id: "x" }) as { joints: { name: string }[] };
+    expect(back.joints.map((j) => j.name)).toEqual(names);
+  });
+});
