@@ -8,7 +8,6 @@ import { readFile } from "node:fs/promises";
 import { parseArgs } from "node:util";
 import { formatIssue, loadArmFile, plausibilityWarnings, validateArm } from "../catalog";
 import { exportUrdf, importUrdf, UrdfError, type UrdfMerge } from "../catalog/urdf";
-import { stringifyCompact } from "./json";
 
 export const IMPORT_URDF_OPTIONS = {
   root: { type: "string" },
@@ -30,6 +29,30 @@ async function readText(path: string, what: string): Promise<string> {
   } catch (e) {
     throw new UrdfError(`cannot read the ${what} ${path}: ${(e as NodeJS.ErrnoException).code ?? String(e)}`);
   }
+}
+
+/**
+ * JSON laid out as the demo arm files are: an array or object on one line when it holds no object with objects
+ * inside and fits in 100 characters (`"origin": { "xyzMm": [0, 0, 400], "rpyDeg": [0, 0, 0] }`), else one entry a line.
+ */
+export function armFileJson(value: unknown, depth = 0): string {
+  const pad = "  ".repeat(depth + 1),
+    end = "  ".repeat(depth);
+  const inline = (v: unknown): string =>
+    Array.isArray(v)
+      ? `[${v.map(inline).join(", ")}]`
+      : v !== null && typeof v === "object"
+        ? `{ ${Object.entries(v)
+            .filter(([, x]) => x !== undefined)
+            .map(([k, x]) => `${JSON.stringify(k)}: ${inline(x)}`)
+            .join(", ")} }`
+        : JSON.stringify(v);
+  if (value === null || typeof value !== "object") return JSON.stringify(value);
+  const one = inline(value);
+  if (one.length + depth * 2 <= 100 && !/[{[][^{}[\]]*[{[][^{}[\]]*[{[]/.test(one)) return one;
+  if (Array.isArray(value)) return `[\n${value.map((v) => pad + armFileJson(v, depth + 1)).join(",\n")}\n${end}]`;
+  const entries = Object.entries(value).filter(([, v]) => v !== undefined);
+  return `{\n${entries.map(([k, v]) => `${pad}${JSON.stringify(k)}: ${armFileJson(v, depth + 1)}`).join(",\n")}\n${end}}`;
 }
 
 /** `armdex import urdf …` (args after `urdf`). Usage errors are thrown as `usage(message)`. */
@@ -70,7 +93,7 @@ export async function importUrdfCommand(
         `${values.merge ? "" : " (give them in a --merge file)"}:\n`
       : "";
     return {
-      stdout: `${stringifyCompact(arm)}\n`,
+      stdout: `${armFileJson(arm)}\n`,
       stderr: stderr + issues.map((i) => `${formatIssue(i)}\n`).join(""),
       code: errors.length ? 1 : 0,
     };

@@ -5,7 +5,7 @@
  */
 import { fileURLToPath } from "node:url";
 import { describe, expect, it } from "vitest";
-import { exportUrdfCommand, importUrdfCommand } from "../../src/cli/urdf";
+import { armFileJson, exportUrdfCommand, importUrdfCommand } from "../../src/cli/urdf";
 
 const FILE = fileURLToPath(new URL("../reference/urdf/handmade-7j.urdf", import.meta.url));
 const usage = (m: string) => new Error(`usage: ${m}`);
@@ -49,5 +49,21 @@ describe("export urdf command", () => {
     expect(out.code).toBe(1);
     expect(out.stderr).toContain("cannot read the file");
     await expect(exportUrdfCommand([], usage)).rejects.toThrow("exactly one arm file");
+  });
+});
+
+describe("armFileJson", () => {
+  it("lays out JSON as the arm files do and reads back as the same value (JSON.parse)", () => {
+    const value = {
+      id: "x",
+      origin: { xyzMm: [0, -1150.5, 1e-7], rpyDeg: [0, 0, -90] },
+      coupling: { terms: [{ joint: "J2", gain: -1 }] },
+      text: 'quote " and \\ backslash',
+      list: [],
+      none: null,
+    };
+    const text = armFileJson(value);
+    expect(JSON.parse(text)).toEqual(value);
+    expect(text).toContain('"origin": { "xyzMm": [0, -1150.5, 1e-7], "rpyDeg": [0, 0, -90] }');
   });
 });
