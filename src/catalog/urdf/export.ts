@@ -10,7 +10,7 @@
  *   coupling gets the mimic pieces first and its own joint last. `importUrdf` sums such series back into one joint.
  * - A `flange` link at the flange, on a fixed joint `flange_joint`.
  */
-import { rpyOfInto, type Chain } from "../../core";
+import { fromXyzRpyInto, mul4Into, rotationAxisAngleInto, rpyOfInto, translationInto, type Chain } from "../../core";
 import type { ArmSpec } from "../schema";
 
 const DEG = Math.PI / 180;
@@ -58,7 +58,7 @@ function jointFrames(
 
 interface Piece {
   readonly name: string;
-  readonly type: "revolute" | "continuous" | "prismatic";
+  readonly type: "revolute" | "continuous" | "prismatic" | "fixed";
   readonly frame: { xyzM: number[]; rpyRad: number[] };
   readonly axis: number[];
   readonly lower: number;
@@ -116,8 +116,22 @@ function piecesOf(spec: ArmSpec, chain: Chain, i: number, frame: JointFrame): Pi
       velocity: chain.maxSpeedSi[own]!,
       effort: Number.isFinite(effort) ? effort : 0,
     });
-  } else if (masters.length === 0 && offset !== 0) {
-    throw new RangeError(`joint ${j.name}: a coupling with no master and an offset has no URDF form`);
+  } else if (masters.length === 0) {
+    // A coupling whose gains cancel: the joint stays at its offset, a fixed joint turned (or moved) by it.
+    const n = Math.hypot(frame.axis[0]!, frame.axis[1]!, frame.axis[2]!);
+    const [ax, ay, az] = frame.axis.map((v) => v / n) as [number, number, number];
+    const motion = prismatic
+      ? translationInto(new Float64Array(16), ax * offset, ay * offset, az * offset)
+      : rotationAxisAngleInto(new Float64Array(16), ax, ay, az, offset);
+    const origin = fromXyzRpyInto(
+      new Float64Array(16),
+      ...(frame.xyzM as [number, number, number]),
+      ...(frame.rpyRad as [number, number, number]),
+    );
+    const fixed = frameOfMatrix(mul4Into(new Float64Array(16), origin, motion));
+    return [
+      { name: j.name, type: "fixed", frame: fixed, axis: frame.axis, lower: 0, upper: 0, velocity: 0, effort: 0 },
+    ];
   }
   // The joint's origin belongs to its first piece; the others sit at the same place.
   pieces[0] = { ...pieces[0]!, frame };
@@ -126,15 +140,17 @@ function piecesOf(spec: ArmSpec, chain: Chain, i: number, frame: JointFrame): Pi
 
 function jointXml(p: Piece, parent: string, child: string): string {
   const limit =
-    p.type === "continuous"
-      ? `    <limit velocity="${fmt(Number.isFinite(p.velocity) ? p.velocity : 0)}" effort="${fmt(p.effort)}"/>\n`
-      : `    <limit lower="${fmt(p.lower)}" upper="${fmt(p.upper)}" velocity="${fmt(Number.isFinite(p.velocity) ? p.velocity : 0)}" effort="${fmt(p.effort)}"/>\n`;
+    p.type === "fixed"
+      ? ""
+      : p.type === "continuous"
+        ? `    <limit velocity="${fmt(Number.isFinite(p.velocity) ? p.velocity : 0)}" effort="${fmt(p.effort)}"/>\n`
+        : `    <limit lower="${fmt(p.lower)}" upper="${fmt(p.upper)}" velocity="${fmt(Number.isFinite(p.velocity) ? p.velocity : 0)}" effort="${fmt(p.effort)}"/>\n`;
   return (
     `  <joint name="${esc(p.name)}" type="${p.type}">\n` +
     `    <parent link="${esc(parent)}"/>\n` +
     `    <child link="${esc(child)}"/>\n` +
     `    <origin xyz="${vec(p.frame.xyzM)}" rpy="${vec(p.frame.rpyRad)}"/>\n` +
-    `    <axis xyz="${vec(p.axis)}"/>\n` +
+    (p.type === "fixed" ? "" : `    <axis xyz="${vec(p.axis)}"/>\n`) +
     limit +
     (p.mimic
       ? `    <mimic joint="${esc(p.mimic.joint)}" multiplier="${fmt(p.mimic.multiplier)}" offset="${fmt(p.mimic.offset)}"/>\n`

@@ -276,7 +276,6 @@ export function importUrdf(text: string, options: UrdfImportOptions): Record<str
     throw new UrdfError(`the chain "${options.root}" → "${options.tip}" has no movable joint (only fixed joints)`);
   const names = movables.map((m) => m.joint.name);
   const merge = options.merge ?? {};
-  checkMerge(merge, names);
   for (const [k, m] of movables.entries()) {
     const mimic = m.joint.mimic;
     if (!mimic) continue;
@@ -291,6 +290,7 @@ export function importUrdf(text: string, options: UrdfImportOptions): Record<str
   const efforts: string[] = [];
   const groups = groupPieces(movables, referenced);
   const urdfNames = groups.map((g) => (g.find((p) => !p.joint.mimic) ?? g[0]!).joint.name);
+  checkMerge(merge, urdfNames);
   const joints = groups.map((g, i) => buildJoint(g, merge.joints?.[urdfNames[i]!], errors, efforts));
   if (errors.length) throw new UrdfError(errors.join("\n"));
   renameJoints(joints, urdfNames);

@@ -161,7 +161,7 @@ function readJoint(e: XmlElement, index: number): UrdfJoint {
  */
 export function readUrdf(text: string): UrdfModel {
   if (text.trim() === "") throw new UrdfError("the file is empty: expected a URDF document (<robot>…</robot>)");
-  const roots = parseXml(text);
+  const roots = parseXml(text.replace(/^\uFEFF/, ""));
   if (roots.some(anyXacro)) throw new UrdfError(XACRO_MESSAGE);
   const robot = roots.find((e) => e.name === "robot");
   if (!robot)

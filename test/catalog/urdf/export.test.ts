@@ -147,7 +147,7 @@ describe("export against Orocos KDL reading the exported URDF (python3-pykdl fix
   });
 });
 
-describe("export escapes text", () => {
+describe("export edge cases", () => {
   it("joint names with XML's special characters come back unchanged through the import", async () => {
     const arm = await loadDemo("quenby-span-g3.json");
     const names = [`X<&>`, `Y"'`, "Z --", "C]]>"];
@@ -157,5 +157,32 @@ describe("export escapes text", () => {
     expect(text).toContain(`name="X&lt;&amp;&gt;"`);
     const back = importUrdf(text, { root: "base", tip: "flange", id: "x" }) as { joints: { name: string }[] };
     expect(back.joints.map((j) => j.name)).toEqual(names);
+  });
+
+  it("a coupling whose gains cancel is a fixed joint turned by the offset (same poses after import)", async () => {
+    const arm = await loadDemo("yarrowfield-pl-180.json");
+    const joints = arm.spec.joints.map((j) =>
+      j.name === "P1"
+        ? {
+            ...j,
+            coupling: {
+              terms: [
+                { joint: "J2", gain: 1 },
+                { joint: "J2", gain: -1 },
+              ],
+              offsetDeg: 30,
+            },
+          }
+        : j,
+    );
+    const spec = { ...arm.spec, joints };
+    const chain = compileChain(spec);
+    const text = exportUrdf(spec, chain);
+    expect(text).toMatch(/<joint name="P1" type="fixed">/);
+    const back = compileChain(importUrdf(text, { root: "base", tip: "flange", id: "x" }) as never);
+    expect(back.jointNames).not.toContain("P1");
+    const rand = mulberry32(3);
+    for (let s = 0; s < 20; s++)
+      expect(poseDifference(chain, back, randomDriven(chain, rand)).positionM).toBeLessThanOrEqual(1e-12);
   });
 });
