@@ -3,6 +3,8 @@
  *   armdex check [paths…]                         validate arm files or folders (default: arms/)
  *   armdex pose <arm.json> --joints q1,q2,… [--tool x,y,z] [--allow-outside]
  *   armdex line <arm.json> --from x,y,z --to x,y,z --orientation down|outward|r,p,y --speed mm/s [--start-joints q1,…] [--tool x,y,z] [--samples N]
+ *   armdex import urdf <file.urdf> --root <link> --tip <link> --id <id> [--merge <datasheet.json>]
+ *   armdex export urdf <arm.json>
  *   armdex schema [out.json]                      write the JSON Schema of the arm format
  * Exit codes: 0 success, 1 invalid arm data, 2 usage error.
  */
@@ -14,6 +16,7 @@ import { joinNegativeValues } from "./args";
 import { POSE_OPTIONS, poseCommand } from "./pose";
 import { LINE_OPTIONS, lineCommand } from "./line";
 import { stringifyCompact } from "./json";
+import { exportUrdfCommand, importUrdfCommand } from "./urdf";
 
 export class UsageError extends Error {}
 
@@ -35,6 +38,11 @@ usage:
                                  straight-line check as JSON: joint rates along the TCP line at constant
                                  orientation, feasible constant speed, bottleneck, singularities, branch changes
                                  (mm, deg, mm/s; r,p,y in deg, URDF fixed axes; start joints in deg or mm)
+  armdex import urdf <file.urdf> --root <link> --tip <link> --id <id> [--merge <datasheet.json>]
+                                 an arm file (frames convention) from the URDF chain root → tip on stdout; the
+                                 merge file adds what URDF lacks (maker, model, ratings…); what the check still
+                                 misses goes to stderr. Xacro files must be expanded to URDF first
+  armdex export urdf <arm.json>  the URDF of the arm's kinematic chain (SI units, no meshes) on stdout
   armdex schema [out.json]       write the arm JSON Schema (default: public/schema/arm.schema.json)
   armdex prepare [folder]        schema, check and analyze --all in one pass (each arm file read once): the
                                  first step of \`npm run build\`
@@ -174,6 +182,15 @@ export async function main(argv: string[]): Promise<number> {
       }
       process.stdout.write(`${stringifyCompact(result.value)}\n`);
       return 0;
+    }
+    case "import":
+    case "export": {
+      if (rest[0] !== "urdf") throw new UsageError(`${command} knows one format: ${command} urdf …`);
+      const usage = (m: string) => new UsageError(m);
+      const out = await (command === "import" ? importUrdfCommand : exportUrdfCommand)(rest.slice(1), usage);
+      process.stdout.write(out.stdout);
+      process.stderr.write(out.stderr);
+      return out.code;
     }
     case "schema":
       return schema(rest[0]);

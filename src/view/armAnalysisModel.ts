@@ -662,6 +662,12 @@ export function armAnalysisModel(
       href: siteHref(options.baseUrl, paths.jointsCsv),
       description: "ranges, speeds, accelerations and ratings as declared",
     },
+    {
+      key: "urdf",
+      label: "Kinematic chain (URDF)",
+      href: siteHref(options.baseUrl, paths.urdf),
+      description: "joints, axes and limits in SI units for tools that read URDF; no meshes or inertia",
+    },
   ];
   return {
     summary,

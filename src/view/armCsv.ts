@@ -8,12 +8,13 @@ import { couplingFormula, drivenJointIndices } from "./jointTables";
 import { csvRound, toCsv, type CsvCell } from "./csv";
 
 /** Site paths of an arm's downloads (relative to the site base). */
-export function armDataPaths(id: string): { json: string; payloadCsv: string; jointsCsv: string } {
+export function armDataPaths(id: string): { json: string; payloadCsv: string; jointsCsv: string; urdf: string } {
   const e = encodeURIComponent(id);
   return {
     json: `data/arms/${e}.json`,
     payloadCsv: `data/arms/${e}/payload.csv`,
     jointsCsv: `data/arms/${e}/joints.csv`,
+    urdf: `data/arms/${e}/arm.urdf`,
   };
 }
 

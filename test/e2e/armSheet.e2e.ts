@@ -176,13 +176,19 @@ describe("arm sheet, computed sections", () => {
         analysis.warnings.length,
       );
 
-      // Downloads: the JSON is this arm's; the CSVs parse, and no text cell could run as a formula.
+      // Downloads: the JSON is this arm's; the URDF is XML up to the flange; the CSVs parse, and no text cell could run
+      // as a formula.
       expect(analysis.id).toBe(id);
       const hrefs = await page.$$eval("#downloads a", (links) => links.map((l) => (l as HTMLAnchorElement).href));
-      expect(hrefs).toHaveLength(3);
+      expect(hrefs).toHaveLength(4);
       for (const href of hrefs) {
         const res = await fetch(href);
         expect(res.status, href).toBe(200);
+        if (href.endsWith(".urdf")) {
+          const urdf = await res.text();
+          expect(urdf, href).toMatch(/^<\?xml version="1\.0"\?>/);
+          expect(urdf, href).toContain('<link name="flange"/>');
+        }
         if (!href.endsWith(".csv")) continue;
         const rows = parseCsv(await res.text());
         const width = rows[0]!.length;

@@ -69,6 +69,7 @@ describe("armPageModel with an analysis", () => {
       "/data/arms/yarrowfield-sable-600.json",
       "/data/arms/yarrowfield-sable-600/payload.csv",
       "/data/arms/yarrowfield-sable-600/joints.csv",
+      "/data/arms/yarrowfield-sable-600/arm.urdf",
     ]);
   });
 

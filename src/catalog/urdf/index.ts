@@ -1,0 +1,4 @@
+/** URDF in and out (Node side: file formats, not computation). */
+export * from "./read";
+export * from "./import";
+export * from "./export";
