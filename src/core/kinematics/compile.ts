@@ -2,6 +2,7 @@ import type { Chain, WristCentre } from "./chain";
 import { fromXyzRpyInto, identity4Into, mul4Into, rotationAxisAngleInto, translationInto } from "../math/mat4";
 import { degToRad, mmToM } from "../units";
 import { createScratch, forwardInto } from "./forward";
+import { dimensionFrames, type DimensionsInput } from "./dimensions";
 
 /** Denavit–Hartenberg parameters as they appear in an arm file (mm, deg). */
 export interface DhParamsInput {
@@ -39,12 +40,19 @@ export interface JointInput {
   readonly ratedTorqueNm?: number | undefined;
   readonly ratedForceN?: number | undefined;
   readonly coupling?: CouplingInput | undefined;
+  /** Convention "dimensions": θ = sign·q + zeroOffset; sign +1 or −1 (default +1) turns the joint's axis round. */
+  readonly sign?: number | undefined;
+  /** Convention "dimensions": the model angle at the joint reading q = 0, deg (default 0); added to the offset. */
+  readonly zeroOffsetDeg?: number | undefined;
 }
 
 export interface ArmKinematicsInput {
-  readonly convention: "dh" | "mdh" | "frames";
+  readonly convention: "dh" | "mdh" | "frames" | "dimensions";
+  /** The seven lengths of the dimension drawing (convention "dimensions" only; see dimensions.ts). */
+  readonly dimensions?: DimensionsInput | undefined;
   readonly joints: readonly JointInput[];
-  readonly flange: FrameInput;
+  /** Flange frame in the last joint's frame (dh, mdh, frames; a dimensions arm's flange follows from c4). */
+  readonly flange?: FrameInput | undefined;
   readonly wristCentre?: { readonly joints: readonly string[] } | undefined;
 }
 
@@ -79,15 +87,6 @@ function trans(x: number, y: number, z: number): Float64Array {
   return translationInto(new Float64Array(16), x, y, z);
 }
 
-/**
- * Compiles an arm description (standard DH, modified DH or explicit frames; file units) into the chain form
- * F₀·M₁·F₁⋯Mₙ·Fₙ in SI, with the coupling matrix and the wrist centre.
- *
- * - Standard DH (Spong et al.): Aᵢ = Rz(θᵢ)·Tz(dᵢ)·Tx(aᵢ)·Rx(αᵢ); the joint variable adds to θᵢ or dᵢ.
- * - Modified DH (Craig): Aᵢ = Rx(αᵢ₋₁)·Tx(aᵢ₋₁)·Rz(θᵢ)·Tz(dᵢ); the row of joint i holds aᵢ₋₁ and αᵢ₋₁.
- * - Frames (as URDF): joint origin (xyz, rpy) in the previous joint's frame, then motion about/along `axis`.
- * @throws RangeError when the input breaks a rule validation should have caught (programmer error)
- */
 /**
  * A rotation (4×4, no translation) taking ẑ to the unit vector (x, y, z): the turn about ẑ × a by the angle between
  * them (Rodrigues), or a half turn about x̂ when a = −ẑ; the identity when a = ẑ.
@@ -126,7 +125,49 @@ function transposeRotation(r: Float64Array): Float64Array {
   return out;
 }
 
+/**
+ * A dimensions arm as the frames convention: the joint frames of the drawing (dimensions.ts), every joint's own
+ * fields (ranges, speeds, sign, zero offset) kept.
+ */
+function dimensionsAsFrames(input: ArmKinematicsInput): ArmKinematicsInput {
+  const d = input.dimensions;
+  if (!d) throw new RangeError("invalid chain: convention dimensions without dimensions");
+  if (input.joints.length !== 6 || input.joints.some((j) => j.kind !== "revolute"))
+    throw new RangeError(`invalid chain: convention dimensions needs six revolute joints`);
+  const frames = dimensionFrames(d);
+  // Rot(a, sign·q + zeroOffset) = Rot(sign·a, q + sign·zeroOffset): the sign turns the axis round and the driven
+  // joint keeps gain 1 in G (the closed-form inverse asks for a unit diagonal); the offset goes into G's offset.
+  return {
+    convention: "frames",
+    joints: input.joints.map((j, i) => {
+      const f = frames.joints[i]!,
+        sign = j.sign ?? 1;
+      return {
+        ...j,
+        origin: f.origin,
+        axis: f.axis.map((v) => sign * v),
+        sign: undefined,
+        zeroOffsetDeg: sign * (j.zeroOffsetDeg ?? 0),
+      };
+    }),
+    flange: frames.flange,
+    wristCentre: input.wristCentre,
+  };
+}
+
+/**
+ * Compiles an arm description (standard DH, modified DH, explicit frames or a dimension drawing; file units) into
+ * the chain form F₀·M₁·F₁⋯Mₙ·Fₙ in SI, with the coupling matrix and the wrist centre.
+ *
+ * - Standard DH (Spong et al.): Aᵢ = Rz(θᵢ)·Tz(dᵢ)·Tx(aᵢ)·Rx(αᵢ); the joint variable adds to θᵢ or dᵢ.
+ * - Modified DH (Craig): Aᵢ = Rx(αᵢ₋₁)·Tx(aᵢ₋₁)·Rz(θᵢ)·Tz(dᵢ); the row of joint i holds aᵢ₋₁ and αᵢ₋₁.
+ * - Frames (as URDF): joint origin (xyz, rpy) in the previous joint's frame, then motion about/along `axis`.
+ * - Dimensions (ortho-parallel six-axis arms, dimensions.ts): the drawing's joint frames, then as frames; each
+ *   joint's θ = sign·q + zeroOffset becomes the axis sign·a and the offset sign·zeroOffset (G keeps a unit diagonal).
+ * @throws RangeError when the input breaks a rule validation should have caught (programmer error)
+ */
 export function compileChain(input: ArmKinematicsInput): Chain {
+  if (input.convention === "dimensions") return compileChain(dimensionsAsFrames(input));
   const joints = input.joints;
   const n = joints.length;
   if (n === 0) throw new RangeError("invalid chain: no joints");
@@ -173,12 +214,14 @@ export function compileChain(input: ArmKinematicsInput): Chain {
     }
   });
 
+  const flange = input.flange;
+  if (!flange) throw new RangeError("invalid chain: missing flange");
   const fixed = new Float64Array(16 * (n + 1));
   const linkFromMotion = new Float64Array(16 * n);
   fixed.set(pre[0]!, 0);
   for (let i = 0; i < n; i++) {
     linkFromMotion.set(post[i]!, 16 * i);
-    const next = i + 1 < n ? pre[i + 1]! : poseFromFrame(new Float64Array(16), input.flange);
+    const next = i + 1 < n ? pre[i + 1]! : poseFromFrame(new Float64Array(16), flange);
     fixed.set(mulNew(post[i]!, next), 16 * (i + 1));
   }
 
@@ -195,9 +238,10 @@ export function compileChain(input: ArmKinematicsInput): Chain {
   joints.forEach((j, i) => {
     const column = drivenColumn.get(i);
     if (column !== undefined) g[i * m + column] = 1;
+    offset[i] = degToRad(j.zeroOffsetDeg ?? 0);
     const c = j.coupling;
     if (!c) return;
-    offset[i] = j.kind === "prismatic" ? mmToM(c.offsetMm ?? 0) : degToRad(c.offsetDeg ?? 0);
+    offset[i] = offset[i]! + (j.kind === "prismatic" ? mmToM(c.offsetMm ?? 0) : degToRad(c.offsetDeg ?? 0));
     for (const term of c.terms) {
       const k = indexOf.get(term.joint);
       if (k === undefined || k >= i)
