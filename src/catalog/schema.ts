@@ -106,7 +106,7 @@ export const JointSchema = z
     ratedForceN: positive(10_000_000).optional().describe("rated continuous force of a prismatic joint, N"),
     coupling: CouplingSchema.optional(),
     sign: z
-      .union([z.literal(1), z.literal(-1)])
+      .literal([1, -1])
       .optional()
       .describe(
         "convention dimensions only: +1 (default) when the maker's positive joint reading q turns the joint as the " +
@@ -214,5 +214,12 @@ export type JointSpec = z.infer<typeof JointSchema>;
 /** The JSON Schema written to public/schema/arm.schema.json (editor completion and checking). */
 export function armJsonSchema(): Record<string, unknown> {
   const schema = z.toJSONSchema(ArmSpecSchema, { target: "draft-2020-12", io: "input" }) as Record<string, unknown>;
-  return { ...schema, $id: "arm.schema.json", title: "Armdex arm description" };
+  // The rule the zod object leaves to validate.ts, for editors: a dimensions arm has `dimensions` and no `flange`
+  // (the flange follows from c4); every other convention has a `flange` and no `dimensions`.
+  const byConvention = {
+    if: { properties: { convention: { const: "dimensions" } }, required: ["convention"] },
+    then: { required: ["dimensions"], not: { required: ["flange"] } },
+    else: { required: ["flange"], not: { required: ["dimensions"] } },
+  };
+  return { ...schema, ...byConvention, $id: "arm.schema.json", title: "Armdex arm description" };
 }
