@@ -2,7 +2,7 @@ import type { Chain, WristCentre } from "./chain";
 import { fromXyzRpyInto, identity4Into, mul4Into, rotationAxisAngleInto, translationInto } from "../math/mat4";
 import { degToRad, mmToM } from "../units";
 import { createScratch, forwardInto } from "./forward";
-import { dimensionFrames, type DimensionsInput } from "./dimensions";
+import { DIMENSIONS_JOINT_COUNT, dimensionFrames, type DimensionsInput } from "./dimensions";
 
 /** Denavit–Hartenberg parameters as they appear in an arm file (mm, deg). */
 export interface DhParamsInput {
@@ -40,9 +40,9 @@ export interface JointInput {
   readonly ratedTorqueNm?: number | undefined;
   readonly ratedForceN?: number | undefined;
   readonly coupling?: CouplingInput | undefined;
-  /** Convention "dimensions": θ = sign·q + zeroOffset; sign +1 or −1 (default +1) turns the joint's axis round. */
+  /** Convention "dimensions": θ = sign·q + zeroOffset; sign +1 or −1 (default +1). See dimensionsAsFrames. */
   readonly sign?: number | undefined;
-  /** Convention "dimensions": the model angle at the joint reading q = 0, deg (default 0); added to the offset. */
+  /** Convention "dimensions": the model angle at the joint reading q = 0, deg (default 0). See dimensionsAsFrames. */
   readonly zeroOffsetDeg?: number | undefined;
 }
 
@@ -126,28 +126,33 @@ function transposeRotation(r: Float64Array): Float64Array {
 }
 
 /**
- * A dimensions arm as the frames convention: the joint frames of the drawing (dimensions.ts), every joint's own
- * fields (ranges, speeds, sign, zero offset) kept.
+ * A dimensions arm written as an exactly equivalent frames arm (file units): the drawing's joint frames
+ * (dimensions.ts) with θ = sign·q + zeroOffset folded in by Rot(a, sign·q + zeroOffset) = Rot(a, zeroOffset)·
+ * Rot(sign·a, q): the zero offset turns the joint's origin about its own axis (one rpy component, the axes being
+ * x, y or z) and a sign of −1 turns the axis round. The joint variable is then the maker's reading q itself (G stays
+ * the identity, as the closed-form inverse asks), and each frame after a joint's motion is the dimensions link
+ * frame, so link masses keep their meaning. Ranges, speeds and ratings are kept; other conventions pass through.
+ * @example dimensionsAsFrames(arm with J3 sign −1 and J6 zeroOffsetDeg 180)
+ *   // J3 axis [0, −1, 0], origin rpy [0, 0, 0]; J6 axis [1, 0, 0], origin rpy [180, 0, 0]; flange Tr(c4)·Ry(90°)
  */
-function dimensionsAsFrames(input: ArmKinematicsInput): ArmKinematicsInput {
+export function dimensionsAsFrames(input: ArmKinematicsInput): ArmKinematicsInput {
+  if (input.convention !== "dimensions") return input;
   const d = input.dimensions;
   if (!d) throw new RangeError("invalid chain: convention dimensions without dimensions");
-  if (input.joints.length !== 6 || input.joints.some((j) => j.kind !== "revolute"))
-    throw new RangeError(`invalid chain: convention dimensions needs six revolute joints`);
+  if (input.joints.length !== DIMENSIONS_JOINT_COUNT || input.joints.some((j) => j.kind !== "revolute"))
+    throw new RangeError(`invalid chain: convention dimensions needs ${DIMENSIONS_JOINT_COUNT} revolute joints`);
   const frames = dimensionFrames(d);
-  // Rot(a, sign·q + zeroOffset) = Rot(sign·a, q + sign·zeroOffset): the sign turns the axis round and the driven
-  // joint keeps gain 1 in G (the closed-form inverse asks for a unit diagonal); the offset goes into G's offset.
   return {
     convention: "frames",
     joints: input.joints.map((j, i) => {
       const f = frames.joints[i]!,
-        sign = j.sign ?? 1;
+        sign = j.sign ?? 1,
+        offsetDeg = j.zeroOffsetDeg ?? 0;
+      const { sign: _sign, zeroOffsetDeg: _offset, ...rest } = j;
       return {
-        ...j,
-        origin: f.origin,
-        axis: f.axis.map((v) => sign * v),
-        sign: undefined,
-        zeroOffsetDeg: sign * (j.zeroOffsetDeg ?? 0),
+        ...rest,
+        origin: { xyzMm: f.origin.xyzMm, rpyDeg: f.axis.map((v) => (v === 0 ? 0 : v * offsetDeg)) },
+        axis: f.axis.map((v) => (v === 0 ? 0 : sign * v)),
       };
     }),
     flange: frames.flange,
@@ -162,8 +167,8 @@ function dimensionsAsFrames(input: ArmKinematicsInput): ArmKinematicsInput {
  * - Standard DH (Spong et al.): Aᵢ = Rz(θᵢ)·Tz(dᵢ)·Tx(aᵢ)·Rx(αᵢ); the joint variable adds to θᵢ or dᵢ.
  * - Modified DH (Craig): Aᵢ = Rx(αᵢ₋₁)·Tx(aᵢ₋₁)·Rz(θᵢ)·Tz(dᵢ); the row of joint i holds aᵢ₋₁ and αᵢ₋₁.
  * - Frames (as URDF): joint origin (xyz, rpy) in the previous joint's frame, then motion about/along `axis`.
- * - Dimensions (ortho-parallel six-axis arms, dimensions.ts): the drawing's joint frames, then as frames; each
- *   joint's θ = sign·q + zeroOffset becomes the axis sign·a and the offset sign·zeroOffset (G keeps a unit diagonal).
+ * - Dimensions (ortho-parallel six-axis arms, dimensions.ts): first written as the equivalent frames arm
+ *   (dimensionsAsFrames: signs turn axes round, zero offsets turn origins), then compiled as frames.
  * @throws RangeError when the input breaks a rule validation should have caught (programmer error)
  */
 export function compileChain(input: ArmKinematicsInput): Chain {
@@ -238,10 +243,9 @@ export function compileChain(input: ArmKinematicsInput): Chain {
   joints.forEach((j, i) => {
     const column = drivenColumn.get(i);
     if (column !== undefined) g[i * m + column] = 1;
-    offset[i] = degToRad(j.zeroOffsetDeg ?? 0);
     const c = j.coupling;
     if (!c) return;
-    offset[i] = offset[i]! + (j.kind === "prismatic" ? mmToM(c.offsetMm ?? 0) : degToRad(c.offsetDeg ?? 0));
+    offset[i] = j.kind === "prismatic" ? mmToM(c.offsetMm ?? 0) : degToRad(c.offsetDeg ?? 0);
     for (const term of c.terms) {
       const k = indexOf.get(term.joint);
       if (k === undefined || k >= i)

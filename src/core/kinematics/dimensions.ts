@@ -15,9 +15,10 @@
  *   towards +x, positive θ3 turns the forearm down, positive θ5 turns the flange down.
  *
  * The model angle of joint i is θᵢ = signᵢ·qᵢ + zeroOffsetᵢ (qᵢ: the maker's joint reading, the driven variable).
- * Since Rot(a, sign·q + zeroOffset) = Rot(sign·a, q + sign·zeroOffset), compile turns the axis round where the sign
- * is −1 and puts sign·zeroOffset into the coupling offset; G keeps a unit diagonal, which the closed-form inverse
- * (closedForm.ts) asks for, and each link frame still turns with θ.
+ * compile.ts `dimensionsAsFrames` folds both into an equivalent frames arm, Rot(a, sign·q + zeroOffset) =
+ * Rot(a, zeroOffset)·Rot(sign·a, q): the zero offset turns the joint origin about its axis and a −1 sign turns the
+ * axis round, so the coupling matrix G stays the identity (the closed-form inverse, closedForm.ts, asks for that)
+ * and each link frame still turns with θ.
  *
  * As a product of elementary transforms (the form the tests check against):
  *   T(θ) = Rz(θ1)·Tr(a1, 0, c1)·Ry(θ2)·Tr(0, 0, c2)·Ry(θ3)·Tr(c3, b, a2)·Rx(θ4)·Ry(θ5)·Rx(θ6)·Tr(c4, 0, 0)·Ry(90°)

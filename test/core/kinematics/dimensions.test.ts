@@ -31,7 +31,15 @@ import { fileURLToPath } from "node:url";
 import { readFileSync } from "node:fs";
 import * as math from "mathjs";
 import { describe, expect, it } from "vitest";
-import { compileChain, createScratch, forwardInto, wristCentreInto, type ArmKinematicsInput } from "../../../src/core";
+import {
+  compileChain,
+  createScratch,
+  dimensionsAsFrames,
+  forwardInto,
+  linkFrameInto,
+  wristCentreInto,
+  type ArmKinematicsInput,
+} from "../../../src/core";
 import { dimensionFrames, type DimensionsInput } from "../../../src/core/kinematics/dimensions";
 import {
   MAX_CLOSED_FORM_SOLUTIONS,
@@ -276,16 +284,45 @@ describe("compileChain(dimensions) against mathjs, DH and frames at random joint
     expect(worst).toBeLessThan(1e-12);
   });
 
-  it("the sign turns the axis round and G stays the identity: Rot(a, s·q + o) = Rot(s·a, q + s·o)", () => {
-    // The kinematic variable is q + sign·zeroOffset about sign·a; G = I (the closed form needs a unit diagonal).
-    const chain = compileChain(dimensionsArm(SIGN, ZERO_OFFSET_DEG));
-    for (let i = 0; i < 6; i++) for (let j = 0; j < 6; j++) expect(chain.couplingGain[i * 6 + j]).toBe(i === j ? 1 : 0);
-    expectClose(
-      chain.couplingOffset,
-      ZERO_OFFSET_DEG.map((d, i) => SIGN[i]! * d * DEG),
-      1e-15,
-      "offsets, rad",
+  it("dimensionsAsFrames folds sign and zero offset into axes and origins; G stays the identity", () => {
+    // Rot(a, s·q + o) = Rot(a, o)·Rot(s·a, q); G = I and no offset (the closed-form inverse needs a unit diagonal).
+    const frames = dimensionsAsFrames(dimensionsArm(SIGN, ZERO_OFFSET_DEG));
+    const byHand = drawingFramesArm(DIMS);
+    expect(frames.convention).toBe("frames");
+    expect(frames.joints.map((j) => [j.origin, j.axis, j.sign, j.zeroOffsetDeg])).toEqual(
+      byHand.joints.map((j) => [j.origin, j.axis, undefined, undefined]),
     );
+    expect(frames.flange).toEqual(byHand.flange);
+    const chain = compileChain(frames);
+    for (let i = 0; i < 6; i++) for (let j = 0; j < 6; j++) expect(chain.couplingGain[i * 6 + j]).toBe(i === j ? 1 : 0);
+    expect(Array.from(chain.couplingOffset)).toEqual([0, 0, 0, 0, 0, 0]);
+  });
+
+  it("each link frame (links[].comMm) is the drawing's frame after the joint: parallel to the base at θ = 0", () => {
+    // Link frame of joint k = the mathjs product up to and including Rot(θk) (dimensions.ts header); 1e-12.
+    const chain = compileChain(dimensionsArm(SIGN, ZERO_OFFSET_DEG));
+    const k = createScratch(chain);
+    const m = (x: number) => x / 1000;
+    const rand = mulberry32(0x11);
+    const out = new Float64Array(16);
+    for (let trial = 0; trial < 20; trial++) {
+      const q = Array.from({ length: 6 }, () => uniform(rand, -Math.PI, Math.PI));
+      const t = modelAngles(q);
+      const factors: M4[][] = [
+        [rotZ(t[0]!)],
+        [tr(m(DIMS.a1Mm), 0, m(DIMS.c1Mm)), rotY(t[1]!)],
+        [tr(0, 0, m(DIMS.c2Mm)), rotY(t[2]!)],
+        [tr(m(DIMS.c3Mm), m(DIMS.bMm), m(DIMS.a2Mm)), rotX(t[3]!)],
+        [rotY(t[4]!)],
+        [rotX(t[5]!)],
+      ];
+      forwardInto(chain, q, k);
+      let acc: M4 = tr(0, 0, 0);
+      factors.forEach((fs, i) => {
+        for (const f of fs) acc = math.multiply(acc, f) as M4;
+        expectClose(linkFrameInto(out, chain, k, i), flat4(acc), 1e-12, `link frame ${i + 1}, trial ${trial}`);
+      });
+    }
   });
 });
 
