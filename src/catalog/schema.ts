@@ -57,6 +57,32 @@ export const CouplingSchema = z
       "with a range it is driven and its own variable adds to the sum (a maker's J3 measured from the horizontal).",
   );
 
+const DIMENSIONS_ZERO_POSE =
+  "At θ = 0, in the base frame (z up along axis 1, origin on axis 1 at the mounting face): axis 1 along +z through " +
+  "the origin; axis 2 along +y through (a1, 0, c1); the upper arm points straight up: axis 3 along +y through " +
+  "(a1, 0, c1 + c2); the forearm points along +x: axis 4 along +x through (·, b, c1 + c2 + a2); the wrist centre at " +
+  "(a1 + c3, b, c1 + c2 + a2); axis 5 along +y and axis 6 along +x through the wrist centre; the flange centre at " +
+  "(a1 + c3 + c4, b, c1 + c2 + a2), flange z along +x, flange x along −z. Every joint turns by the right-hand rule " +
+  "about those directions: positive θ2 tilts the upper arm towards +x, positive θ3 turns the forearm down, positive " +
+  "θ5 turns the flange down. Link frames (links[].comMm) are parallel to the base frame at θ = 0, with origins " +
+  "J1 (0, 0, 0), J2 (a1, 0, c1), J3 (a1, 0, c1 + c2), J4–J6 the wrist centre.";
+
+export const DimensionsSchema = z
+  .strictObject({
+    a1Mm: lengthMm().describe("shoulder offset: axis 2 lies a1 from axis 1 along +x at θ = 0, mm"),
+    a2Mm: lengthMm().describe("elbow offset: axis 4 lies a2 above axis 3 at θ = 0 (across the forearm), mm"),
+    bMm: lengthMm().describe("lateral offset of the forearm and wrist along +y at θ = 0, mm"),
+    c1Mm: lengthMm().describe("shoulder height: axis 2 above the mounting face, mm"),
+    c2Mm: positive(LENGTH_LIMIT_MM).describe("upper arm: axis 2 to axis 3, mm"),
+    c3Mm: positive(LENGTH_LIMIT_MM).describe("forearm: axis 3 to the wrist centre, along axis 4, mm"),
+    c4Mm: positive(LENGTH_LIMIT_MM).describe("wrist centre to the flange face, along axis 6, mm"),
+  })
+  .describe(
+    "Dimension drawing of an ortho-parallel six-axis arm with a spherical wrist (convention dimensions; names after " +
+      "Brandstötter, Angerer & Hofbaur 2014). " +
+      DIMENSIONS_ZERO_POSE,
+  );
+
 export const JointSchema = z
   .strictObject({
     name: text(40).describe("joint name as the maker labels it, e.g. J1"),
@@ -79,6 +105,20 @@ export const JointSchema = z
     ratedTorqueNm: positive(1_000_000).optional().describe("rated continuous holding torque, N·m"),
     ratedForceN: positive(10_000_000).optional().describe("rated continuous force of a prismatic joint, N"),
     coupling: CouplingSchema.optional(),
+    sign: z
+      .literal([1, -1])
+      .optional()
+      .describe(
+        "convention dimensions only: +1 (default) when the maker's positive joint reading q turns the joint as the " +
+          "dimension-drawing model does (right-hand rule about the axis direction at θ = 0), −1 when it turns the " +
+          "other way; the model angle is θ = sign·q + zeroOffsetDeg",
+      ),
+    zeroOffsetDeg: angleDeg()
+      .optional()
+      .describe(
+        "convention dimensions only: the model angle θ at the maker's reading q = 0, deg (default 0); " +
+          "θ = sign·q + zeroOffsetDeg, and θ = 0 is the pose of the dimension drawing",
+      ),
     note: z.string().max(1000).optional(),
   })
   .describe("one joint, base to flange");
@@ -112,9 +152,18 @@ export const ArmSpecSchema = z
       .regex(/^IP[0-6X][0-9X][A-D]?[HMSW]?$/, { message: "expected an IEC 60529 code such as IP54 or IP67" })
       .describe("IEC 60529 code of the arm body"),
     reachMm: positive(LENGTH_LIMIT_MM).optional().describe("reach as stated by the maker (usually wrist centre), mm"),
-    convention: z.enum(["dh", "mdh", "frames"]),
+    convention: z
+      .enum(["dh", "mdh", "frames", "dimensions"])
+      .describe(
+        "dh and mdh: a DH row per joint; frames: origin and axis per joint (as URDF); dimensions: the seven lengths " +
+          "of a six-axis arm's dimension drawing in `dimensions`, and per joint only sign and zeroOffsetDeg",
+      ),
+    dimensions: DimensionsSchema.optional(),
     joints: z.array(JointSchema).min(1).max(12),
-    flange: FrameSchema.describe("flange frame in the last joint's frame"),
+    flange: FrameSchema.optional().describe(
+      "flange frame in the last joint's frame (conventions dh, mdh and frames; with dimensions the flange follows " +
+        "from c4 and is not given)",
+    ),
     wristCentre: z
       .strictObject({ joints: z.array(text(40)).min(1).max(3) })
       .optional()
@@ -165,5 +214,12 @@ export type JointSpec = z.infer<typeof JointSchema>;
 /** The JSON Schema written to public/schema/arm.schema.json (editor completion and checking). */
 export function armJsonSchema(): Record<string, unknown> {
   const schema = z.toJSONSchema(ArmSpecSchema, { target: "draft-2020-12", io: "input" }) as Record<string, unknown>;
-  return { ...schema, $id: "arm.schema.json", title: "Armdex arm description" };
+  // The rule the zod object leaves to validate.ts, for editors: a dimensions arm has `dimensions` and no `flange`
+  // (the flange follows from c4); every other convention has a `flange` and no `dimensions`.
+  const byConvention = {
+    if: { properties: { convention: { const: "dimensions" } }, required: ["convention"] },
+    then: { required: ["dimensions"], not: { required: ["flange"] } },
+    else: { required: ["flange"], not: { required: ["dimensions"] } },
+  };
+  return { ...schema, ...byConvention, $id: "arm.schema.json", title: "Armdex arm description" };
 }

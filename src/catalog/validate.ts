@@ -136,6 +136,7 @@ export function semanticIssues(data: unknown): PathMessage[] {
     if (drivenOrPassiveIssues(out, j, kind, at)) driven++;
     couplingIssues(out, j, i, kind, joints, names, kinds);
   });
+  dimensionsIssues(out, data, joints);
   if (joints.length > 0 && driven === 0) {
     out.push({
       path: "joints",
@@ -160,10 +161,83 @@ function uniqueNameIssues(out: PathMessage[], j: Loose, i: number, names: Map<st
   else names.set(j.name, i);
 }
 
-/** The parameter block matches the convention (dh, mdh, or origin and axis for frames), and no other block is given. */
+/**
+ * The arm-level rules of convention "dimensions" (a dimension drawing of an ortho-parallel six-axis arm): the
+ * `dimensions` block is there exactly when the convention asks for it; the flange follows from c4, so `flange` is
+ * given with every other convention and not with this one; exactly six revolute joints; no declared wrist centre
+ * (the drawing puts it where axes 4, 5 and 6 meet).
+ */
+function dimensionsIssues(out: PathMessage[], data: Loose, joints: unknown[]): void {
+  const dims = data.convention === "dimensions";
+  const known = data.convention === "dh" || data.convention === "mdh" || data.convention === "frames" || dims;
+  if (!known) return;
+  if (dims && data.dimensions === undefined)
+    out.push({
+      path: "dimensions",
+      message:
+        'missing required field: convention "dimensions" needs "dimensions" { a1Mm, a2Mm, bMm, c1Mm, c2Mm, c3Mm, c4Mm }',
+    });
+  if (!dims && data.dimensions !== undefined)
+    out.push({
+      path: "dimensions",
+      message: `not used with convention "${String(data.convention)}": expected convention "dimensions"`,
+    });
+  if (!dims && data.flange === undefined)
+    out.push({ path: "flange", message: "missing required field: expected the flange frame { xyzMm, rpyDeg }" });
+  if (dims && data.flange !== undefined)
+    out.push({
+      path: "flange",
+      message: 'not used with convention "dimensions": the flange lies c4 beyond the wrist centre along axis 6',
+    });
+  if (!dims) return;
+  if (data.wristCentre !== undefined)
+    out.push({
+      path: "wristCentre",
+      message: 'not used with convention "dimensions": the wrist centre is where axes 4, 5 and 6 meet',
+    });
+  if (Array.isArray(data.joints) && joints.length !== 6)
+    out.push({
+      path: "joints",
+      message: `convention "dimensions" describes six-axis arms: expected 6 joints (J1 … J6, base to flange), found ${joints.length}`,
+    });
+  joints.forEach((j, i) => {
+    if (isObject(j) && j.kind !== undefined && j.kind !== "revolute")
+      out.push({
+        path: toPath(["joints", i, "kind"]),
+        message: `convention "dimensions" has six revolute joints: expected "revolute", found ${describeValue(j.kind)}`,
+      });
+  });
+}
+
+/**
+ * The parameter block matches the convention (dh, mdh, or origin and axis for frames; nothing for dimensions), and
+ * no other block is given; sign and zeroOffsetDeg only with dimensions, where couplings are not used.
+ */
 function conventionIssues(out: PathMessage[], j: Loose, convention: unknown, at: JointPath): void {
+  if (convention === "dimensions") {
+    for (const other of ["dh", "mdh", "origin", "axis"] as const) {
+      if (j[other] !== undefined)
+        out.push({
+          path: at(other),
+          message: `not used with convention "dimensions": the joint axes follow from "dimensions" (give only sign and zeroOffsetDeg)`,
+        });
+    }
+    if (j.coupling !== undefined)
+      out.push({
+        path: at("coupling"),
+        message: `not used with convention "dimensions": expected sign and zeroOffsetDeg (θ = sign·q + zeroOffsetDeg)`,
+      });
+    return;
+  }
   const blocks = { dh: "dh", mdh: "mdh", frames: "origin" } as const;
   if (convention !== "dh" && convention !== "mdh" && convention !== "frames") return;
+  for (const f of ["sign", "zeroOffsetDeg"] as const) {
+    if (j[f] !== undefined)
+      out.push({
+        path: at(f),
+        message: `not used with convention "${convention}": ${f} belongs to convention "dimensions"${convention === "frames" ? " (turn the axis round or the origin instead)" : " (put a zero offset in thetaDeg and a sign in the row)"}`,
+      });
+  }
   const want = blocks[convention];
   if (j[want] === undefined)
     out.push({
@@ -347,13 +421,16 @@ export const PLAUSIBILITY = {
 const fmt = (x: number) => String(Number(x.toPrecision(4)));
 
 /**
- * Sum of the lengths of every fixed offset of the chain (DH/MDH rows, joint origins, the flange) plus the largest
- * stroke of each prismatic joint, mm. By the triangle inequality no point of the arm is farther than this from the
- * base origin or from the J1 axis, so it bounds any stated reach. Null when a prismatic joint follows others (its
- * stroke has no simple bound).
+ * Sum of the lengths of every fixed offset of the chain (DH/MDH rows, joint origins or the drawing's offsets, the
+ * flange) plus the largest stroke of each prismatic joint, mm. By the triangle inequality no point of the arm is
+ * farther than this from the base origin or from the J1 axis, so it bounds any stated reach. Null when a prismatic
+ * joint follows others (its stroke has no simple bound).
  */
 export function linkLengthSumMm(spec: ArmSpec): number | null {
-  let sum = Math.hypot(...spec.flange.xyzMm);
+  const d = spec.dimensions;
+  if (spec.convention === "dimensions" && d)
+    return Math.hypot(d.a1Mm, d.c1Mm) + d.c2Mm + Math.hypot(d.c3Mm, d.bMm, d.a2Mm) + d.c4Mm;
+  let sum = spec.flange ? Math.hypot(...spec.flange.xyzMm) : 0;
   for (const j of spec.joints) {
     const row = spec.convention === "dh" ? j.dh : spec.convention === "mdh" ? j.mdh : undefined;
     if (row) sum += Math.hypot(row.aMm, row.dMm);

@@ -119,11 +119,59 @@ function dhCells(p: NonNullable<JointSpec["dh"]>): TableCell[] {
   ];
 }
 
+/** Axis of each joint of a dimensions arm at θ = 0 (src/core/kinematics/dimensions.ts), in words. */
+function dimensionAxes(d: NonNullable<ArmSpec["dimensions"]>): string[] {
+  const f = (x: number) => formatNumber(x, 3);
+  const wrist = `(${f(d.a1Mm + d.c3Mm)}, ${f(d.bMm)}, ${f(d.c1Mm + d.c2Mm + d.a2Mm)}) mm`;
+  return [
+    "+z through (0, 0, 0) mm",
+    `+y through (${f(d.a1Mm)}, 0, ${f(d.c1Mm)}) mm`,
+    `+y through (${f(d.a1Mm)}, 0, ${f(d.c1Mm + d.c2Mm)}) mm`,
+    `+x through the wrist centre ${wrist}`,
+    `+y through the wrist centre`,
+    `+x through the wrist centre`,
+  ];
+}
+
+/** The dimension drawing: the seven lengths in the caption's footnote, per joint its axis at θ = 0, sign and offset. */
+function dimensionsTable(spec: ArmSpec, d: NonNullable<ArmSpec["dimensions"]>): TableModel {
+  const f = (x: number) => formatNumber(x, 3);
+  const axes = dimensionAxes(d);
+  return {
+    id: "parameter-table",
+    caption:
+      "Dimension drawing (ortho-parallel arm, spherical wrist): each joint\u2019s axis at \u03b8 = 0 in the base frame; " +
+      "the model angle is \u03b8 = sign\u00b7q + zero offset",
+    footnote:
+      `a1 ${f(d.a1Mm)}, a2 ${f(d.a2Mm)}, b ${f(d.bMm)}, c1 ${f(d.c1Mm)}, c2 ${f(d.c2Mm)}, c3 ${f(d.c3Mm)}, ` +
+      `c4 ${f(d.c4Mm)} mm. Flange centre at \u03b8 = 0: (${f(d.a1Mm + d.c3Mm + d.c4Mm)}, ${f(d.bMm)}, ` +
+      `${f(d.c1Mm + d.c2Mm + d.a2Mm)}) mm, flange z along +x, flange x along \u2212z.`,
+    rowHeaders: true,
+    columns: [
+      { key: "joint", label: "Joint", numeric: false },
+      { key: "axis", label: "Axis at \u03b8 = 0", numeric: false },
+      { key: "sign", label: "Sign", numeric: true },
+      { key: "zero", label: "Zero offset", unit: "\u00b0", numeric: true },
+    ],
+    rows: spec.joints.map((j, i) => ({
+      key: j.name,
+      cells: [
+        { text: j.name },
+        { text: axes[i] ?? NOT_STATED },
+        { text: (j.sign ?? 1) < 0 ? "\u22121" : "+1", sortValue: j.sign ?? 1 },
+        { text: formatNumber(j.zeroOffsetDeg ?? 0, 3), sortValue: j.zeroOffsetDeg ?? 0 },
+      ],
+    })),
+  };
+}
+
 /** The kinematic parameters exactly as the file gives them (the input of every computed figure). */
 export function parameterTable(spec: ArmSpec): TableModel {
+  if (spec.convention === "dimensions" && spec.dimensions) return dimensionsTable(spec, spec.dimensions);
+  const flange = spec.flange ?? { xyzMm: [0, 0, 0], rpyDeg: [0, 0, 0] };
   const footnote =
-    `Flange frame after the last joint: xyz ${formatVector(spec.flange.xyzMm, 3)} mm, ` +
-    `rpy ${formatVector(spec.flange.rpyDeg, 3)}\u00b0 (roll, pitch, yaw as URDF: R = Rz(yaw)\u00b7Ry(pitch)\u00b7Rx(roll)).`;
+    `Flange frame after the last joint: xyz ${formatVector(flange.xyzMm, 3)} mm, ` +
+    `rpy ${formatVector(flange.rpyDeg, 3)}\u00b0 (roll, pitch, yaw as URDF: R = Rz(yaw)\u00b7Ry(pitch)\u00b7Rx(roll)).`;
   if (spec.convention === "frames") {
     return {
       id: "parameter-table",

@@ -14,6 +14,7 @@ export const CONVENTION_LABEL: Readonly<Record<ArmSpec["convention"], string>> =
   dh: "Standard Denavit\u2013Hartenberg",
   mdh: "Modified Denavit\u2013Hartenberg (Craig)",
   frames: "Joint frames (origin and axis, as URDF)",
+  dimensions: "Dimension drawing (seven lengths of an ortho-parallel six-axis arm)",
 };
 
 export const MOUNTING_LABEL: Readonly<Record<ArmSpec["mountings"][number], string>> = {

@@ -179,6 +179,7 @@ function schemaErrors(schema: Record<string, any>, value: unknown, path = ""): s
     ...["$schema", "$id", "title", "description", "format", "type", "properties", "required"],
     ...["additionalProperties", "propertyNames", "items", "prefixItems", "enum", "minItems", "maxItems"],
     ...["minimum", "maximum", "exclusiveMinimum", "minLength", "maxLength", "pattern"],
+    ...["const", "not", "if", "then", "else"],
   ]);
   const unknown = Object.keys(schema).filter((k) => !known.has(k));
   if (unknown.length) throw new Error(`schemaErrors: unsupported keywords ${unknown.join(", ")} at ${path}`);
@@ -196,6 +197,13 @@ function schemaErrors(schema: Record<string, any>, value: unknown, path = ""): s
     (t === "boolean" && typeof value === "boolean");
   if (!typeOk) return [path];
   if (schema.enum && !(schema.enum as unknown[]).includes(value)) out.push(path);
+  if ("const" in schema && schema.const !== value) out.push(path);
+  // not: fails when the subschema passes; if/then/else: then applies where if passes, else elsewhere (§10.2).
+  if (schema.not && schemaErrors(schema.not, value, path).length === 0) out.push(path);
+  if (schema.if) {
+    const branch = schemaErrors(schema.if, value, path).length === 0 ? schema.then : schema.else;
+    if (branch) out.push(...schemaErrors(branch, value, path));
+  }
   if (typeof value === "number") {
     if (schema.minimum !== undefined && value < schema.minimum) out.push(path);
     if (schema.maximum !== undefined && value > schema.maximum) out.push(path);
@@ -254,6 +262,15 @@ describe("armJsonSchema", () => {
       const data = JSON.parse(await readFile(`test/fixtures/bad-arms/${file}`, "utf8")) as unknown;
       expect(schemaErrors(committed, data), file).toContain(path);
     }
+    // The convention's conditional: a dimensions arm passes; with a flange, or a dh arm without one, it fails.
+    const dims = validDimensionsArm();
+    expect(schemaErrors(committed, dims)).toEqual([]);
+    expect(schemaErrors(committed, { ...dims, flange: { xyzMm: [0, 0, 0], rpyDeg: [0, 0, 0] } })).toContain("");
+    const { flange: _flange, ...noFlange } = validArm();
+    expect(schemaErrors(committed, noFlange)).toContain("flange");
+    const badSign = validDimensionsArm();
+    (badSign.joints as Record<string, unknown>[])[0]!.sign = 2;
+    expect(schemaErrors(committed, badSign)).toContain("joints[0].sign");
   });
 
   it("is what public/schema/arm.schema.json holds: a freshness check of the generated file (regenerate with `npx armdex schema`)", async () => {
@@ -277,8 +294,86 @@ describe("armJsonSchema", () => {
         "protection",
         "convention",
         "joints",
-        "flange",
         "source",
+      ]),
+    );
+    // flange or dimensions by convention (JSON Schema 2020-12 §10.2.2 if/then/else).
+    const conditional = schema as { if?: unknown; then?: unknown; else?: unknown };
+    expect(conditional.if).toEqual({ properties: { convention: { const: "dimensions" } }, required: ["convention"] });
+    expect(conditional.then).toEqual({ required: ["dimensions"], not: { required: ["flange"] } });
+    expect(conditional.else).toEqual({ required: ["flange"], not: { required: ["dimensions"] } });
+  });
+});
+
+// The same invented arm as validArm() in the dimension-drawing form (convention dimensions): the DH rows read as
+// a1 100, c1 400, c2 500, a2 50, c3 450, c4 80 (the derivation is in test/core/kinematics/dimensions.test.ts).
+function validDimensionsArm(): Record<string, unknown> {
+  const a = validArm();
+  const joints = (a.joints as Record<string, unknown>[]).map(({ dh: _dh, ...rest }) => rest);
+  joints[5]!.zeroOffsetDeg = 180;
+  joints[2]!.sign = -1;
+  joints[2]!.rangeDeg = [-170, 170];
+  delete a.flange;
+  return {
+    ...a,
+    convention: "dimensions",
+    dimensions: { a1Mm: 100, a2Mm: 50, bMm: 0, c1Mm: 400, c2Mm: 500, c3Mm: 450, c4Mm: 80 },
+    joints,
+  };
+}
+
+describe("validateArm: convention dimensions", () => {
+  it("accepts a dimensions arm; its chain has a spherical wrist and matches the DH arm it was read from", () => {
+    const r = validateArm(validDimensionsArm(), "arms/test-arm.json", "test-arm");
+    expect(r.issues).toEqual([]);
+    expect(r.ok && r.chain.wrist?.basis).toBe("spherical");
+    expect(r.ok && r.chain.drivenCount).toBe(6);
+  });
+
+  it("reports every dimensions rule at once with its path", () => {
+    const a = validDimensionsArm();
+    const joints = a.joints as Record<string, unknown>[];
+    joints[0]!.dh = { aMm: 0, alphaDeg: 0, dMm: 0, thetaDeg: 0 };
+    joints[1]!.axis = [0, 1, 0];
+    joints[2]!.coupling = { terms: [{ joint: "J2", gain: -1 }] };
+    joints[3]!.sign = 2;
+    a.flange = { xyzMm: [0, 0, 0], rpyDeg: [0, 0, 0] };
+    a.wristCentre = { joints: ["J4", "J5", "J6"] };
+    (a.dimensions as Record<string, unknown>).c4Mm = 0;
+    (a.dimensions as Record<string, unknown>).dMm = 5;
+    expect(messages(a)).toEqual(
+      expect.arrayContaining([
+        'joints[0].dh: not used with convention "dimensions": the joint axes follow from "dimensions" (give only sign and zeroOffsetDeg)',
+        'joints[1].axis: not used with convention "dimensions": the joint axes follow from "dimensions" (give only sign and zeroOffsetDeg)',
+        'joints[2].coupling: not used with convention "dimensions": expected sign and zeroOffsetDeg (θ = sign·q + zeroOffsetDeg)',
+        "joints[3].sign: expected one of 1, -1, found 2",
+        'flange: not used with convention "dimensions": the flange lies c4 beyond the wrist centre along axis 6',
+        'wristCentre: not used with convention "dimensions": the wrist centre is where axes 4, 5 and 6 meet',
+        "dimensions.c4Mm: expected value > 0, found 0",
+        "dimensions.dMm: unknown field: not part of the arm format (check the spelling and the unit in the name)",
+      ]),
+    );
+  });
+
+  it("asks for the dimensions block, six revolute joints, and no sign or flange rules crossing conventions", () => {
+    const a = validDimensionsArm();
+    delete a.dimensions;
+    (a.joints as unknown[]).pop();
+    expect(messages(a)).toEqual(
+      expect.arrayContaining([
+        'dimensions: missing required field: convention "dimensions" needs "dimensions" { a1Mm, a2Mm, bMm, c1Mm, c2Mm, c3Mm, c4Mm }',
+        'joints: convention "dimensions" describes six-axis arms: expected 6 joints (J1 … J6, base to flange), found 5',
+      ]),
+    );
+    const b = validArm();
+    (b.joints as Record<string, unknown>[])[1]!.zeroOffsetDeg = 90;
+    b.dimensions = validDimensionsArm().dimensions;
+    delete b.flange;
+    expect(messages(b)).toEqual(
+      expect.arrayContaining([
+        'joints[1].zeroOffsetDeg: not used with convention "dh": zeroOffsetDeg belongs to convention "dimensions" (put a zero offset in thetaDeg and a sign in the row)',
+        'dimensions: not used with convention "dh": expected convention "dimensions"',
+        "flange: missing required field: expected the flange frame { xyzMm, rpyDeg }",
       ]),
     );
   });

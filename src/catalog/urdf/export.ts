@@ -36,7 +36,9 @@ function jointFrames(
   spec: ArmSpec,
   chain: Chain,
 ): { joints: JointFrame[]; flange: { xyzM: number[]; rpyRad: number[] } } {
-  if (spec.convention === "frames") {
+  // A frames arm keeps its own joint frames (validation requires its flange); other conventions (dh, mdh,
+  // dimensions) are written from the compiled chain.
+  if (spec.convention === "frames" && spec.flange) {
     const f = (o: { xyzMm: readonly number[]; rpyDeg: readonly number[] }) => ({
       xyzM: o.xyzMm.map((v) => v / 1000),
       rpyRad: o.rpyDeg.map((v) => v * DEG),

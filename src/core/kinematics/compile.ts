@@ -2,6 +2,7 @@ import type { Chain, WristCentre } from "./chain";
 import { fromXyzRpyInto, identity4Into, mul4Into, rotationAxisAngleInto, translationInto } from "../math/mat4";
 import { degToRad, mmToM } from "../units";
 import { createScratch, forwardInto } from "./forward";
+import { DIMENSIONS_JOINT_COUNT, dimensionFrames, type DimensionsInput } from "./dimensions";
 
 /** Denavit–Hartenberg parameters as they appear in an arm file (mm, deg). */
 export interface DhParamsInput {
@@ -39,12 +40,19 @@ export interface JointInput {
   readonly ratedTorqueNm?: number | undefined;
   readonly ratedForceN?: number | undefined;
   readonly coupling?: CouplingInput | undefined;
+  /** Convention "dimensions": θ = sign·q + zeroOffset; sign +1 or −1 (default +1). See dimensionsAsFrames. */
+  readonly sign?: number | undefined;
+  /** Convention "dimensions": the model angle at the joint reading q = 0, deg (default 0). See dimensionsAsFrames. */
+  readonly zeroOffsetDeg?: number | undefined;
 }
 
 export interface ArmKinematicsInput {
-  readonly convention: "dh" | "mdh" | "frames";
+  readonly convention: "dh" | "mdh" | "frames" | "dimensions";
+  /** The seven lengths of the dimension drawing (convention "dimensions" only; see dimensions.ts). */
+  readonly dimensions?: DimensionsInput | undefined;
   readonly joints: readonly JointInput[];
-  readonly flange: FrameInput;
+  /** Flange frame in the last joint's frame (dh, mdh, frames; a dimensions arm's flange follows from c4). */
+  readonly flange?: FrameInput | undefined;
   readonly wristCentre?: { readonly joints: readonly string[] } | undefined;
 }
 
@@ -79,15 +87,6 @@ function trans(x: number, y: number, z: number): Float64Array {
   return translationInto(new Float64Array(16), x, y, z);
 }
 
-/**
- * Compiles an arm description (standard DH, modified DH or explicit frames; file units) into the chain form
- * F₀·M₁·F₁⋯Mₙ·Fₙ in SI, with the coupling matrix and the wrist centre.
- *
- * - Standard DH (Spong et al.): Aᵢ = Rz(θᵢ)·Tz(dᵢ)·Tx(aᵢ)·Rx(αᵢ); the joint variable adds to θᵢ or dᵢ.
- * - Modified DH (Craig): Aᵢ = Rx(αᵢ₋₁)·Tx(aᵢ₋₁)·Rz(θᵢ)·Tz(dᵢ); the row of joint i holds aᵢ₋₁ and αᵢ₋₁.
- * - Frames (as URDF): joint origin (xyz, rpy) in the previous joint's frame, then motion about/along `axis`.
- * @throws RangeError when the input breaks a rule validation should have caught (programmer error)
- */
 /**
  * A rotation (4×4, no translation) taking ẑ to the unit vector (x, y, z): the turn about ẑ × a by the angle between
  * them (Rodrigues), or a half turn about x̂ when a = −ẑ; the identity when a = ẑ.
@@ -126,7 +125,54 @@ function transposeRotation(r: Float64Array): Float64Array {
   return out;
 }
 
+/**
+ * A dimensions arm written as an exactly equivalent frames arm (file units): the drawing's joint frames
+ * (dimensions.ts) with θ = sign·q + zeroOffset folded in by Rot(a, sign·q + zeroOffset) = Rot(a, zeroOffset)·
+ * Rot(sign·a, q): the zero offset turns the joint's origin about its own axis (one rpy component, the axes being
+ * x, y or z) and a sign of −1 turns the axis round. The joint variable is then the maker's reading q itself (G stays
+ * the identity, as the closed-form inverse asks), and each frame after a joint's motion is the dimensions link
+ * frame, so link masses keep their meaning. Ranges, speeds and ratings are kept; other conventions pass through.
+ * @example dimensionsAsFrames(arm with J3 sign −1 and J6 zeroOffsetDeg 180)
+ *   // J3 axis [0, −1, 0], origin rpy [0, 0, 0]; J6 axis [1, 0, 0], origin rpy [180, 0, 0]; flange Tr(c4)·Ry(90°)
+ */
+export function dimensionsAsFrames(input: ArmKinematicsInput): ArmKinematicsInput {
+  if (input.convention !== "dimensions") return input;
+  const d = input.dimensions;
+  if (!d) throw new RangeError("invalid chain: convention dimensions without dimensions");
+  if (input.joints.length !== DIMENSIONS_JOINT_COUNT || input.joints.some((j) => j.kind !== "revolute"))
+    throw new RangeError(`invalid chain: convention dimensions needs ${DIMENSIONS_JOINT_COUNT} revolute joints`);
+  const frames = dimensionFrames(d);
+  return {
+    convention: "frames",
+    joints: input.joints.map((j, i) => {
+      const f = frames.joints[i]!,
+        sign = j.sign ?? 1,
+        offsetDeg = j.zeroOffsetDeg ?? 0;
+      const { sign: _sign, zeroOffsetDeg: _offset, ...rest } = j;
+      return {
+        ...rest,
+        origin: { xyzMm: f.origin.xyzMm, rpyDeg: f.axis.map((v) => (v === 0 ? 0 : v * offsetDeg)) },
+        axis: f.axis.map((v) => (v === 0 ? 0 : sign * v)),
+      };
+    }),
+    flange: frames.flange,
+    wristCentre: input.wristCentre,
+  };
+}
+
+/**
+ * Compiles an arm description (standard DH, modified DH, explicit frames or a dimension drawing; file units) into
+ * the chain form F₀·M₁·F₁⋯Mₙ·Fₙ in SI, with the coupling matrix and the wrist centre.
+ *
+ * - Standard DH (Spong et al.): Aᵢ = Rz(θᵢ)·Tz(dᵢ)·Tx(aᵢ)·Rx(αᵢ); the joint variable adds to θᵢ or dᵢ.
+ * - Modified DH (Craig): Aᵢ = Rx(αᵢ₋₁)·Tx(aᵢ₋₁)·Rz(θᵢ)·Tz(dᵢ); the row of joint i holds aᵢ₋₁ and αᵢ₋₁.
+ * - Frames (as URDF): joint origin (xyz, rpy) in the previous joint's frame, then motion about/along `axis`.
+ * - Dimensions (ortho-parallel six-axis arms, dimensions.ts): first written as the equivalent frames arm
+ *   (dimensionsAsFrames: signs turn axes round, zero offsets turn origins), then compiled as frames.
+ * @throws RangeError when the input breaks a rule validation should have caught (programmer error)
+ */
 export function compileChain(input: ArmKinematicsInput): Chain {
+  if (input.convention === "dimensions") return compileChain(dimensionsAsFrames(input));
   const joints = input.joints;
   const n = joints.length;
   if (n === 0) throw new RangeError("invalid chain: no joints");
@@ -173,12 +219,14 @@ export function compileChain(input: ArmKinematicsInput): Chain {
     }
   });
 
+  const flange = input.flange;
+  if (!flange) throw new RangeError("invalid chain: missing flange");
   const fixed = new Float64Array(16 * (n + 1));
   const linkFromMotion = new Float64Array(16 * n);
   fixed.set(pre[0]!, 0);
   for (let i = 0; i < n; i++) {
     linkFromMotion.set(post[i]!, 16 * i);
-    const next = i + 1 < n ? pre[i + 1]! : poseFromFrame(new Float64Array(16), input.flange);
+    const next = i + 1 < n ? pre[i + 1]! : poseFromFrame(new Float64Array(16), flange);
     fixed.set(mulNew(post[i]!, next), 16 * (i + 1));
   }
 
