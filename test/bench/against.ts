@@ -3,7 +3,8 @@
  * temporary git worktree (node_modules linked), and the two trees are timed in turn, arm by arm and round by round,
  * each in its own process (timeAnalysis.ts), so machine load falls on both alike. Reports per-arm medians and the
  * ratio this / other.
- * usage: tsx test/bench/against.ts <git-rev> [--only id,id] [--rounds 3] [--runs 1]
+ * usage: tsx test/bench/against.ts <git-rev> [--this <git-rev>] [--only id,id] [--rounds 3] [--runs 1]
+ * (--this: time that commit instead of the working tree, also from a temporary worktree)
  */
 import { execFileSync, spawnSync } from "node:child_process";
 import { copyFileSync, mkdtempSync, readdirSync, rmSync, symlinkSync } from "node:fs";
@@ -14,20 +15,26 @@ import { median } from "./stats";
 
 const { values, positionals } = parseArgs({
   allowPositionals: true,
-  options: { only: { type: "string" }, rounds: { type: "string" }, runs: { type: "string" } },
+  options: { only: { type: "string" }, rounds: { type: "string" }, runs: { type: "string" }, this: { type: "string" } },
 });
 const rev = positionals[0];
 if (!rev) throw new Error("usage: tsx test/bench/against.ts <git-rev> [--only id,id] [--rounds 3] [--runs 1]");
 const rounds = Number(values.rounds ?? "3"),
   runs = Number(values.runs ?? "1");
-const here = resolve(new URL("../..", import.meta.url).pathname);
-const other = mkdtempSync(join(tmpdir(), "armdex-against-"));
-execFileSync("git", ["worktree", "add", "--detach", other, rev], { cwd: here, stdio: "ignore" });
+const repo = resolve(new URL("../..", import.meta.url).pathname);
+/** A temporary worktree of `r` with this tree's node_modules and timing script. */
+function checkout(r: string): string {
+  const dir = mkdtempSync(join(tmpdir(), "armdex-against-"));
+  execFileSync("git", ["worktree", "add", "--detach", dir, r], { cwd: repo, stdio: "ignore" });
+  symlinkSync(join(repo, "node_modules"), join(dir, "node_modules"));
+  copyFileSync(join(repo, "test/bench/timeAnalysis.ts"), join(dir, "test/bench/timeAnalysis.ts"));
+  return dir;
+}
+const other = checkout(rev);
+const here = values.this ? checkout(values.this) : repo;
 try {
-  symlinkSync(join(here, "node_modules"), join(other, "node_modules"));
-  copyFileSync(join(here, "test/bench/timeAnalysis.ts"), join(other, "test/bench/timeAnalysis.ts"));
-  const sha = execFileSync("git", ["rev-parse", "--short", rev], { cwd: here, encoding: "utf8" }).trim();
-  const ids = readdirSync(join(here, "arms"))
+  const sha = execFileSync("git", ["rev-parse", "--short", rev], { cwd: repo, encoding: "utf8" }).trim();
+  const ids = readdirSync(join(other, "arms"))
     .filter((f) => f.endsWith(".json"))
     .map((f) => f.replace(/\.json$/, ""))
     .filter((id) => !values.only || values.only.split(",").includes(id));
@@ -44,7 +51,9 @@ try {
     if (r.status !== 0) throw new Error(`${tree}: ${id}: ${r.stderr}`);
     return (JSON.parse(r.stdout.trim().split("\n").pop()!) as { ms: number[] }).ms;
   };
-  console.log(`full analysis, this tree against ${rev} (${sha}): median of ${rounds} rounds × ${runs} run(s), ms`);
+  console.log(
+    `full analysis, ${values.this ?? "this tree"} against ${rev} (${sha}): median of ${rounds} rounds × ${runs} run(s), ms`,
+  );
   console.log("arm".padEnd(26) + "this".padStart(9) + "other".padStart(9) + "  ratio");
   const ratios: number[] = [];
   for (const id of ids) {
@@ -67,6 +76,8 @@ try {
   }
   console.log(`median ratio this / other: ${median(ratios).toFixed(2)}`);
 } finally {
-  execFileSync("git", ["worktree", "remove", "--force", other], { cwd: here, stdio: "ignore" });
-  rmSync(other, { recursive: true, force: true });
+  for (const dir of values.this ? [other, here] : [other]) {
+    execFileSync("git", ["worktree", "remove", "--force", dir], { cwd: repo, stdio: "ignore" });
+    rmSync(dir, { recursive: true, force: true });
+  }
 }
