@@ -15,6 +15,7 @@
  */
 import type { Chain } from "../../kinematics/chain";
 import { discoverAndFlood } from "./discovery";
+import { retryEdges } from "./edgeRetry";
 import { mapOutput } from "./output";
 import { discoverAlongAxis, sweepJointSpace } from "./sweep";
 import { createMapRun, type SpeedMapWorkspace } from "./state";
@@ -54,6 +55,8 @@ export function toolSpeedMap(
   discoverAndFlood(run);
   if (run.options.jointSamples) discoverAlongAxis(run);
   sweepJointSpace(run);
+  // Redundant arms: empty cells beside held ones, from the neighbours' solutions mirrored (edgeRetry.ts).
+  if (run.options.jointSamples) retryEdges(run);
   // After every solution is in (flood and sweep): near-singular solutions moved onto their singular pose.
   refineNearSingular(run);
   return mapOutput(run);
