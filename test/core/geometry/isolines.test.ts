@@ -97,8 +97,8 @@ describe("isolineRings: hand-worked square level set", () => {
     const got = new Set<string>();
     const ring = rings[0]!;
     for (let k = 0; k < ring.length; k += 2) got.add(`${ring[k]},${ring[k + 1]}`);
-    // hand-worked: on each side the crossings at the 6 grid lines 2 … 7 (x = 2.5 / 7.5 for rows 3 … 7, and the
-    // corner points (7.5, 7), (7, 7.5) etc.)
+    // hand-worked: five crossings on each side, x = 2.5 / 7.5 on rows 3 … 7 and y = 2.5 / 7.5 on columns 3 … 7
+    // (the ones on rows/columns 3 and 7 are the ends of the corner cuts, e.g. (7.5, 7) and (7, 7.5))
     const want = new Set<string>();
     for (let t = 3; t <= 7; t++) {
       want.add(`2.5,${t}`);

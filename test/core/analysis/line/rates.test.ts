@@ -109,7 +109,9 @@ describe("evaluate on a planar 3R (closed-form inverse Jacobian)", () => {
       .mmul(Matrix.columnVector([1, 0]))
       .to1DArray();
     expectClose(pt.rate, want, 1e-6, "minimum-norm rates at the stretched pose");
-    // the pose is singular: σ_min of the scaled Jacobian is (close to) zero, the kind an elbow singularity
+    // the pose is singular: σ_min of the scaled Jacobian is (close to) zero. Hand: the null motion keeps W and φ,
+    // (A1 + A2)q̇₁ + A2q̇₂ = 0 and q̇₁ + q̇₂ + q̇₃ = 0, i.e. q̇ ∝ (A2, −(A1 + A2), A1) = (0.4, −0.9, 0.5): mostly joint 2,
+    // the stretched-elbow singularity
     expect(pt.sigmaMin).toBeLessThan(1e-9);
     expect(KINDS[pt.kind]).toBe("elbow");
     // hand: the maximum ratio comes from these rates and the limits W3R
