@@ -292,9 +292,7 @@ let wristNearSingular = false;
  * nearest to 0 within its range. Writes `out` (at least 8·6 long) and returns the number of solutions, or
  * {@link DEGENERATE} when the pose lies on a family of solutions (wrist centre on axis 1 or 2, axes 4 and 6 in
  * line), where the caller should fall back to a numeric solver. Allocates nothing.
- * A solution just beyond a limit (by at most {@link RANGE_MARGIN_RAD}) is put onto the limit and kept if it still
- * reaches the target (1 µm, 1e-5), or else if `repairNearLimit` (given the clamped values, to change in place)
- * returns true: a numeric solver with the caller's tolerance there reaches the poses it would reach.
+ * A solution ≤ RANGE_MARGIN_RAD beyond a limit is put onto it, kept if it meets the target or `repairNearLimit(q)` does.
  * Steps: the target's coefficients, the position branches (q0, q2), per branch q1 and the wrist (kinematic joint
  * values into ik.kinSol), then the driven values inside the ranges.
  * @example the forward kinematics of any pose within the ranges, solved back, gives that pose among the solutions
@@ -598,9 +596,8 @@ function keepSolutionsInto(
   const q = ik.q6;
   for (let s = 0; s < count; s++) {
     if (!drivenInRangeInto(q, ik.chain, ik.kinSol, s)) continue;
-    if (clampedOntoLimit) {
-      if (!reachesTarget(ik, q, T) && !(repairNearLimit?.(q) ?? false)) continue;
-    } else if (check && !reachesTarget(ik, q, T)) continue;
+    if (clampedOntoLimit ? !reachesTarget(ik, q, T) && !repairNearLimit?.(q) : check && !reachesTarget(ik, q, T))
+      continue;
     // Distinct modulo whole turns (double roots at the edge of reach come out twice).
     if (isRepeat(out, outOffset, kept, q)) continue;
     out.set(q, outOffset + kept * 6);
@@ -609,15 +606,13 @@ function keepSolutionsInto(
   return kept;
 }
 
-/** Set by drivenInRangeInto: a joint was just beyond a limit and was put onto it. */
-let clampedOntoLimit = false;
-/** How far beyond a limit a solution may lie and still be put onto it (then checked against the target). */
+/** How far beyond a limit a solution may lie and be put onto it (then checked); clampedOntoLimit: one was. */
 export const RANGE_MARGIN_RAD = 1e-3;
+let clampedOntoLimit = false;
 
 /**
- * Driven values q_d = G⁻¹·(q_kin − offset) (G unit lower triangular, integer) of kinematic solution `s` into q,
- * taken into the ranges by whole turns (a joint within RANGE_MARGIN_RAD beyond a limit put onto it, setting
- * clampedOntoLimit); false when a joint cannot be brought inside its range.
+ * Driven values q_d = G⁻¹·(q_kin − offset) (G unit lower triangular, integer) of kinematic solution `s` into q, taken
+ * into the ranges by whole turns (or onto a limit); false when a joint cannot be brought inside its range.
  */
 function drivenInRangeInto(q: Float64Array, chain: Chain, kinSol: Float64Array, s: number): boolean {
   const g = chain.couplingGain,
@@ -634,12 +629,8 @@ function drivenInRangeInto(q: Float64Array, chain: Chain, kinSol: Float64Array, 
   for (let i = 0; i < 6 && inRange; i++) {
     let v = wrapNear(q[i]!, 0, lo[i]!, hi[i]!);
     if (Number.isNaN(v)) {
-      // Just beyond a limit: onto it (checked against the target by the caller).
-      v = wrapNear(q[i]!, 0, lo[i]! - RANGE_MARGIN_RAD, hi[i]! + RANGE_MARGIN_RAD);
-      if (!Number.isNaN(v)) {
-        v = Math.min(hi[i]!, Math.max(lo[i]!, v));
-        clampedOntoLimit = true;
-      }
+      v = Math.min(hi[i]!, Math.max(lo[i]!, wrapNear(q[i]!, 0, lo[i]! - RANGE_MARGIN_RAD, hi[i]! + RANGE_MARGIN_RAD)));
+      clampedOntoLimit ||= !Number.isNaN(v);
     }
     if (Number.isNaN(v)) inRange = false;
     else q[i] = v;
