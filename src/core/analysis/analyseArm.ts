@@ -162,6 +162,7 @@ export function analyseArm(chain: Chain, facts: ArmFacts, options: AnalysisOptio
       zMin: flange.minHeightMm - 2 * options.mapStepMm,
       zMax: flange.maxHeightMm + 2 * options.mapStepMm,
     },
+    ...options.speedMap,
   };
   const workspace = createSpeedMapWorkspace();
   const maps = referenceOrientations(chain).map((o: ReferenceOrientation) =>

@@ -9,7 +9,7 @@
 import type { EnvelopeLayout, EnvelopeOptions, PointEnvelope, Axis1 } from "./envelope/envelope";
 import type { PayloadAnalysis, PayloadAnalysisOptions } from "./payload";
 import type { CycleResult } from "./cycle/cycle";
-import type { ReferenceOrientation } from "./speedMap/speedMap";
+import type { ReferenceOrientation, SpeedMapOptions } from "./speedMap/speedMap";
 import type { AnalysisWarning } from "./warnings";
 import type { StandardLines } from "./standardLines/standardLines";
 
@@ -21,6 +21,8 @@ export interface AnalysisOptions {
   readonly envelope?: Partial<EnvelopeOptions> | undefined;
   /** Overrides of the payload options (a coarser posture search for property tests); absent from published analyses. */
   readonly payload?: Partial<PayloadAnalysisOptions> | undefined;
+  /** Overrides of the speed-map options (closed form on or off, for comparisons); absent from published analyses. */
+  readonly speedMap?: Partial<Pick<SpeedMapOptions, "closedForm" | "discoverEveryCell">> | undefined;
 }
 
 /** Regular side-view grid: value(ix, iy) at ix + iy·nx; node (ix, iy) at (rMinMm + ix·stepMm, zMinMm + iy·stepMm). */

@@ -292,6 +292,7 @@ let wristNearSingular = false;
  * nearest to 0 within its range. Writes `out` (at least 8·6 long) and returns the number of solutions, or
  * {@link DEGENERATE} when the pose lies on a family of solutions (wrist centre on axis 1 or 2, axes 4 and 6 in
  * line), where the caller should fall back to a numeric solver. Allocates nothing.
+ * A solution ≤ RANGE_MARGIN_RAD beyond a limit is put onto it, kept if it meets the target or `repairNearLimit(q)` does.
  * Steps: the target's coefficients, the position branches (q0, q2), per branch q1 and the wrist (kinematic joint
  * values into ik.kinSol), then the driven values inside the ranges.
  * @example the forward kinematics of any pose within the ranges, solved back, gives that pose among the solutions
@@ -302,6 +303,7 @@ export function solveSphericalWristInto(
   ik: SphericalWristIk,
   baseFromFlangeTarget: ArrayLike<number>,
   outOffset = 0,
+  repairNearLimit?: (q: Float64Array) => boolean,
 ): number {
   nearTangent = false;
   wristNearSingular = false;
@@ -331,7 +333,7 @@ export function solveSphericalWristInto(
   // Exact roots satisfy the decoupled equations and so the pose; double roots (edge of reach), the scanned
   // general case and a wrist near a singular pose are checked by forward kinematics of the whole chain.
   const check = nearTangent || ik.mode === "scan" || wristNearSingular;
-  return keepSolutionsInto(out, outOffset, ik, T, count, check);
+  return keepSolutionsInto(out, outOffset, ik, T, count, check, repairNearLimit);
 }
 
 /**
@@ -588,12 +590,14 @@ function keepSolutionsInto(
   T: ArrayLike<number>,
   count: number,
   check: boolean,
+  repairNearLimit: ((q: Float64Array) => boolean) | undefined,
 ): number {
   let kept = 0;
   const q = ik.q6;
   for (let s = 0; s < count; s++) {
     if (!drivenInRangeInto(q, ik.chain, ik.kinSol, s)) continue;
-    if (check && !reachesTarget(ik, q, T)) continue;
+    if (clampedOntoLimit ? !reachesTarget(ik, q, T) && !repairNearLimit?.(q) : check && !reachesTarget(ik, q, T))
+      continue;
     // Distinct modulo whole turns (double roots at the edge of reach come out twice).
     if (isRepeat(out, outOffset, kept, q)) continue;
     out.set(q, outOffset + kept * 6);
@@ -602,9 +606,13 @@ function keepSolutionsInto(
   return kept;
 }
 
+/** How far beyond a limit a solution may lie and be put onto it (then checked); clampedOntoLimit: one was. */
+export const RANGE_MARGIN_RAD = 1e-3;
+let clampedOntoLimit = false;
+
 /**
- * Driven values q_d = G⁻¹·(q_kin − offset) (G unit lower triangular, integer) of kinematic solution `s` into q,
- * taken into the ranges by whole turns; false when a joint cannot be brought inside its range.
+ * Driven values q_d = G⁻¹·(q_kin − offset) (G unit lower triangular, integer) of kinematic solution `s` into q, taken
+ * into the ranges by whole turns (or onto a limit); false when a joint cannot be brought inside its range.
  */
 function drivenInRangeInto(q: Float64Array, chain: Chain, kinSol: Float64Array, s: number): boolean {
   const g = chain.couplingGain,
@@ -617,8 +625,13 @@ function drivenInRangeInto(q: Float64Array, chain: Chain, kinSol: Float64Array, 
     for (let j = 0; j < i; j++) v -= g[i * 6 + j]! * q[j]!;
     q[i] = v;
   }
+  clampedOntoLimit = false;
   for (let i = 0; i < 6 && inRange; i++) {
-    const v = wrapNear(q[i]!, 0, lo[i]!, hi[i]!);
+    let v = wrapNear(q[i]!, 0, lo[i]!, hi[i]!);
+    if (Number.isNaN(v)) {
+      v = Math.min(hi[i]!, Math.max(lo[i]!, wrapNear(q[i]!, 0, lo[i]! - RANGE_MARGIN_RAD, hi[i]! + RANGE_MARGIN_RAD)));
+      clampedOntoLimit ||= !Number.isNaN(v);
+    }
     if (Number.isNaN(v)) inRange = false;
     else q[i] = v;
   }

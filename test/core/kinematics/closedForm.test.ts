@@ -126,6 +126,70 @@ describe("solveSphericalWristInto on random spherical-wrist DH chains", () => {
   }
 });
 
+describe("solveSphericalWristInto: a solution just beyond a joint limit", () => {
+  // One random axes-2-∥-3 chain and pose; J2's upper limit is then put δ below the pose's own q2. References: the
+  // mathjs DH product of test/helpers/testArms.ts (pose error) and the numeric solver of inverse.ts (the repair).
+  const rnd = mulberry32(2412);
+  const { rows, input } = randomSphericalDh(rnd, false);
+  const free = compileChain(input);
+  const q = randomPose(free, rnd);
+  const target = flat4(dhFrameReference(rows, q));
+  const limited = (deltaRad: number) =>
+    compileChain({
+      ...input,
+      joints: input.joints.map((j, i) => (i === 1 ? { ...j, rangeDeg: [-180, (q[1]! - deltaRad) / DEG] } : j)),
+    } as ArmKinematicsInput);
+  /** The kept solution nearest to q (by whole turns), its distance and its pose error; null when none is kept. */
+  const nearestTo = (chain: Chain, repair?: (v: Float64Array) => boolean) => {
+    const out = new Float64Array(MAX_CLOSED_FORM_SOLUTIONS * 6);
+    const n = solveSphericalWristInto(out, sphericalWristIk(chain)!, target, 0, repair);
+    let best: { k: number; d: number } | null = null;
+    for (let k = 0; k < n; k++) {
+      const d = turnDistance(out, 6 * k, q, 0);
+      if (!best || d < best.d) best = { k, d };
+    }
+    if (!best || best.d > 1e-2) return null;
+    const sol = out.slice(6 * best.k, 6 * best.k + 6);
+    return { sol, d: best.d, error: poseError(flat4(dhFrameReference(rows, sol)), target) };
+  };
+
+  it("δ = 1e-9 rad: put onto the limit and kept without a repair (the pose is met to 1 µm)", () => {
+    const chain = limited(1e-9);
+    const got = nearestTo(chain);
+    expect(got).not.toBeNull();
+    expect(got!.sol[1]).toBe(chain.upperSi[1]);
+    expect(got!.error.positionM).toBeLessThan(1e-6);
+    expect(got!.error.rotation).toBeLessThan(1e-5);
+  });
+
+  it("δ = 3e-4 rad: the clamped values miss the pose, so only a repair keeps it (here the numeric solver at 1 mm)", () => {
+    const chain = limited(3e-4);
+    expect(nearestTo(chain), "without a repair").toBeNull();
+    let calls = 0;
+    const ik = createIkScratch(chain);
+    const loose = { maxIterations: 30, toleranceM: 1e-3, toleranceRad: 1e-2 };
+    const got = nearestTo(chain, (v) => {
+      calls++;
+      return solveIkInto(v, chain, target, v, ik, loose);
+    });
+    expect(calls).toBeGreaterThan(0);
+    expect(got, "with the repair").not.toBeNull();
+    expect(got!.sol[1]).toBeLessThanOrEqual(chain.upperSi[1]!);
+    expect(got!.error.positionM).toBeLessThan(1e-3);
+  });
+
+  it("δ = 1e-2 rad (beyond the margin): dropped, and the repair is not asked", () => {
+    let calls = 0;
+    expect(
+      nearestTo(limited(1e-2), () => {
+        calls++;
+        return true;
+      }),
+    ).toBeNull();
+    expect(calls).toBe(0);
+  });
+});
+
 describe("solveSphericalWristInto on every spherical-wrist demo arm", () => {
   const sixAxis = arms.filter((arm) => sphericalWristIk(arm.chain) !== null);
   it("applies to the spherical-wrist 6R arms and to none other", () => {

@@ -9,6 +9,7 @@ import {
   createIkScratch,
   createIkSeedPose,
   holdsFullOrientation,
+  solveIkInto,
   type IkOptions,
   type IkScratch,
   type IkSeedPose,
@@ -381,7 +382,11 @@ export function closedAt(run: MapRun, cell: number): number {
       run.options.gravity,
       1,
     );
-    c = solveSphericalWristInto(closedSol, closed, run.closedTarget, cell * MAX_CLOSED_FORM_SOLUTIONS * m);
+    // A solution just beyond a joint limit is solved numerically from the limit with the verification tolerance:
+    // the numeric path keeps the poses that solver reaches there (joint on its limit, pose error within tolerance).
+    c = solveSphericalWristInto(closedSol, closed, run.closedTarget, cell * MAX_CLOSED_FORM_SOLUTIONS * m, (q) =>
+      solveIkInto(q, run.chain, run.closedTarget, q, run.ik, run.verifyIk),
+    );
     closedCount[cell] = c;
   }
   return c;
