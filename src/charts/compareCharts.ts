@@ -18,7 +18,6 @@ import {
   legendNode,
   legendNodeRows,
   node,
-  textNode,
   type NodeLegendItem,
   type SvgNode,
 } from "./nodes";

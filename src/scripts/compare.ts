@@ -15,7 +15,6 @@ import {
   type EnvelopeOverlayArm,
   type PayloadOverlayArm,
 } from "../charts/compareCharts";
-import type { SvgNode } from "../charts/nodes";
 import type { CompareArmSummary } from "../view/compareData";
 import { parseArmIds, specRows, speedRows, type CompareRow } from "../view/compareModel";
 import {

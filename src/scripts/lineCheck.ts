@@ -11,7 +11,7 @@
 import { compileChain, type ArmKinematicsInput, type Chain } from "../core";
 import type { LineCheckResult } from "../core";
 import type { Mounting } from "../core";
-import { lineRatesChartNode, type SvgNode } from "../charts/lineRatesChart";
+import { lineRatesChartNode } from "../charts/lineRatesChart";
 import {
   LINE_QUERY_KEYS,
   lineCommandText,

@@ -15,13 +15,7 @@ import {
   type ToolSpeedMap,
 } from "./speedMap/speedMap";
 import { gravityDirectionInBase, type Mounting } from "../kinematics/statics";
-import {
-  analysePayload,
-  payloadInputOf,
-  type PayloadAnalysisOptions,
-  type PayloadSpec,
-  type PayloadWarning,
-} from "./payload";
+import { analysePayload, payloadInputOf, type PayloadSpec, type PayloadWarning } from "./payload";
 import type { AnalysisOptions, ArmAnalysis, PointEnvelopeJson, SpeedMapJson } from "./armAnalysis";
 import { reachWarning, repeatabilityWarning, type AnalysisWarning, type PayloadAboveWristRating } from "./warnings";
 import { standardCycle } from "./cycle/cycle";
@@ -32,7 +26,6 @@ const BASE_X = [1, 0, 0] as const;
 import {
   DEFAULT_ENVELOPE_OPTIONS,
   workspaceEnvelope,
-  type EnvelopeOptions,
   type PointEnvelope,
   type PolygonMm,
   type WorkspaceEnvelope,

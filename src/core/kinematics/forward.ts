@@ -1,5 +1,5 @@
 import type { Chain } from "./chain";
-import { mul4AtInto, mul4Into, translationInto, transformPointInto } from "../math/mat4";
+import { mul4AtInto, translationInto, transformPointInto } from "../math/mat4";
 
 /** Preallocated buffers for one chain. Made once per analysis; the hot kernels allocate nothing. */
 export interface KinematicsScratch {

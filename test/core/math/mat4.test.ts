@@ -3,7 +3,7 @@
  * independent general-purpose library.
  */
 import * as math from "mathjs";
-import { describe, expect, it } from "vitest";
+import { describe, it } from "vitest";
 import {
   fromXyzRpyInto,
   identity4Into,

@@ -92,12 +92,3 @@ export interface PayloadAtReach {
   readonly mountings: readonly PayloadMountingReport[];
   readonly notes: readonly string[];
 }
-
-const AT_REACH_CONVENTION =
-  "Rows every step of the flange centre's radial distance from axis 1 (the base z axis; horizontal for floor and " +
-  "ceiling mountings). The tool points along gravity where the wrist can orient it; the CG offsets lie along the tool " +
-  "axis. Each row is the worst posture found for that reach over heights and joint branches (grid search with local " +
-  "refinement; a 7-axis arm keeps its redundant joint at zero), from τ = Jᵀ·F for the payload plus the links' own " +
-  "weight against each joint's rated torque (|τ| ≤ rating in either direction), capped at the rated payload. " +
-  "Gravity in the base frame: floor −z; ceiling +z; wall +x (base turned 90° about its y axis, +x pointing down); " +
-  "angled: tilted about y by the stated angle (default 45°).";

@@ -19,7 +19,6 @@ export function sidePlane(chain: Chain, gravity: readonly number[]): Plane {
   const s = createScratch(chain);
   forwardInto(chain, new Float64Array(chain.drivenCount), s);
   const k = chain.drivenJoint[0]!;
-  const up = [-gravity[0]!, -gravity[1]!, -gravity[2]!];
   if (!chain.isPrismatic[k]) {
     const f = 16 * k,
       fr = s.motionFrames,
