@@ -11,6 +11,7 @@
  * mixed second derivative M with each revolute joint (error of a bilinear patch ≤ M·Δⱼ·Δᵢ/4). Lⱼ and M are
  * estimated by central differences at quasi-random poses (Halton sequence) and enlarged by a safety factor.
  */
+import { HALTON_BASES, radicalInverse } from "../../math/halton";
 import type { Chain } from "../../kinematics/chain";
 import { createScratch, forwardInto, type KinematicsScratch } from "../../kinematics/forward";
 
@@ -115,18 +116,6 @@ const ESTIMATION_POSES = 256;
 const SAFETY = 1.25;
 /** Candidate shares of the sampling budget of each primary joint (secondaries: 1), with three or more joints. */
 const PRIMARY_WEIGHTS = [1, 0.5, 0.25, 0.12];
-const HALTON_BASES = [2, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31, 37];
-
-function radicalInverse(i: number, base: number): number {
-  let f = 1,
-    r = 0;
-  while (i > 0) {
-    f /= base;
-    r += f * (i % base);
-    i = Math.floor(i / base);
-  }
-  return r;
-}
 
 /** Sampled range of driven joint j: its limits, a revolute joint with integer gains capped to one turn. */
 function samplingRangeOf(chain: Chain, j: number): { range: [number, number]; periodic: boolean } {

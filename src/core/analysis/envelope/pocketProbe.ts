@@ -8,21 +8,10 @@
  *   Torczon, SIAM Review 45(3), 2003 [from memory]
  */
 import { PointProbe, type SamplingPlan } from "./jointSampling";
+import { HALTON_BASES, radicalInverse } from "../../math/halton";
 
 const SEED_POSES = 512;
 const STARTS = 6;
-const BASES = [2, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31, 37];
-
-function radicalInverse(i: number, base: number): number {
-  let f = 1,
-    r = 0;
-  while (i > 0) {
-    f /= base;
-    r += f * (i % base);
-    i = Math.floor(i / base);
-  }
-  return r;
-}
 
 export class PocketProbe {
   private readonly probe: PointProbe;
@@ -59,7 +48,7 @@ export class PocketProbe {
       q.set(qRef);
       relevant.forEach((j, k) => {
         const [lo, hi] = ranges[j]!;
-        q[j] = lo + (hi - lo) * radicalInverse(e + 1, BASES[k % BASES.length]!);
+        q[j] = lo + (hi - lo) * radicalInverse(e + 1, HALTON_BASES[k % HALTON_BASES.length]!);
       });
       this.seeds.set(q, e * m);
       [this.seedU[e], this.seedV[e]] = this.at(q);
