@@ -87,6 +87,14 @@ describe("Extremes on a planar 2R, radius in the view plane (height row 2)", () 
     expectClose(ext.refined(0), rho(40), 1e-6, "max ρ at q2 = 40°");
     expectClose(ext.refined(1), rho(120), 1e-6, "min ρ at q2 = 120°");
   });
+  it("elbow in [−37°, 71°]: the largest radius is interior (q2 = 0, off the grid), the smallest at q2 = 71°", () => {
+    const plan = planOf(arm([-180, 180], [-37, 71]), 3);
+    const ext = visited(plan, 2);
+    const rho = (q2: number) => Math.sqrt(A1_MM ** 2 + A2_MM ** 2 + 2 * A1_MM * A2_MM * Math.cos(q2 * DEG));
+    // law of cosines: cos q2 peaks at q2 = 0 and is smallest at the limit farther from 0 (71° > 37°)
+    expectClose(ext.refined(0), A1_MM + A2_MM, 1e-6, "max ρ at q2 = 0");
+    expectClose(ext.refined(1), rho(71), 1e-6, "min ρ at q2 = 71°");
+  });
 });
 
 describe("Extremes on a planar 2R, base-plane projection (height row 1: ρ = |x|, height = y)", () => {
