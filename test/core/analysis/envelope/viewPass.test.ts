@@ -8,7 +8,12 @@ import { describe, expect, it } from "vitest";
 import { DEFAULT_ENVELOPE_OPTIONS } from "../../../../src/core/analysis/envelope/envelopeTypes";
 import type { SamplingPlan } from "../../../../src/core/analysis/envelope/jointSampling";
 import type { PocketProbe } from "../../../../src/core/analysis/envelope/pocketProbe";
+import { compileChain } from "../../../../src/core";
+import { chainPoint, planSampling } from "../../../../src/core/analysis/envelope/jointSampling";
+import { RowCover } from "../../../../src/core/analysis/envelope/rowCover";
+import { SliceScratch } from "../../../../src/core/analysis/envelope/sliceScratch";
 import {
+  accumulate,
   cross,
   dot,
   MM3_PER_M3,
@@ -22,6 +27,7 @@ import {
 } from "../../../../src/core/analysis/envelope/viewPass";
 import { expectClose } from "../../../helpers/expectClose";
 import { mulberry32, uniform } from "../../../helpers/prng";
+import { planar2r } from "../../../helpers/testArms";
 
 describe("vector helpers and view matrices against mathjs", () => {
   it("dot, cross, norm and unit agree with mathjs on random vectors", () => {
@@ -139,5 +145,51 @@ describe("polygonsOf pocket rule", () => {
     expect(tol).toBe(10);
     const kept = polygonsOf(rings, 10, o, plan, 10, probe(false), { areaMm2: 0 });
     expectClose(holeAreas(kept), [6000, 160000], 1e-9, "pocket kept");
+  });
+});
+
+describe("accumulate on a planar 2R (a1 = 1.0 m, a2 = 0.6 m, full joint ranges)", () => {
+  it("covers the annulus |a1 − a2| ≤ r ≤ a1 + a2: area within perimeter × stated tolerance, extent ± (a1 + a2)", () => {
+    const a1 = 1000,
+      a2 = 600;
+    const chain = compileChain(planar2r(a1 / 1000, a2 / 1000));
+    const o = DEFAULT_ENVELOPE_OPTIONS;
+    const target = 5;
+    const plan = planSampling({
+      chain,
+      point: chainPoint(chain, "flange")!,
+      view: viewMatrix(
+        [
+          [1, 0, 0],
+          [0, 1, 0],
+          [0, 0, 1],
+        ],
+        [0, 0, 0],
+        [false, false, false],
+      ),
+      fixed: new Map(),
+      relevantRows: 2,
+      scoring: "plane",
+      toleranceMm: () => target,
+      samplingShare: o.samplingShare,
+      rowShare: o.rowShare,
+      maxWork: o.workBudget,
+    });
+    const row = o.rowShare * target;
+    const cover = new RowCover(0, row);
+    let slices = 0;
+    accumulate(plan, cover, false, row, new SliceScratch(), () => slices++);
+    const tol = statedTolerance(plan, row, o, target);
+    // closed form: annulus area π((a1 + a2)² − (a1 − a2)²) = 4π a1 a2; boundary length 2π((a1 + a2) + (a1 − a2))
+    const area = Math.PI * ((a1 + a2) ** 2 - (a1 - a2) ** 2),
+      perimeter = 2 * Math.PI * (a1 + a2 + (a1 - a2));
+    expect(Math.abs(cover.area() - area)).toBeLessThanOrEqual(perimeter * tol);
+    // outer circle: x from −(a1 + a2) to a1 + a2
+    expectClose(cover.xExtent(), [-(a1 + a2), a1 + a2], tol, "x extent");
+    // the hole r < a1 − a2: the row through the centre (y = 0, row 0) has a gap containing [−(a1 − a2) + tol, a1 − a2 − tol]
+    const v = cover.valuesOf(0),
+      n = cover.lengthOf(0);
+    for (let k = 0; k < n; k += 2) expect(v[k + 1]! <= -(a1 - a2) + tol || v[k]! >= a1 - a2 - tol).toBe(true);
+    expect(slices).toBeGreaterThan(0);
   });
 });
