@@ -4,13 +4,15 @@
  * keys freely, do not rename.
  */
 import type { Arm } from "../catalog";
-import { DEFAULT_LINE_CHECK, degToRad, mmToM } from "../core";
 import {
+  checkLineMm,
+  DEFAULT_LINE_CHECK,
+  degToRad,
   gravityDirectionInBase,
-  lineCheck,
-  referenceToolRotation,
-  rpyToolRotation,
+  lineToolRotation,
+  mmToM,
   type LineCheckResult,
+  type LineOrientationSpec,
 } from "../core";
 import { parseNumberList, type CommandResult } from "./pose";
 
@@ -90,15 +92,13 @@ export function lineCommand(arm: Arm, args: LineArgs): CommandResult<Record<stri
       return usage(`${q} (driven joints of ${arm.id}: ${driven.map((j) => j.name).join(", ")}; deg or mm)`);
     startJointsSi = q.map((v, i) => (driven[i]!.kind === "prismatic" ? mmToM(v) : degToRad(v)));
   }
-  const startM = fromMm.map(mmToM),
-    endM = toMm.map(mmToM);
   const mounting = arm.spec.mountings[0] ?? "floor";
   const gravity = gravityDirectionInBase(mounting);
   const text = args.orientation.trim();
-  let rotation: Float64Array;
+  let spec: LineOrientationSpec;
   let orientation: Record<string, unknown>;
   if (text === "down" || text === "outward") {
-    rotation = referenceToolRotation(chain, text, startM, gravity);
+    spec = text;
     orientation = {
       name: text,
       note:
@@ -109,21 +109,15 @@ export function lineCommand(arm: Arm, args: LineArgs): CommandResult<Record<stri
   } else {
     const rpy = parseNumberList(text, "--orientation", 3);
     if (typeof rpy === "string") return usage(`${rpy}; expected down, outward or roll,pitch,yaw in deg`);
-    rotation = rpyToolRotation(degToRad(rpy[0]!), degToRad(rpy[1]!), degToRad(rpy[2]!));
+    spec = { rpyDeg: [rpy[0]!, rpy[1]!, rpy[2]!] };
     orientation = { name: "rpy", rpyDeg: rpy, note: "R = Rz(yaw)·Ry(pitch)·Rx(roll), fixed axes (as URDF)" };
   }
-  const result: LineCheckResult = lineCheck(
-    chain,
-    {
-      startM,
-      endM,
-      baseFromToolRotation: rotation,
-      speedMPerS: mmToM(speed),
-      toolInFlangeM: toolMm.map(mmToM),
-      startJointsSi,
-    },
-    { samples, gravity },
-  );
+  const rotation = lineToolRotation(chain, gravity, fromMm, spec);
+  const result: LineCheckResult = checkLineMm(chain, gravity, fromMm, toMm, spec, speed, {
+    samples,
+    toolMm,
+    startJointsSi,
+  });
   return {
     ok: true,
     value: roundDeep({

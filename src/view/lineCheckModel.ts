@@ -162,7 +162,7 @@ export function runLineQuery(
     q.toMm,
     o.kind === "rpy" ? { rpyDeg: o.rpyDeg } : o.kind,
     q.speedMmPerS,
-    samples,
+    { samples },
   );
 }
 

@@ -175,6 +175,48 @@ export function planar2r(a1M: number, a2M: number): ArmKinematicsInput {
   };
 }
 
+/**
+ * Invented SCARA-like R R P R chain with vertical axes, standard DH: a1 = 400 mm, d1 = 500 mm; a2 = 300 mm,
+ * α2 = 180° (so the quill and the last axis point down); prismatic quill (variable adds to d3); d4 = 50 mm.
+ * Speeds 200 °/s, 300 °/s, 1000 mm/s, 600 °/s.
+ */
+export function scaraRrprDh(): ArmKinematicsInput {
+  return {
+    convention: "dh",
+    joints: [
+      {
+        name: "j1",
+        kind: "revolute",
+        dh: { aMm: 400, alphaDeg: 0, dMm: 500, thetaDeg: 0 },
+        rangeDeg: [-150, 150],
+        maxSpeedDegPerS: 200,
+      },
+      {
+        name: "j2",
+        kind: "revolute",
+        dh: { aMm: 300, alphaDeg: 180, dMm: 0, thetaDeg: 0 },
+        rangeDeg: [-150, 150],
+        maxSpeedDegPerS: 300,
+      },
+      {
+        name: "j3",
+        kind: "prismatic",
+        dh: { aMm: 0, alphaDeg: 0, dMm: 0, thetaDeg: 0 },
+        rangeMm: [0, 300],
+        maxSpeedMmPerS: 1000,
+      },
+      {
+        name: "j4",
+        kind: "revolute",
+        dh: { aMm: 0, alphaDeg: 0, dMm: 50, thetaDeg: 0 },
+        rangeDeg: [-360, 360],
+        maxSpeedDegPerS: 600,
+      },
+    ],
+    flange: { xyzMm: [0, 0, 0], rpyDeg: [0, 0, 0] },
+  };
+}
+
 /** Invented cylindrical arm in standard DH: revolute base, prismatic lift, prismatic radial stroke, 2R wrist. */
 export function cylindricalPrismaticDh(): ArmKinematicsInput {
   return {

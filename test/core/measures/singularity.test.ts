@@ -11,11 +11,11 @@
  */
 import { Matrix, SingularValueDecomposition, inverse } from "ml-matrix";
 import { describe, expect, it } from "vitest";
-import type { ArmKinematicsInput, Chain } from "../../../src/core";
+import type { Chain } from "../../../src/core";
 import { compileChain, createScratch, forwardInto, jacobianInto } from "../../../src/core";
 import { SINGULAR_INVERSE_CONDITION, singularityReport } from "../../../src/core/measures/singularity";
 import { expectClose, expectRelClose } from "../../helpers/expectClose";
-import { dhFrameReference, generic6rDh, GENERIC_6R_SI, Q_STAR } from "../../helpers/testArms";
+import { dhFrameReference, generic6rDh, GENERIC_6R_SI, Q_STAR, scaraRrprDh } from "../../helpers/testArms";
 
 const DEG = Math.PI / 180;
 const { a1, a2, a3, d4 } = GENERIC_6R_SI;
@@ -191,49 +191,8 @@ describe("singularityReport: generic 6R at the CHECKS C5 singular poses", () => 
   });
 });
 
-/**
- * Invented SCARA-like R R P R chain with vertical axes, standard DH: a1 = 400 mm, d1 = 500 mm; a2 = 300 mm,
- * α2 = 180° (quill and last axis point down); prismatic quill; d4 = 50 mm.
- */
-function scaraRrpr(): ArmKinematicsInput {
-  return {
-    convention: "dh",
-    joints: [
-      {
-        name: "j1",
-        kind: "revolute",
-        dh: { aMm: 400, alphaDeg: 0, dMm: 500, thetaDeg: 0 },
-        rangeDeg: [-150, 150],
-        maxSpeedDegPerS: 200,
-      },
-      {
-        name: "j2",
-        kind: "revolute",
-        dh: { aMm: 300, alphaDeg: 180, dMm: 0, thetaDeg: 0 },
-        rangeDeg: [-150, 150],
-        maxSpeedDegPerS: 300,
-      },
-      {
-        name: "j3",
-        kind: "prismatic",
-        dh: { aMm: 0, alphaDeg: 0, dMm: 0, thetaDeg: 0 },
-        rangeMm: [0, 300],
-        maxSpeedMmPerS: 1000,
-      },
-      {
-        name: "j4",
-        kind: "revolute",
-        dh: { aMm: 0, alphaDeg: 0, dMm: 50, thetaDeg: 0 },
-        rangeDeg: [-360, 360],
-        maxSpeedDegPerS: 600,
-      },
-    ],
-    flange: { xyzMm: [0, 0, 0], rpyDeg: [0, 0, 0] },
-  };
-}
-
 describe("singularityReport: SCARA-like chain", () => {
-  const chain = compileChain(scaraRrpr());
+  const chain = compileChain(scaraRrprDh());
 
   it("stretched (q2 = 0): kind elbow, null vector ∝ (a2, −(a1 + a2), 0, −a1) = (0.3, −0.7, 0, −0.4)", () => {
     // Hand derivation (CHECKS C1 for the planar part, det ∝ sin q2): stretched, the tip is at a1 + a2 from axis 1

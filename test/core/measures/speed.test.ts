@@ -17,7 +17,7 @@ import { compileChain, createScratch, forwardInto, jacobianInto } from "../../..
 import { createSpeedScratch, guaranteedLineSpeed, lineRatesInto, maxToolSpeed } from "../../../src/core/measures/speed";
 import { expectClose, expectRelClose } from "../../helpers/expectClose";
 import { mulberry32, uniform } from "../../helpers/prng";
-import { generic6rDh, palletizerPassiveFrames, Q_STAR } from "../../helpers/testArms";
+import { generic6rDh, palletizerPassiveFrames, Q_STAR, scaraRrprDh } from "../../helpers/testArms";
 
 const DEG = Math.PI / 180;
 
@@ -57,48 +57,6 @@ function redundant7r(): ArmKinematicsInput {
       rangeDeg: [-180, 180],
       maxSpeedDegPerS: speed,
     })),
-    flange: { xyzMm: [0, 0, 0], rpyDeg: [0, 0, 0] },
-  };
-}
-
-/**
- * Invented SCARA-like R R P R chain with vertical axes, standard DH: a1 = 400 mm, d1 = 500 mm; a2 = 300 mm,
- * α2 = 180° (so the quill and the last axis point down); prismatic quill (variable adds to d3); d4 = 50 mm.
- * Speeds 200 °/s, 300 °/s, 1000 mm/s, 600 °/s.
- */
-function scaraRrpr(): ArmKinematicsInput {
-  return {
-    convention: "dh",
-    joints: [
-      {
-        name: "j1",
-        kind: "revolute",
-        dh: { aMm: 400, alphaDeg: 0, dMm: 500, thetaDeg: 0 },
-        rangeDeg: [-150, 150],
-        maxSpeedDegPerS: 200,
-      },
-      {
-        name: "j2",
-        kind: "revolute",
-        dh: { aMm: 300, alphaDeg: 180, dMm: 0, thetaDeg: 0 },
-        rangeDeg: [-150, 150],
-        maxSpeedDegPerS: 300,
-      },
-      {
-        name: "j3",
-        kind: "prismatic",
-        dh: { aMm: 0, alphaDeg: 0, dMm: 0, thetaDeg: 0 },
-        rangeMm: [0, 300],
-        maxSpeedMmPerS: 1000,
-      },
-      {
-        name: "j4",
-        kind: "revolute",
-        dh: { aMm: 0, alphaDeg: 0, dMm: 50, thetaDeg: 0 },
-        rangeDeg: [-360, 360],
-        maxSpeedDegPerS: 600,
-      },
-    ],
     flange: { xyzMm: [0, 0, 0], rpyDeg: [0, 0, 0] },
   };
 }
@@ -318,7 +276,7 @@ describe("maxToolSpeed against brute force (CHECKS C12)", () => {
   const chains: [string, Chain][] = [
     ["generic 6R", compileChain(generic6rDh())],
     ["7R redundant", compileChain(redundant7r())],
-    ["SCARA RRPR", compileChain(scaraRrpr())],
+    ["SCARA RRPR", compileChain(scaraRrprDh())],
     ["5R", compileChain(fiveJoint())],
   ];
 
@@ -394,7 +352,7 @@ describe("guaranteedLineSpeed: redundant and short chains", () => {
   it("SCARA-like R R P R (vertical axes): constant orientation is feasible, B equals pseudoInverse(J)[:, 0:3]", () => {
     // Premise checked independently: J·B = [I₃; 0] (ml-matrix mmul), i.e. every linear velocity at ω = 0 is
     // possible. For m < 6 with full column rank, pinv(J) = (JᵀJ)⁻¹Jᵀ, so B = pinv(J)·[I₃; 0]. Tolerance 1e-9.
-    const chain = compileChain(scaraRrpr());
+    const chain = compileChain(scaraRrprDh());
     const m = 4,
       w = Array.from(chain.maxSpeedSi),
       s = createSpeedScratch(m);
@@ -420,7 +378,7 @@ describe("guaranteedLineSpeed: redundant and short chains", () => {
     // (0, 0, −1) (quill points down), (0, 0, 0) (axis 4 through the flange); ωz = q̇1 + q̇2 − q̇4.
     // ω = 0 and v: q̇1 = vy/0.4, q̇2 = −vx/0.3 − vy/0.4, q̇3 = −vz, q̇4 = q̇1 + q̇2 = −vx/0.3.
     // r = min(w1/2.5, w2/‖(10/3, 2.5)‖, w3/1, w4/(10/3)) = min(1.396, 1.257, 1.0, 3.142) = 1.0 m/s (quill).
-    const chain = compileChain(scaraRrpr());
+    const chain = compileChain(scaraRrprDh());
     const s = createSpeedScratch(4);
     const j = flangeJacobian(chain, [0, 90 * DEG, 0.1, 0]);
     expect(lineRatesInto(j, 4, s)).toBe(true);
@@ -488,7 +446,7 @@ describe("guaranteedLineSpeed ≤ maxToolSpeed", () => {
   const chains: [string, Chain][] = [
     ["generic 6R", compileChain(generic6rDh())],
     ["7R redundant", compileChain(redundant7r())],
-    ["SCARA RRPR", compileChain(scaraRrpr())],
+    ["SCARA RRPR", compileChain(scaraRrprDh())],
     ["5R", compileChain(fiveJoint())],
     ["palletizer", compileChain(palletizerPassiveFrames())],
     ...DEMO.arms.map((a) => [`demo arm ${a.id}`, a.chain] as [string, Chain]),

@@ -4,6 +4,7 @@
  * (classifyNullVector: the same rule for every arm class). Decoupled six-joint arms whose axes 2 and 3 are parallel
  * refine an undecided "other" by the exact factors of det J11 (createDecoupledLabeller).
  */
+import { determinantInPlace } from "../../math/linsolve";
 import type { Chain } from "../../kinematics/chain";
 import { createScratch, forwardInto, jacobianInto, wristCentreInto } from "../../kinematics/forward";
 import { createSvdScratch, svdInto } from "../../math/svd";
@@ -45,6 +46,7 @@ export function createCrossingNullMotion(
   const q = new Float64Array(m),
     j = new Float64Array(6 * m),
     task = new Float64Array(m * m),
+    work = new Float64Array(m * m),
     sv = new Float64Array(m),
     svd = createSvdScratch(m, m);
   const lengthM = chain.characteristicLengthM;
@@ -56,7 +58,8 @@ export function createCrossingNullMotion(
   };
   const detAt = (qa: ArrayLike<number>, qb: ArrayLike<number>, t: number) => {
     taskAt(qa, qb, t);
-    return det(task, m);
+    work.set(task);
+    return determinantInPlace(work, m);
   };
   return (qa, qb, v) => {
     let a = 0,
@@ -99,32 +102,6 @@ export function createCrossingNullMotion(
  */
 export function crossingKind(v: ArrayLike<number>, m: number, roles: JointRoles): Exclude<SingularityKind, "none"> {
   return classifyNullVector(v, m, m - 1, roles, CROSSING_NEGLIGIBLE_SHARE);
-}
-
-/** Determinant of the m × m matrix a (m = 4 or 6) by Gaussian elimination with partial pivoting on a copy. */
-function det(a: Float64Array, m: number): number {
-  const w = Float64Array.from(a);
-  let d = 1;
-  for (let k = 0; k < m; k++) {
-    let p = k;
-    for (let r = k + 1; r < m; r++) if (Math.abs(w[r * m + k]!) > Math.abs(w[p * m + k]!)) p = r;
-    const piv = w[p * m + k]!;
-    if (piv === 0) return 0;
-    if (p !== k) {
-      d = -d;
-      for (let c = 0; c < m; c++) {
-        const t = w[k * m + c]!;
-        w[k * m + c] = w[p * m + c]!;
-        w[p * m + c] = t;
-      }
-    }
-    d *= piv;
-    for (let r = k + 1; r < m; r++) {
-      const f = w[r * m + k]! / piv;
-      for (let c = k; c < m; c++) w[r * m + c] = w[r * m + c]! - f * w[k * m + c]!;
-    }
-  }
-  return d;
 }
 
 /** The kindAt function of traceSingularityLoci for a map run (see SheetData.kindAt). */

@@ -149,6 +149,17 @@ class Picks {
   }
 }
 
+/** What the three revolute-base choices share: the rows of the tool-down map and the line margins, mm. */
+interface Choice {
+  readonly rows: readonly Row[];
+  readonly zMid: number;
+  readonly reach: number;
+  readonly margin: number;
+  readonly step: number;
+  readonly plane: Plane;
+  readonly picks: Picks;
+}
+
 /** Gantry-like arms: the top view of the flange gives the working area; heights from the map. */
 function chooseOnArea(source: StandardLineSource, stepMm: number, zMid: number, picks: Picks): void {
   const pts = source.flangeTopMm.flat();
@@ -169,15 +180,7 @@ function chooseOnArea(source: StandardLineSource, stepMm: number, zMid: number, 
 }
 
 /** 1. Across the front at mid height: the row nearest mid height with a long enough run. */
-function chooseFront(
-  rows: readonly Row[],
-  zMid: number,
-  reach: number,
-  margin: number,
-  step: number,
-  plane: Plane,
-  picks: Picks,
-): void {
+function chooseFront({ rows, zMid, reach, margin, step, plane, picks }: Choice): void {
   const longest = Math.max(...rows.map((r) => Math.max(...r.runs.map(([a, b]) => b - a))));
   const byMid = [...rows].sort((a, b) => Math.abs(a.z - zMid) - Math.abs(b.z - zMid));
   const frontRow = byMid.find((r) => r.runs.some(([a, b]) => b - a >= 0.25 * longest)) ?? byMid[0]!;
@@ -196,14 +199,7 @@ function chooseFront(
 }
 
 /** 2. Close to axis 1, away from the base plate: the row where a line passing d from axis 1 can be longest. */
-function chooseNearAxis1(
-  rows: readonly Row[],
-  reach: number,
-  margin: number,
-  step: number,
-  plane: Plane,
-  picks: Picks,
-): void {
+function chooseNearAxis1({ rows, reach, margin, step, plane, picks }: Choice): void {
   const d0 = ceilTo(Math.max(2 * step, 0.04 * reach), 5);
   const clearance = 0.25 * reach;
   const candidates = (minZ: number) =>
@@ -240,14 +236,7 @@ function chooseNearAxis1(
 }
 
 /** 3. Out to the edge of the reach: the rows reaching furthest out (the middle one), radial, ending inside the edge. */
-function chooseEdge(
-  rows: readonly Row[],
-  reach: number,
-  margin: number,
-  step: number,
-  plane: Plane,
-  picks: Picks,
-): void {
+function chooseEdge({ rows, reach, step, picks, plane, margin }: Choice): void {
   const outerOf = (r: Row) => Math.max(...r.runs.map(([, b]) => b));
   const rMax = Math.max(...rows.map(outerOf));
   const far = rows.filter((r) => outerOf(r) >= rMax - step);
@@ -289,9 +278,9 @@ export function chooseStandardLines(source: StandardLineSource): {
     chooseOnArea(source, g.stepMm, zMid, picks);
     return { lines: picks.lines, notes: picks.notes };
   }
-  const plane = planeOf(source.axis1);
-  chooseFront(rows, zMid, reach, margin, g.stepMm, plane, picks);
-  chooseNearAxis1(rows, reach, margin, g.stepMm, plane, picks);
-  chooseEdge(rows, reach, margin, g.stepMm, plane, picks);
+  const choice: Choice = { rows, zMid, reach, margin, step: g.stepMm, plane: planeOf(source.axis1), picks };
+  chooseFront(choice);
+  chooseNearAxis1(choice);
+  chooseEdge(choice);
   return { lines: picks.lines, notes: picks.notes };
 }

@@ -4,9 +4,7 @@
  * analysis, so the sheets read them from the cache like every other figure.
  */
 import type { Chain } from "../../kinematics/chain";
-import { referenceToolRotation, rpyToolRotation } from "../../kinematics/toolOrientation";
-import { degToRad, mmToM } from "../../units";
-import { lineCheck, DEFAULT_LINE_CHECK, type LineCheckResult } from "../line";
+import { checkLineMm, type LineCheckResult } from "../line";
 import { chooseStandardLines, type StandardLineNote, type StandardLineSource, type StandardLineSpec } from "./choose";
 
 export * from "./choose";
@@ -25,42 +23,6 @@ export interface StandardLines {
   readonly speedMmPerS: number;
   readonly lines: readonly CheckedStandardLineJson[];
   readonly notes: readonly StandardLineNote[];
-}
-
-/** A line's tool orientation: a reference orientation, or roll-pitch-yaw in deg (R = Rz·Ry·Rx, fixed axes). */
-export type LineOrientationSpec = "down" | "outward" | { readonly rpyDeg: readonly [number, number, number] };
-
-/**
- * Checks one line with the flange centre as the tool point, in file units, as the sheets, the browser form and
- * `armdex line` set it up: a reference orientation is taken at the line's start, gravity from the arm's primary
- * mounting.
- * @param gravity unit gravity direction in the base frame
- * @example checkLineMm(chain, [0, 0, -1], [500, -300, 400], [500, 300, 400], "down", 1000).feasibleConstantSpeedMmPerS
- */
-export function checkLineMm(
-  chain: Chain,
-  gravity: readonly [number, number, number],
-  fromMm: readonly number[],
-  toMm: readonly number[],
-  orientation: LineOrientationSpec,
-  speedMmPerS: number,
-  samples = DEFAULT_LINE_CHECK.samples,
-): LineCheckResult {
-  const startM = fromMm.map(mmToM),
-    endM = toMm.map(mmToM);
-  const rotation =
-    typeof orientation === "object"
-      ? rpyToolRotation(
-          degToRad(orientation.rpyDeg[0]),
-          degToRad(orientation.rpyDeg[1]),
-          degToRad(orientation.rpyDeg[2]),
-        )
-      : referenceToolRotation(chain, orientation, startM, gravity);
-  return lineCheck(
-    chain,
-    { startM, endM, baseFromToolRotation: rotation, speedMPerS: mmToM(speedMmPerS), toolInFlangeM: [0, 0, 0] },
-    { samples, gravity },
-  );
 }
 
 /**

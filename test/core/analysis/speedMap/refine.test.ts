@@ -14,56 +14,18 @@
  *   straight lines at constant orientation in some direction).
  */
 import { describe, expect, it } from "vitest";
-import type { ArmKinematicsInput, Chain } from "../../../../src/core";
+import type { Chain } from "../../../../src/core";
 import { compileChain, createScratch, forwardInto, jacobianInto } from "../../../../src/core";
 import { createNullStepScratch, refineAlongNullMotion } from "../../../../src/core/analysis/speedMap/refine";
 import { taskDeterminant } from "../../../../src/core/analysis/speedMap/speedMap";
 import { createSpeedScratch, guaranteedLineSpeed } from "../../../../src/core/measures/speed";
 import { expectClose } from "../../../helpers/expectClose";
-import { generic6rDh, Q_STAR } from "../../../helpers/testArms";
+import { generic6rDh, Q_STAR, scaraRrprDh } from "../../../helpers/testArms";
 
 const DEG = Math.PI / 180;
 const A1 = 0.4,
   A2 = 0.3;
 const W_RAD = [200 * DEG, 300 * DEG, 1, 600 * DEG];
-
-/** Invented SCARA-like RRPR in standard DH (axis 4 pointing down). */
-function scara(): ArmKinematicsInput {
-  return {
-    convention: "dh",
-    joints: [
-      {
-        name: "j1",
-        kind: "revolute",
-        dh: { aMm: A1 * 1000, alphaDeg: 0, dMm: 500, thetaDeg: 0 },
-        rangeDeg: [-150, 150],
-        maxSpeedDegPerS: 200,
-      },
-      {
-        name: "j2",
-        kind: "revolute",
-        dh: { aMm: A2 * 1000, alphaDeg: 180, dMm: 0, thetaDeg: 0 },
-        rangeDeg: [-150, 150],
-        maxSpeedDegPerS: 300,
-      },
-      {
-        name: "j3",
-        kind: "prismatic",
-        dh: { aMm: 0, alphaDeg: 0, dMm: 0, thetaDeg: 0 },
-        rangeMm: [0, 300],
-        maxSpeedMmPerS: 1000,
-      },
-      {
-        name: "j4",
-        kind: "revolute",
-        dh: { aMm: 0, alphaDeg: 0, dMm: 50, thetaDeg: 0 },
-        rangeDeg: [-360, 360],
-        maxSpeedDegPerS: 600,
-      },
-    ],
-    flange: { xyzMm: [0, 0, 0], rpyDeg: [0, 0, 0] },
-  };
-}
 
 /** Closed-form guaranteed speed of the SCARA at q2 = δ (module comment), m/s. */
 function scaraGuaranteed(delta: number): number {
@@ -95,7 +57,7 @@ function refine(chain: Chain, q: Float64Array, goal: Float64Array, axisOnly: boo
 }
 
 describe("refineAlongNullMotion: SCARA stretched (elbow singularity, target at full reach)", () => {
-  const chain = compileChain(scara());
+  const chain = compileChain(scaraRrprDh());
   const qStar = [0.5, 0, 0.1, 0.3];
   // Null motion at the stretched pose (CHECKS C1, by hand): q̇1(a1 + a2) + q̇2·a2 = 0 and q̇4 = q̇1 + q̇2:
   // (a2, −(a1 + a2), 0, −a1) = (0.3, −0.7, 0, −0.4), unit length.
