@@ -19,3 +19,7 @@ export { STANDARD_CYCLE_MOVES } from "./analysis/cycle/cycle";
 export * from "./kinematics/toolOrientation";
 export * from "./analysis/line";
 export * from "./analysis/standardLines/standardLines";
+export * from "./analysis/cell/types";
+export * from "./analysis/cell/study";
+export * from "./analysis/placement/placement";
+export type { PlacementBest } from "./analysis/placement/fastest";

@@ -3,8 +3,9 @@
  * (±360°) variants included, or the reason there is none.
  *
  * - Six revolute joints with a spherical wrist: the closed-form solver (kinematics/closedForm.ts, up to 8
- *   solutions); otherwise the numeric solver (kinematics/inverse.ts) from the zero pose and seeded starts spread over
- *   the joint ranges (Halton points), duplicates merged.
+ *   solutions); otherwise the numeric solver (kinematics/inverse.ts) from the zero pose, a few starts spread over
+ *   the joint ranges (Halton points) and the LIBRARY_SEEDS samples of a library of LIBRARY_SIZE joint samples whose
+ *   flange poses lie nearest the target (nearest-neighbour seeding), duplicates merged.
  * - Fewer than six driven joints: the full pose is solved (position and whole orientation). Such an arm reaches a
  *   target only when it can take its orientation; when its tool axis keeps one direction in every pose (a SCARA, a
  *   palletizer, a gantry with a turning axis), a target tilted away from it gets that as the reason.
@@ -30,8 +31,11 @@ import { radToDeg } from "../../units";
 export const REDUNDANCY_STEP_DEG = 30;
 /** Most solutions kept per target (whole-turn variants included). */
 export const MAX_VARIANTS = 48;
-/** Numeric starts besides the zero pose (arms without a closed form). */
-const NUMERIC_SEEDS = 32;
+/** Spread starts besides the zero pose (arms without a closed form). */
+const NUMERIC_SEEDS = 8;
+/** Poses in the seed library (arms without a closed form) and the nearest ones tried per target. */
+const LIBRARY_SIZE = 2048;
+const LIBRARY_SEEDS = 24;
 /** Solutions closer than this in every joint are one (rad; prismatic: m). */
 const SAME_SOLUTION = 1e-3;
 
@@ -56,6 +60,8 @@ export interface ReachContext {
   readonly kin: KinematicsScratch;
   /** Seeds of the numeric solver (the zero pose first). */
   readonly seeds: readonly Float64Array[];
+  /** Seed library: joint samples spread over the ranges and their flange poses (null with a closed form). */
+  readonly library: SeedLibrary | null;
   /** The base-frame direction the tool axis keeps in every pose, or null when the arm can tilt its tool. */
   readonly fixedToolAxis: Float64Array | null;
   /** The chain with its ranges opened, to tell "outside the ranges" from "out of reach". */
@@ -79,6 +85,7 @@ export function createReachContext(chain: Chain): ReachContext {
     ik: createIkScratch(chain),
     kin: createScratch(chain),
     seeds: numericSeeds(chain),
+    library: sphericalWristIk(chain) ? null : seedLibrary(chain),
     fixedToolAxis: m < 6 ? fixedToolAxisOf(chain) : null,
     open,
     openIk: createIkScratch(open),
@@ -86,6 +93,69 @@ export function createReachContext(chain: Chain): ReachContext {
     openSeeds: numericSeeds(open),
     work: new Float64Array(8 * 6),
   };
+}
+
+/**
+ * A library of joint samples (Halton points over the ranges, at most one turn per joint) with their flange positions
+ * and rotations: the samples nearest a target pose are good starts for the numeric solver (nearest-neighbour seeding).
+ */
+export interface SeedLibrary {
+  readonly count: number;
+  readonly q: Float64Array;
+  /** Per sample: flange position (3, m) and rotation (9), 12 values. */
+  readonly pose: Float64Array;
+  /** Weight of the rotation term (m²): (characteristic length / 2)². */
+  readonly rotationWeightM2: number;
+  readonly distance: Float64Array;
+  readonly order: Int32Array;
+}
+
+function seedLibrary(chain: Chain): SeedLibrary {
+  const m = chain.drivenCount;
+  const kin = createScratch(chain);
+  const q = new Float64Array(LIBRARY_SIZE * m),
+    pose = new Float64Array(LIBRARY_SIZE * 12);
+  const sample = new Float64Array(m);
+  for (let k = 0; k < LIBRARY_SIZE; k++) {
+    for (let i = 0; i < m; i++) {
+      const [lo, hi] = seedSpan(chain, i);
+      sample[i] = lo + (hi - lo) * radicalInverse(k + 1, HALTON_BASES[i % HALTON_BASES.length]!);
+    }
+    q.set(sample, k * m);
+    const f = forwardInto(chain, sample, kin);
+    pose.set([f[3]!, f[7]!, f[11]!, f[0]!, f[1]!, f[2]!, f[4]!, f[5]!, f[6]!, f[8]!, f[9]!, f[10]!], k * 12);
+  }
+  const half = chain.characteristicLengthM / 2;
+  return {
+    count: LIBRARY_SIZE,
+    q,
+    pose,
+    rotationWeightM2: half * half,
+    distance: new Float64Array(LIBRARY_SIZE),
+    order: new Int32Array(LIBRARY_SIZE),
+  };
+}
+
+/** The `count` library samples nearest the flange pose t (position, and rotation weighted), as seeds. */
+function nearestSeeds(lib: SeedLibrary, m: number, t: Float64Array, count: number): Float64Array[] {
+  const d = lib.distance,
+    p = lib.pose;
+  const r = [t[0]!, t[1]!, t[2]!, t[4]!, t[5]!, t[6]!, t[8]!, t[9]!, t[10]!];
+  for (let k = 0; k < lib.count; k++) {
+    const o = 12 * k;
+    const dx = p[o]! - t[3]!,
+      dy = p[o + 1]! - t[7]!,
+      dz = p[o + 2]! - t[11]!;
+    let rr = 0;
+    for (let j = 0; j < 9; j++) {
+      const e = p[o + 3 + j]! - r[j]!;
+      rr += e * e;
+    }
+    d[k] = dx * dx + dy * dy + dz * dz + lib.rotationWeightM2 * rr;
+    lib.order[k] = k;
+  }
+  const idx = Array.from(lib.order).sort((a, b) => d[a]! - d[b]!);
+  return idx.slice(0, count).map((k) => lib.q.slice(k * m, k * m + m));
 }
 
 /** Joint span used for seeds: the range, at most one turn (or ±2 m for a prismatic joint). */
@@ -101,7 +171,7 @@ function numericSeeds(chain: Chain): Float64Array[] {
   const m = chain.drivenCount;
   const zero = new Float64Array(m);
   for (let i = 0; i < m; i++) zero[i] = Math.min(chain.upperSi[i]!, Math.max(chain.lowerSi[i]!, 0));
-  const seeds = [zero];
+  const seeds: Float64Array[] = [zero];
   const point = (k: number, fixed: number, value: number): Float64Array => {
     const q = new Float64Array(m);
     for (let i = 0; i < m; i++) {
@@ -162,10 +232,11 @@ export function solveTarget(ctx: ReachContext, baseFromFlange: Float64Array): Ta
   };
   const closedCount = ctx.closed ? solveSphericalWristInto(ctx.work, ctx.closed, baseFromFlange) : -1;
   if (closedCount >= 0) {
-    for (let k = 0; k < closedCount; k++) add(ctx.work.slice(6 * k, 6 * k + 6));
+    for (let k = 0; k < closedCount; k++) add(Float64Array.from(ctx.work.subarray(6 * k, 6 * k + 6)));
   } else {
     const q = new Float64Array(m);
-    for (const seed of ctx.seeds) if (solveIkInto(q, chain, baseFromFlange, seed, ctx.ik, SOLVE_IK)) add(q);
+    const near = ctx.library ? nearestSeeds(ctx.library, m, baseFromFlange, LIBRARY_SEEDS) : [];
+    for (const seed of [...ctx.seeds, ...near]) if (solveIkInto(q, chain, baseFromFlange, seed, ctx.ik, SOLVE_IK)) add(q);
   }
   if (base.length === 0) return { solutions: [], reason: noReachReason(ctx, baseFromFlange) };
   return { solutions: withVariants(chain, base), reason: null };
@@ -223,11 +294,11 @@ function noReachReason(ctx: ReachContext, t: Float64Array): NoReachReason {
   const m = ctx.chain.drivenCount;
   const found: Float64Array[] = [];
   const count = ctx.openClosed ? solveSphericalWristInto(ctx.work, ctx.openClosed, t) : -1;
-  for (let k = 0; k < count; k++) found.push(ctx.work.slice(6 * k, 6 * k + 6));
+  for (let k = 0; k < count; k++) found.push(Float64Array.from(ctx.work.subarray(6 * k, 6 * k + 6)));
   if (count < 0) {
     const q = new Float64Array(m);
     for (const seed of ctx.openSeeds)
-      if (solveIkInto(q, ctx.open, t, seed, ctx.openIk, SOLVE_IK)) found.push(q.slice());
+      if (solveIkInto(q, ctx.open, t, seed, ctx.openIk, SOLVE_IK)) found.push(Float64Array.from(q));
   }
   for (const q of found) {
     canonicalInto(ctx.chain, q);
@@ -246,4 +317,53 @@ function noReachReason(ctx: ReachContext, t: Float64Array): NoReachReason {
     }
   }
   return { kind: "out-of-reach" };
+}
+
+/** Smallest distance of a revolute joint to a range end, rad (Infinity without revolute joints). */
+export function revoluteMarginRad(chain: Chain, q: ArrayLike<number>): number {
+  let margin = Infinity;
+  for (let i = 0; i < chain.drivenCount; i++) {
+    if (chain.isPrismatic[chain.drivenJoint[i]!]) continue;
+    margin = Math.min(margin, q[i]! - chain.lowerSi[i]!, chain.upperSi[i]! - q[i]!);
+  }
+  return margin;
+}
+
+/**
+ * Whether the flange pose is reachable inside the ranges, and the largest smallest-joint margin over the solutions
+ * found (rad): the closed form gives every solution; the numeric solver starts from `hints` (solutions at nearby
+ * poses) first, then the zero pose and every `stride`-th seed, and stops at the first solution when `firstOnly`.
+ * Cheaper than solveTarget (no variants, no reason): for maps over many poses.
+ */
+export function reachMargin(
+  ctx: ReachContext,
+  baseFromFlange: Float64Array,
+  hints: readonly Float64Array[],
+  stride: number,
+  out: Float64Array,
+): number | null {
+  const chain = ctx.chain,
+    m = chain.drivenCount;
+  let best: number | null = null;
+  const consider = (q: ArrayLike<number>) => {
+    const margin = revoluteMarginRad(chain, q);
+    if (best === null || margin > best) {
+      best = margin;
+      for (let i = 0; i < m; i++) out[i] = q[i]!;
+    }
+  };
+  const count = ctx.closed ? solveSphericalWristInto(ctx.work, ctx.closed, baseFromFlange) : -1;
+  if (count >= 0) {
+    for (let k = 0; k < count; k++) consider(ctx.work.subarray(6 * k, 6 * k + 6));
+    return best;
+  }
+  const q = new Float64Array(m);
+  for (const h of hints) if (solveIkInto(q, chain, baseFromFlange, h, ctx.ik, SOLVE_IK)) consider(q);
+  if (best !== null) return best;
+  for (let k = 0; k < ctx.seeds.length; k += k === 0 ? 1 : stride)
+    if (solveIkInto(q, chain, baseFromFlange, ctx.seeds[k]!, ctx.ik, SOLVE_IK)) {
+      consider(q);
+      return best;
+    }
+  return best;
 }

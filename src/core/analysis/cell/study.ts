@@ -10,12 +10,18 @@
 import type { Chain } from "../../kinematics/chain";
 import type { PayloadSpec } from "../payload";
 import { cellSetup, type CellSetup } from "./setup";
-import { createReachContext, sameSolution, solveTarget, type TargetReach } from "./reach";
-import { createFollowContext, firstRangeViolation, followLinear, type FollowResult } from "./pathFollow";
+import { createReachContext, sameSolution, solveTarget, type ReachContext, type TargetReach } from "./reach";
+import {
+  createFollowContext,
+  firstRangeViolation,
+  followLinear,
+  type FollowContext,
+  type FollowResult,
+} from "./pathFollow";
 import { planLoop, type Plan } from "./plan";
 import { timeJointMove, timeLinearMove, type JointMoveDetail, type LinearMoveDetail } from "./moveTiming";
 import { targetMargins, type TargetMargins } from "./margins";
-import { cellToolLoads, type CellToolLoad } from "./load";
+import { cellToolLoads, type ToolLoadJson } from "./load";
 import type { CellSpec } from "./types";
 import { mToMm, radToDeg } from "../../units";
 import { transformPointInto } from "../../math/mat4";
@@ -68,7 +74,7 @@ export interface CellArmJson {
   /** 1 for the fastest passing arm; null for a failing one. */
   readonly rank: number | null;
   readonly placement: { readonly positionMm: number[]; readonly rpyDeg: number[]; readonly mounting: string };
-  readonly toolLoad: CellToolLoad[];
+  readonly toolLoad: ToolLoadJson[];
   readonly targets: CellTargetJson[];
   readonly moves: CellMoveJson[];
   readonly cycleTimeS: number | null;
@@ -92,6 +98,29 @@ export function cellStudy(cell: CellSpec, arms: readonly CellArm[]): CellStudyJs
 }
 
 const round = (v: number, digits: number) => Number(v.toFixed(digits));
+
+// Solver set-ups per chain, kept while the chain lives: a study recomputed in the browser editor, or at each position
+// of a placement map, does not build them again. They hold work buffers only; results do not depend on them.
+const reachContexts = new WeakMap<Chain, ReachContext>();
+const followContexts = new WeakMap<Chain, FollowContext>();
+
+function reachContextOf(chain: Chain): ReachContext {
+  let ctx = reachContexts.get(chain);
+  if (!ctx) {
+    ctx = createReachContext(chain);
+    reachContexts.set(chain, ctx);
+  }
+  return ctx;
+}
+
+function followContextOf(chain: Chain): FollowContext {
+  let ctx = followContexts.get(chain);
+  if (!ctx) {
+    ctx = createFollowContext(chain);
+    followContexts.set(chain, ctx);
+  }
+  return ctx;
+}
 
 function drivenName(chain: Chain, i: number): string {
   return chain.jointNames[chain.drivenJoint[i]!]!;
@@ -124,7 +153,7 @@ function studyArm(cell: CellSpec, arm: CellArm): Omit<CellArmJson, "rank"> & { r
     reasons.push(`placement implies ${setup.mounting} mounting; the arm file lists ${arm.facts.mountings.join(", ")}`);
   const toolLoad = cellToolLoads(cell, chain, arm.facts);
   for (const t of toolLoad) reasons.push(...t.problems);
-  const reachCtx = createReachContext(chain);
+  const reachCtx = reachContextOf(chain);
   const reach = setup.targets.map((t) => solveTarget(reachCtx, t.baseFromFlange));
   reach.forEach((r, k) => {
     if (!r.solutions.length) reasons.push(`${setup.targets[k]!.name}: ${reasonText(r, chain)}`);
@@ -132,7 +161,9 @@ function studyArm(cell: CellSpec, arm: CellArm): Omit<CellArmJson, "rank"> & { r
   const plan = planCycle(cell, setup, chain, reach);
   const moves = movesJson(cell, setup, chain, plan);
   moves.forEach((mv) => {
-    if (!mv.feasible && mv.problem && reach[setup.stepTarget[mv.step - 1]!]!.solutions.length)
+    const n = setup.stepTarget.length;
+    const ends = [setup.stepTarget[(mv.step - 2 + n) % n]!, setup.stepTarget[mv.step - 1]!];
+    if (!mv.feasible && mv.problem && ends.every((k) => reach[k]!.solutions.length))
       reasons.push(
         `move ${mv.step} (${mv.from} → ${mv.to}, ${mv.motion}): ${mv.problem.kind}${mv.problem.joint ? ` of ${mv.problem.joint}` : ""} at (${mv.problem.positionMm.join(", ")}) mm`,
       );
@@ -182,7 +213,7 @@ interface FollowFailure {
 /** Plans the loop: joint moves timed directly, linear moves followed (once per start modulo whole turns) and timed. */
 function planCycle(cell: CellSpec, setup: CellSetup, chain: Chain, reach: readonly TargetReach[]): CellPlan {
   const m = chain.drivenCount;
-  const followCtx = createFollowContext(chain);
+  const followCtx = followContextOf(chain);
   const cache = new Map<string, { follow: FollowResult; canonical: Float64Array; timing: LinearMoveDetail | null }>();
   const steps = cell.cycle.map((s, i) => ({ motion: s.motion, target: setup.stepTarget[i]! }));
   const prevTarget = (i: number) => setup.stepTarget[(i - 1 + steps.length) % steps.length]!;
@@ -226,13 +257,13 @@ function planCycle(cell: CellSpec, setup: CellSetup, chain: Chain, reach: readon
             number,
             number,
           ];
-          return { timeS: null, qEnd: null, detail: { kind, positionM, joint } };
+          return { timeS: null, qEnd: null, detail: { kind, positionM, joint } as LinearMoveDetail | FollowFailure };
         };
         if (violation) return failAt("joint-limit", violation.stage / (f.stages - 1), violation.joint);
         if (f.problem) return failAt(f.problem.kind, f.problem.fraction, f.problem.joint);
         if (!entry.timing || entry.timing.timeS === null) return failAt("singularity", 0.5, -1);
         const qEnd = f.qEnd!.map((v, j) => v + offset[j]!);
-        return { timeS: entry.timing.timeS, qEnd, detail: entry.timing };
+        return { timeS: entry.timing.timeS, qEnd, detail: entry.timing as LinearMoveDetail | FollowFailure };
       },
       same: (a, b) => sameSolution(a, b, m),
     },

@@ -86,7 +86,7 @@ function marginAt(p: Probe, placement: PlacementSpec, x: number, y: number, z: n
   for (let t = 0; t < p.cellFromTcp.length; t++) {
     mul4Into(p.baseFromTcp, p.baseFromCell, p.cellFromTcp[t]!);
     mul4Into(p.baseFromFlange, p.baseFromTcp, p.tcpFromFlange);
-    const margin = reachMargin(p.ctx, p.baseFromFlange, p.hints[t]!, 4, p.q);
+    const margin = reachMargin(p.ctx, p.baseFromFlange, p.hints[t]!, 1, p.q);
     if (margin === null) return null;
     const hints = p.hints[t]!;
     hints.unshift(Float64Array.from(p.q));

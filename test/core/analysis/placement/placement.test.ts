@@ -87,9 +87,10 @@ describe("placementMap on a SCARA with the tool down", () => {
   });
 
   it("one target: the feasible region is the arm's reach set mirrored about the target, the annulus π(R² − r²)", () => {
-    const map = placementMap(cellWith([[0.2, -0.1]]), scaraArm(), { gridMm: 10 });
+    const map = placementMap(cellWith([[0.2, -0.1]]), scaraArm(), { gridMm: 20 });
     const exact = Math.PI * (R_OUT * R_OUT - R_IN * R_IN);
-    expect(Math.abs(map.feasibleAreaM2 - exact) / exact).toBeLessThan(0.02);
+    // Grid counting at 20 mm: 3 % (twice the spacing of the test above, about twice the relative error).
+    expect(Math.abs(map.feasibleAreaM2 - exact) / exact).toBeLessThan(0.03);
     // Mirror symmetry about the target: (x, y) feasible ⇔ (2·tx − x, 2·ty − y) feasible, away from the boundary.
     map.yMm.forEach((y, r) =>
       map.xMm.forEach((x, c) => {
