@@ -19,3 +19,18 @@ export { STANDARD_CYCLE_MOVES } from "./analysis/cycle/cycle";
 export * from "./kinematics/toolOrientation";
 export * from "./analysis/line";
 export * from "./analysis/standardLines/standardLines";
+export type { PayloadInput, PayloadSpec, WristLever, WristRating } from "./analysis/payload/input";
+export { payloadInputOf } from "./analysis/payload/input";
+export type {
+  BodySpec,
+  CellRequirementsSpec,
+  CellSpec,
+  CycleStepSpec,
+  InertiaSpec,
+  PlacementSpec,
+  TargetSpec,
+} from "./analysis/cell/types";
+export * from "./analysis/cell/targets";
+export * from "./analysis/cell/grip";
+export * from "./analysis/cell/toolLoad";
+export { symmetricEigenvalues3 } from "./math/sym3";
