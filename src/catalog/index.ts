@@ -2,3 +2,4 @@ export * from "./schema";
 export * from "./issues";
 export * from "./validate";
 export * from "./load";
+export * from "./cell";

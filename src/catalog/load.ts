@@ -1,11 +1,12 @@
 /** Loads arm files from disk, validates them and builds the catalog. Node-only (fs, crypto); no Astro. */
-import { readFile, readdir, stat } from "node:fs/promises";
+import { readdir, stat } from "node:fs/promises";
 import { createHash } from "node:crypto";
 import { basename, dirname, join, relative, resolve } from "node:path";
 import type { Chain } from "../core";
 import type { ArmSpec } from "./schema";
 import { type ArmIssue, formatIssue } from "./issues";
 import { plausibilityWarnings, validateArm } from "./validate";
+import { checkSchemaRef, readJsonFile } from "./jsonFile";
 
 export interface Arm {
   readonly id: string;
@@ -41,24 +42,6 @@ export function specHashOf(data: unknown): string {
   return createHash("sha256").update(canonicalJson(data)).digest("hex");
 }
 
-function lineColumn(text: string, position: number): string {
-  const before = text.slice(0, position);
-  const line = before.split("\n").length;
-  const column = position - before.lastIndexOf("\n");
-  return `line ${line}, column ${column}`;
-}
-
-/** The first word outside string literals that is not true, false, null or a number (NaN, Infinity, undefined…). */
-function firstBareWord(text: string): { index: number; word: string } | null {
-  const token = /"(?:[^"\\]|\\.)*"?|[A-Za-z_$][\w$]*|-?\d[\d.eE+-]*/g;
-  for (let m = token.exec(text); m; m = token.exec(text)) {
-    const w = m[0];
-    if (w.startsWith('"') || /^[-\d]/.test(w) || w === "true" || w === "false" || w === "null") continue;
-    return { index: m.index, word: w };
-  }
-  return null;
-}
-
 export interface LoadedFile {
   readonly arm: Arm | null;
   readonly issues: ArmIssue[];
@@ -70,52 +53,15 @@ export interface LoadedFile {
 
 /** Reads and validates one arm file. Never throws for bad data: problems come back as issues. */
 export async function loadArmFile(path: string): Promise<LoadedFile> {
-  const file = relative(process.cwd(), path) || path;
-  const err = (p: string, message: string): LoadedFile => ({
-    arm: null,
-    issues: [{ file, path: p, message, severity: "error" }],
-  });
-  let bytes: Buffer;
-  try {
-    const info = await stat(path);
-    if (!info.isFile()) return err("", "expected a JSON file, found a directory or other non-file");
-    bytes = await readFile(path);
-  } catch (e) {
-    return err("", `cannot read the file: ${(e as NodeJS.ErrnoException).code ?? String(e)}`);
-  }
-  let text: string;
-  try {
-    text = new TextDecoder("utf-8", { fatal: true }).decode(bytes);
-  } catch {
-    return err("", "expected UTF-8 text, found bytes that are not valid UTF-8 (save the file as UTF-8)");
-  }
-  if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
-  if (text.trim() === "") return err("", "expected a JSON object describing one arm, found an empty file");
-  let data: unknown;
-  try {
-    data = JSON.parse(text);
-  } catch (e) {
-    // V8 names an unexpected letter without its position and quotes a multi-line excerpt: locate the bare word.
-    const msg = (e instanceof Error ? e.message : String(e)).replace(/, (?:\.\.\.)?"[\s\S]*is not valid JSON$/, "");
-    const pos = /position (\d+)/.exec(msg);
-    const at = pos ? Number(pos[1]) : /^Unexpected token/.test(msg) ? firstBareWord(text)?.index : undefined;
-    const word = at === undefined ? undefined : /^[A-Za-z_$][\w$]*/.exec(text.slice(at))?.[0];
-    const where = at !== undefined ? ` at ${lineColumn(text, at)}` : "";
-    const truncated = /end of JSON input|Unterminated/.test(msg) ? " (the file looks truncated)" : "";
-    const reason =
-      word === "NaN" || word === "Infinity"
-        ? `${msg}: ${word} is not a JSON number (JSON has no NaN or Infinity: write a finite number, or leave an optional field out)`
-        : word && !pos
-          ? `${msg}: found the bare word ${word} (text must be in double quotes)`
-          : msg;
-    return err("", `expected valid JSON, found a syntax error${where}${truncated}: ${reason}`);
-  }
+  const read = await readJsonFile(path, "one arm");
+  if (!read.ok) return { arm: null, issues: read.issues };
+  const { file, data } = read;
   const fileId = basename(path).replace(/\.json$/i, "");
   const result = validateArm(data, file, fileId);
   const issues: ArmIssue[] = [...result.issues, ...(result.ok ? plausibilityWarnings(result.spec, file) : [])];
   const schemaRef = (data as { $schema?: unknown } | null)?.$schema;
   if (typeof schemaRef === "string") {
-    const problem = await checkSchemaRef(schemaRef, dirname(path));
+    const problem = await checkSchemaRef(schemaRef, dirname(path), "arm", "../public/schema/arm.schema.json");
     if (problem) issues.push({ file, path: "$schema", message: problem, severity: "error" });
   }
   const declared = (data as { id?: unknown } | null)?.id;
@@ -137,23 +83,8 @@ export async function loadArmFile(path: string): Promise<LoadedFile> {
   };
 }
 
-async function checkSchemaRef(ref: string, baseDir: string): Promise<string | null> {
-  if (/^https?:\/\//.test(ref)) {
-    return ref.endsWith("/arm.schema.json")
-      ? null
-      : `expected a URL ending in /arm.schema.json, found ${JSON.stringify(ref)}`;
-  }
-  const target = resolve(baseDir, ref.replace(/^file:\/\//, "").split("#")[0]!);
-  try {
-    if ((await stat(target)).isFile()) return null;
-  } catch {
-    /* fall through */
-  }
-  return `expected a path to the arm JSON Schema (e.g. "../public/schema/arm.schema.json"), found ${JSON.stringify(ref)}, which points to no file`;
-}
-
 /** Expands folders to the `*.json` entries directly inside them (a folder named `x.json` is reported, not read). */
-async function expandPaths(paths: readonly string[]): Promise<{ files: string[]; issues: ArmIssue[] }> {
+export async function expandPaths(paths: readonly string[]): Promise<{ files: string[]; issues: ArmIssue[] }> {
   const files: string[] = [];
   const issues: ArmIssue[] = [];
   for (const p of paths) {

@@ -11,7 +11,8 @@ type Loose = Record<string, unknown>;
 const isObject = (v: unknown): v is Loose => typeof v === "object" && v !== null && !Array.isArray(v);
 const isNumber = (v: unknown): v is number => typeof v === "number" && Number.isFinite(v);
 
-function zodIssueMessage(issue: $ZodIssue): string {
+/** One zod issue as "expected …, found …"; `format` names the file format in unknown-field messages. */
+export function zodIssueMessage(issue: $ZodIssue, format = "arm"): string {
   const input = (issue as { input?: unknown }).input;
   switch (issue.code) {
     case "invalid_type": {
@@ -28,7 +29,7 @@ function zodIssueMessage(issue: $ZodIssue): string {
       if (issue.format === "date") return `expected a calendar date as YYYY-MM-DD, found ${describeValue(input)}`;
       return `${issue.message}, found ${describeValue(input)}`;
     case "unrecognized_keys":
-      return `unknown field${issue.keys.length > 1 ? "s" : ""} ${issue.keys.map((k) => JSON.stringify(k)).join(", ")}: not part of the arm format (check spelling and the unit in the name)`;
+      return `unknown field${issue.keys.length > 1 ? "s" : ""} ${issue.keys.map((k) => JSON.stringify(k)).join(", ")}: not part of the ${format} format (check spelling and the unit in the name)`;
     case "invalid_value":
       return `expected one of ${issue.values.map((v) => JSON.stringify(v)).join(", ")}, found ${describeValue(input)}`;
     case "too_small":
@@ -45,6 +46,31 @@ function zodIssueMessage(issue: $ZodIssue): string {
 }
 
 /**
+ * zod issues as path and message pairs: a value of the wrong type gets one message (not also its size checks, nor at
+ * the root the schema's own when the file is no object: the caller says that); one message per unknown key, at the
+ * key's own path. `format` names the file format ("arm", "cell").
+ */
+export function schemaIssueMessages(issues: readonly $ZodIssue[], data: unknown, format = "arm"): PathMessage[] {
+  const out: PathMessage[] = [];
+  const wrongType = new Set(issues.filter((i) => i.code === "invalid_type").map((i) => toPath(i.path)));
+  for (const issue of issues) {
+    const at = toPath(issue.path);
+    if (issue.code !== "invalid_type" && wrongType.has(at)) continue;
+    if (at === "" && !isObject(data)) continue;
+    if (issue.code === "unrecognized_keys") {
+      for (const key of issue.keys)
+        out.push({
+          path: toPath([...issue.path, key]),
+          message: `unknown field: not part of the ${format} format (check the spelling and the unit in the name)`,
+        });
+    } else {
+      out.push({ path: at, message: zodIssueMessage(issue, format) });
+    }
+  }
+  return out;
+}
+
+/**
  * Validates one parsed arm file: the schema, then the cross-field rules, then compilation into a chain.
  * Reports every issue found, not only the first. `fileId` is the file name without `.json`.
  */
@@ -52,25 +78,7 @@ export function validateArm(data: unknown, file: string, fileId: string): Valida
   const issues: ArmIssue[] = [];
   const error = (path: string, message: string) => issues.push({ file, path, message, severity: "error" });
   const parsed = ArmSpecSchema.safeParse(data, { reportInput: true });
-  if (!parsed.success) {
-    // A value of the wrong type gets one message: not also its size checks, nor (at the root) the schema's own.
-    const wrongType = new Set(parsed.error.issues.filter((i) => i.code === "invalid_type").map((i) => toPath(i.path)));
-    for (const issue of parsed.error.issues) {
-      const at = toPath(issue.path);
-      if (issue.code !== "invalid_type" && wrongType.has(at)) continue;
-      if (at === "" && !isObject(data)) continue;
-      if (issue.code === "unrecognized_keys") {
-        // One issue per unknown key, at the key's own path.
-        for (const key of issue.keys)
-          error(
-            toPath([...issue.path, key]),
-            "unknown field: not part of the arm format (check the spelling and the unit in the name)",
-          );
-      } else {
-        error(toPath(issue.path), zodIssueMessage(issue));
-      }
-    }
-  }
+  if (!parsed.success) for (const i of schemaIssueMessages(parsed.error.issues, data)) error(i.path, i.message);
   for (const s of semanticIssues(data)) error(s.path, s.message);
   if (isObject(data) && typeof data.id === "string" && data.id !== fileId) {
     error(
@@ -89,7 +97,8 @@ export function validateArm(data: unknown, file: string, fileId: string): Valida
   return { ok: true, spec: parsed.data, chain, issues };
 }
 
-function dedupe(issues: ArmIssue[]): ArmIssue[] {
+/** Drops repeated (path, message) pairs, keeping the first. */
+export function dedupe(issues: ArmIssue[]): ArmIssue[] {
   const seen = new Set<string>();
   return issues.filter((i) => {
     const key = `${i.path}\u0000${i.message}`;
@@ -99,7 +108,7 @@ function dedupe(issues: ArmIssue[]): ArmIssue[] {
   });
 }
 
-interface PathMessage {
+export interface PathMessage {
   readonly path: string;
   readonly message: string;
 }

@@ -1,17 +1,18 @@
 /**
  * armdex command line: thin entry points over the catalog and the core.
- *   armdex check [paths…]                         validate arm files or folders (default: arms/)
+ *   armdex check [paths…]                         validate arm and cell files or folders (default: arms/, arms/cells/)
  *   armdex pose <arm.json> --joints q1,q2,… [--tool x,y,z] [--allow-outside]
  *   armdex line <arm.json> --from x,y,z --to x,y,z --orientation down|outward|r,p,y --speed mm/s [--start-joints q1,…] [--tool x,y,z] [--samples N]
  *   armdex import urdf <file.urdf> --root <link> --tip <link> --id <id> [--merge <datasheet.json>]
  *   armdex export urdf <arm.json>
- *   armdex schema [out.json]                      write the JSON Schema of the arm format
+ *   armdex schema [arm.json [cell.json]]          write the JSON Schemas of the arm and cell formats
  * Exit codes: 0 success, 1 invalid arm data, 2 usage error.
  */
 import { parseArgs } from "node:util";
 import { writeFileAtomic } from "../catalog/files";
 import { analysisWarningText } from "../view/warningText";
-import { armJsonSchema, formatIssue, loadArmFile, loadArms, type LoadResult } from "../catalog";
+import { armJsonSchema, cellJsonSchema, formatIssue, loadArmFile, loadArms, type LoadResult } from "../catalog";
+import { checkPaths, reportCheck } from "./check";
 import { joinNegativeValues } from "./args";
 import { POSE_OPTIONS, poseCommand } from "./pose";
 import { LINE_OPTIONS, lineCommand } from "./line";
@@ -28,7 +29,9 @@ function defaultArmsDir(): string {
 const HELP = `armdex — arm catalog tools
 
 usage:
-  armdex check [paths…]          validate arm files or folders (default: arms/); exit 1 on any error
+  armdex check [paths…]          validate arm and cell files or folders (default: arms/ and arms/cells/); exit 1
+                                 on any error. A cell is checked against the arms of the run, or of the default
+                                 folder (ARMDEX_ARMS_DIR or arms/) when the run names no arm folder
   armdex pose <arm.json> --joints q1,q2,… [--tool x,y,z] [--allow-outside]
                                  pose, Jacobian and singular values as JSON (joints in deg or mm; tool in mm)
   armdex analyze <arm.json>      the arm's full analysis as JSON (envelope, speed maps, singularities, payload, cycle)
@@ -43,29 +46,15 @@ usage:
                                  merge file adds what URDF lacks (maker, model, ratings…); what the check still
                                  misses goes to stderr. Xacro files must be expanded to URDF first
   armdex export urdf <arm.json>  the URDF of the arm's kinematic chain (SI units, no meshes) on stdout
-  armdex schema [out.json]       write the arm JSON Schema (default: public/schema/arm.schema.json)
-  armdex prepare [folder]        schema, check and analyze --all in one pass (each arm file read once): the
-                                 first step of \`npm run build\`
+  armdex schema [arm.json [cell.json]]
+                                 write the arm and cell JSON Schemas (default: public/schema/arm.schema.json and
+                                 public/schema/cell.schema.json; with one path, only the arm schema)
+  armdex prepare [folder]        schemas, check (arms and cells) and analyze --all in one pass (each arm file read
+                                 once): the first step of \`npm run build\`
 `;
 
 async function check(paths: string[], json: boolean): Promise<number> {
-  return reportCheck(await loadArms(paths.length ? paths : [defaultArmsDir()]), json);
-}
-
-/** Prints a load result as `armdex check` does; 1 when any file has an error. */
-function reportCheck({ arms, issues }: LoadResult, json: boolean): number {
-  const errors = issues.filter((i) => i.severity === "error");
-  const warnings = issues.filter((i) => i.severity === "warning");
-  if (json) {
-    process.stdout.write(`${JSON.stringify({ valid: arms.map((a) => a.id), errors, warnings }, null, 2)}\n`);
-  } else {
-    for (const i of issues) (i.severity === "error" ? process.stderr : process.stdout).write(`${formatIssue(i)}\n`);
-    process.stdout.write(
-      `${arms.length} arm${arms.length === 1 ? "" : "s"} valid; ${errors.length} error${errors.length === 1 ? "" : "s"}` +
-        `${errors.length ? ` in ${new Set(errors.map((e) => e.file)).size} file(s)` : ""}, ${warnings.length} warning${warnings.length === 1 ? "" : "s"}\n`,
-    );
-  }
-  return errors.length > 0 ? 1 : 0;
+  return reportCheck(await checkPaths(paths, defaultArmsDir()), json);
 }
 
 /** Analyses every arm of a load result into the cache (parallel workers), printing the counts and the warnings. */
@@ -85,19 +74,24 @@ async function analyseAll(arms: LoadResult["arms"], workers: number | undefined)
 
 /**
  * `armdex prepare`: what the site build needs before Astro runs, with each arm file read and validated once:
- * the JSON Schema, the check of every arm file (stops at the first error), the analyses (cached, in parallel).
+ * the JSON Schemas, the check of every arm file and of every cell file in the folder's `cells/` (any error stops
+ * the build before anything is published), the analyses (cached, in parallel).
  */
 async function prepare(paths: string[], workers: number | undefined): Promise<number> {
-  const loaded = await loadArms(paths.length ? paths : [defaultArmsDir()]);
-  await schema(undefined);
+  const loaded = await checkPaths(paths, defaultArmsDir());
+  await schema([]);
   if (reportCheck(loaded, false) !== 0) return 1;
-  return analyseAll(loaded.arms, workers);
+  return analyseAll(loaded.arms.arms, workers);
 }
 
-async function schema(out: string | undefined): Promise<number> {
-  const path = out ?? "public/schema/arm.schema.json";
-  await writeFileAtomic(path, `${JSON.stringify(armJsonSchema(), null, 2)}\n`);
-  process.stdout.write(`wrote ${path}\n`);
+/** Writes the arm and cell JSON Schemas; with one path, only the arm schema (to that path). */
+async function schema(out: readonly string[]): Promise<number> {
+  const targets: [string, Record<string, unknown>][] = [[out[0] ?? "public/schema/arm.schema.json", armJsonSchema()]];
+  if (out.length !== 1) targets.push([out[1] ?? "public/schema/cell.schema.json", cellJsonSchema()]);
+  for (const [path, json] of targets) {
+    await writeFileAtomic(path, `${JSON.stringify(json, null, 2)}\n`);
+    process.stdout.write(`wrote ${path}\n`);
+  }
   return 0;
 }
 
@@ -193,7 +187,8 @@ export async function main(argv: string[]): Promise<number> {
       return out.code;
     }
     case "schema":
-      return schema(rest[0]);
+      if (rest.length > 2) throw new UsageError("schema takes at most two paths: the arm schema, the cell schema");
+      return schema(rest);
     case "prepare": {
       const { values, positionals } = parseArgs({
         args: rest,

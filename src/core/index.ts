@@ -19,7 +19,21 @@ export { STANDARD_CYCLE_MOVES } from "./analysis/cycle/cycle";
 export * from "./kinematics/toolOrientation";
 export * from "./analysis/line";
 export * from "./analysis/standardLines/standardLines";
-export * from "./analysis/cell/types";
+export type { PayloadInput, PayloadSpec, WristLever, WristRating } from "./analysis/payload/input";
+export { payloadInputOf } from "./analysis/payload/input";
+export type {
+  BodySpec,
+  CellRequirementsSpec,
+  CellSpec,
+  CycleStepSpec,
+  InertiaSpec,
+  PlacementSpec,
+  TargetSpec,
+} from "./analysis/cell/types";
+export * from "./analysis/cell/targets";
+export * from "./analysis/cell/grip";
+export * from "./analysis/cell/toolLoad";
+export { symmetricEigenvalues3 } from "./math/sym3";
 export * from "./analysis/cell/study";
 export * from "./analysis/placement/placement";
 export type { PlacementBest } from "./analysis/placement/fastest";

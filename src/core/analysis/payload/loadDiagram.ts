@@ -113,8 +113,12 @@ export function maxLeverM(momentNm: number, massKg: number, gravityMPerS2 = STAN
   return momentNm / (massKg * gravityMPerS2);
 }
 
-/** Lever of one rating at CG offset (Lxy, Lz), m. */
-function leverM(lever: WristLever, lxyM: number, lzM: number): number {
+/**
+ * Lever of one rating at CG offset (Lxy, Lz), m: roll Lxy + e; bending √((d + Lz)² + (e + Lxy)²) (module notes).
+ * @example leverM({ kind: "bend", pivotBehindFlangeM: 0.1, pivotOffAxisM: 0, basis: "wrist-centre" }, 0.03, 0.3)
+ *   // √(0.4² + 0.03²) = 0.401123… m
+ */
+export function leverM(lever: WristLever, lxyM: number, lzM: number): number {
   return lever.kind === "roll"
     ? lxyM + lever.pivotOffAxisM
     : Math.hypot(lever.pivotBehindFlangeM + lzM, lever.pivotOffAxisM + lxyM);
