@@ -7,6 +7,7 @@
 import type { Mounting } from "../../kinematics/statics";
 import { fromXyzRpyInto, invertRigidInto, mat4, mul4Into } from "../../math/mat4";
 import { degToRad, mmToM, STANDARD_GRAVITY_M_PER_S2 } from "../../units";
+import { gripWalk } from "./grip";
 import { resolveTargets } from "./targets";
 import type { CellSpec, PlacementSpec } from "./types";
 
@@ -61,22 +62,6 @@ export function mountingOf(cellFromBase: Float64Array): Mounting {
   return "angled";
 }
 
-/** Part carried during and after each step: the loop is walked twice so that it starts as it ends. */
-export function carriedParts(cell: CellSpec): { during: (string | null)[]; after: (string | null)[] } {
-  let carrying: string | null = null;
-  const during: (string | null)[] = [],
-    after: (string | null)[] = [];
-  for (let pass = 0; pass < 2; pass++) {
-    cell.cycle.forEach((step, i) => {
-      during[i] = carrying;
-      if (step.release) carrying = null;
-      if (step.grip) carrying = step.grip;
-      after[i] = carrying;
-    });
-  }
-  return { during, after };
-}
-
 /** The cell seen from arm `armId` (its own placement when the cell gives one). */
 export function cellSetup(cell: CellSpec, armId: string): CellSetup {
   const placement = cell.placements?.[armId] ?? cell.placement;
@@ -102,7 +87,7 @@ export function cellSetup(cell: CellSpec, armId: string): CellSetup {
     if (k < 0) throw new RangeError(`invalid cycle step: unknown target ${s.to}`);
     return k;
   });
-  const { during, after } = carriedParts(cell);
+  const { carryingOnMove, carryingAfter } = gripWalk(cell.cycle);
   return {
     placement,
     cellFromBase,
@@ -112,7 +97,7 @@ export function cellSetup(cell: CellSpec, armId: string): CellSetup {
     flangeFromTcp,
     targets,
     stepTarget,
-    carriedDuring: during,
-    carriedAfter: after,
+    carriedDuring: [...carryingOnMove],
+    carriedAfter: [...carryingAfter],
   };
 }
