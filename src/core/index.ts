@@ -19,3 +19,5 @@ export { STANDARD_CYCLE_MOVES } from "./analysis/cycle/cycle";
 export * from "./kinematics/toolOrientation";
 export * from "./analysis/line";
 export * from "./analysis/standardLines/standardLines";
+export * from "./analysis/cell/jointMove";
+export * from "./analysis/cell/timeOptimal";
