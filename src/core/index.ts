@@ -37,3 +37,5 @@ export { symmetricEigenvalues3 } from "./math/sym3";
 export * from "./analysis/cell/study";
 export * from "./analysis/placement/placement";
 export type { PlacementBest } from "./analysis/placement/fastest";
+export * from "./analysis/cell/jointMove";
+export * from "./analysis/cell/timeOptimal";

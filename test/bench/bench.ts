@@ -7,7 +7,9 @@
  *    start to drawn (compareInteractive.ts), in headless Chromium;
  * 4. a longer fuzz run (test/fuzz/longRun.ts): random valid arms through the whole analysis, property violations;
  * 5. catalog scale: a generated catalog of 300 arm variants built cold, then warm after adding one arm (build time,
- *    peak memory of the build's processes, per-arm analysis time; see scale.ts).
+ *    peak memory of the build's processes, per-arm analysis time; see scale.ts);
+ * 6. cell move timing: per-call cost of the time-optimal timing of a 6-joint, 200-stage path and of a synchronised
+ *    joint move (cellTiming.ts); run second, right after the analysis stages.
  * Options: --arms <folder> (default arms/), --quick (fewer repetitions, 30 generated arms), --only <ids>,
  * --scale-arms <n> (default 300), --no-scale (skip section 5), --fuzz-runs <n> (default 500, 50 with --quick).
  */
@@ -32,6 +34,7 @@ import { readdirSync, statSync } from "node:fs";
 import { join } from "node:path";
 import { runFuzz } from "../fuzz/longRun";
 import { median } from "./stats";
+import { benchCellTiming } from "./cellTiming";
 
 const { values } = parseArgs({
   options: {
@@ -132,6 +135,16 @@ for (const arm of chosen) {
       `six-axis arms, full analysis: median ${median(six.map((a) => a.ms)).toFixed(0)} ms, slowest ${Math.max(...six.map((a) => a.ms)).toFixed(0)} ms; target 2000 ms each${over.length ? `; over: ${over.map((a) => a.id).join(", ")}` : ", met by all"}`,
     );
   }
+}
+
+// 6. Cell move timing (cheap; run here so the heavy sections below do not disturb it).
+{
+  const r = benchCellTiming(reps);
+  console.log(
+    `\ncell move timing (median per call): time-optimal timing, 6 joints × 200 stages ${r.timeOptimalUs.toFixed(0)} µs ` +
+      `(${r.timeOptimalScratchUs.toFixed(0)} µs with a reused scratch; move ${r.timeS.toFixed(3)} s); ` +
+      `synchronised joint move ${r.jointMoveUs.toFixed(2)} µs`,
+  );
 }
 
 // 3. Demo site: build, page weight, side-by-side page time to interactive.
