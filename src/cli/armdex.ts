@@ -5,6 +5,8 @@
  *   armdex line <arm.json> --from x,y,z --to x,y,z --orientation down|outward|r,p,y --speed mm/s [--start-joints q1,…] [--tool x,y,z] [--samples N]
  *   armdex import urdf <file.urdf> --root <link> --tip <link> --id <id> [--merge <datasheet.json>]
  *   armdex export urdf <arm.json>
+ *   armdex cell <cell.json> [--arms a,b]            cell study of the candidate arms as JSON
+ *   armdex place <cell.json> --arm <id> [--grid-mm 50] [--yaw-step-deg 15]
  *   armdex schema [arm.json [cell.json]]          write the JSON Schemas of the arm and cell formats
  * Exit codes: 0 success, 1 invalid arm data, 2 usage error.
  */
@@ -18,6 +20,7 @@ import { POSE_OPTIONS, poseCommand } from "./pose";
 import { LINE_OPTIONS, lineCommand } from "./line";
 import { stringifyCompact } from "./json";
 import { exportUrdfCommand, importUrdfCommand } from "./urdf";
+import { cellCommand, placeCommand } from "./cell";
 
 export class UsageError extends Error {}
 
@@ -46,6 +49,13 @@ usage:
                                  merge file adds what URDF lacks (maker, model, ratings…); what the check still
                                  misses goes to stderr. Xacro files must be expanded to URDF first
   armdex export urdf <arm.json>  the URDF of the arm's kinematic chain (SI units, no meshes) on stdout
+  armdex cell <cell.json> [--arms a,b]
+                                 cell study as JSON: for each candidate (or the arms named) the tool load against
+                                 its ratings, every target's solutions and margins, the moves with their times and
+                                 problems, the cycle time and a verdict with reasons (mm, deg, s)
+  armdex place <cell.json> --arm <id> [--grid-mm 50] [--yaw-step-deg 15]
+                                 placement map as JSON: base positions on the placement plane from which the arm
+                                 reaches every target, their margins, and the fastest position found
   armdex schema [arm.json [cell.json]]
                                  write the arm and cell JSON Schemas (default: public/schema/arm.schema.json and
                                  public/schema/cell.schema.json; with one path, only the arm schema)
@@ -182,6 +192,14 @@ export async function main(argv: string[]): Promise<number> {
       if (rest[0] !== "urdf") throw new UsageError(`${command} knows one format: ${command} urdf …`);
       const usage = (m: string) => new UsageError(m);
       const out = await (command === "import" ? importUrdfCommand : exportUrdfCommand)(rest.slice(1), usage);
+      process.stdout.write(out.stdout);
+      process.stderr.write(out.stderr);
+      return out.code;
+    }
+    case "cell":
+    case "place": {
+      const usage = (m: string) => new UsageError(m);
+      const out = await (command === "cell" ? cellCommand : placeCommand)(rest, usage);
       process.stdout.write(out.stdout);
       process.stderr.write(out.stderr);
       return out.code;

@@ -31,11 +31,17 @@ export function cellArmOf(arm: Arm): CellArm {
 }
 
 /** Loads the arms and the cell; the output on failure (exit 1: invalid data). */
-async function loadStudy(cellFile: string): Promise<
-  { ok: true; arms: readonly Arm[]; cell: NonNullable<Awaited<ReturnType<typeof loadCellFile>>["cell"]> } | { ok: false; out: CommandOutput }
+async function loadStudy(
+  cellFile: string,
+): Promise<
+  | { ok: true; arms: readonly Arm[]; cell: NonNullable<Awaited<ReturnType<typeof loadCellFile>>["cell"]> }
+  | { ok: false; out: CommandOutput }
 > {
   const { arms, issues } = await loadArms([armsDirFor(cellFile)]);
-  const loaded = await loadCellFile(cellFile, arms.map((a) => a.id));
+  const loaded = await loadCellFile(
+    cellFile,
+    arms.map((a) => a.id),
+  );
   const errors = [...issues, ...loaded.issues].filter((i) => i.severity === "error");
   if (!loaded.cell || errors.length)
     return { ok: false, out: { code: 1, stdout: "", stderr: errors.map((i) => `${formatIssue(i)}\n`).join("") } };
@@ -48,11 +54,17 @@ export async function cellCommand(args: string[], usage: (m: string) => Error): 
   if (positionals.length !== 1) throw usage("cell needs exactly one cell file");
   const loaded = await loadStudy(positionals[0]!);
   if (!loaded.ok) return loaded.out;
-  const ids = values.arms ? values.arms.split(",").map((s) => s.trim()).filter(Boolean) : [...loaded.cell.spec.candidates];
+  const ids = values.arms
+    ? values.arms
+        .split(",")
+        .map((s) => s.trim())
+        .filter(Boolean)
+    : [...loaded.cell.spec.candidates];
   const chosen: Arm[] = [];
   for (const id of ids) {
     const arm = loaded.arms.find((a) => a.id === id);
-    if (!arm) throw usage(`--arms: unknown arm id "${id}" (the catalog has ${loaded.arms.map((a) => a.id).join(", ")})`);
+    if (!arm)
+      throw usage(`--arms: unknown arm id "${id}" (the catalog has ${loaded.arms.map((a) => a.id).join(", ")})`);
     chosen.push(arm);
   }
   const study = cellStudy(loaded.cell.spec, chosen.map(cellArmOf));
@@ -80,14 +92,16 @@ export async function placeCommand(args: string[], usage: (m: string) => Error):
   try {
     gridMm = positiveOption("grid-mm", values["grid-mm"], 50)!;
     yawStepDeg = positiveOption("yaw-step-deg", values["yaw-step-deg"], null);
-    if (yawStepDeg !== null && yawStepDeg > 360) throw new RangeError(`--yaw-step-deg: expected at most 360, got ${yawStepDeg}`);
+    if (yawStepDeg !== null && yawStepDeg > 360)
+      throw new RangeError(`--yaw-step-deg: expected at most 360, got ${yawStepDeg}`);
   } catch (e) {
     throw usage((e as Error).message);
   }
   const loaded = await loadStudy(positionals[0]!);
   if (!loaded.ok) return loaded.out;
   const arm = loaded.arms.find((a) => a.id === values.arm);
-  if (!arm) throw usage(`--arm: unknown arm id "${values.arm}" (the catalog has ${loaded.arms.map((a) => a.id).join(", ")})`);
+  if (!arm)
+    throw usage(`--arm: unknown arm id "${values.arm}" (the catalog has ${loaded.arms.map((a) => a.id).join(", ")})`);
   const map = placementMap(loaded.cell.spec, cellArmOf(arm), { gridMm, yawStepDeg });
   return { code: 0, stdout: `${stringifyCompact(map)}\n`, stderr: "" };
 }

@@ -11,7 +11,7 @@
  * like the end of reach; the caller checks the ranges on the followed path (firstRangeViolation), so one path
  * serves every whole-turn variant of its start. Problems, at the first point where they appear:
  * - "singularity": the inverse condition of the tool-point Jacobian (σ_min/σ_max with linear rows divided by the
- *   characteristic length, as on the sheets) falls below SINGULAR_INVERSE_CONDITION, or, for six joints, det J
+ *   characteristic length, as on the sheets) falls below PATH_SINGULAR_INVERSE_CONDITION, or, for six joints, det J
  *   changes sign between neighbouring points (the path crosses a singular pose between them);
  * - "branch-change": at the smallest step the joints still jump by more than JUMP_RAD (no continuous solution);
  * - "out-of-reach": at the smallest step the solver finds no solution.
@@ -39,6 +39,12 @@ export const MIN_STAGES = 24;
 export const MAX_STAGES = 200;
 export const MAX_JOINT_STEP_RAD = (3 * Math.PI) / 180;
 export const JUMP_RAD = 0.3;
+/**
+ * Inverse condition below which a followed pose counts as singular: the joint rates there are about a thousand times
+ * those of a well-conditioned pose, so the line can only be followed at a crawl. Passing closer to a singular pose
+ * than the sheets' 0.01 is allowed (the timing slows the move down there); crossing one is not.
+ */
+export const PATH_SINGULAR_INVERSE_CONDITION = 1e-3;
 const MAX_HALVINGS = 10;
 
 const FOLLOW_IK: IkOptions = { maxIterations: 20, toleranceM: 1e-8, toleranceRad: 1e-7, task: "full" };
@@ -274,7 +280,7 @@ export function followLinear(ctx: FollowContext, move: LinearMove, qStart: Array
       fCur = fNext;
       probe(ctx, move, cur, pr);
       minCond = Math.min(minCond, pr.cond);
-      if (pr.cond < SINGULAR_INVERSE_CONDITION || (m === 6 && pr.det * lastDet < 0))
+      if (pr.cond < PATH_SINGULAR_INVERSE_CONDITION || (m === 6 && pr.det * lastDet < 0))
         return problemAt("singularity", fCur);
       lastDet = pr.det;
       if (halvings > 0 && jump < MAX_JOINT_STEP_RAD / 4) {

@@ -10,7 +10,8 @@
  * Edges: a joint move from a to b, timed by the caller; a linear move from a to where following the line from a
  *   arrives, timed by the caller, or, when the line cannot be followed from a, an infeasible edge to every solution
  *   (so the rest of the loop is still planned and reported).
- * Cost, compared in order: the number of infeasible moves, then the total time. Dynamic programming over the steps
+ * Cost, compared in order: the number of infeasible moves, then the number of visits at a solution the caller marks
+ * as poor (`statePenalty`: a joint closer to its range end than the cell requires), then the total time. Dynamic programming over the steps
  * for each start state (the loop closes on it), then the best start; ties keep the earlier state (the solutions
  * nearest the zero pose come first).
  * A target without solutions has one placeholder state (null); every move into or out of it is infeasible.
@@ -41,6 +42,8 @@ export interface PlanCallbacks<J, L> {
   linearMove(step: number, a: Float64Array): LinearEdge<L>;
   /** Whether two joint vectors are the same solution. */
   same(a: Float64Array, b: Float64Array): boolean;
+  /** 1 for a solution to avoid at step `step` when there is a choice (default: none), else 0. */
+  statePenalty?(step: number, q: Float64Array): number;
 }
 
 export interface PlannedMove<J, L> {
@@ -58,6 +61,8 @@ export interface PlannedMove<J, L> {
 export interface Plan<J, L> {
   readonly moves: PlannedMove<J, L>[];
   readonly infeasible: number;
+  /** Visits at solutions marked by statePenalty. */
+  readonly penalised: number;
   readonly timeS: number;
 }
 
@@ -65,6 +70,7 @@ interface Edge<J, L> {
   readonly from: number;
   readonly to: number;
   readonly bad: number;
+  readonly soft: number;
   readonly timeS: number;
   readonly move: PlannedMove<J, L>;
 }
@@ -104,6 +110,11 @@ export function planLoop<J, L>(
   return best;
 }
 
+/** Lexicographic order of (infeasible, penalised, time). */
+function better(b1: number, p1: number, t1: number, b2: number, p2: number, t2: number): boolean {
+  return b1 < b2 || (b1 === b2 && (p1 < p2 || (p1 === p2 && t1 < t2 - 1e-12)));
+}
+
 interface Graph<J, L> {
   /** states[i]: states after step i (starts are the states "after step −1"). */
   readonly states: (Float64Array | null)[][];
@@ -119,6 +130,7 @@ function buildGraph<J, L>(
 ): Graph<J, L> {
   const states: (Float64Array | null)[][] = [];
   const edges: Edge<J, L>[][] = [];
+  const penalty = (i: number, q: Float64Array) => (cb.statePenalty ? cb.statePenalty(i, q) : 0);
   let before = starts;
   steps.forEach((step, i) => {
     const sol = solutions[step.target]!;
@@ -130,6 +142,7 @@ function buildGraph<J, L>(
           from,
           to,
           bad: 1,
+          soft: b ? penalty(i, b) : 0,
           timeS: 0,
           move: { step: i, from: a, to: b, timeS: null, feasible: false, linear },
         }),
@@ -145,6 +158,7 @@ function buildGraph<J, L>(
             from,
             to,
             bad: ok ? 0 : 1,
+            soft: penalty(i, b!),
             timeS: e.timeS ?? 0,
             move: { step: i, from: a, to: b, timeS: e.timeS, feasible: ok, joint: e.detail },
           });
@@ -162,6 +176,7 @@ function buildGraph<J, L>(
         from,
         to,
         bad: 0,
+        soft: penalty(i, after[to]!),
         timeS: e.timeS,
         move: { step: i, from: a, to: after[to]!, timeS: e.timeS, feasible: true, linear: e.detail },
       });
@@ -182,22 +197,26 @@ function loopFrom<J, L>(
   same: (a: Float64Array, b: Float64Array) => boolean,
 ): Plan<J, L> | null {
   let bad = [0],
+    soft = [0],
     time = [0];
   let index = [x]; // state indices of the current layer, aligned with bad/time (layer −1: just x)
   const back: Map<number, Edge<J, L>>[] = [];
   let layer = new Map<number, number>([[x, 0]]);
   for (let i = 0; i < n; i++) {
     const nextBad = new Map<number, number>(),
+      nextSoft = new Map<number, number>(),
       nextTime = new Map<number, number>(),
       choice = new Map<number, Edge<J, L>>();
     for (const e of g.edges[i]!) {
       const k = layer.get(e.from);
       if (k === undefined) continue;
       const b = bad[k]! + e.bad,
+        p = soft[k]! + e.soft,
         t = time[k]! + e.timeS;
       const held = nextBad.get(e.to);
-      if (held === undefined || b < held || (b === held && t < nextTime.get(e.to)! - 1e-12)) {
+      if (held === undefined || better(b, p, t, held, nextSoft.get(e.to)!, nextTime.get(e.to)!)) {
         nextBad.set(e.to, b);
+        nextSoft.set(e.to, p);
         nextTime.set(e.to, t);
         choice.set(e.to, e);
       }
@@ -205,6 +224,7 @@ function loopFrom<J, L>(
     back.push(choice);
     index = [...nextBad.keys()];
     bad = index.map((s) => nextBad.get(s)!);
+    soft = index.map((s) => nextSoft.get(s)!);
     time = index.map((s) => nextTime.get(s)!);
     layer = new Map(index.map((s, k) => [s, k]));
   }
@@ -225,5 +245,5 @@ function loopFrom<J, L>(
     s = e.from;
   }
   const k = layer.get(end)!;
-  return { moves, infeasible: bad[k]!, timeS: time[k]! };
+  return { moves, infeasible: bad[k]!, penalised: soft[k]!, timeS: time[k]! };
 }

@@ -236,7 +236,8 @@ export function solveTarget(ctx: ReachContext, baseFromFlange: Float64Array): Ta
   } else {
     const q = new Float64Array(m);
     const near = ctx.library ? nearestSeeds(ctx.library, m, baseFromFlange, LIBRARY_SEEDS) : [];
-    for (const seed of [...ctx.seeds, ...near]) if (solveIkInto(q, chain, baseFromFlange, seed, ctx.ik, SOLVE_IK)) add(q);
+    for (const seed of [...ctx.seeds, ...near])
+      if (solveIkInto(q, chain, baseFromFlange, seed, ctx.ik, SOLVE_IK)) add(q);
   }
   if (base.length === 0) return { solutions: [], reason: noReachReason(ctx, baseFromFlange) };
   return { solutions: withVariants(chain, base), reason: null };

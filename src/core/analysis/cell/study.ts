@@ -10,7 +10,14 @@
 import type { Chain } from "../../kinematics/chain";
 import type { PayloadSpec } from "../payload";
 import { cellSetup, type CellSetup } from "./setup";
-import { createReachContext, sameSolution, solveTarget, type ReachContext, type TargetReach } from "./reach";
+import {
+  createReachContext,
+  revoluteMarginRad,
+  sameSolution,
+  solveTarget,
+  type ReachContext,
+  type TargetReach,
+} from "./reach";
 import {
   createFollowContext,
   firstRangeViolation,
@@ -98,6 +105,9 @@ export function cellStudy(cell: CellSpec, arms: readonly CellArm[]): CellStudyJs
 }
 
 const round = (v: number, digits: number) => Number(v.toFixed(digits));
+
+/** Joint margin below which a solution is avoided when the cell states no minimum, deg. */
+export const DEFAULT_AVOID_MARGIN_DEG = 1;
 
 // Solver set-ups per chain, kept while the chain lives: a study recomputed in the browser editor, or at each position
 // of a placement map, does not build them again. They hold work buffers only; results do not depend on them.
@@ -216,6 +226,9 @@ function planCycle(cell: CellSpec, setup: CellSetup, chain: Chain, reach: readon
   const followCtx = followContextOf(chain);
   const cache = new Map<string, { follow: FollowResult; canonical: Float64Array; timing: LinearMoveDetail | null }>();
   const steps = cell.cycle.map((s, i) => ({ motion: s.motion, target: setup.stepTarget[i]! }));
+  // Solutions closer to a range end than the cell requires (1° when it requires nothing) are avoided when the loop
+  // has a choice; the verdict still reports a margin below the requirement.
+  const avoidBelowRad = ((cell.requirements?.minJointMarginDeg ?? DEFAULT_AVOID_MARGIN_DEG) * Math.PI) / 180;
   const prevTarget = (i: number) => setup.stepTarget[(i - 1 + steps.length) % steps.length]!;
   return planLoop(
     steps,
@@ -266,6 +279,7 @@ function planCycle(cell: CellSpec, setup: CellSetup, chain: Chain, reach: readon
         return { timeS: entry.timing.timeS, qEnd, detail: entry.timing as LinearMoveDetail | FollowFailure };
       },
       same: (a, b) => sameSolution(a, b, m),
+      statePenalty: (_i, q) => (revoluteMarginRad(chain, q) < avoidBelowRad ? 1 : 0),
     },
   );
 }

@@ -32,7 +32,14 @@ export interface PlacementGrid {
 }
 
 /** Cycle time with the base at grid node (c, r), or null when the cycle is not feasible there. */
-function cycleAt(cell: CellSpec, arm: CellArm, placement: PlacementSpec, g: PlacementGrid, c: number, r: number): number | null {
+function cycleAt(
+  cell: CellSpec,
+  arm: CellArm,
+  placement: PlacementSpec,
+  g: PlacementGrid,
+  c: number,
+  r: number,
+): number | null {
   const yaw = g.yawDeg[r]![c] ?? placement.rpyDeg[2];
   const at: PlacementSpec = {
     positionMm: [g.xMm[c]!, g.yMm[r]!, placement.positionMm[2]],
@@ -57,7 +64,8 @@ export function fastestPlacement(
     if (!times.has(key)) times.set(key, cycleAt(cell, arm, placement, g, c, r));
     return times.get(key)!;
   };
-  const feasibleAt = (c: number, r: number) => r >= 0 && r < g.yMm.length && c >= 0 && c < nx && g.feasible[r]![c] === 1;
+  const feasibleAt = (c: number, r: number) =>
+    r >= 0 && r < g.yMm.length && c >= 0 && c < nx && g.feasible[r]![c] === 1;
   const coarse: [number, number][] = [];
   const all: [number, number][] = [];
   for (let r = 0; r < g.yMm.length; r++)
@@ -90,7 +98,16 @@ export function fastestPlacement(
     while (h >= 1) {
       const [c0, r0] = best as [number, number];
       let moved = false;
-      for (const [dc, dr] of [[1, 0], [-1, 0], [0, 1], [0, -1], [1, 1], [1, -1], [-1, 1], [-1, -1]] as const)
+      for (const [dc, dr] of [
+        [1, 0],
+        [-1, 0],
+        [0, 1],
+        [0, -1],
+        [1, 1],
+        [1, -1],
+        [-1, 1],
+        [-1, -1],
+      ] as const)
         moved = consider(c0 + h * dc, r0 + h * dr) || moved;
       if (!moved) h = h === 1 ? 0 : Math.ceil(h / 2);
     }

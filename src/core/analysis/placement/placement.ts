@@ -100,11 +100,7 @@ function marginAt(p: Probe, placement: PlacementSpec, x: number, y: number, z: n
  * The placement map of one arm (see README.md).
  * @throws RangeError for a grid spacing ≤ 0 or a yaw step outside (0, 360]
  */
-export function placementMap(
-  cell: CellSpec,
-  arm: CellArm,
-  options: Partial<PlacementOptions> = {},
-): PlacementMapJson {
+export function placementMap(cell: CellSpec, arm: CellArm, options: Partial<PlacementOptions> = {}): PlacementMapJson {
   const o = { ...DEFAULT_PLACEMENT, ...options };
   if (!(o.gridMm > 0)) throw new RangeError(`invalid gridMm: ${o.gridMm}`);
   if (o.yawStepDeg !== null && !(o.yawStepDeg > 0 && o.yawStepDeg <= 360))
@@ -176,14 +172,22 @@ export function placementMap(
       const ok = cellValue.margin !== null;
       if (ok) count++;
       fRow.push(ok ? 1 : 0);
-      mRow.push(ok ? (Number.isFinite(cellValue.margin!) ? Number(radToDeg(cellValue.margin!).toFixed(2)) : null) : null);
+      mRow.push(
+        ok ? (Number.isFinite(cellValue.margin!) ? Number(radToDeg(cellValue.margin!).toFixed(2)) : null) : null,
+      );
       yRow.push(ok ? cellValue.yaw : null);
     }
     feasible.push(fRow);
     marginDeg.push(mRow);
     yawDeg.push(yRow);
   }
-  const { best, coarseStepMm, evaluated } = fastestPlacement(cell, arm, placement, { xMm, yMm, feasible, marginDeg, yawDeg });
+  const { best, coarseStepMm, evaluated } = fastestPlacement(cell, arm, placement, {
+    xMm,
+    yMm,
+    feasible,
+    marginDeg,
+    yawDeg,
+  });
   return {
     cell: cell.id,
     arm: arm.id,

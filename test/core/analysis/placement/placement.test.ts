@@ -54,7 +54,11 @@ function cellWith(points: [number, number][]): CellSpec {
     placement: { positionMm: [0, 0, 0], rpyDeg: [0, 0, 0] },
     tool: { tcp: { xyzMm: [0, 0, 0], rpyDeg: [0, 0, 0] }, bodies: [{ name: "g", massKg: 1, cogMm: [0, 0, 20] }] },
     parts: [],
-    targets: points.map(([x, y], k) => ({ name: `t${k}`, positionMm: [x * 1000, y * 1000, 300], rpyDeg: [180, 0, 25 * k] })),
+    targets: points.map(([x, y], k) => ({
+      name: `t${k}`,
+      positionMm: [x * 1000, y * 1000, 300],
+      rpyDeg: [180, 0, 25 * k],
+    })),
     cycle: points.map((_, k) => ({ to: `t${k}`, motion: "joint" as const })),
   };
 }
