@@ -333,7 +333,8 @@ export function revoluteMarginRad(chain: Chain, q: ArrayLike<number>): number {
 /**
  * Whether the flange pose is reachable inside the ranges, and the largest smallest-joint margin over the solutions
  * found (rad): the closed form gives every solution; the numeric solver starts from `hints` (solutions at nearby
- * poses) first, then the zero pose and every `stride`-th seed, and stops at the first solution when `firstOnly`.
+ * poses) first, then the zero pose, every `stride`-th spread start and the nearest library poses, and stops at the
+ * first solution found.
  * Cheaper than solveTarget (no variants, no reason): for maps over many poses.
  */
 export function reachMargin(
@@ -361,8 +362,10 @@ export function reachMargin(
   const q = new Float64Array(m);
   for (const h of hints) if (solveIkInto(q, chain, baseFromFlange, h, ctx.ik, SOLVE_IK)) consider(q);
   if (best !== null) return best;
-  for (let k = 0; k < ctx.seeds.length; k += k === 0 ? 1 : stride)
-    if (solveIkInto(q, chain, baseFromFlange, ctx.seeds[k]!, ctx.ik, SOLVE_IK)) {
+  const near = ctx.library ? nearestSeeds(ctx.library, m, baseFromFlange, LIBRARY_SEEDS) : [];
+  const starts = [...ctx.seeds.filter((_, k) => k === 0 || k % stride === 0), ...near];
+  for (const seed of starts)
+    if (solveIkInto(q, chain, baseFromFlange, seed, ctx.ik, SOLVE_IK)) {
       consider(q);
       return best;
     }
