@@ -14,7 +14,7 @@ import { parseArgs } from "node:util";
 import { writeFileAtomic } from "../catalog/files";
 import { analysisWarningText } from "../view/warningText";
 import { armJsonSchema, cellJsonSchema, formatIssue, loadArmFile, loadArms, type LoadResult } from "../catalog";
-import { checkPaths, reportCheck } from "./check";
+import { checkPaths, reportCheck, type CheckResult } from "./check";
 import { joinNegativeValues } from "./args";
 import { POSE_OPTIONS, poseCommand } from "./pose";
 import { LINE_OPTIONS, lineCommand } from "./line";
@@ -91,7 +91,21 @@ async function prepare(paths: string[], workers: number | undefined): Promise<nu
   const loaded = await checkPaths(paths, defaultArmsDir());
   await schema([]);
   if (reportCheck(loaded, false) !== 0) return 1;
-  return analyseAll(loaded.arms.arms, workers);
+  const code = await analyseAll(loaded.arms.arms, workers);
+  if (code !== 0) return code;
+  return prepareCells(loaded.cells.cells, loaded.arms.arms);
+}
+
+/** Cell studies and placement maps of every cell into the cache (computed once per content). */
+async function prepareCells(cells: CheckResult["cells"]["cells"], arms: LoadResult["arms"]): Promise<number> {
+  const { getCellResults } = await import("../catalog/cellResults");
+  for (const cell of cells) {
+    const { computed, ms } = await getCellResults(cell, arms);
+    process.stdout.write(
+      `cell ${cell.id}: ${computed ? `studied in ${(ms / 1000).toFixed(1)} s` : "from the cache"}\n`,
+    );
+  }
+  return 0;
 }
 
 /** Writes the arm and cell JSON Schemas; with one path, only the arm schema (to that path). */
