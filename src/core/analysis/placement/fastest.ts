@@ -3,8 +3,9 @@
  * feasible positions, then refined around the best by a pattern search.
  *
  * - Coarse subset: the feasible positions on every k-th grid line in x and y, k = round(COARSE_STEP_MM / gridMm)
- *   (at least 1), counted from the cell origin; when that gives fewer than MIN_COARSE positions, the feasible positions
- *   with the largest joint margins are added up to MIN_COARSE.
+ *   (at least 1, doubled while that leaves more than MAX_COARSE positions), counted from the cell origin; when that
+ *   gives fewer than MIN_COARSE positions, the feasible positions with the largest joint margins are added up to
+ *   MIN_COARSE.
  * - Refinement: from the best coarse position, the eight neighbours at h grid steps (h = k/2 rounded up) are
  *   evaluated; the search moves to a faster one, else halves h, down to one grid step.
  * A position counts only when its whole cycle is feasible; the fastest such one is `best`.
@@ -16,6 +17,8 @@ import type { CellSpec, PlacementSpec } from "../cell/types";
 
 export const COARSE_STEP_MM = 200;
 export const MIN_COARSE = 8;
+/** Most coarse positions: the coarse spacing doubles until the subset is no larger. */
+export const MAX_COARSE = 40;
 
 export interface PlacementBest {
   readonly positionMm: [number, number, number];
@@ -56,7 +59,7 @@ export function fastestPlacement(
   g: PlacementGrid,
 ): { best: PlacementBest | null; coarseStepMm: number; evaluated: number } {
   const gridMm = g.xMm.length > 1 ? g.xMm[1]! - g.xMm[0]! : g.yMm.length > 1 ? g.yMm[1]! - g.yMm[0]! : COARSE_STEP_MM;
-  const k = Math.max(1, Math.round(COARSE_STEP_MM / gridMm));
+  let k = Math.max(1, Math.round(COARSE_STEP_MM / gridMm));
   const times = new Map<number, number | null>();
   const nx = g.xMm.length;
   const timeAt = (c: number, r: number): number | null => {
@@ -68,12 +71,11 @@ export function fastestPlacement(
     r >= 0 && r < g.yMm.length && c >= 0 && c < nx && g.feasible[r]![c] === 1;
   const coarse: [number, number][] = [];
   const all: [number, number][] = [];
-  for (let r = 0; r < g.yMm.length; r++)
-    for (let c = 0; c < nx; c++) {
-      if (!feasibleAt(c, r)) continue;
-      all.push([c, r]);
-      if (Math.round(g.xMm[c]! / gridMm) % k === 0 && Math.round(g.yMm[r]! / gridMm) % k === 0) coarse.push([c, r]);
-    }
+  for (let r = 0; r < g.yMm.length; r++) for (let c = 0; c < nx; c++) if (feasibleAt(c, r)) all.push([c, r]);
+  const onLines = (k: number) =>
+    all.filter(([c, r]) => Math.round(g.xMm[c]! / gridMm) % k === 0 && Math.round(g.yMm[r]! / gridMm) % k === 0);
+  while (onLines(k).length > MAX_COARSE) k *= 2;
+  coarse.push(...onLines(k));
   if (coarse.length < MIN_COARSE) {
     const rest = all
       .filter(([c, r]) => !coarse.some(([a, b]) => a === c && b === r))

@@ -10,6 +10,7 @@ import { poseOfMm } from "../cell/setup";
 import { resolveTargets } from "../cell/targets";
 import type { CellSpec, PlacementSpec } from "../cell/types";
 import { fastestPlacement, type PlacementBest } from "./fastest";
+import { EXTENT_MARGIN, reachExtent, type ReachExtent } from "./reachExtent";
 import type { CellArm } from "../cell/study";
 
 export interface PlacementOptions {
@@ -64,6 +65,8 @@ export function reachBoundM(chain: Chain, tcpInFlange: Float64Array): number {
 
 interface Probe {
   readonly ctx: ReachContext;
+  /** The tool point's extent in the base frame, grown by EXTENT_MARGIN. */
+  readonly extent: ReachExtent;
   readonly tcpFromFlange: Float64Array;
   readonly cellFromTcp: Float64Array[];
   readonly cellFromBase: Float64Array;
@@ -72,6 +75,31 @@ interface Probe {
   readonly baseFromFlange: Float64Array;
   readonly q: Float64Array;
   readonly hints: Float64Array[][];
+}
+
+function insideExtent(e: ReachExtent, x: number, y: number, z: number): boolean {
+  const r = Math.hypot(x, y, z);
+  return (
+    x >= e.minM[0] &&
+    x <= e.maxM[0] &&
+    y >= e.minM[1] &&
+    y <= e.maxM[1] &&
+    z >= e.minM[2] &&
+    z <= e.maxM[2] &&
+    r >= e.rMinM &&
+    r <= e.rMaxM
+  );
+}
+
+/** The extent grown by EXTENT_MARGIN (the estimate can only fall short of the true extremes). */
+function grown(e: ReachExtent): ReachExtent {
+  const g = EXTENT_MARGIN.share * e.rMaxM + EXTENT_MARGIN.lengthM;
+  return {
+    minM: [e.minM[0] - g, e.minM[1] - g, e.minM[2] - g],
+    maxM: [e.maxM[0] + g, e.maxM[1] + g, e.maxM[2] + g],
+    rMinM: Math.max(0, e.rMinM - g),
+    rMaxM: e.rMaxM + g,
+  };
 }
 
 /** Smallest margin over the targets with the base at (x, y, z) m and yaw (rad) over the placement's roll and pitch. */
@@ -85,6 +113,7 @@ function marginAt(p: Probe, placement: PlacementSpec, x: number, y: number, z: n
   let worst = Infinity;
   for (let t = 0; t < p.cellFromTcp.length; t++) {
     mul4Into(p.baseFromTcp, p.baseFromCell, p.cellFromTcp[t]!);
+    if (!insideExtent(p.extent, p.baseFromTcp[3]!, p.baseFromTcp[7]!, p.baseFromTcp[11]!)) return null;
     mul4Into(p.baseFromFlange, p.baseFromTcp, p.tcpFromFlange);
     const margin = reachMargin(p.ctx, p.baseFromFlange, p.hints[t]!, 1, p.q);
     if (margin === null) return null;
@@ -110,7 +139,8 @@ export function placementMap(cell: CellSpec, arm: CellArm, options: Partial<Plac
   const tcpFromFlange = invertRigidInto(mat4(), flangeFromTcp);
   const targets = resolveTargets(cell.targets);
   const cellFromTcp = targets.map((t) => poseOfMm(t.positionMm, t.rpyDeg));
-  const bound = reachBoundM(arm.chain, flangeFromTcp);
+  const extent = grown(reachExtent(arm.chain, flangeFromTcp));
+  const bound = Math.min(reachBoundM(arm.chain, flangeFromTcp), extent.rMaxM);
   const zM = mmToM(placement.positionMm[2]);
   // Positions within the bound of every target (the targets' bounding box grown by the bound, cut to the grid).
   const step = mmToM(o.gridMm);
@@ -127,6 +157,7 @@ export function placementMap(cell: CellSpec, arm: CellArm, options: Partial<Plac
   const yMm = iy1 >= iy0 ? Array.from({ length: iy1 - iy0 + 1 }, (_, k) => (iy0 + k) * o.gridMm) : [];
   const probe: Probe = {
     ctx: createReachContext(arm.chain),
+    extent,
     tcpFromFlange,
     cellFromTcp,
     cellFromBase: mat4(),
