@@ -432,3 +432,39 @@ export function dhFrameReference(rows: readonly DhRowSi[], q: ArrayLike<number>,
 export function flat4(t: M4): number[] {
   return t.flat();
 }
+
+/**
+ * Invented Cartesian gantry: prismatic X, Y, Z along the base axes, then a rotary axis about z; the flange points
+ * down (rpy 180° about x), so the flange position is (x, y, z). Speeds 2000 mm/s and accelerations 20 000 mm/s²
+ * (V = 2 m/s, A = 20 m/s², the CHECKS C17 values) unless `accel` is false.
+ */
+export function cartesianGantry(accel: boolean): ArmKinematicsInput {
+  const origin = { xyzMm: [0, 0, 0], rpyDeg: [0, 0, 0] };
+  const linear = (name: string, axis: number[], rangeMm: number[]) => ({
+    name,
+    kind: "prismatic" as const,
+    origin,
+    axis,
+    rangeMm,
+    maxSpeedMmPerS: 2000,
+    ...(accel ? { maxAccelMmPerS2: 20000 } : {}),
+  });
+  return {
+    convention: "frames",
+    joints: [
+      linear("X", [1, 0, 0], [0, 2000]),
+      linear("Y", [0, 1, 0], [-1000, 1000]),
+      linear("Z", [0, 0, 1], [-500, 1000]),
+      {
+        name: "R",
+        kind: "revolute",
+        origin,
+        axis: [0, 0, 1],
+        rangeDeg: [-180, 180],
+        maxSpeedDegPerS: 360,
+        ...(accel ? { maxAccelDegPerS2: 3600 } : {}),
+      },
+    ],
+    flange: { xyzMm: [0, 0, 0], rpyDeg: [180, 0, 0] },
+  };
+}

@@ -27,7 +27,8 @@ function name(chain: Chain, i: number): string {
 
 /**
  * Synchronised joint move from a to b at `speedScale` of every joint's speed: the slowest joint's trapezoid (or
- * triangle) sets the time; it is "speed"-limited when it reaches its (scaled) top speed, else "acceleration"-limited.
+ * triangle) sets the time; it is "speed"-limited when it cruises at its (scaled) top speed for at least as long as it
+ * speeds up and slows down, else "acceleration"-limited.
  */
 export function timeJointMove(
   chain: Chain,
@@ -43,8 +44,11 @@ export function timeJointMove(
   const k = t.limitingJoint;
   const acc = effectiveAccelInto(new Float64Array(m), chain.maxSpeedSi, chain.maxAccelSi, CELL_TIME_TO_TOP_SPEED_S, []);
   const v = chain.maxSpeedSi[k]! * speedScale;
-  const cruises = d[k]! >= (v * v) / acc[k]!;
-  return { timeS: t.timeS, limitedBy: `${name(chain, k)} ${cruises ? "speed" : "acceleration"}` };
+  // As for linear moves: the limit that holds over the larger share of the time (cruise d/v − v/a against the
+  // 2·v/a spent speeding up and slowing down; a triangle never cruises).
+  const cruiseS = Math.max(0, d[k]! / v - v / acc[k]!),
+    rampS = d[k]! >= (v * v) / acc[k]! ? (2 * v) / acc[k]! : t.timeS;
+  return { timeS: t.timeS, limitedBy: `${name(chain, k)} ${cruiseS >= rampS ? "speed" : "acceleration"}` };
 }
 
 const scratchByChain = new WeakMap<Chain, TimeOptimalScratch>();
@@ -57,6 +61,8 @@ export function timeLinearMove(chain: Chain, follow: FollowResult, capMPerS: num
     scratchByChain.set(chain, scratch);
   }
   const n = follow.stages;
+  // A move to the pose it starts at (same position and orientation) takes no time.
+  if (!(follow.s[n - 1]! > 0)) return { timeS: 0, limitedBy: null, peakToolSpeedMmPerS: null };
   const capped = Number.isFinite(capMPerS) && follow.toolSpeedPerUnitS > 0;
   const r = timeOptimal(
     {

@@ -4,7 +4,7 @@
  * solution.
  *
  * Method: the path is cut into evenly spaced stages (one per PATH_STAGE_MM of travel or PATH_STAGE_DEG of turn,
- * whichever gives more, within [MIN_STAGES, MAX_STAGES]). From one accepted point to the next, a secant predictor
+ * whichever gives more, within [MIN_STAGES, MAX_STAGES]), graded at both ends (stageFractions). From one accepted point to the next, a secant predictor
  * and the damped Gauss–Newton solver (kinematics/inverse.ts) on the flange pose; a step whose largest joint change
  * exceeds MAX_JOINT_STEP_RAD, or that fails to converge, is halved (at most MAX_HALVINGS times). The solver runs on
  * the chain with its ranges opened, so a joint that leaves its range is reported where it does instead of looking
@@ -172,6 +172,23 @@ export function stageCount(lengthM: number, angleRad: number): number {
   return Math.min(MAX_STAGES, Math.max(MIN_STAGES, byLength, byAngle)) + 1;
 }
 
+/** Stages graded at both ends by END_GRADING (see stageFractions). */
+export const END_GRADING = [1 / 256, 1 / 64, 1 / 16, 1 / 4] as const;
+
+/**
+ * Path fractions of the stages: `count` evenly spaced ones, plus, inside the first and the last interval, stages at
+ * END_GRADING of it. A move starts and ends at rest, where the timing is set by the acceleration over a short stretch:
+ * the time-optimal timing's discretisation error (first order in the stage length) is largest there, and the graded
+ * stages bring it down without more stages along the whole path.
+ */
+export function stageFractions(count: number): number[] {
+  const e = 1 / (count - 1);
+  const head = END_GRADING.map((g) => g * e);
+  const middle = Array.from({ length: count }, (_, k) => k * e);
+  const tail = [...head].reverse().map((h) => 1 - h);
+  return [0, ...head, ...middle.slice(1, -1), ...tail, 1];
+}
+
 interface Probe {
   cond: number;
   det: number;
@@ -219,12 +236,13 @@ export function followLinear(ctx: FollowContext, move: LinearMove, qStart: Array
   const chain = ctx.chain,
     m = chain.drivenCount;
   const g = geometryOf(ctx, move);
-  const n = stageCount(g.lengthM, g.angleRad);
+  const fractions = stageFractions(stageCount(g.lengthM, g.angleRad));
+  const n = fractions.length;
   const moves = g.lengthM > 1e-9;
   const span = moves ? g.lengthM : g.angleRad;
   const s = new Float64Array(n);
   const q = new Float64Array(n * m);
-  for (let k = 0; k < n; k++) s[k] = (span * k) / (n - 1);
+  for (let k = 0; k < n; k++) s[k] = span * fractions[k]!;
   const cur = Float64Array.from(qStart),
     prev = Float64Array.from(qStart),
     trial = new Float64Array(m);
@@ -254,7 +272,7 @@ export function followLinear(ctx: FollowContext, move: LinearMove, qStart: Array
     };
   };
   for (let k = 1; k < n; k++) {
-    const fGoal = k / (n - 1);
+    const fGoal = fractions[k]!;
     let step = fGoal - fCur,
       halvings = 0;
     while (fCur < fGoal - 1e-15) {

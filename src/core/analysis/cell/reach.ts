@@ -298,8 +298,12 @@ function noReachReason(ctx: ReachContext, t: Float64Array): NoReachReason {
   for (let k = 0; k < count; k++) found.push(Float64Array.from(ctx.work.subarray(6 * k, 6 * k + 6)));
   if (count < 0) {
     const q = new Float64Array(m);
-    for (const seed of ctx.openSeeds)
-      if (solveIkInto(q, ctx.open, t, seed, ctx.openIk, SOLVE_IK)) found.push(Float64Array.from(q));
+    // Far outside the ranges the damped solver stalls part-way: restart it from where it stopped, a few times.
+    for (const seed of ctx.openSeeds) {
+      let ok = solveIkInto(q, ctx.open, t, seed, ctx.openIk, SOLVE_IK);
+      for (let restart = 0; !ok && restart < 4; restart++) ok = solveIkInto(q, ctx.open, t, q, ctx.openIk, SOLVE_IK);
+      if (ok) found.push(Float64Array.from(q));
+    }
   }
   for (const q of found) {
     canonicalInto(ctx.chain, q);

@@ -272,7 +272,10 @@ function planCycle(cell: CellSpec, setup: CellSetup, chain: Chain, reach: readon
           ];
           return { timeS: null, qEnd: null, detail: { kind, positionM, joint } as LinearMoveDetail | FollowFailure };
         };
-        if (violation) return failAt("joint-limit", violation.stage / (f.stages - 1), violation.joint);
+        if (violation) {
+          const span = f.s[f.stages - 1]!;
+          return failAt("joint-limit", span > 0 ? f.s[violation.stage]! / span : 0, violation.joint);
+        }
         if (f.problem) return failAt(f.problem.kind, f.problem.fraction, f.problem.joint);
         if (!entry.timing || entry.timing.timeS === null) return failAt("singularity", 0.5, -1);
         const qEnd = f.qEnd!.map((v, j) => v + offset[j]!);

@@ -47,7 +47,7 @@ describe("followLinear on the generic 6R", () => {
     expect(r.completed).toBe(r.stages);
     expect(r.s[r.stages - 1]).toBeCloseTo(0.3, 12);
     for (let k = 0; k < r.stages; k++) {
-      const f = k / (r.stages - 1);
+      const f = r.s[k]! / r.s[r.stages - 1]!;
       const pose = flat4(dhFrameReference(rows, r.q.subarray(6 * k, 6 * k + 6)));
       for (const i of [3, 7, 11]) expect(Math.abs(pose[i]! - (from[i]! + f * (to[i]! - from[i]!)))).toBeLessThan(1e-7);
       expect(Math.abs(angleBetween(from, pose) - f * 0.4)).toBeLessThan(1e-6);

@@ -8,7 +8,6 @@
  * gantry whose every cycle move is a single-joint move, so the expected time is a sum of single trapezoids.
  */
 import { describe, expect, it } from "vitest";
-import type { ArmKinematicsInput } from "../../../../src/core";
 import { compileChain } from "../../../../src/core";
 import {
   DEFAULT_TIME_TO_TOP_SPEED_S,
@@ -18,6 +17,7 @@ import {
 } from "../../../../src/core/analysis/cycle/cycle";
 import { expectClose } from "../../../helpers/expectClose";
 import { mulberry32, uniform } from "../../../helpers/prng";
+import { cartesianGantry as gantry } from "../../../helpers/testArms";
 
 describe("STANDARD_CYCLE_MOVES", () => {
   it("STANDARD_CYCLE_MOVES is the trade's test cycle: up 25 mm, across 300 mm (CHECKS §4, common practice)", () => {
@@ -80,42 +80,6 @@ describe("trapezoidTimeS (CHECKS C17)", () => {
     expect(() => trapezoidTimeS(0.1, Number.NaN, 20)).toThrow(RangeError);
   });
 });
-
-/**
- * Invented Cartesian gantry: prismatic X, Y, Z along the base axes, then a rotary axis about z; the flange points
- * down (rpy 180° about x), so the flange position is (x, y, z). Speeds 2000 mm/s and accelerations 20 000 mm/s²
- * (V = 2 m/s, A = 20 m/s², the CHECKS C17 values) unless `accel` is false.
- */
-function gantry(accel: boolean): ArmKinematicsInput {
-  const origin = { xyzMm: [0, 0, 0], rpyDeg: [0, 0, 0] };
-  const linear = (name: string, axis: number[], rangeMm: number[]) => ({
-    name,
-    kind: "prismatic" as const,
-    origin,
-    axis,
-    rangeMm,
-    maxSpeedMmPerS: 2000,
-    ...(accel ? { maxAccelMmPerS2: 20000 } : {}),
-  });
-  return {
-    convention: "frames",
-    joints: [
-      linear("X", [1, 0, 0], [0, 2000]),
-      linear("Y", [0, 1, 0], [-1000, 1000]),
-      linear("Z", [0, 0, 1], [-500, 1000]),
-      {
-        name: "R",
-        kind: "revolute",
-        origin,
-        axis: [0, 0, 1],
-        rangeDeg: [-180, 180],
-        maxSpeedDegPerS: 360,
-        ...(accel ? { maxAccelDegPerS2: 3600 } : {}),
-      },
-    ],
-    flange: { xyzMm: [0, 0, 0], rpyDeg: [180, 0, 0] },
-  };
-}
 
 /** Target flange pose for the gantry: r along base x, lateral along base y, height z + up; tool down (Rx(180°)). */
 function gantryTarget(lateralMm: number, rMm: number, zMm: number, upMm: number, out: Float64Array): Float64Array {
