@@ -156,7 +156,7 @@ describe("cellStudy on the generic 6R", () => {
           t.jointsDeg!.map((d) => (d * Math.PI) / 180),
         ),
       );
-      const target = cell.targets.find((x) => x.name === t.name)! as { positionMm: number[] };
+      const target = cell.targets.find((x) => x.name === t.name)! as { readonly positionMm: readonly number[] };
       // Joints are printed to 0.01°: a 2 m arm moves its tool by at most ~0.35 mm per 0.01°.
       for (let i = 0; i < 3; i++) expect(Math.abs(pose[4 * i + 3]! * 1000 - target.positionMm[i]!)).toBeLessThan(1);
     }
