@@ -10,6 +10,8 @@
  *    peak memory of the build's processes, per-arm analysis time; see scale.ts);
  * 6. cell move timing: per-call cost of the time-optimal timing of a 6-joint, 200-stage path and of a synchronised
  *    joint move (cellTiming.ts); run second, right after the analysis stages.
+ * 7. cell studies of the demo cells, cold and warm, against the editor's 250 ms budget, and the placement maps of
+ *    one cell's candidates at 50 mm against 5 s (cellStudy.ts).
  * Options: --arms <folder> (default arms/), --quick (fewer repetitions, 30 generated arms), --only <ids>,
  * --scale-arms <n> (default 300), --no-scale (skip section 5), --fuzz-runs <n> (default 500, 50 with --quick).
  */
@@ -35,6 +37,7 @@ import { join } from "node:path";
 import { runFuzz } from "../fuzz/longRun";
 import { median } from "./stats";
 import { benchCellTiming } from "./cellTiming";
+import { benchCellStudies } from "./cellStudy";
 
 const { values } = parseArgs({
   options: {
@@ -146,6 +149,9 @@ for (const arm of chosen) {
       `synchronised joint move ${r.jointMoveUs.toFixed(2)} µs`,
   );
 }
+
+// 7. Cell studies and placement maps of the demo cells.
+await benchCellStudies(values.arms ?? "arms", reps);
 
 // 3. Demo site: build, page weight, side-by-side page time to interactive.
 {
