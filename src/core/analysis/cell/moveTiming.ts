@@ -19,6 +19,10 @@ export interface LinearMoveDetail {
   readonly limitedBy: string | null;
   /** Largest tool-point speed on the move, mm/s (null when the tool point does not move). */
   readonly peakToolSpeedMmPerS: number | null;
+  /** Where the timing finds the path blocked, as a share of it (null when it is not). */
+  readonly blockedAtFraction: number | null;
+  /** Smallest inverse condition of the tool-point Jacobian met on the move. */
+  readonly minInverseCondition: number;
 }
 
 function name(chain: Chain, i: number): string {
@@ -62,7 +66,8 @@ export function timeLinearMove(chain: Chain, follow: FollowResult, capMPerS: num
   }
   const n = follow.stages;
   // A move to the pose it starts at (same position and orientation) takes no time.
-  if (!(follow.s[n - 1]! > 0)) return { timeS: 0, limitedBy: null, peakToolSpeedMmPerS: null };
+  const base = { minInverseCondition: follow.minInverseCondition, blockedAtFraction: null };
+  if (!(follow.s[n - 1]! > 0)) return { ...base, timeS: 0, limitedBy: null, peakToolSpeedMmPerS: null };
   const capped = Number.isFinite(capMPerS) && follow.toolSpeedPerUnitS > 0;
   const r = timeOptimal(
     {
@@ -76,7 +81,14 @@ export function timeLinearMove(chain: Chain, follow: FollowResult, capMPerS: num
     },
     scratch,
   );
-  if (!r.feasible || !Number.isFinite(r.timeS)) return { timeS: null, limitedBy: null, peakToolSpeedMmPerS: null };
+  if (!r.feasible || !Number.isFinite(r.timeS))
+    return {
+      ...base,
+      timeS: null,
+      limitedBy: null,
+      peakToolSpeedMmPerS: null,
+      blockedAtFraction: r.blockedAt ? r.blockedAt.s / follow.s[n - 1]! : null,
+    };
   const l = r.limitedBy;
   const limitedBy = !l
     ? null
@@ -92,5 +104,5 @@ export function timeLinearMove(chain: Chain, follow: FollowResult, capMPerS: num
     }
     peak = Number(mToMm(peak).toFixed(1));
   }
-  return { timeS: r.timeS, limitedBy, peakToolSpeedMmPerS: peak };
+  return { ...base, timeS: r.timeS, limitedBy, peakToolSpeedMmPerS: peak };
 }

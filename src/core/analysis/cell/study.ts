@@ -64,6 +64,9 @@ export interface CellMoveJson {
   readonly carrying: string | null;
   /** Joints at the end of the move, deg or mm (null when infeasible or the target is out of reach). */
   readonly jointsDeg: number[] | null;
+  /** Linear moves: the largest tool-point speed (mm/s) and the smallest inverse condition met; else null. */
+  readonly peakToolSpeedMmPerS: number | null;
+  readonly minInverseCondition: number | null;
 }
 
 export interface CellTargetJson extends TargetMargins {
@@ -277,7 +280,9 @@ function planCycle(cell: CellSpec, setup: CellSetup, chain: Chain, reach: readon
           return failAt("joint-limit", span > 0 ? f.s[violation.stage]! / span : 0, violation.joint);
         }
         if (f.problem) return failAt(f.problem.kind, f.problem.fraction, f.problem.joint);
-        if (!entry.timing || entry.timing.timeS === null) return failAt("singularity", 0.5, -1);
+        // The timing finds the path blocked (no speed left at some stage): in practice a singular pose.
+        if (!entry.timing || entry.timing.timeS === null)
+          return failAt("singularity", entry.timing?.blockedAtFraction ?? 0, -1);
         const qEnd = f.qEnd!.map((v, j) => v + offset[j]!);
         return { timeS: entry.timing.timeS, qEnd, detail: entry.timing as LinearMoveDetail | FollowFailure };
       },
@@ -320,9 +325,9 @@ function movesJson(cell: CellSpec, setup: CellSetup, chain: Chain, plan: CellPla
         };
       }
     }
+    const linear = mv.feasible && step.motion === "linear" ? (mv.linear as LinearMoveDetail | undefined) : undefined;
     const limitedBy = mv.feasible
-      ? ((step.motion === "joint" ? mv.joint?.limitedBy : (mv.linear as LinearMoveDetail | undefined)?.limitedBy) ??
-        null)
+      ? ((step.motion === "joint" ? mv.joint?.limitedBy : linear?.limitedBy) ?? null)
       : null;
     return {
       step: i + 1,
@@ -336,6 +341,8 @@ function movesJson(cell: CellSpec, setup: CellSetup, chain: Chain, plan: CellPla
       problem,
       carrying: setup.carriedDuring[i]!,
       jointsDeg: mv.feasible && mv.to ? jointsForDisplay(chain, mv.to) : null,
+      peakToolSpeedMmPerS: linear?.peakToolSpeedMmPerS ?? null,
+      minInverseCondition: linear ? round(linear.minInverseCondition, 4) : null,
     };
   });
 }
