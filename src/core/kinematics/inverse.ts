@@ -60,6 +60,12 @@ export interface IkOptions {
    * axis left free). Default: full for six or more driven joints, axis otherwise.
    */
   readonly task?: "full" | "axis";
+  /**
+   * The solve stops as stalled (a joint limit, out of reach) when, after four iterations, an iteration leaves more
+   * than this share of the previous error (squared). Default 0.25, right for starts near a solution (continuation);
+   * starts far away (finding every solution of a target) converge slowly at first and need a value nearer 1.
+   */
+  readonly stallRatio?: number;
 }
 
 /** Longest joint step (rad or m) still taken without checking it (trustFinalStepBelowM). */
@@ -182,6 +188,7 @@ export function solveIkInto(
   // The seed pose serves the first iteration only when it belongs to exactly these joints (signed zeros included).
   let pose = seedPose;
   if (seedPose) for (let i = 0; i < m; i++) if (!Object.is(seedPose.q[i], q[i])) pose = undefined;
+  const stallRatio = options.stallRatio ?? 0.25;
   const tol2p = options.toleranceM * options.toleranceM,
     tol2r = options.toleranceRad * options.toleranceRad;
   let converged = false;
@@ -199,7 +206,7 @@ export function solveIkInto(
     if (it === options.maxIterations) break;
     // Stalled (a joint limit or out of reach): the error no longer shrinks by a useful factor.
     const err = ep2 + er2 * lengthM * lengthM;
-    if (it >= 4 && err > 0.25 * previous) break;
+    if (it >= 4 && err > stallRatio * previous) break;
     previous = err;
     if (seeded) task.set(seeded.jacobian);
     else jacobianInto(task, chain, s.kin, t[3]!, t[7]!, t[11]!);

@@ -39,7 +39,8 @@ const LIBRARY_SEEDS = 24;
 /** Solutions closer than this in every joint are one (rad; prismatic: m). */
 const SAME_SOLUTION = 1e-3;
 
-const SOLVE_IK: IkOptions = { ...DEFAULT_IK, maxIterations: 60, task: "full" };
+/** Starts may lie far from a solution: slow first progress is not a stall. */
+const SOLVE_IK: IkOptions = { ...DEFAULT_IK, maxIterations: 100, task: "full", stallRatio: 0.95 };
 
 /** Why a target has no solution. */
 export type NoReachReason =
