@@ -66,6 +66,8 @@ export interface LoadedFile {
   readonly declaredId?: string | null;
   /** Whether the declared id equals the file name. */
   readonly idMatchesFile?: boolean;
+  /** The file's JSON value, when the text parsed (valid or not). */
+  readonly data?: unknown;
 }
 
 /** Reads and validates one arm file. Never throws for bad data: problems come back as issues. */
@@ -83,6 +85,19 @@ export async function loadArmFile(path: string): Promise<LoadedFile> {
   } catch (e) {
     return err("", `cannot read the file: ${(e as NodeJS.ErrnoException).code ?? String(e)}`);
   }
+  return loadArmBytes(bytes, file, basename(path).replace(/\.json$/i, ""), dirname(path));
+}
+
+/**
+ * Reads and validates the bytes of one arm file, wherever they came from (the disk, or a file's earlier version in
+ * the repository's history): `file` names it in issues, `fileId` is its file name without `.json`, `dir` the folder
+ * its `$schema` path is resolved from. Never throws for bad data: problems come back as issues.
+ */
+export async function loadArmBytes(bytes: Uint8Array, file: string, fileId: string, dir: string): Promise<LoadedFile> {
+  const err = (p: string, message: string): LoadedFile => ({
+    arm: null,
+    issues: [{ file, path: p, message, severity: "error" }],
+  });
   let text: string;
   try {
     text = new TextDecoder("utf-8", { fatal: true }).decode(bytes);
@@ -110,19 +125,19 @@ export async function loadArmFile(path: string): Promise<LoadedFile> {
           : msg;
     return err("", `expected valid JSON, found a syntax error${where}${truncated}: ${reason}`);
   }
-  const fileId = basename(path).replace(/\.json$/i, "");
   const result = validateArm(data, file, fileId);
   const issues: ArmIssue[] = [...result.issues, ...(result.ok ? plausibilityWarnings(result.spec, file) : [])];
   const schemaRef = (data as { $schema?: unknown } | null)?.$schema;
   if (typeof schemaRef === "string") {
-    const problem = await checkSchemaRef(schemaRef, dirname(path));
+    const problem = await checkSchemaRef(schemaRef, dir);
     if (problem) issues.push({ file, path: "$schema", message: problem, severity: "error" });
   }
   const declared = (data as { id?: unknown } | null)?.id;
   const declaredId = typeof declared === "string" ? declared : null;
   if (!result.ok || issues.some((i) => i.severity === "error"))
-    return { arm: null, issues, declaredId, idMatchesFile: declaredId === fileId };
+    return { arm: null, issues, declaredId, idMatchesFile: declaredId === fileId, data };
   return {
+    data,
     declaredId,
     idMatchesFile: true,
     arm: {

@@ -68,11 +68,18 @@ function reportCheck({ arms, issues }: LoadResult, json: boolean): number {
   return errors.length > 0 ? 1 : 0;
 }
 
-/** Analyses every arm of a load result into the cache (parallel workers), printing the counts and the warnings. */
-async function analyseAll(arms: LoadResult["arms"], workers: number | undefined): Promise<number> {
+/**
+ * Analyses every arm of a load result into the cache (parallel workers), printing the counts and the warnings;
+ * `older` (earlier revisions of the arms) go through the same pool, their warnings are not printed.
+ */
+async function analyseAll(
+  arms: LoadResult["arms"],
+  workers: number | undefined,
+  older: LoadResult["arms"] = [],
+): Promise<number> {
   const { analyseCatalog, getAnalysisSummary } = await import("../catalog/analysis");
   const t0 = performance.now();
-  const report = await analyseCatalog(arms, { workers, log: (l) => process.stdout.write(`${l}\n`) });
+  const report = await analyseCatalog([...arms, ...older], { workers, log: (l) => process.stdout.write(`${l}\n`) });
   process.stdout.write(
     `${report.analysed.length} analysed, ${report.cached.length} from the cache, in ${((performance.now() - t0) / 1000).toFixed(1)} s\n`,
   );
@@ -85,13 +92,15 @@ async function analyseAll(arms: LoadResult["arms"], workers: number | undefined)
 
 /**
  * `armdex prepare`: what the site build needs before Astro runs, with each arm file read and validated once:
- * the JSON Schema, the check of every arm file (stops at the first error), the analyses (cached, in parallel).
+ * the JSON Schema, the check of every arm file (stops at the first error), the arm files' earlier revisions from
+ * the repository's history, the analyses of both (cached, in parallel), and the revision data the pages read.
  */
 async function prepare(paths: string[], workers: number | undefined): Promise<number> {
   const loaded = await loadArms(paths.length ? paths : [defaultArmsDir()]);
   await schema(undefined);
   if (reportCheck(loaded, false) !== 0) return 1;
-  return analyseAll(loaded.arms, workers);
+  const { prepareRevisions } = await import("./revisions");
+  return prepareRevisions(loaded.arms, (older) => analyseAll(loaded.arms, workers, older));
 }
 
 async function schema(out: string | undefined): Promise<number> {
