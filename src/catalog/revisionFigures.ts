@@ -66,6 +66,10 @@ export async function cachedRevisionFigures(arm: Arm): Promise<RevisionFigures> 
     // none yet, or unreadable: read the analysis
   }
   const figures = revisionFigures(await getAnalysis(arm), arm.spec.mountings);
-  await writeFileAtomic(path, JSON.stringify({ version: FIGURES_VERSION, specHash: arm.specHash, figures }));
+  // Shaped like the other cache entries (id, specHash) so tools that list the cache read it as one.
+  await writeFileAtomic(
+    path,
+    JSON.stringify({ id: arm.id, specHash: arm.specHash, version: FIGURES_VERSION, figures }),
+  );
   return figures;
 }

@@ -12,7 +12,8 @@
  * stroke) at 1100 mm/s, the flange centre on the J4 axis. The flange speed from J1 and J2 is largest with the arm
  * stretched (θ2 = 0, inside J2's range), where both joints move it in the same direction:
  * v_plane = ω1·(a1 + a2) + ω2·a2; J3 adds a vertical component at right angles: v = √(v_plane² + v_z²).
- * This test reads the built files; it needs no browser (the served site of the suite is not used).
+ * The checks read the built files; the last one opens the sheet in Chromium for the copy button (the site the suite
+ * serves is not used).
  */
 import { spawnSync } from "node:child_process";
 import { mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from "node:fs";
@@ -20,6 +21,8 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { buildEnv } from "./helpers/buildEnv";
+import { collectProblems, launchChromium, watchPage } from "./helpers/browser";
+import { serveStatic } from "./helpers/staticServer";
 import { makeGitRepo, type GitRepo } from "../helpers/gitRepo";
 
 const root = new URL("../..", import.meta.url).pathname;
@@ -164,4 +167,31 @@ describe("pinned revisions from a repository's history", () => {
     expect(/reachM: unknown field/.test(html), "the issue is listed").toBe(true);
     expect(second.output).toMatch(/1 no longer valid/);
   });
+
+  it("copies the citation with the button, with no console error or CSP violation", async () => {
+    const server = await serveStatic(second.dist, process.env.ARMDEX_BASE ?? "/");
+    const browser = await launchChromium();
+    try {
+      const context = await browser.newContext();
+      await context.grantPermissions(["clipboard-read", "clipboard-write"], { origin: server.origin });
+      for (const path of ["arms/sable-rev/", `arms/sable-rev/rev/${revisions[2]!.fingerprint}/`]) {
+        const tab = await context.newPage();
+        const problems = await watchPage(tab, server.origin);
+        await tab.goto(`${server.siteUrl}${path}`);
+        const button = tab.locator("button.cite-copy");
+        expect(await button.isVisible(), `${path}: copy button shown`).toBe(true);
+        await button.click();
+        await expect.poll(() => tab.textContent(".cite-status")).toMatch(/^(Copied\.|Selected: )/);
+        const citation = ((await tab.textContent("#cite-text")) ?? "").trim();
+        expect(citation).toMatch(/spec fingerprint [0-9a-f]{12} /);
+        if ((await tab.textContent(".cite-status")) === "Copied.")
+          expect(await tab.evaluate(() => navigator.clipboard.readText())).toBe(citation);
+        expect(await collectProblems(tab, problems), path).toEqual([]);
+        await tab.close();
+      }
+    } finally {
+      await browser.close();
+      await server.close();
+    }
+  }, 120_000);
 });
