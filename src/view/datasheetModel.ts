@@ -33,6 +33,8 @@ export interface DatasheetModel {
   readonly performance: TableModel | null;
   /** Stopping data per joint, in the arm's joint order; empty when the file gives none. */
   readonly stopping: readonly StoppingJointModel[];
+  /** All stopping data in one compact table (the printed sheet's); null when the file gives none. */
+  readonly stoppingSummary: TableModel | null;
   /** How many datasheet fields the file fills (0: the section says the file declares none). */
   readonly declaredCount: number;
 }
@@ -189,6 +191,63 @@ function stoppingJoint(s: ArmSpec, joint: string, index: number): StoppingJointM
   };
 }
 
+/**
+ * Every stopping-data row of the arm in one compact table, for print: a row per joint, stop category, extension and
+ * payload, a column per speed, each cell "distance deg, time s" ("—" where the file gives no value). Null without
+ * stopping data.
+ */
+export function stoppingSummaryTable(s: ArmSpec): TableModel | null {
+  const rows = s.stoppingData ?? [];
+  if (rows.length === 0) return null;
+  const speeds = [...new Set(rows.map((r) => r.speedPercent))].sort((a, b) => a - b);
+  const jointOrder = new Map(s.joints.map((j, i) => [j.name, i]));
+  const groups = new Map<string, StoppingRow[]>();
+  for (const r of rows) {
+    const key = `${r.joint}|${r.stopCategory}|${r.extensionPercent}|${r.payloadPercent}`;
+    groups.set(key, [...(groups.get(key) ?? []), r]);
+  }
+  const ordered = [...groups.values()].sort(
+    (a, b) =>
+      (jointOrder.get(a[0]!.joint) ?? 0) - (jointOrder.get(b[0]!.joint) ?? 0) ||
+      a[0]!.stopCategory - b[0]!.stopCategory ||
+      a[0]!.extensionPercent - b[0]!.extensionPercent ||
+      a[0]!.payloadPercent - b[0]!.payloadPercent,
+  );
+  return {
+    id: "stopping-summary-table",
+    caption: "Stopping data, as declared: stopping distance and time at each joint speed (% of its maximum)",
+    rowHeaders: true,
+    columns: [
+      { key: "joint", label: "Joint", numeric: false },
+      { key: "category", label: "Stop category", numeric: true },
+      { key: "extension", label: "Extension", unit: "%", numeric: true },
+      { key: "payload", label: "Payload", unit: "% of rated", numeric: true },
+      ...speeds.map((v) => ({
+        key: `speed-${v}`,
+        label: `At ${formatNumber(v, 1)} % speed`,
+        unit: "deg, s",
+        numeric: true,
+      })),
+    ],
+    rows: ordered.map((g, k) => {
+      const first = g[0]!;
+      return {
+        key: `${k}`,
+        cells: [
+          { text: first.joint },
+          { text: String(first.stopCategory) },
+          { text: formatNumber(first.extensionPercent, 1) },
+          { text: formatNumber(first.payloadPercent, 1) },
+          ...speeds.map((v) => {
+            const r = g.find((x) => x.speedPercent === v);
+            return { text: r ? `${formatNumber(r.distanceDeg, 2)}, ${formatNumber(r.timeS, 3)}` : "\u2014" };
+          }),
+        ],
+      };
+    }),
+  };
+}
+
 /** The datasheet section of an arm sheet (see the module comment). */
 export function datasheetModel(s: ArmSpec): DatasheetModel {
   const stoppingJoints = s.joints.map((j) => j.name).filter((n) => (s.stoppingData ?? []).some((r) => r.joint === n));
@@ -206,6 +265,7 @@ export function datasheetModel(s: ArmSpec): DatasheetModel {
     table: fieldsTable(s),
     performance: performanceTable(s),
     stopping: stoppingJoints.map((joint, i) => stoppingJoint(s, joint, i)),
+    stoppingSummary: stoppingSummaryTable(s),
     declaredCount: fields.filter((f) => f !== undefined).length,
   };
 }

@@ -141,6 +141,34 @@ describe("datasheetModel", () => {
     ]);
   });
 
+  it("sums all stopping data up in one table for print: a row per joint and condition, a column per speed", () => {
+    const t = datasheetModel(
+      spec({
+        stoppingData: [
+          stop("J2", 1, 100, 30, 0.5),
+          stop("J1", 1, 66, 12, 0.4),
+          stop("J1", 0, 100, 25, 0.3),
+          stop("J1", 1, 33, 4, 0.3),
+        ],
+      }),
+    ).stoppingSummary!;
+    expect(t.columns.map((c) => c.label)).toEqual([
+      "Joint",
+      "Stop category",
+      "Extension",
+      "Payload",
+      "At 33 % speed",
+      "At 66 % speed",
+      "At 100 % speed",
+    ]);
+    expect(cellTexts(t.rows)).toEqual([
+      ["J1", "0", "100", "100", "\u2014", "\u2014", "25, 0.3"],
+      ["J1", "1", "100", "100", "4, 0.3", "12, 0.4", "\u2014"],
+      ["J2", "1", "100", "100", "\u2014", "\u2014", "30, 0.5"],
+    ]);
+    expect(datasheetModel(spec()).stoppingSummary).toBeNull();
+  });
+
   it("takes the pose repeatability at the highest load, then the highest speed", () => {
     const s = spec({
       declaredPerformance: [
