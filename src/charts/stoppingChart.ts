@@ -74,7 +74,7 @@ interface Panel {
 /**
  * The stopping chart of one joint: per stop category a row with a distance panel and a time panel; per series a
  * <path class="series series-i"> (when it has two points or more) and one marker per point
- * (<path class="stop-point point-i" data-speed-percent … data-value …>).
+ * (<use class="stop-point point-i distance|time" x y data-speed-percent … data-value …>, the shape in <defs>).
  * @example stoppingChart({ id: "stop-j1", armName: "Demo", joint: "J1", points: [
  *   { stopCategory: 0, speedPercent: 100, extensionPercent: 100, payloadPercent: 100, distanceDeg: 30, timeS: 0.4 }] })
  */
@@ -98,7 +98,16 @@ export function stoppingChart(input: StoppingChartInput): ChartResult {
   const yDomain = { distanceDeg: maxOf("distanceDeg"), timeS: maxOf("timeS") };
   const axisWords = { distanceDeg: ["stopping distance", "deg"], timeS: ["stopping time", "s"] } as const;
 
-  const parts: string[] = [];
+  // One marker shape per series, defined once and placed with <use> (a page may hold several of these charts).
+  const parts: string[] = [
+    el(
+      "defs",
+      {},
+      ...series.map((_, i) =>
+        el("path", { id: `${input.id}-m${i}`, d: symbol(SYMBOLS[i % SYMBOLS.length]!, 42).digits(1)() ?? "" }),
+      ),
+    ),
+  ];
   categories.forEach((category, row) => {
     const rowTop = top + row * rowPx;
     parts.push(textEl(`Stop category ${category}`, { class: "panel-title", x: 8, y: fmt(rowTop + 16) }));
@@ -110,9 +119,7 @@ export function stoppingChart(input: StoppingChartInput): ChartResult {
       const xs = x(panel.area);
       const ys = scaleLinear([0, yDomain[panel.measure]], [panel.area.top + panel.area.height, panel.area.top]).nice();
       const [words, unit] = axisWords[panel.measure];
-      parts.push(
-        axisBottomSvg(xs, panel.area, { label: "speed at the stop", unit: "% of max.", ticks: 5, grid: true }),
-      );
+      parts.push(axisBottomSvg(xs, panel.area, { label: "speed at the stop", unit: "% of max.", ticks: 5 }));
       parts.push(axisLeftSvg(ys, panel.area, { label: words, unit, ticks: 5, grid: true }));
       series.forEach((s, i) => {
         const own = input.points
@@ -130,14 +137,13 @@ export function stoppingChart(input: StoppingChartInput): ChartResult {
           ).digits(1)(own);
           if (d) parts.push(el("path", { class: seriesClass(i), d }));
         }
-        const shape = symbol(SYMBOLS[i % SYMBOLS.length]!, 42).digits(1)();
         for (const p of own)
           parts.push(
-            el("path", {
-              class: `stop-point point-${i % SERIES_COUNT}`,
-              d: shape ?? "",
-              transform: `translate(${fmt(xs(p.speedPercent))},${fmt(ys(p[panel.measure]))})`,
-              "data-measure": panel.measure,
+            el("use", {
+              class: `stop-point point-${i % SERIES_COUNT} ${panel.measure === "distanceDeg" ? "distance" : "time"}`,
+              href: `#${input.id}-m${i}`,
+              x: fmt(xs(p.speedPercent)),
+              y: fmt(ys(p[panel.measure])),
               "data-speed-percent": p.speedPercent,
               "data-value": p[panel.measure],
             }),

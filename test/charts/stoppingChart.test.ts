@@ -26,10 +26,9 @@ const points = [
 ];
 const chart = stoppingChart({ id: "stop-j1", armName: "Demo", joint: "J1", points });
 
+/** Where a marker is placed (its <use> x and y). */
 function translate(tag: string): [number, number] {
-  const m = /translate\(([-\d.]+),([-\d.]+)\)/.exec(attr(tag, "transform") ?? "");
-  if (!m) throw new Error(`no translate in ${tag}`);
-  return [Number(m[1]), Number(m[2])];
+  return [Number(attr(tag, "x")), Number(attr(tag, "y"))];
 }
 
 describe("stoppingChart", () => {
@@ -62,10 +61,14 @@ describe("stoppingChart", () => {
   });
 
   it("draws one marker per point and panel, placed by linear scales", () => {
-    const markers = elements(chart.svg, "path", "stop-point");
+    const markers = elements(chart.svg, "use", "stop-point");
     expect(markers).toHaveLength(points.length * 2);
     for (const measure of ["distanceDeg", "timeS"] as const) {
-      const own = markers.filter((m) => attr(m, "data-measure") === measure && attr(m, "class")!.includes("point-1"));
+      const own = markers.filter(
+        (m) =>
+          attr(m, "class")!.includes(measure === "distanceDeg" ? "distance" : "time") &&
+          attr(m, "class")!.includes("point-1"),
+      );
       const cat1 = own.filter(
         (m) =>
           Number(attr(m, "data-speed-percent")) < 100 ||
@@ -88,8 +91,8 @@ describe("stoppingChart", () => {
   it("uses the same y scale in both rows: a value sits at the same height above its panel's base", () => {
     // Category 0 at 100 % speed, extension 100 %: 40 deg; category 1 at 100 % speed: 45 deg. Both rows have the
     // same panel height and domain, so (base − y) / value is the same in both rows.
-    const dist = elements(chart.svg, "path", "stop-point").filter(
-      (m) => attr(m, "data-measure") === "distanceDeg" && attr(m, "class")!.includes("point-1"),
+    const dist = elements(chart.svg, "use", "stop-point").filter(
+      (m) => attr(m, "class")!.includes("distance") && attr(m, "class")!.includes("point-1"),
     );
     const at = (v: number) => translate(dist.find((m) => Number(attr(m, "data-value")) === v)!);
     const ticks = elements(chart.svg, "line", "domain");
