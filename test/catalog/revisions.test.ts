@@ -90,7 +90,7 @@ describe("readFolderHistory", () => {
     expect(h.versions.has("new-arm.json")).toBe(false);
   });
 
-  it("says why history is unavailable: not a repository, a shallow clone, turned off", async () => {
+  it("says why history is unavailable: not a repository, a shallow clone, no git, turned off", async () => {
     const plain = mkdtempSync(join(tmpdir(), "armdex-nogit-"));
     scratch.push(plain);
     expect(await readFolderHistory(plain, ["x.json"])).toEqual({ status: "unavailable", reason: "not-a-repository" });
@@ -107,6 +107,18 @@ describe("readFolderHistory", () => {
       status: "unavailable",
       reason: "shallow-clone",
     });
+
+    // No git on the machine: the command cannot be started.
+    const path = process.env.PATH;
+    process.env.PATH = join(plain, "no-bin-here");
+    try {
+      expect(await readFolderHistory(join(r.root, "arms"), ["rev-arm.json"])).toEqual({
+        status: "unavailable",
+        reason: "no-git",
+      });
+    } finally {
+      process.env.PATH = path;
+    }
 
     const before = process.env.ARMDEX_REVISIONS;
     process.env.ARMDEX_REVISIONS = "off";
