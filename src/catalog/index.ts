@@ -1,4 +1,5 @@
 export * from "./schema";
+export * from "./datasheetSchema";
 export * from "./issues";
 export * from "./validate";
 export * from "./load";

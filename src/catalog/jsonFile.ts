@@ -45,6 +45,19 @@ export async function readJsonFile(path: string, what: string): Promise<JsonRead
   } catch (e) {
     return err(`cannot read the file: ${(e as NodeJS.ErrnoException).code ?? String(e)}`);
   }
+  return parseJsonBytes(bytes, file, what);
+}
+
+/**
+ * Parses the bytes of a UTF-8 JSON file, wherever they came from (the disk, or a file's earlier version in the
+ * repository's history), with the same friendly errors as readJsonFile. `file` names it in issues.
+ */
+export function parseJsonBytes(bytes: Uint8Array, file: string, what: string): JsonRead {
+  const err = (message: string): JsonRead => ({
+    ok: false,
+    file,
+    issues: [{ file, path: "", message, severity: "error" }],
+  });
   let text: string;
   try {
     text = new TextDecoder("utf-8", { fatal: true }).decode(bytes);

@@ -1,12 +1,12 @@
 /** Loads arm files from disk, validates them and builds the catalog. Node-only (fs, crypto); no Astro. */
-import { readdir, stat } from "node:fs/promises";
+import { readdir, readFile, stat } from "node:fs/promises";
 import { createHash } from "node:crypto";
 import { basename, dirname, join, relative, resolve } from "node:path";
 import type { Chain } from "../core";
 import type { ArmSpec } from "./schema";
 import { type ArmIssue, formatIssue } from "./issues";
 import { plausibilityWarnings, validateArm } from "./validate";
-import { checkSchemaRef, readJsonFile } from "./jsonFile";
+import { checkSchemaRef, parseJsonBytes } from "./jsonFile";
 
 export interface Arm {
   readonly id: string;
@@ -49,26 +49,50 @@ export interface LoadedFile {
   readonly declaredId?: string | null;
   /** Whether the declared id equals the file name. */
   readonly idMatchesFile?: boolean;
+  /** The file's JSON value, when the text parsed (valid or not). */
+  readonly data?: unknown;
 }
 
 /** Reads and validates one arm file. Never throws for bad data: problems come back as issues. */
 export async function loadArmFile(path: string): Promise<LoadedFile> {
-  const read = await readJsonFile(path, "one arm");
+  const file = relative(process.cwd(), path) || path;
+  let bytes: Buffer;
+  try {
+    const info = await stat(path);
+    if (!info.isFile()) return fileError(file, "expected a JSON file, found a directory or other non-file");
+    bytes = await readFile(path);
+  } catch (e) {
+    return fileError(file, `cannot read the file: ${(e as NodeJS.ErrnoException).code ?? String(e)}`);
+  }
+  return loadArmBytes(bytes, file, basename(path).replace(/\.json$/i, ""), dirname(path));
+}
+
+function fileError(file: string, message: string): LoadedFile {
+  return { arm: null, issues: [{ file, path: "", message, severity: "error" }] };
+}
+
+/**
+ * Reads and validates the bytes of one arm file, wherever they came from (the disk, or a file's earlier version in
+ * the repository's history): `file` names it in issues, `fileId` is its file name without `.json`, `dir` the folder
+ * its `$schema` path is resolved from. Never throws for bad data: problems come back as issues.
+ */
+export async function loadArmBytes(bytes: Uint8Array, file: string, fileId: string, dir: string): Promise<LoadedFile> {
+  const read = parseJsonBytes(bytes, file, "one arm");
   if (!read.ok) return { arm: null, issues: read.issues };
-  const { file, data } = read;
-  const fileId = basename(path).replace(/\.json$/i, "");
+  const { data } = read;
   const result = validateArm(data, file, fileId);
   const issues: ArmIssue[] = [...result.issues, ...(result.ok ? plausibilityWarnings(result.spec, file) : [])];
   const schemaRef = (data as { $schema?: unknown } | null)?.$schema;
   if (typeof schemaRef === "string") {
-    const problem = await checkSchemaRef(schemaRef, dirname(path), "arm", "../public/schema/arm.schema.json");
+    const problem = await checkSchemaRef(schemaRef, dir, "arm", "../public/schema/arm.schema.json");
     if (problem) issues.push({ file, path: "$schema", message: problem, severity: "error" });
   }
   const declared = (data as { id?: unknown } | null)?.id;
   const declaredId = typeof declared === "string" ? declared : null;
   if (!result.ok || issues.some((i) => i.severity === "error"))
-    return { arm: null, issues, declaredId, idMatchesFile: declaredId === fileId };
+    return { arm: null, issues, declaredId, idMatchesFile: declaredId === fileId, data };
   return {
+    data,
     declaredId,
     idMatchesFile: true,
     arm: {

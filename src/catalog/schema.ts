@@ -5,6 +5,7 @@
  * This file is the single source of the JSON Schema in public/schema/arm.schema.json (see `armJsonSchema`).
  */
 import { z } from "zod";
+import { DATASHEET_SHAPE } from "./datasheetSchema";
 
 const LENGTH_LIMIT_MM = 100_000;
 const ANGLE_LIMIT_DEG = 720;
@@ -190,6 +191,7 @@ export const ArmSpecSchema = z
       )
       .max(24)
       .optional(),
+    ...DATASHEET_SHAPE,
     source: z.strictObject({
       document: text(300).describe("title of the datasheet or manual the numbers came from"),
       revision: text(80),

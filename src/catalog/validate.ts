@@ -2,6 +2,7 @@ import type { $ZodIssue } from "zod/v4/core";
 import { ArmSpecSchema, type ArmSpec } from "./schema";
 import { type ArmIssue, describeValue, toPath } from "./issues";
 import { compileChain, type Chain } from "../core";
+import { datasheetIssues } from "./datasheetRules";
 
 export type ValidatedArm =
   | { readonly ok: true; readonly spec: ArmSpec; readonly chain: Chain; readonly issues: readonly ArmIssue[] }
@@ -153,6 +154,7 @@ export function semanticIssues(data: unknown): PathMessage[] {
         "expected at least one driven joint (with a range and a speed): with every joint passive the flange cannot move",
     });
   }
+  out.push(...datasheetIssues(data));
   // Without a joints array the names used elsewhere cannot be checked (the joints error says enough).
   if (!Array.isArray(data.joints)) return out;
   jointReferenceIssues(out, data, names);

@@ -11,3 +11,4 @@ export * from "./singularityChart";
 export * from "./payloadChart";
 export * from "./loadDiagramChart";
 export * from "./cycleChart";
+export * from "./stoppingChart";

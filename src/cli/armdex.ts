@@ -67,11 +67,18 @@ async function check(paths: string[], json: boolean): Promise<number> {
   return reportCheck(await checkPaths(paths, defaultArmsDir()), json);
 }
 
-/** Analyses every arm of a load result into the cache (parallel workers), printing the counts and the warnings. */
-async function analyseAll(arms: LoadResult["arms"], workers: number | undefined): Promise<number> {
+/**
+ * Analyses every arm of a load result into the cache (parallel workers), printing the counts and the warnings;
+ * `older` (earlier revisions of the arms) go through the same pool, their warnings are not printed.
+ */
+async function analyseAll(
+  arms: LoadResult["arms"],
+  workers: number | undefined,
+  older: LoadResult["arms"] = [],
+): Promise<number> {
   const { analyseCatalog, getAnalysisSummary } = await import("../catalog/analysis");
   const t0 = performance.now();
-  const report = await analyseCatalog(arms, { workers, log: (l) => process.stdout.write(`${l}\n`) });
+  const report = await analyseCatalog([...arms, ...older], { workers, log: (l) => process.stdout.write(`${l}\n`) });
   process.stdout.write(
     `${report.analysed.length} analysed, ${report.cached.length} from the cache, in ${((performance.now() - t0) / 1000).toFixed(1)} s\n`,
   );
@@ -85,15 +92,19 @@ async function analyseAll(arms: LoadResult["arms"], workers: number | undefined)
 /**
  * `armdex prepare`: what the site build needs before Astro runs, with each arm file read and validated once:
  * the JSON Schemas, the check of every arm file and of every cell file in the folder's `cells/` (any error stops
- * the build before anything is published), the analyses (cached, in parallel).
+ * the build before anything is published), the arm files' earlier revisions from the repository's history, the
+ * analyses of both (cached, in parallel), the revision data the pages read, and the cell studies and placement maps
+ * (cached).
  */
 async function prepare(paths: string[], workers: number | undefined): Promise<number> {
   const loaded = await checkPaths(paths, defaultArmsDir());
   await schema([]);
   if (reportCheck(loaded, false) !== 0) return 1;
-  const code = await analyseAll(loaded.arms.arms, workers);
+  const { prepareRevisions } = await import("./revisions");
+  const arms = loaded.arms.arms;
+  const code = await prepareRevisions(arms, (older) => analyseAll(arms, workers, older));
   if (code !== 0) return code;
-  return prepareCells(loaded.cells.cells, loaded.arms.arms);
+  return prepareCells(loaded.cells.cells, arms);
 }
 
 /** Cell studies and placement maps of every cell into the cache (computed once per content). */

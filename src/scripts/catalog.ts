@@ -33,6 +33,12 @@ function numberOf(text: string | undefined): number | null {
   return Number.isFinite(v) ? v : null;
 }
 
+function footprintOf(width: string | undefined, depth: string | undefined): [number, number] | null {
+  const w = numberOf(width),
+    d = numberOf(depth);
+  return w === null || d === null ? null : [w, d];
+}
+
 /** The rows as the filter and sort see them, from the data attributes the page wrote. */
 function readRows(table: HTMLTableElement, numericKeys: ReadonlySet<string>): LiveRow[] {
   return Array.from(table.tBodies[0]?.rows ?? []).map((el) => {
@@ -57,6 +63,9 @@ function readRows(table: HTMLTableElement, numericKeys: ReadonlySet<string>): Li
       minHeightMm: numberOf(d.minHeightMm),
       maxHeightMm: numberOf(d.maxHeightMm),
       lineSpeedMPerS: numberOf(d.lineSpeedMPerS),
+      footprintMm: footprintOf(d.footprintWidthMm, d.footprintDepthMm),
+      protection: d.protection ?? null,
+      repeatabilityMm: numberOf(d.repeatabilityMm),
       sort,
       sortGroup,
     };
@@ -76,6 +85,10 @@ const FILTER_FIELDS: readonly (keyof CatalogFilter)[] = [
   "heightFromMm",
   "heightToMm",
   "minLineSpeedMPerS",
+  "maxFootprintWidthMm",
+  "maxFootprintDepthMm",
+  "minProtection",
+  "maxRepeatabilityMm",
 ];
 
 /** The form's fields as a query, read by the same parser as the address (one set of rules for both). */

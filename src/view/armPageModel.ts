@@ -3,6 +3,7 @@ import type { Arm } from "../catalog";
 import type { ArmAnalysis } from "../core";
 import { armAnalysisModel, type ArmAnalysisModel } from "./armAnalysisModel";
 import { CAUTIONS, type Cautions } from "./cautions";
+import { datasheetModel, type DatasheetModel } from "./datasheetModel";
 import type { ViewOptions } from "./catalogPageModel";
 import {
   formatList,
@@ -51,6 +52,8 @@ export interface ArmPageModel {
   readonly specTable: TableModel;
   readonly wristTable: TableModel | null;
   readonly commercialTable: TableModel | null;
+  /** The declared datasheet facts, performance and stopping data (section "Datasheet"). */
+  readonly datasheet: DatasheetModel;
   readonly parameterTable: TableModel;
   readonly linkTable: TableModel | null;
   readonly jointTable: TableModel;
@@ -228,6 +231,7 @@ export function armPageModel(arm: Arm, options: ArmViewOptions, analysis?: ArmAn
   const sections: PageSection[] = [
     ...(computed ? [{ id: "summary", title: "Key figures" }] : []),
     { id: "specs", title: "Specifications" },
+    { id: "datasheet", title: "Datasheet" },
     ...(computed ? ANALYSIS_SECTIONS : []),
     { id: "parameters", title: "Kinematic parameters" },
     { id: "joints", title: "Joints" },
@@ -253,6 +257,7 @@ export function armPageModel(arm: Arm, options: ArmViewOptions, analysis?: ArmAn
     specTable: specTable(arm),
     wristTable: wristTable(arm),
     commercialTable: commercialTable(arm),
+    datasheet: datasheetModel(s),
     parameterTable: parameterTable(s),
     linkTable: linkTable(arm),
     jointTable: jointTable(arm),

@@ -5,11 +5,13 @@
  *
  * The state lives in the URL query, with our own plain keys (see CATALOG_QUERY_KEYS):
  * `?class=articulated&mounting=ceiling&minPayloadKg=10&minReachMm=1200&heightFromMm=0&heightToMm=900`
- * `&minLineSpeedMPerS=1.5&sort=payload&dir=desc&pick=a,b,c`. A value that does not parse, or names an unknown class,
+ * `&minLineSpeedMPerS=1.5&maxFootprintWidthMm=600&maxFootprintDepthMm=500&minProtection=IP54&maxRepeatabilityMm=0.05`
+ * `&sort=payload&dir=desc&pick=a,b,c`. A value that does not parse, or names an unknown class,
  * mounting, column or arm, is dropped (as if absent), never an error.
  */
 import { siteHref } from "./links";
 import { MAX_COMPARE_ARMS, MIN_COMPARE_ARMS } from "./compareModel";
+import { parseIpCode, protectionMeets } from "./protection";
 
 /** Query keys of the catalog state. */
 export const CATALOG_QUERY_KEYS = {
@@ -20,6 +22,10 @@ export const CATALOG_QUERY_KEYS = {
   heightFromMm: "heightFromMm",
   heightToMm: "heightToMm",
   minLineSpeedMPerS: "minLineSpeedMPerS",
+  maxFootprintWidthMm: "maxFootprintWidthMm",
+  maxFootprintDepthMm: "maxFootprintDepthMm",
+  minProtection: "minProtection",
+  maxRepeatabilityMm: "maxRepeatabilityMm",
   sort: "sort",
   dir: "dir",
   pick: "pick",
@@ -41,6 +47,13 @@ export interface CatalogFilter {
   readonly heightToMm: number | null;
   /** Best guaranteed straight-line speed with the tool down at least this, m/s. */
   readonly minLineSpeedMPerS: number | null;
+  /** The declared base footprint fits within width × depth (turned by 90° if need be), mm; either bound alone. */
+  readonly maxFootprintWidthMm: number | null;
+  readonly maxFootprintDepthMm: number | null;
+  /** The declared IP code meets this one (IEC 60529, see protection.ts), e.g. "IP54". */
+  readonly minProtection: string | null;
+  /** Declared pose repeatability (ISO 9283 RP) at most this, mm. */
+  readonly maxRepeatabilityMm: number | null;
 }
 
 export type SortDirection = "asc" | "desc";
@@ -66,6 +79,10 @@ export const NO_FILTER: CatalogFilter = {
   heightFromMm: null,
   heightToMm: null,
   minLineSpeedMPerS: null,
+  maxFootprintWidthMm: null,
+  maxFootprintDepthMm: null,
+  minProtection: null,
+  maxRepeatabilityMm: null,
 };
 
 export const EMPTY_CATALOG_STATE: CatalogState = { filter: NO_FILTER, sort: null, pick: [] };
@@ -88,6 +105,12 @@ export interface CatalogRowData {
   readonly minHeightMm: number | null;
   readonly maxHeightMm: number | null;
   readonly lineSpeedMPerS: number | null;
+  /** Declared base footprint [width, depth], mm; null or absent: not declared. */
+  readonly footprintMm?: readonly [number, number] | null;
+  /** Declared IEC 60529 code; absent: unknown. */
+  readonly protection?: string | null;
+  /** Declared pose repeatability, mm; absent: unknown. */
+  readonly repeatabilityMm?: number | null;
   /** Sort value per column key: a number (numeric columns) or a string; null or absent sorts last. */
   readonly sort: Readonly<Record<string, number | string | null | undefined>>;
   /** Sorted first by this within a column (the currency of a list price: amounts are not converted). */
@@ -114,6 +137,12 @@ function nonNegative(text: string | null): number | null {
   return v !== null && v >= 0 ? v : null;
 }
 
+/** An IEC 60529 code in capitals ("ip54" reads as "IP54"); null for anything else. */
+function ipCode(text: string | null): string | null {
+  const t = text?.trim().toUpperCase() ?? "";
+  return parseIpCode(t) ? t : null;
+}
+
 function oneOf(text: string | null, allowed: readonly string[]): string | null {
   return text !== null && allowed.includes(text) ? text : null;
 }
@@ -134,6 +163,10 @@ export function parseCatalogQuery(search: string | URLSearchParams, choices: Cat
     heightFromMm: parseDecimal(q.get(K.heightFromMm)),
     heightToMm: parseDecimal(q.get(K.heightToMm)),
     minLineSpeedMPerS: nonNegative(q.get(K.minLineSpeedMPerS)),
+    maxFootprintWidthMm: nonNegative(q.get(K.maxFootprintWidthMm)),
+    maxFootprintDepthMm: nonNegative(q.get(K.maxFootprintDepthMm)),
+    minProtection: ipCode(q.get(K.minProtection)),
+    maxRepeatabilityMm: nonNegative(q.get(K.maxRepeatabilityMm)),
   };
   const key = oneOf(q.get(K.sort), choices.sortKeys);
   const sort: CatalogSort | null = key === null ? null : { key, dir: q.get(K.dir) === "desc" ? "desc" : "asc" };
@@ -161,14 +194,20 @@ export function catalogQueryPairs(state: CatalogState): [string, string][] {
   const out: [string, string][] = [];
   if (f.class !== null) out.push([K.class, f.class]);
   if (f.mounting !== null) out.push([K.mounting, f.mounting]);
+  const protection = f.minProtection;
   const numbers: [string, number | null][] = [
     [K.minPayloadKg, f.minPayloadKg],
     [K.minReachMm, f.minReachMm],
     [K.heightFromMm, f.heightFromMm],
     [K.heightToMm, f.heightToMm],
     [K.minLineSpeedMPerS, f.minLineSpeedMPerS],
+    [K.maxFootprintWidthMm, f.maxFootprintWidthMm],
+    [K.maxFootprintDepthMm, f.maxFootprintDepthMm],
   ];
   for (const [k, v] of numbers) if (v !== null && Number.isFinite(v)) out.push([k, numberText(v)]);
+  if (protection !== null) out.push([K.minProtection, protection]);
+  if (f.maxRepeatabilityMm !== null && Number.isFinite(f.maxRepeatabilityMm))
+    out.push([K.maxRepeatabilityMm, numberText(f.maxRepeatabilityMm)]);
   if (state.sort) out.push([K.sort, state.sort.key], [K.dir, state.sort.dir]);
   if (state.pick.length > 0) out.push([K.pick, state.pick.join(",")]);
   return out;
@@ -206,6 +245,27 @@ export function rowPasses(row: CatalogRowData, f: CatalogFilter): boolean {
     if (row.minHeightMm === null || row.maxHeightMm === null) return false;
     if (!(row.minHeightMm <= Math.min(a, b) && row.maxHeightMm >= Math.max(a, b))) return false;
   }
+  return datasheetPasses(row, f);
+}
+
+/**
+ * The filters on declared datasheet facts: the footprint fits within the bounds given (as it stands or turned by
+ * 90°), the IP code meets the minimum, the pose repeatability is at most the bound. Not declared: fails.
+ */
+export function datasheetPasses(row: CatalogRowData, f: CatalogFilter): boolean {
+  if (f.maxFootprintWidthMm !== null || f.maxFootprintDepthMm !== null) {
+    const fp = row.footprintMm;
+    if (!fp) return false;
+    const w = f.maxFootprintWidthMm ?? Infinity,
+      d = f.maxFootprintDepthMm ?? Infinity;
+    if (!((fp[0] <= w && fp[1] <= d) || (fp[1] <= w && fp[0] <= d))) return false;
+  }
+  if (f.minProtection !== null && !(row.protection && protectionMeets(row.protection, f.minProtection))) return false;
+  if (
+    f.maxRepeatabilityMm !== null &&
+    !(row.repeatabilityMm !== null && row.repeatabilityMm !== undefined && row.repeatabilityMm <= f.maxRepeatabilityMm)
+  )
+    return false;
   return true;
 }
 

@@ -2,6 +2,7 @@
 import type { Arm, ArmSpec } from "../catalog";
 import type { AnalysisSummary } from "../catalog/analysis";
 import { formatSignedPercent, reachCheck } from "./armAnalysisModel";
+import { conditionsText, declaredPoseRepeatability, NOT_DECLARED } from "./datasheetFormat";
 import { formatList, formatNumber, formatPrice, NOT_STATED } from "./format";
 import { CLASS_LABEL, MOUNTING_LABEL } from "./labels";
 import { armPath, siteHref } from "./links";
@@ -18,7 +19,12 @@ export interface CatalogPageModel {
   readonly countText: string;
   readonly table: TableModel;
   /** Choices of the filter form: the classes and mountings that occur in the catalog, in the format's order. */
-  readonly filterChoices: { readonly classes: readonly FilterOption[]; readonly mountings: readonly FilterOption[] };
+  readonly filterChoices: {
+    readonly classes: readonly FilterOption[];
+    readonly mountings: readonly FilterOption[];
+    /** IP codes that occur in the catalog, sorted: the choices of "protection at least". */
+    readonly protections: readonly FilterOption[];
+  };
 }
 
 export interface ViewOptions {
@@ -37,6 +43,7 @@ const COLUMNS: readonly TableColumn[] = [
   { key: "mass", label: "Mass", unit: "kg", numeric: true },
   { key: "mountings", label: "Mountings", numeric: false },
   { key: "protection", label: "Protection", numeric: false },
+  { key: "footprint", label: "Footprint", unit: "mm", numeric: true },
 ];
 
 /** Computed columns, shown when the analyses are given: after the stated reach, and after the mass. */
@@ -137,7 +144,14 @@ export function catalogPageModel(
       class: s.class,
       mountings: s.mountings.join(" "),
       "payload-kg": String(s.ratedPayloadKg),
+      protection: s.protection,
+      "repeatability-mm": String(s.repeatabilityMm),
     };
+    if (s.footprintMm) {
+      data["footprint-width-mm"] = String(s.footprintMm[0]);
+      data["footprint-depth-mm"] = String(s.footprintMm[1]);
+    }
+    const rp = declaredPoseRepeatability(s);
     if (analysis) {
       data["computed-reach-mm"] = String(reachCheck(analysis).computedMm);
       if (analysis.reach.minHeightMm !== null) data["min-height-mm"] = String(analysis.reach.minHeightMm);
@@ -156,11 +170,22 @@ export function catalogPageModel(
         { text: formatNumber(s.ratedPayloadKg, 1), sortValue: s.ratedPayloadKg },
         ...(computed ? [computed.reach] : []),
         statedCell,
-        { text: formatNumber(s.repeatabilityMm, 3), sortValue: s.repeatabilityMm },
+        {
+          text: formatNumber(s.repeatabilityMm, 3),
+          sortValue: s.repeatabilityMm,
+          ...(rp && rp.valueMm === s.repeatabilityMm ? { note: conditionsText(rp) } : {}),
+        },
         { text: formatNumber(s.massKg, 1), sortValue: s.massKg },
         ...(computed ? computed.rest : []),
         { text: formatList(s.mountings.map((m) => MOUNTING_LABEL[m])), sortValue: s.mountings.join(" ") },
         { text: s.protection, sortValue: s.protection },
+        s.footprintMm
+          ? {
+              text: `${formatNumber(s.footprintMm[0])} \u00d7 ${formatNumber(s.footprintMm[1])}`,
+              note: "width \u00d7 depth",
+              sortValue: s.footprintMm[0] * s.footprintMm[1],
+            }
+          : { text: NOT_DECLARED },
         ...(withPrice
           ? [
               c
@@ -186,6 +211,7 @@ export function catalogPageModel(
       mountings: (Object.keys(MOUNTING_LABEL) as ArmSpec["mountings"][number][])
         .filter((k) => arms.some((a) => a.spec.mountings.includes(k)))
         .map((k) => ({ value: k, label: MOUNTING_LABEL[k] })),
+      protections: [...new Set(arms.map((a) => a.spec.protection))].sort().map((c) => ({ value: c, label: c })),
     },
     table: {
       id: "catalog",

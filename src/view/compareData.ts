@@ -17,6 +17,7 @@
 import type { Arm } from "../catalog/load";
 import type { ArmAnalysis } from "../core";
 import { simplifyRing, type PointData, type PolygonData } from "../charts/geometry";
+import { declaredPoseRepeatability, type DeclaredValue } from "./datasheetFormat";
 
 /** Side of a speed block, mm (rounded up to a multiple of the map's node spacing). */
 export const COMPARE_SPEED_BLOCK_MM = 50;
@@ -83,6 +84,10 @@ export interface CompareArmSummary {
     readonly listPrice: number | null;
     readonly currency: string | null;
     readonly source: string;
+    /** Declared base footprint [width, depth], mm. */
+    readonly footprintMm: readonly [number, number] | null;
+    /** Declared ISO 9283 pose repeatability with its test load and speed (declaredPerformance). */
+    readonly poseRepeatability: DeclaredValue | null;
   };
   readonly reach: {
     readonly basis: string;
@@ -223,6 +228,8 @@ export function compareSummary(arm: Arm, analysis: ArmAnalysis): CompareArmSumma
       listPrice: s.commercial?.listPrice ?? null,
       currency: s.commercial?.currency ?? null,
       source: `${s.source.document}, ${s.source.revision}, ${s.source.date}`,
+      footprintMm: s.footprintMm ?? null,
+      poseRepeatability: declaredPoseRepeatability(s),
     },
     reach: {
       basis: analysis.reach.basis,

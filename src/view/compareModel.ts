@@ -4,6 +4,7 @@
  */
 import { STANDARD_CYCLE_MOVES } from "../core";
 import type { CompareArmSummary } from "./compareData";
+import { conditionsText, formatFootprint, NOT_DECLARED } from "./datasheetFormat";
 import { formatNumber, formatQuantity, NOT_STATED } from "./format";
 
 export const MIN_COMPARE_ARMS = 2;
@@ -165,7 +166,12 @@ export function specRows(arms: readonly CompareArmSummary[]): CompareRow[] {
       "lower",
       "lowest (tightest) repeatability figure",
       d.map((x) => x.repeatabilityMm),
-      (v) => (v === null ? NOT_STATED : `±${formatQuantity(v, "mm", 3)}`),
+      (v, i) => {
+        if (v === null) return NOT_STATED;
+        // The conditions it was measured at, where the file's ISO 9283 table declares the same value.
+        const rp = d[i]!.poseRepeatability;
+        return `±${formatQuantity(v, "mm", 3)}${rp && rp.valueMm === v ? ` (${conditionsText(rp)})` : ""}`;
+      },
     ),
     row(
       "mass",
@@ -174,6 +180,17 @@ export function specRows(arms: readonly CompareArmSummary[]): CompareRow[] {
       "lightest arm",
       d.map((x) => x.massKg),
       q("kg", 1),
+    ),
+    row(
+      "footprint",
+      "Base footprint (declared, width × depth)",
+      "lower",
+      "smallest base footprint (area)",
+      d.map((x) => (x.footprintMm ? x.footprintMm[0] * x.footprintMm[1] : null)),
+      (_, i) => {
+        const fp = d[i]!.footprintMm;
+        return fp ? formatFootprint(fp) : NOT_DECLARED;
+      },
     ),
     row(
       "protection",

@@ -13,7 +13,10 @@
  * 7. cell studies of the demo cells, cold and warm, against the editor's 250 ms budget, and the placement maps of
  *    one cell's candidates at 50 mm against 5 s (cellStudy.ts).
  * Options: --arms <folder> (default arms/), --quick (fewer repetitions, 30 generated arms), --only <ids>,
- * --scale-arms <n> (default 300), --no-scale (skip section 5), --fuzz-runs <n> (default 500, 50 with --quick).
+ * 6. pinned revisions: collecting 300 arms × 3 revisions from a generated git history against loading the catalog,
+ *    and whole builds with and without the history (revisions.ts).
+ * --scale-arms <n> (default 300), --no-scale (skip section 5), --no-revisions (skip section 6), --fuzz-runs <n>
+ * (default 500, 50 with --quick).
  */
 import { parseArgs } from "node:util";
 import { loadArms } from "../../src/catalog";
@@ -31,6 +34,7 @@ import { analyseArm, MAX_OUTPUT_COLUMNS } from "../../src/core/analysis/analyseA
 import { gravityDirectionInBase } from "../../src/core/kinematics/statics";
 import { armFacts } from "../../src/catalog/analysis";
 import { runScaleBench, timedBuild } from "./scale";
+import { runRevisionBuildBench, runRevisionStageBench } from "./revisions";
 import { measureCompareInteractive } from "./compareInteractive";
 import { readdirSync, statSync } from "node:fs";
 import { join } from "node:path";
@@ -46,6 +50,7 @@ const { values } = parseArgs({
     only: { type: "string" },
     "scale-arms": { type: "string" },
     "no-scale": { type: "boolean" },
+    "no-revisions": { type: "boolean" },
     "fuzz-runs": { type: "string" },
   },
 });
@@ -204,4 +209,12 @@ await benchCellStudies(values.arms ?? "arms", reps);
 if (!values["no-scale"]) {
   console.log("\ncatalog scale (whole build: check, analyses in worker threads, site):");
   await runScaleBench({ root: process.cwd(), arms: Number(values["scale-arms"] ?? (values.quick ? 30 : 300)) });
+}
+
+// 6. Pinned revisions: reading the history (stage, 300 arms × 3 revisions) and whole builds with and without it.
+if (!values["no-revisions"]) {
+  console.log("\npinned revisions (history read with git, older revisions validated, diffed, analysed once):");
+  const log = (l: string) => console.log(l);
+  await runRevisionStageBench({ root: process.cwd(), arms: values.quick ? 30 : 300, reps: values.quick ? 3 : 5, log });
+  await runRevisionBuildBench({ root: process.cwd(), arms: values.quick ? 6 : 20, reps: values.quick ? 2 : 3, log });
 }

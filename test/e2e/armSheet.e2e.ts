@@ -146,7 +146,8 @@ describe("arm sheet, computed sections", () => {
         expect(c.title, `${id} ${c.id} title`).toBe(c.label);
         expect(c.desc.length, `${id} ${c.id} desc`).toBeGreaterThan(20);
         expect(c.axisLabels.length, `${id} ${c.id} axis labels`).toBeGreaterThanOrEqual(1);
-        for (const l of c.axisLabels) expect(l, `${id} ${c.id} axis label`).toMatch(/\((mm|m\/s|kg|s|× limit)\)$/);
+        for (const l of c.axisLabels)
+          expect(l, `${id} ${c.id} axis label`).toMatch(/\((mm|m\/s|kg|s|deg|% of max\.|× limit)\)$/);
         expect(c.caption.length, `${id} ${c.id} caption`).toBeGreaterThan(60);
         expect(c.styled, `${id} ${c.id} style attributes`).toBe(0);
         expect(c.width, `${id} ${c.id} rendered width`).toBeGreaterThan(300);

@@ -136,17 +136,20 @@ function readLayout(page: Page): Promise<PrintLayout> {
       selector,
       visible: Array.from(document.querySelectorAll(selector)).filter(visible).length,
     }));
-    const figures = Array.from(document.querySelectorAll("main figure")).map((f) => {
-      const svg = f.querySelector("svg");
-      return {
-        id: f.id,
-        breakInside: getComputedStyle(f).breakInside,
-        height: f.getBoundingClientRect().height,
-        svgRight: svg ? svg.getBoundingClientRect().right : 0,
-        title: (svg?.querySelector(".chart-title")?.textContent ?? "").trim(),
-        caption: (f.querySelector("figcaption")?.textContent ?? "").replace(/\s+/g, " ").trim(),
-      };
-    });
+    // Figures the print leaves out (inside a screen-only block) are not on paper.
+    const figures = Array.from(document.querySelectorAll("main figure"))
+      .filter(visible)
+      .map((f) => {
+        const svg = f.querySelector("svg");
+        return {
+          id: f.id,
+          breakInside: getComputedStyle(f).breakInside,
+          height: f.getBoundingClientRect().height,
+          svgRight: svg ? svg.getBoundingClientRect().right : 0,
+          title: (svg?.querySelector(".chart-title")?.textContent ?? "").trim(),
+          caption: (f.querySelector("figcaption")?.textContent ?? "").replace(/\s+/g, " ").trim(),
+        };
+      });
     const headings = Array.from(document.querySelectorAll("main h2, main h3")).filter(visible);
     const tables = Array.from(document.querySelectorAll<HTMLTableElement>("main table.data-table")).filter(visible);
 

@@ -33,7 +33,14 @@ describe("armPageModel with an analysis", () => {
   it("without an analysis the sheet is the declared part alone, as before", () => {
     const model = armPageModel(arm, { baseUrl: "/" });
     expect(model.analysis).toBeNull();
-    expect(model.sections.map((s) => s.id)).toEqual(["specs", "parameters", "joints", "source", "cautions"]);
+    expect(model.sections.map((s) => s.id)).toEqual([
+      "specs",
+      "datasheet",
+      "parameters",
+      "joints",
+      "source",
+      "cautions",
+    ]);
   });
 
   it("gives every chart a unique id, a title, a caption and an accessible SVG", () => {

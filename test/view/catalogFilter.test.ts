@@ -30,6 +30,20 @@ import { mulberry32, uniform } from "../helpers/prng";
 const CLASSES = ["articulated", "collaborative", "scara", "palletizer", "gantry"];
 const MOUNTINGS = ["floor", "ceiling", "wall", "angled"];
 const MAKERS = ["Ostrel", "ostrel", "Pimbury", "Quarrow", "Abney", "Zell 10", "Zell 9"];
+const CODES = ["IP20", "IP54", "IP65", "IP66", "IP67", "IPX7"];
+const MIN_CODES = ["IP20", "IP54", "IP65", "IPX7"];
+/**
+ * Which arm code meets which minimum, written out by hand from IEC 60529 (each given numeral met; water 1–6 and
+ * 7–8 are separate ladders, so IP67 alone does not meet IP65) [from memory: IEC 60529, second numeral].
+ */
+const MEETS: Readonly<Record<string, readonly string[]>> = {
+  IP20: ["IP20"],
+  IP54: ["IP20", "IP54"],
+  IP65: ["IP20", "IP54", "IP65"],
+  IP66: ["IP20", "IP54", "IP65"],
+  IP67: ["IP20", "IPX7"],
+  IPX7: ["IPX7"],
+};
 
 function randomRows(seed: number, n: number): CatalogRowData[] {
   const rand = mulberry32(seed);
@@ -48,6 +62,10 @@ function randomRows(seed: number, n: number): CatalogRowData[] {
       minHeightMm: rand() < 0.1 ? null : lo,
       maxHeightMm: lo + uniform(rand, 200, 2500),
       lineSpeedMPerS: maybe(uniform(rand, 0, 4)),
+      footprintMm:
+        rand() < 0.3 ? null : ([Math.round(uniform(rand, 150, 1200)), Math.round(uniform(rand, 150, 1200))] as const),
+      protection: CODES[Math.floor(rand() * CODES.length)]!,
+      repeatabilityMm: rand() < 0.1 ? null : Math.round(uniform(rand, 0.01, 0.2) * 1000) / 1000,
       sort: {
         maker: MAKERS[Math.floor(rand() * MAKERS.length)]!,
         payload: payloadKg,
@@ -91,6 +109,10 @@ describe("parseCatalogQuery and urlWithCatalogState", () => {
       heightFromMm: -300,
       heightToMm: 900,
       minLineSpeedMPerS: 1.25,
+      maxFootprintWidthMm: 600,
+      maxFootprintDepthMm: 450,
+      minProtection: "IP54",
+      maxRepeatabilityMm: 0.05,
     },
     sort: { key: "payload", dir: "desc" },
     pick: ["arm-03", "arm-00", "arm-10"],
@@ -116,6 +138,10 @@ describe("parseCatalogQuery and urlWithCatalogState", () => {
       "heightFromMm",
       "heightToMm",
       "minLineSpeedMPerS",
+      "maxFootprintWidthMm",
+      "maxFootprintDepthMm",
+      "minProtection",
+      "maxRepeatabilityMm",
       "sort",
       "dir",
       "pick",
@@ -151,6 +177,10 @@ describe("rowPasses", () => {
     heightFromMm: rand() < 0.3 ? uniform(rand, -900, 1500) : null,
     heightToMm: rand() < 0.3 ? uniform(rand, -900, 1500) : null,
     minLineSpeedMPerS: rand() < 0.3 ? uniform(rand, 0, 4) : null,
+    maxFootprintWidthMm: rand() < 0.2 ? uniform(rand, 100, 1300) : null,
+    maxFootprintDepthMm: rand() < 0.2 ? uniform(rand, 100, 1300) : null,
+    minProtection: rand() < 0.2 ? MIN_CODES[Math.floor(rand() * MIN_CODES.length)]! : null,
+    maxRepeatabilityMm: rand() < 0.2 ? uniform(rand, 0, 0.2) : null,
   }));
 
   /** Each rule restated on its own: the arm must show every height between the two ends (or the one end given). */
@@ -159,7 +189,17 @@ describe("rowPasses", () => {
     const heightsOk = ends.every(
       (h) => r.minHeightMm !== null && r.maxHeightMm !== null && h >= r.minHeightMm && h <= r.maxHeightMm,
     );
+    // The footprint fits as it stands or turned by 90°: try both orientations of the rectangle.
+    const fp = r.footprintMm ?? null;
+    const fits = (w: number, d: number) =>
+      w <= (f.maxFootprintWidthMm ?? Infinity) && d <= (f.maxFootprintDepthMm ?? Infinity);
+    const footprintOk =
+      (f.maxFootprintWidthMm === null && f.maxFootprintDepthMm === null) ||
+      (fp !== null && (fits(fp[0], fp[1]) || fits(fp[1], fp[0])));
     return (
+      footprintOk &&
+      (f.minProtection === null || (MEETS[r.protection ?? ""] ?? []).includes(f.minProtection)) &&
+      (f.maxRepeatabilityMm === null || (r.repeatabilityMm ?? Infinity) <= f.maxRepeatabilityMm) &&
       (f.class === null || f.class === r.class) &&
       (f.mounting === null || r.mountings.some((m) => m === f.mounting)) &&
       (f.minPayloadKg === null || r.payloadKg >= f.minPayloadKg) &&

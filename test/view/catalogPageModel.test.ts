@@ -57,6 +57,9 @@ describe("catalogPageModel for the interactive catalog", () => {
       "min-height-mm": String(analysis.reach.minHeightMm),
       "max-height-mm": String(analysis.reach.maxHeightMm),
       "line-speed-m-per-s": String(analysis.speed.maps[0]!.maxGuaranteedMmPerS! / 1000),
+      protection: arm.spec.protection,
+      "repeatability-mm": String(arm.spec.repeatabilityMm),
+      // The SCARA demo declares no footprint: no footprint attributes, and the filter on it fails.
     });
     expect(analysis.reach.wcpMaxMm).toBeNull();
     // List prices sort within their currency.
