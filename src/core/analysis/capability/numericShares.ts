@@ -74,8 +74,9 @@ export function numericShares(
   const reached = new Uint8Array(P),
     attempts = new Uint8Array(P);
   const sol = new Float64Array(P * m);
-  // The seed of each pair's last failed attempt: a new seed within SAME_SEED_RAD of it is not tried again.
-  const failedSeed = new Float64Array(P * m);
+  // The seed of each pair's last failed attempt (single precision is ample for the 0.05 rad comparison): a new
+  // seed within SAME_SEED_RAD of it is not tried again.
+  const failedSeed = new Float32Array(P * m);
   const samplePool = new Float64Array(setup.samples * m);
   // Ring buffer of (pair, seed reference); a push into a full buffer is dropped (the pair keeps its other seeds).
   const capacity = 2 * P + setup.samples;
@@ -146,7 +147,7 @@ export function numericShares(
 const SAME_SEED_RAD = 0.05;
 
 /** Whether `seed` lies within SAME_SEED_RAD of the m values at store[o..] in every joint. */
-function nearSeed(store: Float64Array, o: number, seed: ArrayLike<number>, m: number): boolean {
+function nearSeed(store: Float32Array, o: number, seed: ArrayLike<number>, m: number): boolean {
   for (let i = 0; i < m; i++) if (Math.abs(store[o + i]! - seed[i]!) > SAME_SEED_RAD) return false;
   return true;
 }
