@@ -229,7 +229,7 @@ describe("arm sheet, computed sections", () => {
     for (const arm of [six, scara]) {
       const { page, finish } = await openPage(`arms/${arm.id}/`);
       await page.screenshot({ path: join(shotsDir, `sheet-${arm.id}.png`), fullPage: true });
-      for (const s of ["summary", "envelope", "speed", "singularities", "payload", "cycle"]) {
+      for (const s of ["summary", "envelope", "speed", "directions", "singularities", "payload", "cycle"]) {
         await page.locator(`#${s}`).screenshot({ path: join(shotsDir, `sheet-${arm.id}-${s}.png`) });
       }
       expect(await finish()).toEqual([]);
