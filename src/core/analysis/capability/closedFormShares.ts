@@ -49,6 +49,11 @@ export function closedFormShares(
   const tilted = new Float64Array(3);
   const last = new Float64Array(m);
   const ikNum = createIkScratch(solveChain);
+  // The rotation of every (direction, roll) once; per node only the position changes.
+  const R = rollsRad.length;
+  const frames = new Float64Array(N * R * 16);
+  for (let k = 0; k < N; k++)
+    for (let r = 0; r < R; r++) directionPoseInto(frames.subarray((k * R + r) * 16), dirs, k, rollsRad[r]!, 0, 0, 0);
   for (let node = 0; node < nodes.inside.length; node++) {
     if (!nodes.inside[node]) continue;
     const px = nodes.positionsM[3 * node]!,
@@ -59,7 +64,10 @@ export function closedFormShares(
     for (let k = 0; k < N; k++) {
       let found = -1;
       for (let r = 0; r < rollsRad.length && found < 0; r++) {
-        directionPoseInto(target, dirs, k, rollsRad[r]!, px, py, pz);
+        target.set(frames.subarray((k * R + r) * 16, (k * R + r + 1) * 16));
+        target[3] = px;
+        target[7] = py;
+        target[11] = pz;
         out.solves++;
         let c = solveSphericalWristInto(sol, ik, target, 0, undefined, true);
         if (c === DEGENERATE) {

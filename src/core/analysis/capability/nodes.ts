@@ -6,7 +6,6 @@
  * inside the envelope when the flange side view (drawn at joint 1 = 0, r signed) holds (r, z) or (−r, z), i.e.
  * when the flange reaches that distance and height in front of axis 1 or over its back.
  */
-import { pointInPolygons } from "../../geometry/polygon";
 import { targetPositionInto, type Plane } from "../speedMap/plane";
 import type { CapabilityEnvelope } from "./types";
 
@@ -32,10 +31,12 @@ export function capabilityNodes(plane: Plane, envelope: CapabilityEnvelope, grid
   const positionsM = new Float64Array(3 * inside.length).fill(NaN);
   const t = new Float64Array(16);
   for (let iy = 0; iy < zMm.length; iy++) {
+    const z = zMm[iy]!;
+    const rows = envelope.side.map((p) => ({ outer: crossingsAt(z, [p.outer]), holes: crossingsAt(z, p.holes) }));
+    const within = (r: number) => rows.some((p) => rightOf(p.outer, r) % 2 === 1 && rightOf(p.holes, r) % 2 === 0);
     for (let ix = 0; ix < nx; ix++) {
-      const r = rMm[ix]!,
-        z = zMm[iy]!;
-      if (!pointInPolygons(r, z, envelope.side) && !pointInPolygons(-r, z, envelope.side)) continue;
+      const r = rMm[ix]!;
+      if (!within(r) && !within(-r)) continue;
       const node = ix + iy * nx;
       inside[node] = 1;
       targetPositionInto(t, plane, r / 1000, z / 1000);
@@ -45,6 +46,29 @@ export function capabilityNodes(plane: Plane, envelope: CapabilityEnvelope, grid
     }
   }
   return { gridMm, rMm, zMm, inside, positionsM };
+}
+
+/**
+ * The horizontal positions where closed rings cross the line at height y, by the rule of the even–odd test
+ * (geometry/polygon.ts pointInRing: an edge counts when its ends lie on either side of y, one strictly above).
+ * A point (x, y) is inside a ring exactly when an odd number of them lie to its right (rightOf).
+ */
+function crossingsAt(y: number, rings: readonly (readonly (readonly [number, number])[])[]): number[] {
+  const out: number[] = [];
+  for (const ring of rings)
+    for (let k = 1; k < ring.length; k++) {
+      const [x0, y0] = ring[k - 1]!;
+      const [x1, y1] = ring[k]!;
+      if (y0 > y !== y1 > y) out.push(x0 + ((y - y0) * (x1 - x0)) / (y1 - y0));
+    }
+  return out;
+}
+
+/** How many of the crossings lie strictly to the right of x. */
+function rightOf(crossings: readonly number[], x: number): number {
+  let n = 0;
+  for (const c of crossings) if (x < c) n++;
+  return n;
 }
 
 /**
