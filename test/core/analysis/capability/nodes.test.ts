@@ -43,6 +43,38 @@ describe("capabilityNodes", () => {
     expect(Number.isNaN(nodes.positionsM[0]!)).toBe(true);
   });
 
+  it("leaves out nodes in a hole: a 600 mm square with a 200 mm square hole about (300, 300)", () => {
+    const ring = (x0: number, x1: number, y0: number, y1: number) =>
+      [
+        [x0, y0],
+        [x1, y0],
+        [x1, y1],
+        [x0, y1],
+        [x0, y0],
+      ] as [number, number][];
+    // Outer 10 … 590 mm both ways, hole 190 … 410 mm: nodes at 100-mm multiples; (200..400, 200..400) lie in the hole.
+    const nodes = capabilityNodes(
+      PLANE,
+      {
+        side: [{ outer: ring(10, 590, 10, 590), holes: [ring(190, 410, 190, 410)] }],
+        maxReachMm: 590,
+        minHeightMm: 10,
+        maxHeightMm: 590,
+      },
+      100,
+    );
+    expect(nodes.zMm).toEqual([0, 100, 200, 300, 400, 500, 600]);
+    const at = (r: number, z: number) => nodes.inside[r / 100 + (z / 100) * nodes.rMm.length];
+    let count = 0;
+    for (const z of [100, 200, 300, 400, 500])
+      for (const r of [100, 200, 300, 400, 500]) {
+        const hole = r >= 200 && r <= 400 && z >= 200 && z <= 400;
+        expect(at(r, z), `(${r}, ${z})`).toBe(hole ? 0 : 1);
+        count += hole ? 0 : 1;
+      }
+    expect(nodes.inside.reduce((a, b) => a + b, 0)).toBe(count);
+  });
+
   it("rejects a grid spacing that is not positive", () => {
     expect(() => capabilityNodes(PLANE, { side: [], maxReachMm: 1, minHeightMm: 0, maxHeightMm: 1 }, 0)).toThrow(
       /invalid gridMm/,
