@@ -118,6 +118,15 @@ export function summariseAnalysis(a: ArmAnalysis): AnalysisSummary {
       })),
     },
     cycle: { standardCycleS: a.cycle.standardCycleS },
+    capability: a.capability
+      ? {
+          gridMm: a.capability.gridMm,
+          directions: a.capability.directions,
+          areaShareAtLeastHalf: a.capability.areaShareAtLeastHalf,
+          meanShare: a.capability.meanShare,
+        }
+      : null,
+    capabilityReason: a.capabilityReason,
     standardLines: {
       speedMmPerS: a.standardLines.speedMmPerS,
       lines: a.standardLines.lines.map(({ key, placement, fromMm, toMm, speedMmPerS }) => ({

@@ -203,6 +203,32 @@ const standardLines: z.ZodType<StandardLines> = z.strictObject({
   notes: z.array(standardLineNote),
 });
 
+/** The capability map: its arrays checked in one loop each; `share` must cover the grid (rows × columns). */
+const capability = z
+  .strictObject({
+    gridMm: z.number().positive(),
+    rMm: finiteNumbers,
+    zMm: finiteNumbers,
+    directions: z.int().positive(),
+    share: finiteNumbersOrNull,
+    areaShareAtLeastHalf: numOrNull,
+    meanShare: numOrNull,
+    method: z.enum(["closed-form", "numeric"]),
+    rollBasis: z.enum(["last-joint", "solver", "sampled"]),
+    rollsTried: z.int().positive(),
+  })
+  .refine((c) => c.share.length === c.rMm.length * c.zMm.length, {
+    message: "expected one share per node (rMm × zMm)",
+    path: ["share"],
+  });
+const capabilityReason = z.enum(["tool-axis-cannot-turn", "no-axis-1"]);
+const capabilityHeadline = z.strictObject({
+  gridMm: z.number().positive(),
+  directions: z.int().positive(),
+  areaShareAtLeastHalf: numOrNull,
+  meanShare: numOrNull,
+});
+
 const reach = z.strictObject({
   wcpMaxMm: numOrNull,
   wcpMinMm: numOrNull,
@@ -246,6 +272,8 @@ export const armAnalysisSchema: z.ZodType<ArmAnalysis> = z.strictObject({
   payload,
   cycle,
   standardLines,
+  capability: capability.nullable(),
+  capabilityReason: capabilityReason.nullable(),
   warnings: z.array(analysisWarningSchema),
 });
 
@@ -253,7 +281,8 @@ type SpeedMap = ArmAnalysis["speed"]["maps"][number];
 
 /**
  * The part of an analysis that pages listing every arm use: reach, warnings, axis 1 and the flange's top view, the
- * speed figures and the reach maps (the standard lines start from the "tool down" one), the cycle time. The same shape as the analysis (an ArmAnalysis is one), so
+ * speed figures and the reach maps (the standard lines start from the "tool down" one), the cycle time, the
+ * capability headline. The same shape as the analysis (an ArmAnalysis is one), so
  * view functions typed with it take either.
  */
 export interface AnalysisSummary {
@@ -278,6 +307,12 @@ export interface AnalysisSummary {
     >[];
   };
   readonly cycle: Pick<ArmAnalysis["cycle"], "standardCycleS">;
+  /** The capability map's headline figures (no per-node shares). */
+  readonly capability: Pick<
+    NonNullable<ArmAnalysis["capability"]>,
+    "gridMm" | "directions" | "areaShareAtLeastHalf" | "meanShare"
+  > | null;
+  readonly capabilityReason: ArmAnalysis["capabilityReason"];
   /** The standard lines without their check reports (the side-by-side page's default line is the first). */
   readonly standardLines: Omit<StandardLines, "lines"> & {
     readonly lines: readonly Omit<StandardLines["lines"][number], "result">[];
@@ -312,6 +347,8 @@ export const analysisSummarySchema: z.ZodType<AnalysisSummary> = z.strictObject(
     ),
   }),
   cycle: z.strictObject({ standardCycleS: numOrNull }),
+  capability: capabilityHeadline.nullable(),
+  capabilityReason: capabilityReason.nullable(),
   standardLines: z.strictObject({
     speedMmPerS: num,
     lines: z.array(z.strictObject({ key: lineKey, placement, fromMm: point3Mm, toMm: point3Mm, speedMmPerS: num })),

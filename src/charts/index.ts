@@ -7,6 +7,7 @@ export * from "./geometry";
 export * from "./theme";
 export * from "./envelopeChart";
 export * from "./speedMapChart";
+export * from "./capabilityMapChart";
 export * from "./singularityChart";
 export * from "./payloadChart";
 export * from "./loadDiagramChart";

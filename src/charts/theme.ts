@@ -15,6 +15,17 @@ export function speedBandClass(i: number): string {
   return `speed-band-${i}`;
 }
 
+/**
+ * Bands of the capability share (share of tool directions reached, 0–1): lower edges in tenths, fixed for every arm;
+ * 0.5 is an edge because the headline figure counts the cells at or above it. Class `capability-band-<i>`.
+ */
+export const CAPABILITY_BANDS: readonly number[] = [0, 0.1, 0.2, 0.3, 0.4, 0.5, 0.6, 0.7, 0.8, 0.9];
+
+/** Class of capability band i (0 = fewest directions, lightest). */
+export function capabilityBandClass(i: number): string {
+  return `capability-band-${i}`;
+}
+
 /** Inverse condition below which a pose is drawn as close to a singularity (condition number above 50). */
 export const NEAR_SINGULAR_INVERSE_CONDITION = 0.02;
 

@@ -18,6 +18,7 @@ import {
   type PointData,
 } from "../charts";
 import { armDataPaths } from "./armCsv";
+import { capabilitySection, capabilitySummaryFigure, type CapabilitySectionModel } from "./capabilityModel";
 import { formatNumber, formatQuantity, NOT_STATED } from "./format";
 import { MOUNTING_LABEL } from "./labels";
 import { siteHref } from "./links";
@@ -112,6 +113,7 @@ export interface ArmAnalysisModel {
     readonly table: TableModel;
     readonly notes: readonly string[];
   };
+  readonly capability: CapabilitySectionModel;
   readonly singularities: { readonly charts: readonly ChartResult[]; readonly notes: readonly string[] };
   readonly payload: {
     readonly basisText: string;
@@ -641,6 +643,7 @@ export function armAnalysisModel(
           },
         ]
       : []),
+    capabilitySummaryFigure(analysis),
   ];
   const paths = armDataPaths(arm.id);
   const downloads: DownloadLink[] = [
@@ -674,6 +677,7 @@ export function armAnalysisModel(
     warnings: analysis.warnings.map((w) => ({ code: w.code, text: sentence(analysisWarningText(w)) })),
     envelope: envelopeSection(arm, analysis, name),
     speed: speedSection(analysis, name, layout),
+    capability: capabilitySection(analysis, name, arm.chain.drivenCount),
     singularities: singularitySection(analysis, name, layout),
     payload: payloadSection(arm, analysis, name),
     cycle,

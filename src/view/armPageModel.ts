@@ -213,6 +213,7 @@ function linkTable(arm: Arm): TableModel | null {
 export const ANALYSIS_SECTIONS: readonly PageSection[] = [
   { id: "envelope", title: "Envelope" },
   { id: "speed", title: "Speed" },
+  { id: "directions", title: "Tool directions" },
   { id: "singularities", title: "Singularities" },
   { id: "payload", title: "Payload" },
   { id: "cycle", title: "Cycle" },

@@ -32,6 +32,9 @@ export function catalogSummaryRow(arm: Arm, analysis: AnalysisSummary) {
     bestGuaranteedLineSpeedToolDownMPerS: bestGuaranteedLineSpeedDownMPerS(analysis),
     shareGuaranteedAtLeast1MPerS: analysis.speed.shareAtLeast["1"] ?? null,
     shareOrientation: down?.orientation ?? null,
+    /** Share of the flange envelope's side-view cells reached from at least half of the tool directions; null without a map. */
+    capabilityAreaShareAtLeastHalf: analysis.capability?.areaShareAtLeastHalf ?? null,
+    capabilityReason: analysis.capabilityReason,
     standardCycleS: analysis.cycle.standardCycleS === null ? null : Number(analysis.cycle.standardCycleS.toFixed(3)),
     mountings: s.mountings,
     protection: s.protection,

@@ -7,6 +7,7 @@ import { formatList, formatNumber, formatPrice, NOT_STATED } from "./format";
 import { CLASS_LABEL, MOUNTING_LABEL } from "./labels";
 import { armPath, siteHref } from "./links";
 import type { TableCell, TableColumn, TableModel, TableRow } from "./table";
+import { capabilityHeadlineCell } from "./capabilityModel";
 
 export interface FilterOption {
   readonly value: string;
@@ -57,6 +58,7 @@ const COMPUTED_COLUMNS: readonly TableColumn[] = [
   { key: "max-tool-speed", label: "Max tool speed", unit: "m/s", numeric: true },
   { key: "line-speed", label: "Best guaranteed line speed, tool down", unit: "m/s", numeric: true },
   { key: "share-1", label: "Share \u2265 1 m/s, tool down", unit: "%", numeric: true },
+  { key: "directions-half", label: "Cells from \u2265 half of tool directions", unit: "%", numeric: true },
   { key: "cycle", label: "Standard cycle", unit: "s", numeric: true },
 ];
 
@@ -77,7 +79,7 @@ function computedCells(analysis: AnalysisSummary | undefined): {
 } {
   if (!analysis) {
     const none = { text: "not computed" };
-    return { reach: none, stated: null, rest: [none, none, none, none] };
+    return { reach: none, stated: null, rest: [none, none, none, none, none] };
   }
   const rc = reachCheck(analysis);
   const reach: TableCell = {
@@ -107,6 +109,7 @@ function computedCells(analysis: AnalysisSummary | undefined): {
       v === null ? { text: "not computed" } : { text: formatNumber(v / 1000, 2), sortValue: v / 1000 },
       line === null ? { text: "not computed" } : { text: formatNumber(line, 2), sortValue: line },
       share === undefined ? { text: "\u2014" } : { text: formatNumber(share * 100, 1), sortValue: share * 100 },
+      capabilityHeadlineCell(analysis.capability),
       cycleCell,
     ],
   };
@@ -120,7 +123,8 @@ function plural(n: number, word: string): string {
 
 /**
  * The catalog table. The price column appears only when at least one arm file carries commercial data; the computed
- * columns (reach, maximum tool speed, share of guaranteed line speed ≥ 1 m/s with the tool down, standard cycle) only
+ * columns (reach, maximum tool speed, share of guaranteed line speed ≥ 1 m/s with the tool down, share of cells reached
+ * from at least half of the tool directions, standard cycle) only
  * when `analyses` (by arm id; summaries or full analyses) is given.
  */
 export function catalogPageModel(
@@ -216,7 +220,7 @@ export function catalogPageModel(
     table: {
       id: "catalog",
       caption: withComputed
-        ? "Every arm in the catalog: figures as declared in its source document, and computed reach, tool speed, line speed, line-speed share and cycle estimate"
+        ? "Every arm in the catalog: figures as declared in its source document, and computed reach, tool speed, line speed, line-speed share, tool-direction share and cycle estimate"
         : "Every arm in the catalog, with figures as declared in its source document",
       rowHeaders: false,
       columns,
@@ -226,6 +230,7 @@ export function catalogPageModel(
           "Computed reach: of the wrist centre point (WCP), or of the flange centre where the arm has none. Under the stated reach: how far it lies from the computed one, " +
           "marked \u201ccheck\u201d beyond 2\u00a0%. Best guaranteed line speed: the highest guaranteed straight-line speed anywhere in the side view with the tool pointing down. " +
           "Share \u2265 1 m/s: share of the side view reached with the tool pointing down where the guaranteed straight-line speed is at least 1 m/s. " +
+          "Cells from \u2265 half of tool directions: share of the flange envelope's side-view cells the flange centre reaches from at least half of all tool directions (roll free); \u201cno map\u201d where the tool axis cannot turn. " +
           "Speeds and the cycle are for the flange centre with no tool, from joint limits only. Computed figures are for early comparison, not maker figures." +
           (withPrice ? " List prices are not converted between currencies: they sort by currency first." : ""),
       }),

@@ -10,7 +10,7 @@
  *   speed over the map nodes in the block that the flange reaches (null: none), and `reachedRuns` lists, for each
  *   node row, the runs of node columns reached [first, last] (inclusive). The runs are exact at the node spacing;
  *   block minima are conservative (they may include nodes up to one block outside a band).
- * - Declared fields for the spec table, and the computed key figures.
+ * - Declared fields for the spec table, and the computed key figures (the capability map's headline shares among them).
  *
  * Pure over (arm, analysis): no filesystem, no Astro.
  */
@@ -120,6 +120,13 @@ export interface CompareArmSummary {
     readonly limitingJoint: string | null;
     readonly reason: string | null;
   };
+  /** The capability map's headline figures; null for arms without a map (capabilityReason says why). */
+  readonly capability: {
+    readonly areaShareAtLeastHalf: number | null;
+    readonly meanShare: number | null;
+    readonly directions: number;
+  } | null;
+  readonly capabilityReason: string | null;
 }
 
 const mm = (v: number) => Math.round(v) + 0;
@@ -260,5 +267,13 @@ export function compareSummary(arm: Arm, analysis: ArmAnalysis): CompareArmSumma
       limitingJoint: analysis.cycle.limitingJoint,
       reason: "reason" in analysis.cycle && typeof analysis.cycle.reason === "string" ? analysis.cycle.reason : null,
     },
+    capability: analysis.capability
+      ? {
+          areaShareAtLeastHalf: analysis.capability.areaShareAtLeastHalf,
+          meanShare: analysis.capability.meanShare,
+          directions: analysis.capability.directions,
+        }
+      : null,
+    capabilityReason: analysis.capabilityReason,
   };
 }

@@ -222,7 +222,10 @@ export function specRows(arms: readonly CompareArmSummary[]): CompareRow[] {
 const mPerS = (v: number | null) => (v === null ? "not computed" : formatQuantity(v / 1000, "m/s", 2));
 const share = (v: number | null) => (v === null ? "no map" : `${formatNumber(v * 100, 1)} %`);
 
-/** Speed figures: maximum tool speed, shares of the side view at ≥ 0.5, 1, 2 m/s per orientation, standard cycle. */
+/**
+ * Speed figures: maximum tool speed, shares of the side view at ≥ 0.5, 1, 2 m/s per orientation, the share of the side
+ * view reached from at least half of the tool directions (capability map), standard cycle.
+ */
 export function speedRows(arms: readonly CompareArmSummary[]): CompareRow[] {
   const rows: CompareRow[] = [
     row(
@@ -261,6 +264,16 @@ export function speedRows(arms: readonly CompareArmSummary[]): CompareRow[] {
       );
     }
   }
+  rows.push(
+    row(
+      "directions-half",
+      "Share of the side view reached from ≥ half of all tool directions (roll free)",
+      "higher",
+      "largest share",
+      arms.map((a) => a.capability?.areaShareAtLeastHalf ?? null),
+      share,
+    ),
+  );
   rows.push(
     row(
       "cycle",

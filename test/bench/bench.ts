@@ -23,6 +23,7 @@ import { loadArms } from "../../src/catalog";
 import { fastKernel, baselineKernel } from "./kernel";
 import { mulberry32 } from "../../src/core/math/random";
 import { workspaceEnvelope } from "../../src/core/analysis/envelope/envelope";
+import { capabilityMap, DEFAULT_CAPABILITY } from "../../src/core/analysis/capability/capability";
 import {
   createSpeedMapWorkspace,
   referenceOrientations,
@@ -100,7 +101,7 @@ console.log(`median ratio ${median(ratios).toFixed(1)}×\n`);
 
 // 2. Per-stage analysis times, single-threaded.
 console.log("analysis stages, ms (single thread):");
-console.log("arm                          envelope  speed maps  payload  full analysis (medians of 3)");
+console.log("arm                          envelope  speed maps  payload  capability  full analysis (medians of 3)");
 const fullByArm: { id: string; axes: number; ms: number }[] = [];
 for (const arm of chosen) {
   const c = arm.chain,
@@ -127,11 +128,18 @@ for (const arm of chosen) {
       }),
     ),
   );
+  // The capability map as the analysis makes it, over the flange envelope (computed once, outside the timing).
+  const envelope = workspaceEnvelope(c);
+  const cap = median(
+    Array.from({ length: Math.min(reps, 3) }, () =>
+      timeMs(() => capabilityMap(c, envelope.layout, envelope.flange!, DEFAULT_CAPABILITY)),
+    ),
+  );
   const fullRuns = Array.from({ length: Math.min(reps, 3) }, () => timeMs(() => analyseArm(c, facts)));
   const full = median(fullRuns);
   fullByArm.push({ id: arm.id, axes: c.drivenCount, ms: full });
   console.log(
-    `${arm.id.padEnd(28)} ${env.toFixed(0).padStart(8)} ${maps.toFixed(0).padStart(11)} ${pay.toFixed(0).padStart(8)} ${full.toFixed(0).padStart(14)}`,
+    `${arm.id.padEnd(28)} ${env.toFixed(0).padStart(8)} ${maps.toFixed(0).padStart(11)} ${pay.toFixed(0).padStart(8)} ${cap.toFixed(0).padStart(11)} ${full.toFixed(0).padStart(14)}`,
   );
 }
 

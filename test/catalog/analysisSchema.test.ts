@@ -57,6 +57,9 @@ describe("the analysis schema", () => {
         true,
       );
       expect(analysisSummarySchema.safeParse(JSON.parse(JSON.stringify(summariseAnalysis(a)))).success).toBe(true);
+      // A map exactly when there is no reason: the SCARA and the palletizer keep their tool axis vertical.
+      expect(a.capability === null, file).toBe(file.includes("sable") || file.includes("pl-180"));
+      expect(a.capabilityReason, file).toBe(a.capability === null ? "tool-axis-cannot-turn" : null);
     }
   }, 120_000);
 
@@ -75,6 +78,26 @@ describe("the analysis schema", () => {
         changed((a) => a.singularities.loci.push({ kind: "knee", orientation: "down", polylinesMm: [] })),
         ["singularities", "loci", 0, "kind"],
       ],
+      [
+        "a capability map whose shares do not cover its nodes",
+        changed(
+          (a) =>
+            (a.capability = {
+              gridMm: 50,
+              rMm: [0, 50],
+              zMm: [0],
+              directions: 128,
+              share: [0.5],
+              areaShareAtLeastHalf: 1,
+              meanShare: 0.5,
+              method: "closed-form",
+              rollBasis: "last-joint",
+              rollsTried: 1,
+            }),
+        ),
+        ["capability", "share"],
+      ],
+      ["an unknown capability reason", changed((a) => (a.capabilityReason = "too-small")), ["capabilityReason"]],
       [
         "a NaN smuggled in a map",
         changed((a) => (a.speed.maps[0].maxMmPerS = [1, Number.NaN])),

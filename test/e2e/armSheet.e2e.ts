@@ -24,6 +24,7 @@ const SECTION_ANCHORS = [
   "#summary",
   "#envelope",
   "#speed",
+  "#directions",
   "#singularities",
   "#payload",
   "#cycle",
@@ -37,6 +38,7 @@ interface AnalysisJson {
   specHash: string;
   reach: { wcpMaxMm: number | null; flangeMaxMm: number; statedMm: number | null };
   speed: { maps: { orientation: string }[] };
+  capability: { areaShareAtLeastHalf: number | null } | null;
   payload: { atReach: unknown[] };
   warnings: { code: string; message: string }[];
 }
@@ -139,6 +141,9 @@ describe("arm sheet, computed sections", () => {
       expect(bySection("envelope")).toHaveLength(2);
       expect(bySection("speed")).toHaveLength(orientations);
       expect(bySection("singularities")).toHaveLength(orientations);
+      // Tool directions: the map, or a sentence where the arm has none.
+      expect(bySection("directions")).toHaveLength(analysis.capability ? 1 : 0);
+      expect(await page.locator("#directions .capability-absent").count()).toBe(analysis.capability ? 0 : 1);
       expect(bySection("payload").length).toBeGreaterThanOrEqual(1);
       for (const c of charts) {
         expect(c.role, `${id} ${c.id}`).toBe("img");
@@ -169,7 +174,7 @@ describe("arm sheet, computed sections", () => {
       );
       const mismatch = analysis.reach.statedMm !== null && Math.abs(analysis.reach.statedMm / computed - 1) > 0.02;
       expect(await reachFigure.locator(".key-flag").count(), `${id} reach flag`).toBe(mismatch ? 1 : 0);
-      for (const key of ["max-tool-speed", "share-1", "cycle"])
+      for (const key of ["max-tool-speed", "share-1", "cycle", "capability-half"])
         expect(await page.locator(`.key-figure[data-key="${key}"]`).count()).toBe(1);
 
       // The analysis warnings, all of them.
@@ -225,7 +230,7 @@ describe("arm sheet, computed sections", () => {
     for (const arm of [six, scara]) {
       const { page, finish } = await openPage(`arms/${arm.id}/`);
       await page.screenshot({ path: join(shotsDir, `sheet-${arm.id}.png`), fullPage: true });
-      for (const s of ["summary", "envelope", "speed", "singularities", "payload", "cycle"]) {
+      for (const s of ["summary", "envelope", "speed", "directions", "singularities", "payload", "cycle"]) {
         await page.locator(`#${s}`).screenshot({ path: join(shotsDir, `sheet-${arm.id}-${s}.png`) });
       }
       expect(await finish()).toEqual([]);

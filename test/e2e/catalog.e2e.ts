@@ -40,6 +40,7 @@ interface PublishedAnalysis {
   readonly speed: {
     readonly maps: readonly { readonly orientation: string; readonly maxGuaranteedMmPerS: number | null }[];
   };
+  readonly capability: { readonly areaShareAtLeastHalf: number | null } | null;
 }
 
 interface Arm extends ArmFacts {
@@ -166,7 +167,7 @@ describe("catalog sorting", () => {
     expect(await finish()).toEqual([]);
   });
 
-  it("puts 'not stated' last in both directions (stated reach), and sorts computed line speed by number", async () => {
+  it("puts 'not stated' last in both directions (stated reach), and sorts computed line speed and tool-direction share by number", async () => {
     expect(
       arms.some((a) => a.reachMm === undefined),
       "an arm file without a stated reach",
@@ -183,6 +184,11 @@ describe("catalog sorting", () => {
     expect(desc.slice(-notStated.length)).toEqual(notStated);
     await clickSort(page, "line-speed");
     expect(await allRows(page)).toEqual(expectedNumericOrder(lineSpeedMPerS, "asc"));
+    // The tool-directions share: arms without a map ("no map") last.
+    await clickSort(page, "directions-half");
+    expect(await allRows(page)).toEqual(
+      expectedNumericOrder((a) => a.analysis.capability?.areaShareAtLeastHalf ?? null, "asc"),
+    );
     expect(await finish()).toEqual([]);
   });
 

@@ -52,6 +52,7 @@ interface FullAnalysis {
     }[];
   };
   readonly cycle: { readonly standardCycleS: number | null };
+  readonly capability: { readonly areaShareAtLeastHalf: number | null } | null;
 }
 
 const analysis = (id: string) =>
@@ -183,6 +184,12 @@ describe("side-by-side page", () => {
       v: a.speed.maps.find((m) => m.orientation === "down")?.shareAtLeast["1"] ?? null,
     }));
     expect(await markedIds(page, "share-1-down")).toEqual(bestIds(down, "higher"));
+    // Tool directions: the share of the side view reached from at least half of the directions ("no map" unranked).
+    const directions = full.map((a, i) => ({ id: ids[i]!, v: a.capability?.areaShareAtLeastHalf ?? null }));
+    expect(await markedIds(page, "directions-half")).toEqual(bestIds(directions, "higher"));
+    const noMap = ids.filter((_, i) => full[i]!.capability === null);
+    for (const id of noMap)
+      expect(await page.textContent(`tr[data-row="directions-half"] td[data-arm="${id}"]`)).toContain("no map");
     // Unranked rows carry no mark; ranked rows say what best means.
     expect(await markedIds(page, "reach")).toEqual([]);
     expect(await page.textContent('tr[data-row="repeatability"] th')).toContain("lowest");

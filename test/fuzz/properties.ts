@@ -19,6 +19,7 @@ export const FUZZ_ANALYSIS: AnalysisOptions = {
   seed: 7,
   envelope: { toleranceOfReach: 0.01, minToleranceMm: 10, workBudget: 300_000 },
   payload: { atReach: { reachStepMm: 200, offsetsMm: [0, 100], searchNodesByDims: [1, 200, 200, 400] } },
+  capability: { gridMm: 200, directions: 24, numericSamples: 300, numericTries: 2 },
 };
 
 /** Passes of the envelope per point (side + plan; a prismatic base adds a section): bounds the joint-grid samples. */
@@ -189,6 +190,7 @@ export function checkArm(json: unknown, options: CheckOptions = DEFAULT_CHECK): 
   checkBudget(analysis, options.analysis, fail);
   checkSpeedMaps(analysis, fail);
   checkPayload(analysis, spec.ratedPayloadKg, fail);
+  checkCapability(analysis, fail);
   checkPoses(chain, analysis, options, fail);
   return {
     outcome: "analysed",
@@ -243,6 +245,21 @@ function checkSpeedMaps(a: ArmAnalysis, fail: (m: string) => void): void {
   if (a.speed.maxToolSpeedMmPerS !== null && Math.abs(a.speed.maxToolSpeedMmPerS - largest) > 1) {
     fail(`speed.maxToolSpeedMmPerS ${a.speed.maxToolSpeedMmPerS} is not the largest map value ${largest}`);
   }
+}
+
+/** The capability map: a map or a reason (never both), one share in [0, 1] per node or null, headline in [0, 1]. */
+function checkCapability(a: ArmAnalysis, fail: (m: string) => void): void {
+  const c = a.capability;
+  if ((c === null) === (a.capabilityReason === null))
+    fail(`capability ${c ? "map" : "null"} with reason ${a.capabilityReason}`);
+  if (!c) return;
+  if (c.share.length !== c.rMm.length * c.zMm.length)
+    fail(`capability: ${c.share.length} shares for ${c.rMm.length} × ${c.zMm.length} nodes`);
+  c.share.forEach((v, i) => {
+    if (v !== null && !(v >= 0 && v <= 1)) fail(`capability node ${i}: share ${v} outside [0, 1]`);
+  });
+  for (const v of [c.areaShareAtLeastHalf, c.meanShare])
+    if (v !== null && !(v >= 0 && v <= 1)) fail(`capability headline ${v} outside [0, 1]`);
 }
 
 /** Payload at reach and the load diagram never exceed the rated payload, and are never negative. */

@@ -21,6 +21,7 @@ import { reachWarning, repeatabilityWarning, type AnalysisWarning, type PayloadA
 import { standardCycle } from "./cycle/cycle";
 import { standardLines } from "./standardLines/standardLines";
 import { referenceAxesInto } from "../kinematics/toolOrientation";
+import { capabilityJson } from "./capability/json";
 
 const BASE_X = [1, 0, 0] as const;
 import {
@@ -31,7 +32,7 @@ import {
   type WorkspaceEnvelope,
 } from "./envelope/envelope";
 
-export const ANALYSIS_VERSION = "7";
+export const ANALYSIS_VERSION = "8";
 
 /** Arm facts the analysis needs besides the chain (plain types; the catalog fills them from the arm file). */
 export interface ArmFacts extends PayloadSpec {
@@ -197,7 +198,16 @@ export function analyseArm(chain: Chain, facts: ArmFacts, options: AnalysisOptio
     gravity,
   );
 
-  // 7. Warnings.
+  // 7. Capability map: the share of tool directions reached over the side view (flange envelope nodes).
+  const { capability, capabilityReason } = capabilityJson(
+    chain,
+    envelope.layout,
+    flange,
+    options.seed,
+    options.capability,
+  );
+
+  // 8. Warnings.
   const computedReachMm = wcp ? wcp.maxReachMm : flange.maxReachMm;
   const reachIssue =
     facts.reachMm === undefined ? null : reachWarning(facts.reachMm, computedReachMm, wcp ? "wrist centre" : "flange");
@@ -258,6 +268,8 @@ export function analyseArm(chain: Chain, facts: ArmFacts, options: AnalysisOptio
     payload,
     cycle,
     standardLines: lines,
+    capability,
+    capabilityReason,
     warnings,
   };
 }

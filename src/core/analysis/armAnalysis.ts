@@ -12,6 +12,10 @@ import type { CycleResult } from "./cycle/cycle";
 import type { ReferenceOrientation, SpeedMapOptions } from "./speedMap/speedMap";
 import type { AnalysisWarning } from "./warnings";
 import type { StandardLines } from "./standardLines/standardLines";
+import type { CapabilityJson, CapabilityOverrides } from "./capability/json";
+import type { CapabilityReason } from "./capability/types";
+
+export type { CapabilityJson, CapabilityOverrides, CapabilityReason };
 
 /** What an analysis ran with; published analyses use DEFAULT_ANALYSIS (analyseArm.ts). */
 export interface AnalysisOptions {
@@ -23,6 +27,8 @@ export interface AnalysisOptions {
   readonly payload?: Partial<PayloadAnalysisOptions> | undefined;
   /** Overrides of the speed-map options (closed form on or off, for comparisons); absent from published analyses. */
   readonly speedMap?: Partial<Pick<SpeedMapOptions, "closedForm" | "discoverEveryCell">> | undefined;
+  /** Overrides of the capability-map options (a coarser map for property tests); absent from published analyses. */
+  readonly capability?: CapabilityOverrides | undefined;
 }
 
 /** Regular side-view grid: value(ix, iy) at ix + iy·nx; node (ix, iy) at (rMinMm + ix·stepMm, zMinMm + iy·stepMm). */
@@ -130,5 +136,12 @@ export interface ArmAnalysis {
   readonly cycle: CycleResult & { readonly lateralShiftMm?: number };
   /** The sheet's standard straight lines, chosen from the tool-down map and checked at build time. */
   readonly standardLines: StandardLines;
+  /**
+   * Capability (orientation) map of the flange centre over the side view: per node, the share of tool directions
+   * reached (analysis/capability). Null for arms whose tool axis cannot turn or that have no axis 1.
+   */
+  readonly capability: CapabilityJson | null;
+  /** Why `capability` is null (a code the view words); null when there is a map. */
+  readonly capabilityReason: CapabilityReason | null;
   readonly warnings: readonly AnalysisWarning[];
 }

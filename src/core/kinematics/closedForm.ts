@@ -43,6 +43,8 @@ import {
   transpose3,
   type Vec3,
 } from "../math/mat3";
+import { sameModuloTurns, wrapNear } from "../math/angles";
+export { wrapNear } from "../math/angles";
 
 /** Largest number of solutions of a 6R arm with a spherical wrist: 4 for the position × 2 for the wrist. */
 export const MAX_CLOSED_FORM_SOLUTIONS = 8;
@@ -294,7 +296,8 @@ let wristNearSingular = false;
  * line), where the caller should fall back to a numeric solver. Allocates nothing.
  * A solution ≤ RANGE_MARGIN_RAD beyond a limit is put onto it, kept if it meets the target or `repairNearLimit(q)` does.
  * Steps: the target's coefficients, the position branches (q0, q2), per branch q1 and the wrist (kinematic joint
- * values into ik.kinSol), then the driven values inside the ranges.
+ * values into ik.kinSol), then the driven values inside the ranges. With `firstOnly`, it returns as soon as a
+ * branch gives a solution within the ranges (1 or 2 solutions; a reachability test needs no more).
  * @example the forward kinematics of any pose within the ranges, solved back, gives that pose among the solutions
  *   (test/core/kinematics/closedForm.test.ts).
  */
@@ -304,6 +307,7 @@ export function solveSphericalWristInto(
   baseFromFlangeTarget: ArrayLike<number>,
   outOffset = 0,
   repairNearLimit?: (q: Float64Array) => boolean,
+  firstOnly = false,
 ): number {
   nearTangent = false;
   wristNearSingular = false;
@@ -326,9 +330,15 @@ export function solveSphericalWristInto(
       q2 = w[W_Q2 + p]!;
     const q1 = shoulderAngle(ik, q0, q2, tiny);
     if (Number.isNaN(q1)) return DEGENERATE;
+    const from = count;
+    if (firstOnly && !branchInRange(ik, from, q0, q1, q2)) continue;
     wristTargetInto(ik, T, q0, q1, q2);
     count = wristSolutionsInto(ik, q0, q1, q2, count);
     if (count < 0) return DEGENERATE;
+    const kept = firstOnly
+      ? keepSolutionsInto(out, outOffset, ik, T, count, nearTangent || wristNearSingular, repairNearLimit, from)
+      : 0;
+    if (kept > 0) return kept;
   }
   // Exact roots satisfy the decoupled equations and so the pose; double roots (edge of reach), the scanned
   // general case and a wrist near a singular pose are checked by forward kinematics of the whole chain.
@@ -591,10 +601,11 @@ function keepSolutionsInto(
   count: number,
   check: boolean,
   repairNearLimit: ((q: Float64Array) => boolean) | undefined,
+  from = 0,
 ): number {
   let kept = 0;
   const q = ik.q6;
-  for (let s = 0; s < count; s++) {
+  for (let s = from; s < count; s++) {
     if (!drivenInRangeInto(q, ik.chain, ik.kinSol, s)) continue;
     if (clampedOntoLimit ? !reachesTarget(ik, q, T) && !repairNearLimit?.(q) : check && !reachesTarget(ik, q, T))
       continue;
@@ -614,20 +625,22 @@ let clampedOntoLimit = false;
  * Driven values q_d = G⁻¹·(q_kin − offset) (G unit lower triangular, integer) of kinematic solution `s` into q, taken
  * into the ranges by whole turns (or onto a limit); false when a joint cannot be brought inside its range.
  */
-function drivenInRangeInto(q: Float64Array, chain: Chain, kinSol: Float64Array, s: number): boolean {
+function drivenInRangeInto(q: Float64Array, chain: Chain, kinSol: Float64Array, s: number, joints = 6): boolean {
   const g = chain.couplingGain,
     off = chain.couplingOffset,
     lo = chain.lowerSi,
     hi = chain.upperSi;
   let inRange = true;
-  for (let i = 0; i < 6; i++) {
+  for (let i = 0; i < joints; i++) {
     let v = kinSol[s * 6 + i]! - off[i]!;
     for (let j = 0; j < i; j++) v -= g[i * 6 + j]! * q[j]!;
     q[i] = v;
   }
   clampedOntoLimit = false;
-  for (let i = 0; i < 6 && inRange; i++) {
-    let v = wrapNear(q[i]!, 0, lo[i]!, hi[i]!);
+  for (let i = 0; i < joints && inRange; i++) {
+    // Within the range and half a turn of 0: what wrapNear gives (−0 made +0), without its divisions.
+    const u = q[i]!;
+    let v = u >= lo[i]! && u <= hi[i]! && Math.abs(u) < Math.PI ? u + 0 : wrapNear(u, 0, lo[i]!, hi[i]!);
     if (Number.isNaN(v)) {
       v = Math.min(hi[i]!, Math.max(lo[i]!, wrapNear(q[i]!, 0, lo[i]! - RANGE_MARGIN_RAD, hi[i]! + RANGE_MARGIN_RAD)));
       clampedOntoLimit ||= !Number.isNaN(v);
@@ -636,6 +649,14 @@ function drivenInRangeInto(q: Float64Array, chain: Chain, kinSol: Float64Array, 
     else q[i] = v;
   }
   return inRange;
+}
+
+/** Whether position branch (q0, q1, q2) lies within the ranges of joints 1–3 (checked in kinSol slot s). */
+function branchInRange(ik: SphericalWristIk, s: number, q0: number, q1: number, q2: number): boolean {
+  ik.kinSol[s * 6] = q0;
+  ik.kinSol[s * 6 + 1] = q1;
+  ik.kinSol[s * 6 + 2] = q2;
+  return drivenInRangeInto(ik.q6, ik.chain, ik.kinSol, s, 3);
 }
 
 /** Whether the flange at driven values q lies on target T (position to 1 µm, rotation entries to 1e-5). */
@@ -653,16 +674,8 @@ function reachesTarget(ik: SphericalWristIk, q: Float64Array, T: ArrayLike<numbe
 
 /** Whether q equals one of the first `kept` solutions in out modulo whole turns. */
 function isRepeat(out: Float64Array, outOffset: number, kept: number, q: Float64Array): boolean {
-  let dup = false;
-  for (let k = 0; k < kept && !dup; k++) {
-    let same = true;
-    for (let i = 0; i < 6 && same; i++) {
-      const d = Math.abs(out[outOffset + k * 6 + i]! - q[i]!);
-      if (Math.abs(d - 2 * Math.PI * Math.round(d / (2 * Math.PI))) > 1e-6) same = false;
-    }
-    dup = same;
-  }
-  return dup;
+  for (let k = 0; k < kept; k++) if (sameModuloTurns(out, outOffset + k * 6, q, 0, 6, 1e-6)) return true;
+  return false;
 }
 
 /** h(q0) of the general reduction from the coefficients in ik.k2 and w[W_K..]; writes cos q2, sin q2 (unnormalised) to w[W_CS], w[W_CS + 1]. */
@@ -679,21 +692,4 @@ function scanResidual(ik: SphericalWristIk, q0: number, det: number): number {
   w[W_CS] = c;
   w[W_CS + 1] = s;
   return c * c + s * s - 1;
-}
-
-/**
- * The value congruent to `value` modulo 2π inside [lo, hi] that is nearest to `near`; NaN when no whole turn brings
- * it inside the range.
- */
-export function wrapNear(value: number, near: number, lo: number, hi: number): number {
-  const turn = 2 * Math.PI;
-  let k = Math.round((near - value) / turn);
-  const kMin = Math.ceil((lo - value) / turn - 1e-12),
-    kMax = Math.floor((hi - value) / turn + 1e-12);
-  if (kMin > kMax) return NaN;
-  if (k < kMin) k = kMin;
-  if (k > kMax) k = kMax;
-  const v = value + k * turn;
-  // Within rounding of a limit: clamp onto it.
-  return Math.min(hi, Math.max(lo, v));
 }

@@ -126,6 +126,50 @@ describe("solveSphericalWristInto on random spherical-wrist DH chains", () => {
   }
 });
 
+describe("solveSphericalWristInto with firstOnly (the capability maps' reachability test)", () => {
+  it("returns a solution exactly when the full solve has one, each among the full solutions and on target (mathjs FK)", () => {
+    const rnd = mulberry32(23);
+    let withSolution = 0,
+      without = 0;
+    for (let a = 0; a < 8; a++) {
+      const { rows, input } = randomSphericalDh(rnd, false);
+      // Narrow ranges so that many targets keep some, but not all, of their eight solutions.
+      const narrowed = {
+        ...input,
+        joints: input.joints.map((j, i) => ({
+          ...j,
+          rangeDeg: i === 1 || i === 2 || i === 4 ? [-70, 70] : [-180, 180],
+        })),
+      };
+      const chain = compileChain(narrowed);
+      const ik = sphericalWristIk(chain)!;
+      const all = new Float64Array(MAX_CLOSED_FORM_SOLUTIONS * 6),
+        first = new Float64Array(MAX_CLOSED_FORM_SOLUTIONS * 6);
+      const wide = compileChain(input);
+      for (let p = 0; p < 40; p++) {
+        // Targets from poses over the unnarrowed ranges: some lie outside the narrowed ones.
+        const target = flat4(dhFrameReference(rows, randomPose(wide, rnd)));
+        const n = solveSphericalWristInto(all, ik, target);
+        const f = solveSphericalWristInto(first, ik, target, 0, undefined, true);
+        if (n === DEGENERATE) continue;
+        expect(f > 0, `chain ${a}, pose ${p}`).toBe(n > 0);
+        if (n > 0) withSolution++;
+        else without++;
+        for (let k = 0; k < f; k++) {
+          let nearest = Infinity;
+          for (let j = 0; j < n; j++) nearest = Math.min(nearest, turnDistance(first, 6 * k, all, 6 * j));
+          expect(nearest).toBeLessThan(1e-12);
+          const e = poseError(flat4(dhFrameReference(rows, first.subarray(6 * k, 6 * k + 6))), target);
+          expect(e.positionM).toBeLessThan(1e-6);
+          expect(e.rotation).toBeLessThan(1e-5);
+        }
+      }
+    }
+    expect(withSolution).toBeGreaterThan(20);
+    expect(without).toBeGreaterThan(20);
+  });
+});
+
 describe("solveSphericalWristInto: a solution just beyond a joint limit", () => {
   // One random axes-2-∥-3 chain and pose; J2's upper limit is then put δ below the pose's own q2. References: the
   // mathjs DH product of test/helpers/testArms.ts (pose error) and the numeric solver of inverse.ts (the repair).
