@@ -1,0 +1,22 @@
+// dist/data/cells/<id>/targets.csv: every target of every candidate arm (joints in deg, mm for linear axes).
+import type { APIRoute, GetStaticPaths } from "astro";
+import type { Cell } from "../../../../catalog/cell";
+import { cellPageData, cellStaticPaths } from "../../../../catalog/cellPages";
+import { targetsCsv } from "../../../../view/cellCsv";
+import { drivenJointIndices } from "../../../../view/jointTables";
+
+export const getStaticPaths = cellStaticPaths satisfies GetStaticPaths;
+
+export const GET: APIRoute = async ({ props }) => {
+  const { results, arms } = await cellPageData((props as { cell: Cell }).cell);
+  const units = new Map(
+    arms.map((arm) => {
+      const driven = drivenJointIndices(arm);
+      return [
+        arm.id,
+        arm.spec.joints.filter((_, i) => driven.has(i)).map((j) => (j.kind === "prismatic" ? "mm" : "deg")),
+      ];
+    }),
+  );
+  return new Response(targetsCsv(results.study, units), { headers: { "content-type": "text/csv; charset=utf-8" } });
+};
