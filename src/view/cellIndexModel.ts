@@ -45,7 +45,7 @@ export function cellIndexTable(
     caption: "Cell studies",
     columns: [
       { key: "cell", label: "Cell study", numeric: false },
-      { key: "candidates", label: "Candidates", numeric: true },
+      { key: "candidates", label: "Candidates", numeric: false },
       { key: "pass", label: "Pass", numeric: true },
       { key: "best", label: "Fastest passing arm", numeric: false },
       { key: "cycle", label: "Its cycle time", unit: "s", numeric: true },
