@@ -7,6 +7,7 @@
  * charts. The state goes back into the address; "Download cell file" saves it for arms/cells/. Placement maps are
  * not recomputed here.
  */
+import "./zodJitless";
 import { validateCell } from "../catalog/cell/validate";
 import {
   cellStudy,
