@@ -29,7 +29,10 @@ import { fmt, label } from "./svg";
 
 export type ReachOutline =
   | { readonly kind: "circle"; readonly c: Point2; readonly rMm: number }
-  /** A horizontal span at one height, with end ticks (side views); spans that coincide are drawn a few px apart. */
+  /**
+   * A horizontal span at one height, with end ticks (side views); spans that coincide are drawn a few px apart, and a
+   * span longer than the drawing is cut at its edge without a tick there.
+   */
   | { readonly kind: "span"; readonly x: readonly [number, number]; readonly y: number };
 
 export interface CellLayoutBase {
@@ -83,8 +86,8 @@ function extentOf(input: CellLayoutInput): [[number, number], [number, number]] 
       add([o.c[0] - o.rMm, o.c[1] - o.rMm]);
       add([o.c[0] + o.rMm, o.c[1] + o.rMm]);
     } else if (o?.kind === "span") {
-      add([o.x[0], o.y]);
-      add([o.x[1], o.y]);
+      // Spans do not widen the drawing (they would flatten a side view): they are cut at its edges.
+      ys.push(o.y);
     }
   }
   if (input.floor) ys.push(0);
@@ -150,8 +153,11 @@ export function cellLayoutChart(input: CellLayoutInput): NodeChart {
     } else if (o?.kind === "span") {
       const py = y(o.y) + 5 * spansAt.filter((v) => Math.abs(v - y(o.y)) < 3).length;
       spansAt.push(y(o.y));
-      const [xa, xb] = [x(o.x[0]), x(o.x[1])];
-      const d = `M${fmt(xa)} ${fmt(py)}H${fmt(xb)}M${fmt(xa)} ${fmt(py - 4)}v8M${fmt(xb)} ${fmt(py - 4)}v8`;
+      const [left, right] = [area.left, area.left + area.width];
+      const [xa, xb] = [Math.max(left, x(o.x[0])), Math.min(right, x(o.x[1]))];
+      // An end tick only where the span ends inside the drawing; a cut end runs to the edge.
+      const ticks = [xa > left ? xa : null, xb < right ? xb : null].filter((v): v is number => v !== null);
+      const d = `M${fmt(xa)} ${fmt(py)}H${fmt(xb)}${ticks.map((t) => `M${fmt(t)} ${fmt(py - 4)}v8`).join("")}`;
       parts.push(node("path", { class: cls, d, "data-arm": b.key }));
     }
   }

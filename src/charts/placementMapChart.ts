@@ -132,9 +132,8 @@ export function placementMapChart(input: PlacementMapChartInput): NodeChart {
     parts.push(
       textNode("no base position on this plane reaches every target", {
         class: "mark-label",
-        x: fmt(area.left + area.width / 2),
-        y: fmt(area.top + 20),
-        "text-anchor": "middle",
+        x: fmt(area.left + 8),
+        y: fmt(area.top + area.height - 8),
       }),
     );
   const targets = groupPoints(input.targets);

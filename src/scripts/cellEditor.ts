@@ -51,6 +51,7 @@ export interface EditorConfigArm {
   readonly specHref: string;
   readonly sheetHref: string;
   readonly specHash: string;
+  readonly prismaticJoints: readonly string[];
   readonly reach: CellArmReach | null;
 }
 
@@ -125,7 +126,10 @@ class CellEditor {
     private readonly config: EditorConfig,
   ) {
     this.info = new Map(
-      config.arms.map((a) => [a.id, { id: a.id, name: a.name, sheetHref: a.sheetHref, specHash: a.specHash }]),
+      config.arms.map((a) => [
+        a.id,
+        { id: a.id, name: a.name, sheetHref: a.sheetHref, specHash: a.specHash, prismaticJoints: a.prismaticJoints },
+      ]),
     );
   }
 

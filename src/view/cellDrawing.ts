@@ -84,7 +84,7 @@ function caption(view: "top" | "side", tcpMm: number, skipped: readonly string[]
         `computed envelope (no tool; ${tool}). It bounds where the flange centre can be in plan; it is not the ` +
         `reach set at the targets' orientations: whether each target is reached is in the targets tables.`
       : `Horizontal bars at each base's height: the same largest distance of the flange centre from axis 1, on ` +
-        `either side of the axis (no tool; ${tool}); bars that coincide are drawn a few pixels apart. Heights are ` +
+        `either side of the axis (no tool; ${tool}); bars that coincide are drawn a few pixels apart, and a bar without an end tick runs on beyond the drawing. Heights are ` +
         `not bounded by them. Whether each target is reached is in the targets tables.`;
   const skippedText = skipped.length
     ? ` No outline for ${skipped.join(", ")}: axis 1 is not vertical at this placement, or the arm has no fixed first turning axis.`

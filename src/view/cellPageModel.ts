@@ -37,6 +37,8 @@ export interface CellPageArm {
   readonly shortName?: string;
   /** From the arm's analysis summary; null when not at hand. */
   readonly reach: CellArmReach | null;
+  /** Driven joints that slide (holding figures in N). */
+  readonly prismaticJoints?: readonly string[];
 }
 
 export interface CellPageInput {
@@ -158,7 +160,7 @@ export function cellArmParts(
     placementText: placementWords(arm.placement),
     reasons: arm.reasons,
     accelerationNote: accelerationNote(arm),
-    targets: targetsTable(arm, `${key}-targets`, name),
+    targets: targetsTable(arm, `${key}-targets`, name, info.get(arm.arm)?.prismaticJoints ?? []),
     moves: movesTable(arm, cell, `${key}-moves`, name),
     toolLoad: toolLoadTable(arm, `${key}-load`, name),
     timeRow: { key: arm.arm, label: name, moves: arm.moves, cycleTimeS: arm.cycleTimeS },
@@ -204,14 +206,20 @@ function placementSection(map: PlacementMapJson, arm: CellArmJson, spec: CellSpe
 
 /** Arm names, sheet links and spec revisions of a page's arms. */
 export function cellArmInfo(
-  arms: readonly { readonly id: string; readonly name: string }[],
+  arms: readonly { readonly id: string; readonly name: string; readonly prismaticJoints?: readonly string[] }[],
   specHashes: Readonly<Record<string, string>>,
   baseUrl: string,
 ): Map<string, CellArmInfo> {
   return new Map(
     arms.map((a) => [
       a.id,
-      { id: a.id, name: a.name, sheetHref: siteHref(baseUrl, armPath(a.id)), specHash: specHashes[a.id] ?? null },
+      {
+        id: a.id,
+        name: a.name,
+        sheetHref: siteHref(baseUrl, armPath(a.id)),
+        specHash: specHashes[a.id] ?? null,
+        prismaticJoints: a.prismaticJoints ?? [],
+      },
     ]),
   );
 }

@@ -14,8 +14,10 @@ export interface CellArmInfo {
   readonly name: string;
   /** Link to the arm sheet (joined with the base path), or null. */
   readonly sheetHref: string | null;
-  /** sha256 of the arm file the study was computed from, hex; null when unknown (the editor's live arms). */
+  /** sha256 of the arm file the study was computed from, hex; null when unknown. */
   readonly specHash: string | null;
+  /** Driven joints that slide (their holding figure is a force, N); the others turn (N·m). */
+  readonly prismaticJoints?: readonly string[];
 }
 
 /** Hex digits of a spec fingerprint shown beside a figure (as on the arm sheets). */
@@ -153,20 +155,25 @@ export function rankingTable(
 }
 
 /** The largest holding torque share at a target, or null when the arm file rates no joint. */
-function holdingCell(t: CellArmJson["targets"][number]): TableCell {
+function holdingCell(t: CellArmJson["targets"][number], prismatic: readonly string[]): TableCell {
   if (!t.reachable) return { text: DASH };
   if (!t.holding.length) return { text: DASH, note: "no rated torques in the arm file" };
   const worst = t.holding.reduce((a, b) => (b.torqueNm / b.ratedNm > a.torqueNm / a.ratedNm ? b : a));
   const share = worst.torqueNm / worst.ratedNm;
   return {
-    text: `${worst.joint} ${formatNumber(worst.torqueNm, 1)} of ${formatQuantity(worst.ratedNm, "N\u00b7m")}`,
+    text: `${worst.joint} ${formatNumber(worst.torqueNm, 1)} of ${formatQuantity(worst.ratedNm, prismatic.includes(worst.joint) ? "N" : "N\u00b7m")}`,
     note: `${formatNumber(100 * share, 0)} % of rated${worst.ok ? "" : ": over"}`,
     sortValue: share,
   };
 }
 
 /** The targets of one arm: reach, solutions, joints, margin, inverse condition, holding torque. */
-export function targetsTable(arm: CellArmJson, id: string, armName: string): TableModel {
+export function targetsTable(
+  arm: CellArmJson,
+  id: string,
+  armName: string,
+  prismaticJoints: readonly string[] = [],
+): TableModel {
   const rows: TableRow[] = arm.targets.map((t) => ({
     key: t.name,
     cells: [
@@ -187,7 +194,7 @@ export function targetsTable(arm: CellArmJson, id: string, armName: string): Tab
       t.inverseCondition !== null
         ? { text: formatNumber(t.inverseCondition, 3), sortValue: t.inverseCondition }
         : { text: DASH },
-      holdingCell(t),
+      holdingCell(t, prismaticJoints),
     ],
   }));
   return {
@@ -199,14 +206,15 @@ export function targetsTable(arm: CellArmJson, id: string, armName: string): Tab
       { key: "joints", label: "Joints at first visit", unit: "deg; mm for linear axes", numeric: false },
       { key: "margin", label: "Joint margin", numeric: true },
       { key: "condition", label: "Inverse condition", numeric: true },
-      { key: "holding", label: "Holding torque, largest share", numeric: false },
+      { key: "holding", label: "Holding torque (force), largest share", numeric: false },
     ],
     rows,
     rowHeaders: true,
     footnote:
       "Solutions: every inverse-kinematics solution of the tool point inside the joint ranges (whole-turn variants " +
       "included). Joint margin: the smallest distance of a joint to a range end. Inverse condition: 1 isotropic, 0 " +
-      "singular (as on the arm sheets). Holding torque: static, arm links and tool load under gravity.",
+      "singular (as on the arm sheets). Holding torque: static, arm links and tool load under gravity, against the " +
+      "rated torque (N for linear axes).",
   };
 }
 
@@ -301,12 +309,12 @@ export function toolLoadTable(arm: CellArmJson, id: string, armName: string): Ta
             note: `lever ${formatQuantity(r.leverMm, "mm", 1)}`,
           },
           {
-            text: `${formatNumber(r.momentNm, 1)} of ${r.allowedMomentNm === null ? "not rated" : formatNumber(r.allowedMomentNm, 1)}`,
+            text: `${formatNumber(r.momentNm, 1)}${r.allowedMomentNm === null ? " (not rated)" : ` of ${formatNumber(r.allowedMomentNm, 1)}`}`,
             ...(momentOver ? { note: "over" } : {}),
             sortValue: r.momentNm,
           },
           {
-            text: `${formatNumber(r.inertiaKgM2, 3)} of ${r.allowedInertiaKgM2 === null ? "not rated" : formatNumber(r.allowedInertiaKgM2, 3)}`,
+            text: `${formatNumber(r.inertiaKgM2, 3)}${r.allowedInertiaKgM2 === null ? " (not rated)" : ` of ${formatNumber(r.allowedInertiaKgM2, 3)}`}`,
             ...(inertiaOver ? { note: "over" } : {}),
             sortValue: r.inertiaKgM2,
           },

@@ -79,3 +79,34 @@ describe("cellLayoutChart", () => {
     expect(attr(span, "d")).toMatch(/^M[\d.]+ [\d.]+H[\d.]+M[\d.]+ [\d.]+v8M[\d.]+ [\d.]+v8$/);
   });
 });
+
+describe("cellLayoutChart spans", () => {
+  it("cuts a span longer than the drawing at its edges, with no end tick there, and does not widen the drawing", () => {
+    const side = nodeChartResult(
+      cellLayoutChart({
+        id: "side",
+        title: "Cell, side view",
+        axes: { x: "cell x", y: "height, cell z" },
+        caption: "Test.",
+        floor: true,
+        targets: [{ name: "pick", p: [1000, 500] }],
+        segments: [],
+        bases: [
+          {
+            key: "a",
+            label: "A",
+            shortLabel: "A",
+            p: [0, 0],
+            series: 0,
+            outline: { kind: "span", x: [-90_000, 800], y: 0 },
+          },
+        ],
+      }),
+    );
+    const d = attr(elements(side.svg, "path", "cell-reach")[0]!, "d")!;
+    // One tick (the right end at 800 mm lies inside); the left end runs to the plot's edge.
+    expect(d.match(/v8/g)).toHaveLength(1);
+    const ticks = texts(side.svg, "tick-label").map((t) => Number(t.replace(/,/g, "").replace("\u2212", "-")));
+    expect(Math.min(...ticks)).toBeGreaterThan(-5000);
+  });
+});

@@ -116,6 +116,10 @@ describe("targetsTable", () => {
     expect(t.rows[0]!.cells[5]!.note).toBe("50 % of rated");
   });
 
+  it("gives a linear axis's holding figure as a force in N", () => {
+    expect(targetsTable(A, "t", "A", ["J3"]).rows[0]!.cells[5]!.text).toBe("J3 60 of 120\u00a0N");
+  });
+
   it("gives the reason where a target is out of reach", () => {
     const row = targetsTable(B, "t", "B").rows[2]!;
     expect(texts(row).slice(0, 3)).toEqual(["place", "no", "—"]);
@@ -165,5 +169,16 @@ describe("toolLoadTable", () => {
     expect(t.rows[1]!.cells[1]!.note).toBe("rated 10\u00a0kg: over");
     expect(t.rows[1]!.cells[4]!.note).toBe("over");
     expect(t.rows[1]!.cells[5]!.note).toBeUndefined();
+  });
+
+  it("says a rating the arm file leaves out is not rated", () => {
+    const load = B.toolLoad[0]!;
+    const unrated = {
+      ...B,
+      toolLoad: [
+        { ...load, ratings: [{ ...load.ratings[0]!, allowedMomentNm: null, allowedInertiaKgM2: null, ok: true }] },
+      ],
+    };
+    expect(texts(toolLoadTable(unrated, "l", "B").rows[0]!).slice(4, 6)).toEqual(["12 (not rated)", "0.2 (not rated)"]);
   });
 });

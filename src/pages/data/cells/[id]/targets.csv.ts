@@ -3,20 +3,12 @@ import type { APIRoute, GetStaticPaths } from "astro";
 import type { Cell } from "../../../../catalog/cell";
 import { cellPageData, cellStaticPaths } from "../../../../catalog/cellPages";
 import { targetsCsv } from "../../../../view/cellCsv";
-import { drivenJointIndices } from "../../../../view/jointTables";
+import { drivenJointUnits } from "../../../../view/cellArms";
 
 export const getStaticPaths = cellStaticPaths satisfies GetStaticPaths;
 
 export const GET: APIRoute = async ({ props }) => {
   const { results, arms } = await cellPageData((props as { cell: Cell }).cell);
-  const units = new Map(
-    arms.map((arm) => {
-      const driven = drivenJointIndices(arm);
-      return [
-        arm.id,
-        arm.spec.joints.filter((_, i) => driven.has(i)).map((j) => (j.kind === "prismatic" ? "mm" : "deg")),
-      ];
-    }),
-  );
+  const units = new Map(arms.map((arm) => [arm.id, drivenJointUnits(arm)]));
   return new Response(targetsCsv(results.study, units), { headers: { "content-type": "text/csv; charset=utf-8" } });
 };
