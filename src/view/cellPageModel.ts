@@ -170,6 +170,8 @@ export function cellArmParts(
 /** The one-line result of a placement map, e.g. "Feasible area 0.35 m²; fastest placement found: …". */
 export function placementLine(map: PlacementMapJson, todayS: number | null): string {
   const area = `Feasible area ${formatQuantity(map.feasibleAreaM2, "m\u00b2", 2)} (${formatNumber(map.gridMm)} mm grid at z = ${formatNumber(map.planeZMm)} mm)`;
+  if (!map.feasible.some((row) => row.includes(1)))
+    return `No base position on the plane z = ${formatNumber(map.planeZMm)} mm reaches every target (${formatNumber(map.gridMm)} mm grid).`;
   if (!map.best) return `${area}; no position with a feasible cycle found.`;
   const [x, y] = map.best.positionMm;
   const today = todayS === null ? "today's placement has no cycle time" : `today ${formatQuantity(todayS, "s", 2)}`;

@@ -51,6 +51,9 @@ describe("placementLine", () => {
       "Feasible area 0.01\u00a0m² (50 mm grid at z = 500 mm); fastest placement found: x 50 mm, y 50 mm, yaw 0°, cycle 3.25\u00a0s (today 3.5\u00a0s); 7 positions evaluated.",
     );
     expect(placementLine({ ...PLACEMENT_A, best: null }, null)).toMatch(/; no position with a feasible cycle found\.$/);
+    expect(placementLine({ ...PLACEMENT_A, feasible: [[0, 0, 0]], feasibleAreaM2: 0, best: null }, null)).toBe(
+      "No base position on the plane z = 500 mm reaches every target (50 mm grid).",
+    );
   });
 });
 
