@@ -75,7 +75,9 @@ interface Els {
 }
 
 /** Where the editor starts: the address's state, a published cell, chosen arms or the first two arms. */
-async function startingCell(config: EditorConfig): Promise<{ cell: JsonObject; origin: string; problem?: string }> {
+async function startingCell(
+  config: EditorConfig,
+): Promise<{ cell: JsonObject; origin: string; problem?: string; page?: { href: string; text: string } }> {
   const encoded = stateOfHash(location.hash);
   if (encoded) {
     const decoded = decodeState(encoded);
@@ -96,7 +98,11 @@ async function startingCell(config: EditorConfig): Promise<{ cell: JsonObject; o
       };
     const res = await fetch(ref.fileHref);
     if (!res.ok) throw new Error(`${ref.fileHref}: HTTP ${res.status}`);
-    return { cell: (await res.json()) as JsonObject, origin: `Started from the published study ${cellId}.` };
+    return {
+      cell: (await res.json()) as JsonObject,
+      origin: `Started from the published study ${cellId}.`,
+      page: { href: ref.pageHref, text: "Its page (with the placement maps)" },
+    };
   }
   const wanted = (query.get("arms") ?? "")
     .split(",")
@@ -136,15 +142,18 @@ class CellEditor {
   async start(): Promise<void> {
     this.setStatus("loading", "Loading the cell…");
     let origin = "";
+    let page: { href: string; text: string } | undefined;
     try {
       const start = await startingCell(this.config);
       this.state = start.cell;
       origin = [start.origin, start.problem].filter(Boolean).join(" ");
+      page = start.page;
     } catch (e) {
       this.setStatus("error", `The cell could not be loaded: ${e instanceof Error ? e.message : String(e)}`);
       this.state = starterCell(this.config.arms.slice(0, 2).map((a) => a.id));
     }
-    this.els.origin.textContent = origin;
+    this.els.origin.replaceChildren(origin);
+    if (page) this.els.origin.append(" ", h("a", { text: page.text, attrs: { href: page.href } }), ".");
     this.els.form.addEventListener("input", (e) => this.onField(e, "input"));
     this.els.form.addEventListener("change", (e) => this.onField(e, "change"));
     this.els.download.addEventListener("click", () => this.download());
