@@ -5,7 +5,7 @@ import { siteHref } from "./links";
 export const SITE_NAME = "Armdex";
 export const SITE_TAGLINE = "Industrial robot arms, compared from their declared parameters";
 
-export type NavKey = "catalog" | "methods";
+export type NavKey = "catalog" | "cells" | "methods";
 
 export interface NavItem {
   readonly key: NavKey;
@@ -32,6 +32,7 @@ export function siteModel(baseUrl: string): SiteModel {
     homeHref: siteHref(baseUrl, ""),
     nav: [
       { key: "catalog", label: "Catalog", href: siteHref(baseUrl, "") },
+      { key: "cells", label: "Cell studies", href: siteHref(baseUrl, "cells/") },
       { key: "methods", label: "Methods", href: siteHref(baseUrl, "methods/") },
     ],
     cautionsSummary: CAUTIONS.summary,
