@@ -94,6 +94,8 @@ export const STUDY: CellStudyJson = {
           problem: null,
           carrying: null,
           jointsDeg: [1, 2, 3, 4, 5, 6],
+          peakToolSpeedMmPerS: null,
+          minInverseCondition: null,
         },
         {
           step: 2,
@@ -107,6 +109,8 @@ export const STUDY: CellStudyJson = {
           problem: null,
           carrying: null,
           jointsDeg: [1, 2, 3, 4, 5, 6],
+          peakToolSpeedMmPerS: 250,
+          minInverseCondition: 0.2,
         },
         {
           step: 3,
@@ -120,6 +124,8 @@ export const STUDY: CellStudyJson = {
           problem: null,
           carrying: "box",
           jointsDeg: [1, 2, 3, 4, 5, 6],
+          peakToolSpeedMmPerS: null,
+          minInverseCondition: null,
         },
       ],
       cycleTimeS: 3.5,
@@ -147,6 +153,8 @@ export const STUDY: CellStudyJson = {
           problem: { kind: "out-of-reach", positionMm: [600, 400, 500] },
           carrying: null,
           jointsDeg: null,
+          peakToolSpeedMmPerS: null,
+          minInverseCondition: null,
         },
         {
           step: 2,
@@ -160,6 +168,8 @@ export const STUDY: CellStudyJson = {
           problem: null,
           carrying: null,
           jointsDeg: [1, 2, 3, 4, 5, 6],
+          peakToolSpeedMmPerS: 250,
+          minInverseCondition: 0.2,
         },
         {
           step: 3,
@@ -173,6 +183,8 @@ export const STUDY: CellStudyJson = {
           problem: { kind: "singularity", positionMm: [610.4, -12, 700], joint: "J5" },
           carrying: "box",
           jointsDeg: null,
+          peakToolSpeedMmPerS: null,
+          minInverseCondition: null,
         },
       ],
       cycleTimeS: null,
