@@ -49,6 +49,8 @@ export interface CellPageInput {
   /** Spec hash of each candidate arm the results were computed from. */
   readonly armSpecHashes: Readonly<Record<string, string>>;
   readonly arms: readonly CellPageArm[];
+  /** Pinned sheet of the revision each arm's results were computed from, by arm id, where the site has one. */
+  readonly revisionHrefs?: Readonly<Record<string, string>>;
 }
 
 /** What the page shows for one arm; the editor builds the same parts (without the placement map). */
@@ -211,6 +213,7 @@ export function cellArmInfo(
   arms: readonly { readonly id: string; readonly name: string; readonly prismaticJoints?: readonly string[] }[],
   specHashes: Readonly<Record<string, string>>,
   baseUrl: string,
+  revisionHrefs: Readonly<Record<string, string>> = {},
 ): Map<string, CellArmInfo> {
   return new Map(
     arms.map((a) => [
@@ -220,6 +223,7 @@ export function cellArmInfo(
         name: a.name,
         sheetHref: siteHref(baseUrl, armPath(a.id)),
         specHash: specHashes[a.id] ?? null,
+        revisionHref: revisionHrefs[a.id] ?? null,
         prismaticJoints: a.prismaticJoints ?? [],
       },
     ]),
@@ -268,7 +272,7 @@ export function cellPageModel(
 ): CellPageModel {
   const { cell, study } = input;
   const spec = cell.spec;
-  const info = cellArmInfo(input.arms, input.armSpecHashes, options.baseUrl);
+  const info = cellArmInfo(input.arms, input.armSpecHashes, options.baseUrl, input.revisionHrefs);
   const href = siteHref(options.baseUrl, cellPath(cell.id));
   const byId = new Map(input.arms.map((a) => [a.id, a]));
   const ordered = study.arms.map((a) => ({

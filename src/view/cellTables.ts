@@ -16,6 +16,8 @@ export interface CellArmInfo {
   readonly sheetHref: string | null;
   /** sha256 of the arm file the study was computed from, hex; null when unknown. */
   readonly specHash: string | null;
+  /** Link to the arm's pinned sheet of that revision (`/arms/<id>/rev/<fingerprint>/`) when the site has it. */
+  readonly revisionHref?: string | null;
   /** Driven joints that slide (their holding figure is a force, N); the others turn (N·m). */
   readonly prismaticJoints?: readonly string[];
 }
@@ -127,7 +129,7 @@ export function rankingTable(
           : { text: formatNumber(a.cycleTimeS, 2), sortValue: a.cycleTimeS, ...(accel ? { note: accel } : {}) },
         margin ? { text: margin.text, sortValue: margin.valueDeg } : { text: DASH },
         { text: load.text, note: load.note },
-        { text: fingerprintOf(i?.specHash) },
+        { text: fingerprintOf(i?.specHash), ...(i?.revisionHref ? { href: i.revisionHref } : {}) },
         { text: shortReasons(a.reasons) },
       ],
     };
@@ -149,7 +151,7 @@ export function rankingTable(
     rowHeaders: false,
     footnote:
       "Spec fingerprint: the first 12 hex digits of the arm file's sha256, the revision the figures were computed " +
-      "from (the arm sheet shows the same). Tightest margin: the smallest distance of a joint to a range end over the " +
+      "from (the arm sheet shows the same); it links to that revision's pinned sheet, which never changes. Tightest margin: the smallest distance of a joint to a range end over the " +
       "targets, in the solution the loop uses.",
   };
 }

@@ -93,6 +93,14 @@ describe("rankingTable", () => {
     expect(table.rows[1]!.cells[3]!.note).toBe("a move cannot be done");
   });
 
+  it("links the fingerprint to the arm's pinned sheet of that revision when the site has one", () => {
+    const pinned = new Map(info);
+    pinned.set("arm-a", { ...info.get("arm-a")!, revisionHref: "/arms/arm-a/rev/0123456789ab/" });
+    const t = rankingTable(STUDY, pinned, { id: "rank" });
+    expect(t.rows[0]!.cells[6]).toMatchObject({ text: "0123456789ab", href: "/arms/arm-a/rev/0123456789ab/" });
+    expect(t.rows[1]!.cells[6]!.href).toBeUndefined();
+  });
+
   it("says a list without reasons is a dash", () => {
     expect(shortReasons([])).toBe("—");
     expect(shortReasons(["x", "y"], 3)).toBe("x; y");
