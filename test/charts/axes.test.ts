@@ -17,8 +17,17 @@ describe("axes", () => {
     const x = scaleLinear([0, 1000], [50, 450]);
     const svg = axisBottomSvg(x, area, { label: "reach", unit: "mm", ticks: 5 });
     expect(texts(svg, "tick-label")).toEqual(["0", "200", "400", "600", "800", "1,000"]);
-    const ticks = elements(svg, "line", "tick");
-    expect(ticks.map((t) => Number(attr(t, "x1")))).toEqual([50, 130, 210, 290, 370, 450]);
+    // The tick marks are one path: a 5 px downward stroke at each tick's x.
+    const marks = attr(elements(svg, "path", "tick")[0]!, "d")!;
+    expect([...marks.matchAll(/M([\d.]+) ([\d.]+)v5/g)].map((m) => Number(m[1]))).toEqual([
+      50, 130, 210, 290, 370, 450,
+    ]);
+    // Without `grid`, no grid path; with it, one vertical line per tick across the plot.
+    expect(elements(svg, "path", "grid-line")).toEqual([]);
+    const grid = axisBottomSvg(x, area, { label: "reach", unit: "mm", ticks: 5, grid: true });
+    const lines = [...attr(elements(grid, "path", "grid-line")[0]!, "d")!.matchAll(/M([\d.]+) ([\d.]+)V([\d.]+)/g)];
+    expect(lines.map((m) => Number(m[1]))).toEqual([50, 130, 210, 290, 370, 450]);
+    expect(lines.every((m) => Number(m[2]) === area.top && Number(m[3]) === area.top + area.height)).toBe(true);
   });
 
   it("labels decimals when the step needs them, with a true minus sign", () => {

@@ -40,7 +40,7 @@ describe("speedMapChart", () => {
   it("leaves the unreachable column blank: bands are clipped to the reached cells, which end at r = 350 mm", () => {
     const clip = chart.svg.match(/<clipPath id="speed-down-reached"><path d="([^"]+)"/)![1]!;
     const px = bounds(pathPoints(clip));
-    const axis = elements(chart.svg, "line", "tick");
+    const axis = elements(chart.svg, "path", "tick");
     expect(axis.length).toBeGreaterThan(0);
     // Reached cells: nodes at 100, 200, 300 mm → borders at 50 and 350 mm; the mapped area runs to 450 mm.
     const mapped = elements(chart.svg, "rect", "mapped-area")[0]!;
