@@ -6,9 +6,8 @@
  */
 import { axisBottomSvg, axisLeftSvg } from "./axes";
 import { dilateGrid, gridBands, polygonsPath, presentRegion, type GridData, type PolygonData } from "./geometry";
-import { DEFAULT_MARGINS, equalScale } from "./layout";
 import { legendRows, legendSvg, stepScaleSvg, type LegendItem } from "./legend";
-import { mappedBox, mappedRect, MIN_MAP_WIDTH_PX, SPEED_MAP_WIDTH_PX } from "./speedMapChart";
+import { mappedBox, mappedRect, MIN_MAP_WIDTH_PX, sideMapLayout, SPEED_MAP_WIDTH_PX } from "./speedMapChart";
 import { CAPABILITY_BANDS, capabilityBandClass } from "./theme";
 import { el, fmt, label, svgRoot, type ChartResult } from "./svg";
 
@@ -70,15 +69,7 @@ export function capabilityMapChart(input: CapabilityMapChartInput): ChartResult 
   const downRegion = input.toolDown ? presentRegion(input.toolDown.grid, input.toolDown.reached) : [];
   const keys = legendKeys(input, axisShown, downRegion.length > 0);
   const keyRows = legendRows(keys, MIN_MAP_WIDTH_PX - 16);
-  const margins = { ...DEFAULT_MARGINS, top: 40 + 36 + 10 + keyRows * 17 + 4 };
-  const layout = equalScale([box.x0, box.x1], [box.y0, box.y1], {
-    widthPx,
-    maxHeightPx: input.maxHeightPx ?? 640,
-    minHeightPx: 300,
-    margins,
-    padShare: 0,
-    minWidthPx: MIN_MAP_WIDTH_PX,
-  });
+  const layout = sideMapLayout(box, widthPx, input.maxHeightPx, 40 + 36 + 10 + keyRows * 17 + 4);
   const { x, y, area } = layout;
   const finalWidthPx = layout.widthPx;
 

@@ -13,8 +13,7 @@ import {
   type PointData,
 } from "./geometry";
 import type { EnvelopeLayoutKind } from "./envelopeChart";
-import { MIN_MAP_WIDTH_PX, mappedBox, mappedRect } from "./speedMapChart";
-import { DEFAULT_MARGINS, equalScale } from "./layout";
+import { MIN_MAP_WIDTH_PX, mappedBox, mappedRect, sideMapLayout } from "./speedMapChart";
 import { legendRows, legendSvg, type LegendItem } from "./legend";
 import { LOCUS_KINDS, LOCUS_LABEL, NEAR_SINGULAR_INVERSE_CONDITION, locusClass, type LocusKind } from "./theme";
 import { el, fmt, label, svgRoot, textEl, type ChartResult } from "./svg";
@@ -101,15 +100,7 @@ export function singularityChart(input: SingularityChartInput): ChartResult {
   const showAxis1 = revolute && box.x0 <= 0 && box.x1 >= 0;
   if (showAxis1) legend.push({ kind: "line", className: "axis1", label: "axis 1" });
   const rows = legendRows(legend, MIN_MAP_WIDTH_PX - 16);
-  const margins = { ...DEFAULT_MARGINS, top: 30 + rows * 17 + 10 };
-  const layout = equalScale([box.x0, box.x1], [box.y0, box.y1], {
-    widthPx,
-    maxHeightPx: input.maxHeightPx ?? 640,
-    minHeightPx: 300,
-    margins,
-    padShare: 0,
-    minWidthPx: MIN_MAP_WIDTH_PX,
-  });
+  const layout = sideMapLayout(box, widthPx, input.maxHeightPx, 30 + rows * 17 + 10);
   const { x, y, area } = layout;
   const finalWidthPx = layout.widthPx;
 

@@ -36,6 +36,26 @@ export const SPEED_MAP_WIDTH_PX = 600;
 export const MIN_MAP_WIDTH_PX = 470;
 
 /** The area a grid covers: each cell's square around its node, mm. */
+/**
+ * The equal-scale layout of a side-view map (speed, singularity and tool-direction maps share it): one millimetre the
+ * same length on both axes, `topPx` above the plot for the title and legend.
+ */
+export function sideMapLayout(
+  box: { x0: number; x1: number; y0: number; y1: number },
+  widthPx: number,
+  maxHeightPx: number | undefined,
+  topPx: number,
+) {
+  return equalScale([box.x0, box.x1], [box.y0, box.y1], {
+    widthPx,
+    maxHeightPx: maxHeightPx ?? 640,
+    minHeightPx: 300,
+    margins: { ...DEFAULT_MARGINS, top: topPx },
+    padShare: 0,
+    minWidthPx: MIN_MAP_WIDTH_PX,
+  });
+}
+
 export function mappedBox(g: GridData): { x0: number; x1: number; y0: number; y1: number } {
   const half = g.stepMm / 2;
   return {
@@ -93,15 +113,7 @@ export function speedMapChart(input: SpeedMapChartInput): ChartResult {
     keys.push({ kind: "line", className: "env-outline", label: "flange envelope, any orientation" });
   if (revolute && box.x0 <= 0 && box.x1 >= 0) keys.push({ kind: "line", className: "axis1", label: "axis 1" });
   const keyRows = legendRows(keys, MIN_MAP_WIDTH_PX - 16);
-  const margins = { ...DEFAULT_MARGINS, top: 40 + 36 + 10 + keyRows * 17 + 4 };
-  const layout = equalScale([box.x0, box.x1], [box.y0, box.y1], {
-    widthPx,
-    maxHeightPx: input.maxHeightPx ?? 640,
-    minHeightPx: 300,
-    margins,
-    padShare: 0,
-    minWidthPx: MIN_MAP_WIDTH_PX,
-  });
+  const layout = sideMapLayout(box, widthPx, input.maxHeightPx, 40 + 36 + 10 + keyRows * 17 + 4);
   const { x, y, area } = layout;
   const finalWidthPx = layout.widthPx;
 

@@ -52,3 +52,12 @@ export interface WristCentre {
   /** "spherical" when found automatically, "declared" when named in the arm file. */
   readonly basis: "spherical" | "declared";
 }
+
+/**
+ * The same chain with every joint range opened (−∞, ∞): solvers run on it where a joint leaving its range must be
+ * seen rather than clamped (the caller checks the ranges), or to find where a target lies outside them.
+ */
+export function withOpenRanges(chain: Chain): Chain {
+  const m = chain.drivenCount;
+  return { ...chain, lowerSi: new Float64Array(m).fill(-Infinity), upperSi: new Float64Array(m).fill(Infinity) };
+}

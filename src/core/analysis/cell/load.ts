@@ -5,19 +5,11 @@
 import type { Chain } from "../../kinematics/chain";
 import { mmToM } from "../../units";
 import { payloadInputOf, type PayloadSpec } from "../payload";
-import { combineBodies, toolLoadsOf, type ToolLoad } from "./toolLoad";
+import { combineBodies, toolLoadsOf, type ToolLoad, type ToolLoadRating } from "./toolLoad";
 import type { CellSpec } from "./types";
 
-export interface ToolLoadRatingJson {
-  readonly joint: string;
-  readonly axis: "roll" | "bend";
-  readonly leverMm: number;
-  readonly momentNm: number;
-  readonly allowedMomentNm: number | null;
-  readonly inertiaKgM2: number;
-  readonly allowedInertiaKgM2: number | null;
-  readonly ok: boolean;
-}
+/** One wrist rating as toolLoad.ts gives it, rounded for the JSON (without the internal share). */
+export type ToolLoadRatingJson = Omit<ToolLoadRating, "share">;
 
 export interface ToolLoadJson {
   readonly carrying: string | null;
@@ -26,7 +18,7 @@ export interface ToolLoadJson {
   readonly inertiaAboutCogKgM2: { xx: number; yy: number; zz: number; xy: number; xz: number; yz: number };
   readonly ratedPayloadKg: number;
   readonly withinRatedPayload: boolean;
-  readonly ratings: ToolLoadRatingJson[];
+  readonly ratings: readonly ToolLoadRatingJson[];
   /** The wrist rating the load uses most, or null. */
   readonly limiting: string | null;
   readonly loadDiagram: { readonly lzMm: number; readonly lxyMm: number };

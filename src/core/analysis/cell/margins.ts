@@ -6,7 +6,7 @@
  * @see Craig, Introduction to Robotics, 3rd ed., ch. 5 (static forces) [from memory]
  */
 import type { Chain } from "../../kinematics/chain";
-import { createScratch, forwardInto, jacobianInto } from "../../kinematics/forward";
+import { createScratch, forwardInto, jacobianInto, toolPointInto } from "../../kinematics/forward";
 import { bodySetOf, createHoldingScratch, holdingTorqueInto, pointHoldingTorqueInto } from "../../kinematics/statics";
 import { createSingularityScratch, scaledInverseCondition } from "../../measures/singularity";
 import { mToMm, radToDeg } from "../../units";
@@ -77,12 +77,10 @@ export function targetMargins(
     }
   }
   const kin = createScratch(chain);
-  const f = forwardInto(chain, q, kin);
+  forwardInto(chain, q, kin);
   const e = setup.flangeFromTcp;
-  const px = f[0]! * e[3]! + f[1]! * e[7]! + f[2]! * e[11]! + f[3]!,
-    py = f[4]! * e[3]! + f[5]! * e[7]! + f[6]! * e[11]! + f[7]!,
-    pz = f[8]! * e[3]! + f[9]! * e[7]! + f[10]! * e[11]! + f[11]!;
-  const jac = jacobianInto(new Float64Array(6 * m), chain, kin, px, py, pz);
+  const p = toolPointInto(new Float64Array(3), kin, e[3]!, e[7]!, e[11]!);
+  const jac = jacobianInto(new Float64Array(6 * m), chain, kin, p[0]!, p[1]!, p[2]!);
   const cond = scaledInverseCondition(jac, m, chain.characteristicLengthM, createSingularityScratch(m));
   return {
     jointsDeg: joints,
@@ -110,16 +108,14 @@ function holdingTorques(
   const bodies = bodySetOf(payloadInputOf(facts, chain).links);
   const own = new Float64Array(m),
     load = new Float64Array(m);
-  const f = forwardInto(chain, q, kin);
+  forwardInto(chain, q, kin);
+  const cog = new Float64Array(3);
   holdingTorqueInto(own, chain, kin, bodies, setup.gravityInBase, h);
   const worst = new Float64Array(m);
   for (const part of new Set(carried)) {
     const l = cellLoadOf(cell, part);
-    const c = l.cogM;
-    const px = f[0]! * c[0] + f[1]! * c[1] + f[2]! * c[2] + f[3]!,
-      py = f[4]! * c[0] + f[5]! * c[1] + f[6]! * c[2] + f[7]!,
-      pz = f[8]! * c[0] + f[9]! * c[1] + f[10]! * c[2] + f[11]!;
-    pointHoldingTorqueInto(load, chain, kin, px, py, pz, l.massKg, setup.gravityInBase, h);
+    const c = toolPointInto(cog, kin, l.cogM[0], l.cogM[1], l.cogM[2]);
+    pointHoldingTorqueInto(load, chain, kin, c[0]!, c[1]!, c[2]!, l.massKg, setup.gravityInBase, h);
     for (let i = 0; i < m; i++) worst[i] = Math.max(worst[i]!, Math.abs(own[i]! + load[i]!));
   }
   return rated.map((i) => {

@@ -4,7 +4,7 @@
  */
 import type { Chain } from "../../kinematics/chain";
 import { mToMm } from "../../units";
-import { CELL_TIME_TO_TOP_SPEED_S, effectiveAccelInto, jointMoveTime } from "./jointMove";
+import { jointMoveTime } from "./jointMove";
 import type { FollowResult } from "./pathFollow";
 import { createTimeOptimalScratch, timeOptimal, type TimeOptimalScratch } from "./timeOptimal";
 
@@ -46,12 +46,11 @@ export function timeJointMove(
   const t = jointMoveTime(d, chain.maxSpeedSi, chain.maxAccelSi, speedScale);
   if (t.limitingJoint < 0) return { timeS: t.timeS, limitedBy: null };
   const k = t.limitingJoint;
-  const acc = effectiveAccelInto(new Float64Array(m), chain.maxSpeedSi, chain.maxAccelSi, CELL_TIME_TO_TOP_SPEED_S, []);
+  // As for linear moves: the limit that holds over the larger share of the time. On a trapezoid T = d/v + v/a the
+  // cruise lasts d/v − v/a = 2d/v − T and the ramps the rest; a triangle (2d/v < T) never cruises.
   const v = chain.maxSpeedSi[k]! * speedScale;
-  // As for linear moves: the limit that holds over the larger share of the time (cruise d/v − v/a against the
-  // 2·v/a spent speeding up and slowing down; a triangle never cruises).
-  const cruiseS = Math.max(0, d[k]! / v - v / acc[k]!),
-    rampS = d[k]! >= (v * v) / acc[k]! ? (2 * v) / acc[k]! : t.timeS;
+  const cruiseS = Math.max(0, (2 * d[k]!) / v - t.timeS),
+    rampS = t.timeS - cruiseS;
   return { timeS: t.timeS, limitedBy: `${name(chain, k)} ${cruiseS >= rampS ? "speed" : "acceleration"}` };
 }
 

@@ -20,8 +20,14 @@
  * @see Allgower & Georg, Introduction to Numerical Continuation Methods, ch. 2 (predictor–corrector) [from memory];
  *   Shoemake, "Animating rotation with quaternion curves", SIGGRAPH 1985 (slerp) [from memory]
  */
-import type { Chain } from "../../kinematics/chain";
-import { forwardInto, jacobianInto, type KinematicsScratch, createScratch } from "../../kinematics/forward";
+import { withOpenRanges, type Chain } from "../../kinematics/chain";
+import {
+  createScratch,
+  forwardInto,
+  jacobianInto,
+  toolPointInto,
+  type KinematicsScratch,
+} from "../../kinematics/forward";
 import { createIkScratch, solveIkInto, type IkOptions, type IkScratch } from "../../kinematics/inverse";
 import { determinantInPlace } from "../../math/linsolve";
 import { rotationAxisAngleInto } from "../../math/mat4";
@@ -90,15 +96,12 @@ export interface FollowContext {
   readonly rot: Float64Array;
   readonly omega: Float64Array;
   readonly rt: Float64Array;
+  readonly point: Float64Array;
 }
 
 export function createFollowContext(chain: Chain): FollowContext {
   const m = chain.drivenCount;
-  const open: Chain = {
-    ...chain,
-    lowerSi: new Float64Array(m).fill(-Infinity),
-    upperSi: new Float64Array(m).fill(Infinity),
-  };
+  const open = withOpenRanges(chain);
   return {
     chain,
     open,
@@ -111,6 +114,7 @@ export function createFollowContext(chain: Chain): FollowContext {
     rot: new Float64Array(16),
     omega: new Float64Array(3),
     rt: new Float64Array(9),
+    point: new Float64Array(3),
   };
 }
 
@@ -136,6 +140,13 @@ function geometryOf(ctx: FollowContext, move: LinearMove): Geometry {
   const axis: [number, number, number] =
     angleRad > 1e-12 ? [w[0]! / angleRad, w[1]! / angleRad, w[2]! / angleRad] : [0, 0, 1];
   return { lengthM, angleRad, axis };
+}
+
+/** The tool point at path fraction f of a linear move, base frame, m. */
+export function linePositionM(move: LinearMove, f: number): [number, number, number] {
+  const a = move.fromTcp,
+    b = move.toTcp;
+  return [0, 1, 2].map((i) => a[4 * i + 3]! + f * (b[4 * i + 3]! - a[4 * i + 3]!)) as [number, number, number];
 }
 
 /** Flange target at path fraction f into ctx.target: tool pose T(f) (lerp, slerp) times the inverse tool offset. */
@@ -199,11 +210,9 @@ function probe(ctx: FollowContext, move: LinearMove, q: Float64Array, out: Probe
   const chain = ctx.chain,
     m = chain.drivenCount,
     e = move.tcpInFlange;
-  const f = forwardInto(chain, q, ctx.kin);
-  const px = f[0]! * e[3]! + f[1]! * e[7]! + f[2]! * e[11]! + f[3]!,
-    py = f[4]! * e[3]! + f[5]! * e[7]! + f[6]! * e[11]! + f[7]!,
-    pz = f[8]! * e[3]! + f[9]! * e[7]! + f[10]! * e[11]! + f[11]!;
-  jacobianInto(ctx.jac, chain, ctx.kin, px, py, pz);
+  forwardInto(chain, q, ctx.kin);
+  const p = toolPointInto(ctx.point, ctx.kin, e[3]!, e[7]!, e[11]!);
+  jacobianInto(ctx.jac, chain, ctx.kin, p[0]!, p[1]!, p[2]!);
   out.cond = scaledInverseCondition(ctx.jac, m, chain.characteristicLengthM, ctx.sing);
   if (m === 6) {
     ctx.det.set(ctx.jac);
@@ -255,13 +264,8 @@ export function followLinear(ctx: FollowContext, move: LinearMove, qStart: Array
     fPrev = 0,
     completed = 1;
   const problemAt = (kind: PathProblemKind, f: number, joint = -1): FollowResult => {
-    const t = move.fromTcp,
-      u = move.toTcp;
-    const positionM: [number, number, number] = [0, 1, 2].map(
-      (i) => t[4 * i + 3]! + f * (u[4 * i + 3]! - t[4 * i + 3]!),
-    ) as [number, number, number];
     return {
-      problem: { kind, fraction: f, positionM, joint },
+      problem: { kind, fraction: f, positionM: linePositionM(move, f), joint },
       s,
       q,
       stages: n,

@@ -20,10 +20,11 @@
  * @see Siciliano et al., Robotics: Modelling, Planning and Control, §2.12 and §3.7 (closed-form and numeric inverse
  *   kinematics) [from memory]
  */
-import type { Chain } from "../../kinematics/chain";
+import { withOpenRanges, type Chain } from "../../kinematics/chain";
 import { sphericalWristIk, solveSphericalWristInto, type SphericalWristIk } from "../../kinematics/closedForm";
 import { createScratch, forwardInto, type KinematicsScratch } from "../../kinematics/forward";
 import { createIkScratch, DEFAULT_IK, solveIkInto, type IkOptions, type IkScratch } from "../../kinematics/inverse";
+import { wrapNear } from "../../math/angles";
 import { HALTON_BASES, radicalInverse } from "../../math/halton";
 import { radToDeg } from "../../units";
 
@@ -75,18 +76,15 @@ export interface ReachContext {
 
 export function createReachContext(chain: Chain): ReachContext {
   const m = chain.drivenCount;
-  const open: Chain = {
-    ...chain,
-    lowerSi: new Float64Array(m).fill(-Infinity),
-    upperSi: new Float64Array(m).fill(Infinity),
-  };
+  const open = withOpenRanges(chain);
+  const closed = sphericalWristIk(chain);
   return {
     chain,
-    closed: sphericalWristIk(chain),
+    closed,
     ik: createIkScratch(chain),
     kin: createScratch(chain),
     seeds: numericSeeds(chain),
-    library: sphericalWristIk(chain) ? null : seedLibrary(chain),
+    library: closed ? null : seedLibrary(chain),
     fixedToolAxis: m < 6 ? fixedToolAxisOf(chain) : null,
     open,
     openIk: createIkScratch(open),
@@ -251,10 +249,8 @@ function canonicalInto(chain: Chain, q: Float64Array): void {
     if (chain.isPrismatic[chain.drivenJoint[i]!]) continue;
     const lo = chain.lowerSi[i]!,
       hi = chain.upperSi[i]!;
-    let v = q[i]! - turn * Math.round(q[i]! / turn);
-    while (v < lo - 1e-9 && v + turn <= hi + 1e-9) v += turn;
-    while (v > hi + 1e-9 && v - turn >= lo - 1e-9) v -= turn;
-    q[i] = v >= lo - 1e-9 && v <= hi + 1e-9 ? Math.min(hi, Math.max(lo, v)) : v;
+    const v = wrapNear(q[i]!, 0, lo - 1e-9, hi + 1e-9);
+    q[i] = Number.isNaN(v) ? q[i]! - turn * Math.round(q[i]! / turn) : Math.min(hi, Math.max(lo, v));
   }
 }
 

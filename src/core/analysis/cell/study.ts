@@ -10,20 +10,14 @@
 import type { Chain } from "../../kinematics/chain";
 import type { PayloadSpec } from "../payload";
 import { cellSetup, type CellSetup } from "./setup";
-import {
-  createReachContext,
-  revoluteMarginRad,
-  sameSolution,
-  solveTarget,
-  type ReachContext,
-  type TargetReach,
-} from "./reach";
+import { createReachContext, revoluteMarginRad, sameSolution, solveTarget, type TargetReach } from "./reach";
 import {
   createFollowContext,
   firstRangeViolation,
   followLinear,
-  type FollowContext,
+  linePositionM,
   type FollowResult,
+  type LinearMove,
 } from "./pathFollow";
 import { planLoop, type Plan } from "./plan";
 import { timeJointMove, timeLinearMove, type JointMoveDetail, type LinearMoveDetail } from "./moveTiming";
@@ -114,26 +108,20 @@ export const DEFAULT_AVOID_MARGIN_DEG = 1;
 
 // Solver set-ups per chain, kept while the chain lives: a study recomputed in the browser editor, or at each position
 // of a placement map, does not build them again. They hold work buffers only; results do not depend on them.
-const reachContexts = new WeakMap<Chain, ReachContext>();
-const followContexts = new WeakMap<Chain, FollowContext>();
-
-function reachContextOf(chain: Chain): ReachContext {
-  let ctx = reachContexts.get(chain);
-  if (!ctx) {
-    ctx = createReachContext(chain);
-    reachContexts.set(chain, ctx);
-  }
-  return ctx;
+function perChain<T>(create: (chain: Chain) => T): (chain: Chain) => T {
+  const made = new WeakMap<Chain, T>();
+  return (chain) => {
+    let value = made.get(chain);
+    if (value === undefined) {
+      value = create(chain);
+      made.set(chain, value);
+    }
+    return value;
+  };
 }
 
-function followContextOf(chain: Chain): FollowContext {
-  let ctx = followContexts.get(chain);
-  if (!ctx) {
-    ctx = createFollowContext(chain);
-    followContexts.set(chain, ctx);
-  }
-  return ctx;
-}
+const reachContextOf = perChain(createReachContext);
+const followContextOf = perChain(createFollowContext);
 
 function drivenName(chain: Chain, i: number): string {
   return chain.jointNames[chain.drivenJoint[i]!]!;
@@ -227,7 +215,10 @@ interface FollowFailure {
 function planCycle(cell: CellSpec, setup: CellSetup, chain: Chain, reach: readonly TargetReach[]): CellPlan {
   const m = chain.drivenCount;
   const followCtx = followContextOf(chain);
-  const cache = new Map<string, { follow: FollowResult; canonical: Float64Array; timing: LinearMoveDetail | null }>();
+  const cache = new Map<
+    string,
+    { move: LinearMove; follow: FollowResult; canonical: Float64Array; timing: LinearMoveDetail | null }
+  >();
   const steps = cell.cycle.map((s, i) => ({ motion: s.motion, target: setup.stepTarget[i]! }));
   // Solutions closer to a range end than the cell requires (1° when it requires nothing) are avoided when the loop
   // has a choice; the verdict still reports a margin below the requirement.
@@ -259,20 +250,14 @@ function planCycle(cell: CellSpec, setup: CellSetup, chain: Chain, reach: readon
           const timing = follow.problem
             ? null
             : timeLinearMove(chain, follow, cap === undefined ? Infinity : cap / 1000);
-          entry = { follow, canonical, timing };
+          entry = { move, follow, canonical, timing };
           cache.set(key, entry);
         }
         const offset = a.map((v, j) => v - entry.canonical[j]!);
         const f = entry.follow;
         const violation = firstRangeViolation(chain, f, offset);
         const failAt = (kind: MoveProblemKind, fraction: number, joint: number) => {
-          const from = setup.targets[prevTarget(i)]!.baseFromTcp,
-            to = setup.targets[steps[i]!.target]!.baseFromTcp;
-          const positionM = [0, 1, 2].map((r) => from[4 * r + 3]! + fraction * (to[4 * r + 3]! - from[4 * r + 3]!)) as [
-            number,
-            number,
-            number,
-          ];
+          const positionM = linePositionM(entry.move, fraction);
           return { timeS: null, qEnd: null, detail: { kind, positionM, joint } as LinearMoveDetail | FollowFailure };
         };
         if (violation) {

@@ -11,7 +11,13 @@
  * @see Nocedal & Wright, Numerical Optimization, §16.7 (gradient projection) [from memory]
  */
 import type { Chain } from "../../kinematics/chain";
-import { createScratch, forwardInto, jacobianInto } from "../../kinematics/forward";
+import {
+  createScratch,
+  forwardInto,
+  jacobianInto,
+  toolPointInto,
+  type KinematicsScratch,
+} from "../../kinematics/forward";
 import { HALTON_BASES, radicalInverse } from "../../math/halton";
 
 export const EXTENT_SAMPLES = 4096;
@@ -28,22 +34,13 @@ export interface ReachExtent {
 }
 
 /** Tool point (base frame, m) at q into out; returns out. */
-function toolPoint(
-  chain: Chain,
-  q: Float64Array,
-  e: Float64Array,
-  kin: ReturnType<typeof createScratch>,
-  out: number[],
-) {
-  const f = forwardInto(chain, q, kin);
-  out[0] = f[0]! * e[3]! + f[1]! * e[7]! + f[2]! * e[11]! + f[3]!;
-  out[1] = f[4]! * e[3]! + f[5]! * e[7]! + f[6]! * e[11]! + f[7]!;
-  out[2] = f[8]! * e[3]! + f[9]! * e[7]! + f[10]! * e[11]! + f[11]!;
-  return out;
+function toolPoint(chain: Chain, q: Float64Array, e: Float64Array, kin: KinematicsScratch, out: Float64Array) {
+  forwardInto(chain, q, kin);
+  return toolPointInto(out, kin, e[3]!, e[7]!, e[11]!);
 }
 
 /** Value of functional k at p: 0..5 = ±x, ±y, ±z; 6 = r, 7 = −r. */
-function value(k: number, p: number[]): number {
+function value(k: number, p: ArrayLike<number>): number {
   if (k < 6) return (k % 2 ? -1 : 1) * p[k >> 1]!;
   const r = Math.hypot(p[0]!, p[1]!, p[2]!);
   return k === 6 ? r : -r;
@@ -62,7 +59,7 @@ export function reachExtent(chain: Chain, tcpInFlange: Float64Array): ReachExten
   }
   const samples = new Float64Array(EXTENT_SAMPLES * m);
   const values = new Float64Array(EXTENT_SAMPLES * 8);
-  const p = [0, 0, 0];
+  const p = new Float64Array(3);
   const q = new Float64Array(m);
   for (let s = 0; s < EXTENT_SAMPLES; s++) {
     for (let i = 0; i < m; i++)
