@@ -24,7 +24,6 @@ import { withOpenRanges, type Chain } from "../../kinematics/chain";
 import { sphericalWristIk, solveSphericalWristInto, type SphericalWristIk } from "../../kinematics/closedForm";
 import { createScratch, forwardInto, type KinematicsScratch } from "../../kinematics/forward";
 import { createIkScratch, DEFAULT_IK, solveIkInto, type IkOptions, type IkScratch } from "../../kinematics/inverse";
-import { wrapNear } from "../../math/angles";
 import { HALTON_BASES, radicalInverse } from "../../math/halton";
 import { radToDeg } from "../../units";
 
@@ -242,15 +241,20 @@ export function solveTarget(ctx: ReachContext, baseFromFlange: Float64Array): Ta
   return { solutions: withVariants(chain, base), reason: null };
 }
 
-/** Revolute joints to the whole-turn value nearest zero inside the range (nearest zero when none is inside). */
+/**
+ * Revolute joints to the whole-turn value nearest zero inside the range (nearest zero when none is inside). A value
+ * of exactly ±π goes to −π first (Math.round rounds half up), then up a turn only if −π is outside the range.
+ */
 function canonicalInto(chain: Chain, q: Float64Array): void {
   const turn = 2 * Math.PI;
   for (let i = 0; i < chain.drivenCount; i++) {
     if (chain.isPrismatic[chain.drivenJoint[i]!]) continue;
     const lo = chain.lowerSi[i]!,
       hi = chain.upperSi[i]!;
-    const v = wrapNear(q[i]!, 0, lo - 1e-9, hi + 1e-9);
-    q[i] = Number.isNaN(v) ? q[i]! - turn * Math.round(q[i]! / turn) : Math.min(hi, Math.max(lo, v));
+    let v = q[i]! - turn * Math.round(q[i]! / turn);
+    while (v < lo - 1e-9 && v + turn <= hi + 1e-9) v += turn;
+    while (v > hi + 1e-9 && v - turn >= lo - 1e-9) v -= turn;
+    q[i] = v >= lo - 1e-9 && v <= hi + 1e-9 ? Math.min(hi, Math.max(lo, v)) : v;
   }
 }
 
