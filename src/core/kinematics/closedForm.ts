@@ -43,8 +43,10 @@ import {
   transpose3,
   type Vec3,
 } from "../math/mat3";
-import { sameModuloTurns, wrapNear } from "../math/angles";
 export { wrapNear } from "../math/angles";
+import { drivenInRangeInto, keepSolutionsInto } from "./closedFormKeep";
+export { RANGE_MARGIN_RAD } from "./closedFormKeep";
+import { orthoParallelKinInto, orthoParallelOf, type OrthoParallelIk } from "./orthoParallel";
 
 /** Largest number of solutions of a 6R arm with a spherical wrist: 4 for the position × 2 for the wrist. */
 export const MAX_CLOSED_FORM_SOLUTIONS = 8;
@@ -89,6 +91,8 @@ export interface SphericalWristIk {
   /** Work buffers. */
   readonly work: Float64Array;
   readonly kinSol: Float64Array;
+  /** The ortho-parallel solver (orthoParallel.ts) where the chain is of that class: the same solutions, faster. */
+  readonly orthoParallel: OrthoParallelIk | null;
 }
 
 /** Set when a root was taken at (or rounded onto) a double root: its solutions are then checked by forward kinematics. */
@@ -225,6 +229,7 @@ export function sphericalWristIk(chain: Chain): SphericalWristIk | null {
     e5n = norm(e5raw);
   const e5: Vec3 = [e5raw[0] / e5n, e5raw[1] / e5n, e5raw[2] / e5n];
   return {
+    orthoParallel: orthoParallelOf(chain, wInFlange),
     chain,
     mode,
     r,
@@ -309,10 +314,16 @@ export function solveSphericalWristInto(
   repairNearLimit?: (q: Float64Array) => boolean,
   firstOnly = false,
 ): number {
+  const T = baseFromFlangeTarget;
+  if (ik.orthoParallel) {
+    const count = orthoParallelKinInto(ik.orthoParallel, T, ik.kinSol);
+    if (count < 0) return DEGENERATE;
+    const check = ik.orthoParallel.check;
+    return keepSolutionsInto(out, outOffset, ik, T, count, check, repairNearLimit, 0, firstOnly ? 1 : Infinity);
+  }
   nearTangent = false;
   wristNearSingular = false;
-  const T = baseFromFlangeTarget,
-    tiny = 1e-9 * ik.lengthM,
+  const tiny = 1e-9 * ik.lengthM,
     w = ik.work;
   if (!targetCoefficientsInto(ik, T, tiny)) return DEGENERATE;
   // Position branches: pairs (q0, q2) in w[W_Q0..] and w[W_Q2..].
@@ -589,93 +600,12 @@ function wristSolutionsInto(ik: SphericalWristIk, q0: number, q1: number, q2: nu
   return count;
 }
 
-/**
- * Driven values of the `count` kinematic solutions in ik.kinSol, inside the ranges, checked by forward kinematics
- * when `check`, without repeats, written to out from `outOffset`; returns how many were kept.
- */
-function keepSolutionsInto(
-  out: Float64Array,
-  outOffset: number,
-  ik: SphericalWristIk,
-  T: ArrayLike<number>,
-  count: number,
-  check: boolean,
-  repairNearLimit: ((q: Float64Array) => boolean) | undefined,
-  from = 0,
-): number {
-  let kept = 0;
-  const q = ik.q6;
-  for (let s = from; s < count; s++) {
-    if (!drivenInRangeInto(q, ik.chain, ik.kinSol, s)) continue;
-    if (clampedOntoLimit ? !reachesTarget(ik, q, T) && !repairNearLimit?.(q) : check && !reachesTarget(ik, q, T))
-      continue;
-    // Distinct modulo whole turns (double roots at the edge of reach come out twice).
-    if (isRepeat(out, outOffset, kept, q)) continue;
-    out.set(q, outOffset + kept * 6);
-    kept++;
-  }
-  return kept;
-}
-
-/** How far beyond a limit a solution may lie and be put onto it (then checked); clampedOntoLimit: one was. */
-export const RANGE_MARGIN_RAD = 1e-3;
-let clampedOntoLimit = false;
-
-/**
- * Driven values q_d = G⁻¹·(q_kin − offset) (G unit lower triangular, integer) of kinematic solution `s` into q, taken
- * into the ranges by whole turns (or onto a limit); false when a joint cannot be brought inside its range.
- */
-function drivenInRangeInto(q: Float64Array, chain: Chain, kinSol: Float64Array, s: number, joints = 6): boolean {
-  const g = chain.couplingGain,
-    off = chain.couplingOffset,
-    lo = chain.lowerSi,
-    hi = chain.upperSi;
-  let inRange = true;
-  for (let i = 0; i < joints; i++) {
-    let v = kinSol[s * 6 + i]! - off[i]!;
-    for (let j = 0; j < i; j++) v -= g[i * 6 + j]! * q[j]!;
-    q[i] = v;
-  }
-  clampedOntoLimit = false;
-  for (let i = 0; i < joints && inRange; i++) {
-    // Within the range and half a turn of 0: what wrapNear gives (−0 made +0), without its divisions.
-    const u = q[i]!;
-    let v = u >= lo[i]! && u <= hi[i]! && Math.abs(u) < Math.PI ? u + 0 : wrapNear(u, 0, lo[i]!, hi[i]!);
-    if (Number.isNaN(v)) {
-      v = Math.min(hi[i]!, Math.max(lo[i]!, wrapNear(q[i]!, 0, lo[i]! - RANGE_MARGIN_RAD, hi[i]! + RANGE_MARGIN_RAD)));
-      clampedOntoLimit ||= !Number.isNaN(v);
-    }
-    if (Number.isNaN(v)) inRange = false;
-    else q[i] = v;
-  }
-  return inRange;
-}
-
 /** Whether position branch (q0, q1, q2) lies within the ranges of joints 1–3 (checked in kinSol slot s). */
 function branchInRange(ik: SphericalWristIk, s: number, q0: number, q1: number, q2: number): boolean {
   ik.kinSol[s * 6] = q0;
   ik.kinSol[s * 6 + 1] = q1;
   ik.kinSol[s * 6 + 2] = q2;
   return drivenInRangeInto(ik.q6, ik.chain, ik.kinSol, s, 3);
-}
-
-/** Whether the flange at driven values q lies on target T (position to 1 µm, rotation entries to 1e-5). */
-function reachesTarget(ik: SphericalWristIk, q: Float64Array, T: ArrayLike<number>): boolean {
-  const f = forwardInto(ik.chain, q, ik.kin);
-  const ex = f[3]! - T[3]!,
-    ey = f[7]! - T[7]!,
-    ez = f[11]! - T[11]!,
-    ep = Math.sqrt(ex * ex + ey * ey + ez * ez);
-  let er = 0;
-  for (let rr = 0; rr < 3; rr++)
-    for (let cc = 0; cc < 3; cc++) er = Math.max(er, Math.abs(f[rr * 4 + cc]! - T[rr * 4 + cc]!));
-  return !(ep > 1e-6 || er > 1e-5);
-}
-
-/** Whether q equals one of the first `kept` solutions in out modulo whole turns. */
-function isRepeat(out: Float64Array, outOffset: number, kept: number, q: Float64Array): boolean {
-  for (let k = 0; k < kept; k++) if (sameModuloTurns(out, outOffset + k * 6, q, 0, 6, 1e-6)) return true;
-  return false;
 }
 
 /** h(q0) of the general reduction from the coefficients in ik.k2 and w[W_K..]; writes cos q2, sin q2 (unnormalised) to w[W_CS], w[W_CS + 1]. */
