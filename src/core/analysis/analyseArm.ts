@@ -32,7 +32,7 @@ import {
   type WorkspaceEnvelope,
 } from "./envelope/envelope";
 
-export const ANALYSIS_VERSION = "8";
+export const ANALYSIS_VERSION = "9";
 
 /** Arm facts the analysis needs besides the chain (plain types; the catalog fills them from the arm file). */
 export interface ArmFacts extends PayloadSpec {

@@ -3,7 +3,6 @@
  * solution in closed form where the chain allows it); each new solution floods the grid (continuation.ts).
  */
 import { solveIkInto } from "../../kinematics/inverse";
-import { MAX_CLOSED_FORM_SOLUTIONS } from "../../kinematics/closedForm";
 import { mulberry32 } from "../../math/random";
 import { flood } from "./continuation";
 import { closedAt, pairTwin, push, setTargetInto, storeQ, type MapRun } from "./state";
@@ -14,7 +13,7 @@ function discoverClosed(run: MapRun, cell: number): boolean {
   const n = closedAt(run, cell);
   if (n < 0) return false;
   for (let k = 0; k < n; k++) {
-    const off = (cell * MAX_CLOSED_FORM_SOLUTIONS + k) * m;
+    const off = (run.closedFirst[cell]! + k) * m;
     for (let i = 0; i < m; i++) qTry[i] = run.closedSol![off + i]!;
     const slot = storeQ(run, cell, qTry);
     if (slot >= 0) {

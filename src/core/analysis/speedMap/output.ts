@@ -28,9 +28,19 @@ function slotJacobianInto(run: MapRun, out: Float64Array, cell: number, slot: nu
   jacobianInto(out, run.chain, run.kin, t[3]!, t[7]!, t[11]!);
 }
 
-/** Slot of the best of the n solutions at `cell`; b.ready tells whether b.bestJ holds its Jacobian, b.bestG its figure. */
+/**
+ * Two figures closer than this count as equal, m/s (0.1 mm/s: the resolution the maps publish, and above the spread
+ * the solver tolerance leaves in a figure, so a numeric and a closed-form solution of one branch tie).
+ */
+export const FIGURE_TIE_M_PER_S = 1e-4;
+
+/**
+ * Slot of the best of the n solutions at `cell`: the highest guaranteed speed; among equal ones (within
+ * FIGURE_TIE_M_PER_S) the larger maximum speed, then the one with det J > 0 (a wrist-flip twin has the same figures and
+ * the opposite sign), then the first stored. b.ready tells whether b.bestJ holds its Jacobian, b.bestG its figure.
+ */
 function bestSlot(run: MapRun, cell: number, n: number, b: BestScratch): number {
-  const { chain, m, K, guaranteedVal, flip, twinSlot, sp } = run;
+  const { chain, m, K, guaranteedVal, detVal, flip, twinSlot, sp } = run;
   let best = -1,
     bestG = -1;
   b.ready = false;
@@ -39,23 +49,29 @@ function bestSlot(run: MapRun, cell: number, n: number, b: BestScratch): number 
     if (Number.isNaN(guaranteedVal[cell * K + k]!))
       slotFigures(run, cell, k, run.pool.subarray(solAt(run, cell * K + k), solAt(run, cell * K + k) + m));
     const g = guaranteedVal[cell * K + k]!;
-    if (g > bestG + 1e-12 || best < 0) {
+    if (best < 0 || g > bestG + FIGURE_TIE_M_PER_S) {
       best = k;
       bestG = g;
       b.ready = false;
-    } else if (flip && twinSlot[cell * K + k] === best) {
-      // The best one's twin: the same figures (see pairTwin); the first stored is kept.
-    } else if (Math.abs(g - bestG) <= 1e-12) {
-      // Tie (both singular, or equal): prefer the larger maximum speed.
+      continue;
+    }
+    if (g < bestG - FIGURE_TIE_M_PER_S) continue;
+    // A tie. The best one's twin has the same maximum speed (see pairTwin); others are compared.
+    let better = 0;
+    if (!(flip && twinSlot[cell * K + k] === best)) {
       if (!b.ready) slotJacobianInto(run, b.bestJ, cell, best);
       b.ready = true;
       slotJacobianInto(run, b.j, cell, k);
       const vNew = maxToolSpeed(b.j, m, chain.maxSpeedSi, sp),
         vOld = maxToolSpeed(b.bestJ, m, chain.maxSpeedSi, sp);
-      if (vNew > vOld) {
-        best = k;
-        b.bestJ.set(b.j);
-      }
+      better = vNew > vOld + FIGURE_TIE_M_PER_S ? 1 : vNew < vOld - FIGURE_TIE_M_PER_S ? -1 : 0;
+    }
+    if (better === 0 && detVal[cell * K + k]! > 0 && !(detVal[cell * K + best]! > 0)) better = 1;
+    if (better > 0) {
+      if (b.ready) b.bestJ.set(b.j);
+      b.ready = b.ready && !(flip && twinSlot[cell * K + k] === best);
+      best = k;
+      bestG = g;
     }
   }
   b.bestG = bestG;

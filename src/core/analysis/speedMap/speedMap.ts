@@ -18,7 +18,7 @@ import { discoverAndFlood } from "./discovery";
 import { retryEdges } from "./edgeRetry";
 import { mapOutput } from "./output";
 import { discoverAlongAxis, sweepJointSpace } from "./sweep";
-import { createMapRun, type SpeedMapWorkspace } from "./state";
+import { closedEverywhere, createMapRun, type SpeedMapWorkspace } from "./state";
 import type { ReferenceOrientation, SpeedMapOptions, ToolSpeedMap } from "./types";
 import { DEFAULT_SPEED_MAP } from "./types";
 import { refineNearSingular } from "./verify";
@@ -53,10 +53,13 @@ export function toolSpeedMap(
 ): ToolSpeedMap {
   const run = createMapRun(chain, orientation, options, workspace);
   discoverAndFlood(run);
-  if (run.options.jointSamples) discoverAlongAxis(run);
-  sweepJointSpace(run);
-  // Redundant arms: empty cells beside held ones, from the neighbours' solutions mirrored (edgeRetry.ts).
-  if (run.options.jointSamples) retryEdges(run);
+  // Islands the flood misses; a cell solved in closed form holds every solution already, and is skipped (solvedInClosedForm).
+  if (!closedEverywhere(run)) {
+    if (run.options.jointSamples) discoverAlongAxis(run);
+    sweepJointSpace(run);
+    // Redundant arms: empty cells beside held ones, from the neighbours' solutions mirrored (edgeRetry.ts).
+    if (run.options.jointSamples) retryEdges(run);
+  }
   // After every solution is in (flood and sweep): near-singular solutions moved onto their singular pose.
   refineNearSingular(run);
   return mapOutput(run);

@@ -116,8 +116,12 @@ export interface MapRun {
   readonly seedPose: IkSeedPose;
   readonly frame: BranchFrame | null;
   readonly closed: SphericalWristIk | null;
+  /** Every cell is solved in closed form and continued from those solutions (closedForm true or "auto"). */
   readonly closedContinuation: boolean;
-  readonly closedSol: Float64Array | null;
+  /** Closed-form solutions, m values each, appended per cell as solved; closedFirst[cell] = the cell's first one. */
+  closedSol: Float64Array | null;
+  closedPooled: number;
+  readonly closedFirst: Int32Array;
   readonly closedCount: Int8Array | null;
   readonly closedTarget: Float64Array;
   /** 1 for revolute driven joints (values 2π apart are the same posture). */
@@ -182,8 +186,10 @@ export function createMapRun(
   // of a cell solved once and cached; continuation then takes the cached solution nearest to the neighbour's (by
   // whole turns), as the numeric continuation would converge to it. Degenerate cells (a family of solutions: wrist
   // centre on axis 1, axes 4 and 6 in line) and other arms use the numeric solver.
-  const closedMode = options.closedForm ?? false;
-  const closed = task === "full" && closedMode !== false ? sphericalWristIk(chain) : null;
+  const closedOption = options.closedForm ?? "auto";
+  const candidate = task === "full" && closedOption !== false ? sphericalWristIk(chain) : null;
+  const closedMode = closedOption === "auto" ? (candidate?.orthoParallel ? true : false) : closedOption;
+  const closed = closedMode !== false ? candidate : null;
   // Every cell's target has the same orientation: it is computed once; setTarget only moves the position.
   const target = new Float64Array(16);
   targetInto(target, plane, 0, 0, orientation, options.gravity, 1);
@@ -232,9 +238,12 @@ export function createMapRun(
     frame: branchFrame(chain, kin, Array.from(c0), up),
     closed,
     closedContinuation: closedMode === true,
-    closedSol: closed ? new Float64Array(cells * MAX_CLOSED_FORM_SOLUTIONS * m) : null,
-    closedCount: closed ? new Int8Array(cells).fill(-2) : null,
-    closedTarget: new Float64Array(16),
+    // Most cells hold far fewer than 8 solutions (none beyond the reach): a pool from the workspace, grown as needed.
+    closedSol: closed ? ws.f64("closedSol", Math.max(cells, 1024) * m) : null,
+    closedPooled: 0,
+    closedFirst: ws.i32("closedFirst", closed ? cells : 0),
+    closedCount: closed ? ws.i8("closedCount", cells).fill(-2) : null,
+    closedTarget: Float64Array.from(target),
     // Revolute driven joints: values 2π apart are the same arm posture (e.g. q1 = ±180° on the back side of an arm
     // whose J1 range is ±180°); they must not take two of the K slots, or real branches find no room.
     wraps: Uint8Array.from(chain.drivenJoint, (k) => (chain.isPrismatic[k] ? 0 : 1)),
@@ -367,29 +376,40 @@ export function unionTwins(run: MapRun, a: number, b: number): void {
 
 /** Number of closed-form solutions at a cell (solved on first use); −1 when degenerate or not available. */
 export function closedAt(run: MapRun, cell: number): number {
-  const { closed, closedCount, closedSol, grid, m } = run;
+  const { closed, closedCount, closedSol, m } = run;
   if (!closed || !closedCount || !closedSol) return -1;
   let c = closedCount[cell]!;
   if (c === -2) {
-    const ix = cell % grid.nx,
-      iy = (cell - ix) / grid.nx;
-    targetInto(
-      run.closedTarget,
-      run.plane,
-      (grid.rMinMm + ix * grid.stepMm) / 1000,
-      (grid.zMinMm + iy * grid.stepMm) / 1000,
-      run.orientation,
-      run.options.gravity,
-      1,
-    );
+    // The orientation is every cell's (closedTarget starts as a copy of target); only the position moves.
+    setTargetInto(run, run.closedTarget, cell);
     // A solution just beyond a joint limit is solved numerically from the limit with the verification tolerance:
     // the numeric path keeps the poses that solver reaches there (joint on its limit, pose error within tolerance).
-    c = solveSphericalWristInto(closedSol, closed, run.closedTarget, cell * MAX_CLOSED_FORM_SOLUTIONS * m, (q) =>
+    if ((run.closedPooled + MAX_CLOSED_FORM_SOLUTIONS) * m > closedSol.length) {
+      const old = closedSol;
+      run.closedSol = run.ws.f64("closedSol", Math.ceil(1.5 * (run.closedPooled + MAX_CLOSED_FORM_SOLUTIONS)) * m);
+      run.closedSol.set(old.subarray(0, run.closedPooled * m));
+    }
+    c = solveSphericalWristInto(run.closedSol!, closed, run.closedTarget, run.closedPooled * m, (q) =>
       solveIkInto(q, run.chain, run.closedTarget, q, run.ik, run.verifyIk),
     );
+    run.closedFirst[cell] = run.closedPooled;
+    if (c > 0) run.closedPooled += c;
     closedCount[cell] = c;
   }
   return c;
+}
+
+/** Whether every cell was solved in closed form (continuation and every-cell discovery, no degenerate cell). */
+export function closedEverywhere(run: MapRun): boolean {
+  const counts = run.closedCount;
+  if (!run.closedContinuation || !counts || run.options.discoverEveryCell === false) return false;
+  for (let cell = 0; cell < run.cells; cell++) if (counts[cell]! < 0) return false;
+  return true;
+}
+
+/** Whether `cell` was solved in closed form with every-cell discovery on (it then holds every solution in range). */
+export function solvedInClosedForm(run: MapRun, cell: number): boolean {
+  return run.closedContinuation && run.options.discoverEveryCell !== false && run.closedCount![cell]! >= 0;
 }
 
 /** The closed-form solution at `cell` nearest to `seed` (largest joint difference, revolute joints by whole turns) into `out`. */
@@ -405,7 +425,7 @@ export function nearestClosedInto(
     best = -1;
   const sols = run.closedSol!;
   for (let k = 0; k < n; k++) {
-    const off = (cell * MAX_CLOSED_FORM_SOLUTIONS + k) * m;
+    const off = (run.closedFirst[cell]! + k) * m;
     let jump = 0;
     for (let i = 0; i < m && jump < bestJump; i++) {
       const v = sols[off + i]!,
@@ -423,7 +443,7 @@ export function nearestClosedInto(
     }
   }
   if (best < 0) return false;
-  const off = (cell * MAX_CLOSED_FORM_SOLUTIONS + best) * m;
+  const off = (run.closedFirst[cell]! + best) * m;
   for (let i = 0; i < m; i++) {
     const v = sols[off + i]!,
       s = seed[i]!;

@@ -12,7 +12,16 @@ import { forwardInto } from "../../kinematics/forward";
 import { solveIkInto } from "../../kinematics/inverse";
 import { mulberry32 } from "../../math/random";
 import { flood } from "./continuation";
-import { MAX_CONTINUATION_JUMP_RAD, pairTwin, push, setTargetInto, solAt, storeQ, type MapRun } from "./state";
+import {
+  MAX_CONTINUATION_JUMP_RAD,
+  pairTwin,
+  push,
+  setTargetInto,
+  solAt,
+  solvedInClosedForm,
+  storeQ,
+  type MapRun,
+} from "./state";
 
 /** Largest angle between a sample's tool direction and the reference one for the sample to be snapped, rad. */
 export const SWEEP_CONE_RAD = (20 * Math.PI) / 180;
@@ -145,6 +154,7 @@ export function sweepJointSpace(run: MapRun): void {
       const ix = Math.round((rMm - rMinMm) / stepMm);
       if (ix < 0 || ix >= nx || (c === 1 && d === 0)) continue;
       const cell = ix + iy * nx;
+      if (solvedInClosedForm(run, cell)) continue;
       const held = count[cell]!;
       if (held >= run.K || (held > 0 && !redundant) || tries[cell]! >= (held > 0 ? 1 : SWEEP_TRIES_PER_CELL)) continue;
       const phi = c === 0 ? -heading : Math.PI - heading;
@@ -183,6 +193,7 @@ export function discoverAlongAxis(run: MapRun): void {
   for (let ix = 0; ix <= columns; ix++) {
     for (let iy = ix % AXIS_EVERY_ROWS; iy < ny; iy += AXIS_EVERY_ROWS) {
       const cell = ix + iy * nx;
+      if (solvedInClosedForm(run, cell)) continue;
       for (let t = 0; t < AXIS_SEEDS && count[cell]! === 0; t++) {
         for (let i = 0; i < m; i++) {
           const lo = Math.max(chain.lowerSi[i]!, -Math.PI),

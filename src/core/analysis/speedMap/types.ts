@@ -47,9 +47,10 @@ export interface SpeedMapOptions {
   /**
    * Closed-form inverse kinematics (six revolute joints with a spherical wrist), where it applies: true for every
    * cell (discovery and continuation); "discovery" for the discovery cells only, the continuation staying
-   * numeric; false (default) keeps the numeric solver everywhere.
+   * numeric; false keeps the numeric solver everywhere; "auto" (default) is true for the ortho-parallel class
+   * (kinematics/orthoParallel.ts), whose maps it gives as the numeric solver does, and false otherwise.
    */
-  readonly closedForm?: boolean | "discovery";
+  readonly closedForm?: boolean | "discovery" | "auto";
   /** With closed form: look for solutions at every cell, not only at discovery cells (default true). */
   readonly discoverEveryCell?: boolean;
   /**

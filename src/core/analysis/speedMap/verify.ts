@@ -40,9 +40,12 @@ export function verifyAndFigure(run: MapRun, cell: number, slot: number, from: n
   const { chain, qSeed, qFix, popTarget, K } = run;
   const fromIdx = cell * K + slot;
   slotFigures(run, cell, slot, qSeed);
+  // A closed-form cell holds exact solutions: nothing to check, and none sits off its singular pose (refine.ts).
+  const exact = run.closedContinuation && run.closedCount![cell]! >= 0;
   // The check of a trusted last step (CONTINUATION_IK), from the forward kinematics just done.
-  setTargetInto(run, popTarget, cell);
+  if (!exact) setTargetInto(run, popTarget, cell);
   if (
+    !exact &&
     !withinTolerance(run, run.seedPose.flange, popTarget) &&
     solveIkInto(qFix, chain, popTarget, qSeed, run.ik, run.verifyIk, run.seedPose)
   ) {
@@ -55,7 +58,11 @@ export function verifyAndFigure(run: MapRun, cell: number, slot: number, from: n
   }
   // Near a singular pose the solver's tolerance leaves the solution off the target's pose along the null motion
   // (refine.ts): marked here, where the Jacobian is at hand, and refined once the flood is over.
-  if (run.nullStep && nearSingular(run.nullStep, run.seedPose.jacobian, run.seedPose.flange, run.detVal[fromIdx]!))
+  if (
+    !exact &&
+    run.nullStep &&
+    nearSingular(run.nullStep, run.seedPose.jacobian, run.seedPose.flange, run.detVal[fromIdx]!)
+  )
     run.singularMark[fromIdx] = 1;
   // B, the joint rates per unit tool velocity at constant orientation, is the speed figure's by-product (none
   // at a singular pose, where the figure is 0): the tangent of the solution sheet along the plane.

@@ -8,7 +8,7 @@
  * planar 3R Jacobian written by hand (column i = ẑ × (p_tool − p_i), Siciliano et al. §3.1.3, from memory).
  */
 import { describe, expect, it } from "vitest";
-import { mapOutput } from "../../../../src/core/analysis/speedMap/output";
+import { FIGURE_TIE_M_PER_S, mapOutput } from "../../../../src/core/analysis/speedMap/output";
 import { createMapRun, storeQ, type MapRun } from "../../../../src/core/analysis/speedMap/state";
 import { DEFAULT_SPEED_MAP } from "../../../../src/core/analysis/speedMap/types";
 import { expectClose } from "../../../helpers/expectClose";
@@ -101,8 +101,8 @@ describe("mapOutput: best branch per cell on hand-made figures", () => {
     put(run, 0, QB, 0.4, -1);
     put(run, 1, QB, 0.4, -1);
     put(run, 1, QA, 0.4, 1);
-    // Within 1e-12 m/s counts as a tie too.
-    put(run, 2, QA, 0.4 + 5e-13, 1);
+    // Within FIGURE_TIE_M_PER_S (0.1 mm/s, the published resolution) counts as a tie too.
+    put(run, 2, QA, 0.4 + 0.5 * FIGURE_TIE_M_PER_S, 1);
     put(run, 2, QB, 0.4, -1);
     const out = mapOutput(run);
     for (const c of [0, 1, 2]) {
@@ -110,12 +110,13 @@ describe("mapOutput: best branch per cell on hand-made figures", () => {
       expect(out.maxMmPerS[c]).toBeCloseTo(1000 * maxSpeedBrute(QB), 6);
       expect(out.detSign[c]).toBe(-1);
     }
-    // The guaranteed speed reported is the first chosen figure (0.4 m/s in cells 0, 1; 0.4 + 5e-13 in cell 2).
+    // The guaranteed speed reported is the chosen solution's own figure.
     expect(out.guaranteedMmPerS[0]).toBeCloseTo(400, 9);
     expect(out.guaranteedMmPerS[1]).toBeCloseTo(400, 9);
+    expect(out.guaranteedMmPerS[2]).toBeCloseTo(400, 9);
   });
 
-  it("a tie with equal maximum tool speeds keeps the first stored (mirror image: same speeds by symmetry)", () => {
+  it("a tie with equal maximum tool speeds goes to det J > 0, in either order (mirror image: same speeds by symmetry)", () => {
     const mirror = QA.map((v) => -v);
     // Reflection across the x axis keeps every vertex speed: the brute-force maxima agree.
     expect(maxSpeedBrute(mirror)).toBeCloseTo(maxSpeedBrute(QA), 12);
@@ -125,18 +126,18 @@ describe("mapOutput: best branch per cell on hand-made figures", () => {
     put(run, 1, mirror, 0.4, -1);
     put(run, 1, QA, 0.4, 1);
     const out = mapOutput(run);
-    expectClose(Array.from(out.joints.subarray(0, 3)), QA, 0, "cell 0 keeps slot 0");
-    expectClose(Array.from(out.joints.subarray(3, 6)), mirror, 0, "cell 1 keeps slot 0");
-    expect([out.detSign[0], out.detSign[1]]).toEqual([1, -1]);
+    expectClose(Array.from(out.joints.subarray(0, 3)), QA, 0, "cell 0: the positive det");
+    expectClose(Array.from(out.joints.subarray(3, 6)), QA, 0, "cell 1: the positive det, stored second");
+    expect([out.detSign[0], out.detSign[1]]).toEqual([1, 1]);
   });
 
-  it("a slot better by more than 1e-12 m/s wins even with a smaller maximum tool speed", () => {
+  it("a slot better by more than the tie width wins even with a smaller maximum tool speed", () => {
     const run = newRun();
     put(run, 0, QB, 0.4, -1);
-    put(run, 0, QA, 0.4 + 1e-9, 1);
+    put(run, 0, QA, 0.4 + 2 * FIGURE_TIE_M_PER_S, 1);
     const out = mapOutput(run);
     expectClose(Array.from(out.joints.subarray(0, 3)), QA, 0, "strictly better guaranteed speed");
-    expect(out.guaranteedMmPerS[0]).toBeCloseTo(400 + 1e-6, 9);
+    expect(out.guaranteedMmPerS[0]).toBeCloseTo(400 + 2000 * FIGURE_TIE_M_PER_S, 9);
     expect(out.maxMmPerS[0]).toBeCloseTo(1000 * maxSpeedBrute(QA), 6);
   });
 });
