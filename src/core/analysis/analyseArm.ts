@@ -309,7 +309,9 @@ function cycleAt(chain: Chain, down: ToolSpeedMap, facts: ArmFacts, gravity: rea
       if (Number.isFinite(v) && Number.isFinite(down.guaranteedMmPerS[ix + up * g.nx]!))
         column.push({ cell, speed: v, ix, iy });
     }
-    column.sort((a, b) => b.speed - a.speed);
+    // By the speed as published (0.1 mm/s): equal figures (a plateau where one joint's rate limits the speed)
+    // keep the scan order, lowest first, so figures a solver tolerance apart choose the same height.
+    column.sort((a, b) => Math.round(b.speed * 10) - Math.round(a.speed * 10));
     candidates.push(...column.slice(0, 3));
   }
   // Target: flange along gravity; flange x away from axis 1 (base x made perpendicular to gravity, or base z).

@@ -315,11 +315,17 @@ export function solveSphericalWristInto(
   firstOnly = false,
 ): number {
   const T = baseFromFlangeTarget;
-  if (ik.orthoParallel) {
-    const count = orthoParallelKinInto(ik.orthoParallel, T, ik.kinSol);
+  const op = ik.orthoParallel;
+  if (op) {
+    // firstOnly: each branch's pair is kept as it comes, and the first kept one ends the solve.
+    let kept = 0;
+    const first = firstOnly
+      ? (from: number, count: number) =>
+          (kept = keepSolutionsInto(out, outOffset, ik, T, count, op.check, repairNearLimit, from, 1)) > 0
+      : null;
+    const count = orthoParallelKinInto(op, T, ik.kinSol, ik, first);
     if (count < 0) return DEGENERATE;
-    const check = ik.orthoParallel.check;
-    return keepSolutionsInto(out, outOffset, ik, T, count, check, repairNearLimit, 0, firstOnly ? 1 : Infinity);
+    return firstOnly ? kept : keepSolutionsInto(out, outOffset, ik, T, count, op.check, repairNearLimit);
   }
   nearTangent = false;
   wristNearSingular = false;

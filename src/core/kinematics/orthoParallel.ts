@@ -31,6 +31,7 @@ import type { Chain } from "./chain";
 import { createScratch, forwardInto } from "./forward";
 import { mulberry32 } from "../math/random";
 import { sameModuloTurns } from "../math/angles";
+import { drivenInRangeInto, type KeepContext } from "./closedFormKeep";
 
 /** Result of {@link orthoParallelKinInto} when the pose lies on a family of solutions. */
 const DEGENERATE = -1;
@@ -260,9 +261,17 @@ const W_T1 = 0,
 /**
  * Every kinematic solution (θ₁..θ₆, 6 per solution, at most 8) for the flange pose T (row-major 4×4, m) into
  * kinSol; returns the count or −1 (DEGENERATE: wrist centre on axis 1 or 2, or axes 4 and 6 in line). Sets ik.check
- * when a solution should be confirmed by forward kinematics. Allocates nothing.
+ * when a solution should be confirmed by forward kinematics. With `range`, branches whose joints 1–3 are out of
+ * their ranges are left out; `onBranch(from, count)` is called after each branch's wrist solutions and stops the
+ * solve when it returns true. Allocates nothing.
  */
-export function orthoParallelKinInto(ik: OrthoParallelIk, T: ArrayLike<number>, kinSol: Float64Array): number {
+export function orthoParallelKinInto(
+  ik: OrthoParallelIk,
+  T: ArrayLike<number>,
+  kinSol: Float64Array,
+  range: KeepContext | null = null,
+  onBranch: ((from: number, count: number) => boolean) | null = null,
+): number {
   ik.check = false;
   const w = ik.work,
     wf = ik.wInFlange,
@@ -317,11 +326,24 @@ export function orthoParallelKinInto(ik: OrthoParallelIk, T: ArrayLike<number>, 
       const c2 = x2 / r2,
         s2 = y2 / r2;
       const t2 = Math.atan2(y2, x2);
+      // A branch whose first three joints cannot be brought into their ranges loses both wrist solutions in the
+      // keep step (the same test on the same values): its wrist is not solved.
+      if (range && !armInRange(range, kinSol, count, t1, t2, ik.s3 * beta)) continue;
+      const from = count;
       count = wristInto(ik, kinSol, count, t1, t2, ik.s3 * beta, c2 * cb - s2 * sb, s2 * cb + c2 * sb);
       if (count < 0) return DEGENERATE;
+      if (onBranch && onBranch(from, count)) return count;
     }
   }
   return count;
+}
+
+/** Whether joints 1–3 of branch (t1, t2, t3), written to kinSol slot s, can be brought into their ranges. */
+function armInRange(range: KeepContext, kinSol: Float64Array, s: number, t1: number, t2: number, t3: number): boolean {
+  kinSol[s * 6] = t1;
+  kinSol[s * 6 + 1] = t2;
+  kinSol[s * 6 + 2] = t3;
+  return drivenInRangeInto(range.q6, range.chain, kinSol, s, 3);
 }
 
 /**

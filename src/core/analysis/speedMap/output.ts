@@ -21,6 +21,20 @@ interface BestScratch {
   bestG: number;
 }
 
+/** Branch code of solution (cell, slot) (measures/branches.ts; forward kinematics into run.kin); 0 without a frame. */
+function slotBranchCode(run: MapRun, cell: number, slot: number): number {
+  if (!run.frame) return 0;
+  const off = solAt(run, cell * run.K + slot);
+  const t = forwardInto(run.chain, run.pool.subarray(off, off + run.m), run.kin);
+  const c = run.branchCentre;
+  if (!wristCentreInto(c, run.chain, run.kin)) {
+    c[0] = t[3]!;
+    c[1] = t[7]!;
+    c[2] = t[11]!;
+  }
+  return branchCode(run.chain, run.kin, run.frame, c[0]!, c[1]!, c[2]!);
+}
+
 /** Jacobian of solution (cell, slot) into `out` (forward kinematics into run.kin). */
 function slotJacobianInto(run: MapRun, out: Float64Array, cell: number, slot: number): void {
   const off = solAt(run, cell * run.K + slot);
@@ -37,7 +51,7 @@ export const FIGURE_TIE_M_PER_S = 1e-4;
 /**
  * Slot of the best of the n solutions at `cell`: the highest guaranteed speed; among equal ones (within
  * FIGURE_TIE_M_PER_S) the larger maximum speed, then the one with det J > 0 (a wrist-flip twin has the same figures and
- * the opposite sign), then the first stored. b.ready tells whether b.bestJ holds its Jacobian, b.bestG its figure.
+ * the opposite sign), then the lower branch code; the first stored only when all of these agree. b.ready tells whether b.bestJ holds its Jacobian, b.bestG its figure.
  */
 function bestSlot(run: MapRun, cell: number, n: number, b: BestScratch): number {
   const { chain, m, K, guaranteedVal, detVal, flip, twinSlot, sp } = run;
@@ -66,7 +80,12 @@ function bestSlot(run: MapRun, cell: number, n: number, b: BestScratch): number 
         vOld = maxToolSpeed(b.bestJ, m, chain.maxSpeedSi, sp);
       better = vNew > vOld + FIGURE_TIE_M_PER_S ? 1 : vNew < vOld - FIGURE_TIE_M_PER_S ? -1 : 0;
     }
-    if (better === 0 && detVal[cell * K + k]! > 0 && !(detVal[cell * K + best]! > 0)) better = 1;
+    if (better === 0) {
+      const dNew = detVal[cell * K + k]! > 0,
+        dOld = detVal[cell * K + best]! > 0;
+      // det J > 0 first; then the lower branch code (a property of the posture, not of the order solutions came in).
+      better = dNew !== dOld ? (dNew ? 1 : -1) : slotBranchCode(run, cell, k) < slotBranchCode(run, cell, best) ? 1 : 0;
+    }
     if (better > 0) {
       if (b.ready) b.bestJ.set(b.j);
       b.ready = b.ready && !(flip && twinSlot[cell * K + k] === best);

@@ -115,6 +115,8 @@ export interface MapRun {
   readonly popKin: KinematicsScratch;
   readonly seedPose: IkSeedPose;
   readonly frame: BranchFrame | null;
+  /** Scratch of a branch code's wrist centre. */
+  readonly branchCentre: Float64Array;
   readonly closed: SphericalWristIk | null;
   /** Every cell is solved in closed form and continued from those solutions (closedForm true or "auto"). */
   readonly closedContinuation: boolean;
@@ -236,6 +238,7 @@ export function createMapRun(
     popKin: createScratch(chain),
     seedPose: createIkSeedPose(chain),
     frame: branchFrame(chain, kin, Array.from(c0), up),
+    branchCentre: new Float64Array(3),
     closed,
     closedContinuation: closedMode === true,
     // Most cells hold far fewer than 8 solutions (none beyond the reach): a pool from the workspace, grown as needed.
