@@ -77,7 +77,8 @@ export function traceSingularityLoci(d: SheetData): SingularityLocus[] {
             if (sheet[cell * K + k] !== root) continue;
             const qk = jointsAt[cell * K + k]! * m;
             let jump = 0;
-            for (let i = 0; i < m; i++) jump = Math.max(jump, Math.abs(joints[qk + i]! - joints[q0 + i]!));
+            for (let i = 0; i < m && jump <= bestJump; i++)
+              jump = Math.max(jump, Math.abs(joints[qk + i]! - joints[q0 + i]!));
             if (jump <= bestJump) {
               bestJump = jump;
               found = k;

@@ -126,6 +126,8 @@ export interface MapRun {
   readonly closedFirst: Int32Array;
   readonly closedCount: Int8Array | null;
   readonly closedTarget: Float64Array;
+  /** A solution just beyond a joint limit, solved numerically from the limit onto closedTarget (closedAt). */
+  readonly repairNearLimit: (q: Float64Array) => boolean;
   /** 1 for revolute driven joints (values 2π apart are the same posture). */
   readonly wraps: Uint8Array;
   readonly flip: WristFlip | null;
@@ -207,6 +209,9 @@ export function createMapRun(
   guaranteedVal.fill(NaN);
   detVal.fill(NaN);
   const step = options.stepMm;
+  const ik = createIkScratch(chain),
+    verifyIk: IkOptions = { ...VERIFY_IK, task },
+    closedTarget = Float64Array.from(target);
   return {
     chain,
     orientation,
@@ -218,7 +223,7 @@ export function createMapRun(
     plane,
     task,
     continuationIk: { ...CONTINUATION_IK, task },
-    verifyIk: { ...VERIFY_IK, task },
+    verifyIk,
     discoveryIk: { ...DISCOVERY_IK, task },
     ws,
     pool: ws.f64("pool", 2 * cells * m),
@@ -229,7 +234,7 @@ export function createMapRun(
     lastEqual: -1,
     target,
     popTarget: Float64Array.from(target),
-    ik: createIkScratch(chain),
+    ik,
     qTry: new Float64Array(m),
     qSeed: new Float64Array(m),
     qFix: new Float64Array(m),
@@ -246,7 +251,10 @@ export function createMapRun(
     closedPooled: 0,
     closedFirst: ws.i32("closedFirst", closed ? cells : 0),
     closedCount: closed ? ws.i8("closedCount", cells).fill(-2) : null,
-    closedTarget: Float64Array.from(target),
+    closedTarget,
+    // A solution just beyond a joint limit is solved numerically from the limit with the verification tolerance:
+    // the numeric path keeps the poses that solver reaches there (joint on its limit, pose error within tolerance).
+    repairNearLimit: (q: Float64Array) => solveIkInto(q, chain, closedTarget, q, ik, verifyIk),
     // Revolute driven joints: values 2π apart are the same arm posture (e.g. q1 = ±180° on the back side of an arm
     // whose J1 range is ±180°); they must not take two of the K slots, or real branches find no room.
     wraps: Uint8Array.from(chain.drivenJoint, (k) => (chain.isPrismatic[k] ? 0 : 1)),
@@ -385,16 +393,8 @@ export function closedAt(run: MapRun, cell: number): number {
   if (c === -2) {
     // The orientation is every cell's (closedTarget starts as a copy of target); only the position moves.
     setTargetInto(run, run.closedTarget, cell);
-    // A solution just beyond a joint limit is solved numerically from the limit with the verification tolerance:
-    // the numeric path keeps the poses that solver reaches there (joint on its limit, pose error within tolerance).
-    if ((run.closedPooled + MAX_CLOSED_FORM_SOLUTIONS) * m > closedSol.length) {
-      const old = closedSol;
-      run.closedSol = run.ws.f64("closedSol", Math.ceil(1.5 * (run.closedPooled + MAX_CLOSED_FORM_SOLUTIONS)) * m);
-      run.closedSol.set(old.subarray(0, run.closedPooled * m));
-    }
-    c = solveSphericalWristInto(run.closedSol!, closed, run.closedTarget, run.closedPooled * m, (q) =>
-      solveIkInto(q, run.chain, run.closedTarget, q, run.ik, run.verifyIk),
-    );
+    closedRoom(run, MAX_CLOSED_FORM_SOLUTIONS);
+    c = solveSphericalWristInto(run.closedSol!, closed, run.closedTarget, run.closedPooled * m, run.repairNearLimit);
     run.closedFirst[cell] = run.closedPooled;
     if (c > 0) run.closedPooled += c;
     closedCount[cell] = c;
@@ -402,12 +402,13 @@ export function closedAt(run: MapRun, cell: number): number {
   return c;
 }
 
-/** Whether every cell was solved in closed form (continuation and every-cell discovery, no degenerate cell). */
-export function closedEverywhere(run: MapRun): boolean {
-  const counts = run.closedCount;
-  if (!run.closedContinuation || !counts || run.options.discoverEveryCell === false) return false;
-  for (let cell = 0; cell < run.cells; cell++) if (counts[cell]! < 0) return false;
-  return true;
+/** Room in the closed-form pool for `n` more solutions. */
+function closedRoom(run: MapRun, n: number): void {
+  const m = run.m,
+    old = run.closedSol!;
+  if ((run.closedPooled + n) * m <= old.length) return;
+  run.closedSol = run.ws.f64("closedSol", Math.ceil(1.5 * (run.closedPooled + n)) * m);
+  run.closedSol.set(old.subarray(0, run.closedPooled * m));
 }
 
 /** Whether `cell` was solved in closed form with every-cell discovery on (it then holds every solution in range). */
