@@ -69,6 +69,10 @@ export interface OrthoParallelIk {
   readonly tiny: number;
   /** Set by orthoParallelKinInto: a root was taken near a double root or the wrist near singular (check by FK). */
   check: boolean;
+  /** Set when onBranch stopped the solve. */
+  stopped: boolean;
+  /** The target's wrist centre relative to axis 1 and its component along d₁. */
+  readonly u: Float64Array;
   readonly work: Float64Array;
 }
 
@@ -188,6 +192,8 @@ export function orthoParallelOf(chain: Chain, wInFlange: ArrayLike<number>): Ort
     wInFlange: Float64Array.from(wInFlange),
     tiny: 1e-9 * L,
     check: false,
+    stopped: false,
+    u: new Float64Array(4),
     work: new Float64Array(40),
   };
   return roundTrips(chain, ik) ? ik : null;
@@ -272,67 +278,132 @@ export function orthoParallelKinInto(
   range: KeepContext | null = null,
   onBranch: ((from: number, count: number) => boolean) | null = null,
 ): number {
+  const w = ik.work,
+    d2 = ik.d2;
+  const u = targetInto(ik, T);
+  const a = u[0]! * d2[0]! + u[1]! * d2[1]! + u[2]! * d2[2]! - ik.d1d2 * u[3]!,
+    b = u[0]! * ik.d1xd2[0]! + u[1]! * ik.d1xd2[1]! + u[2]! * ik.d1xd2[2]!;
+  const n1 = sinusoidRoots(ik, w, W_T1, a, b, ik.h - ik.d1d2 * u[3]!, ik.tiny);
+  if (n1 < 0) return DEGENERATE;
+  ik.stopped = false;
+  let count = 0;
+  for (let i1 = 0; i1 < n1 && !ik.stopped; i1++) {
+    count = armBranchesInto(ik, kinSol, count, w[W_T1 + i1]!, w[W_T1 + 2 + i1]!, w[W_T1 + 4 + i1]!, range, onBranch);
+    if (count < 0) return DEGENERATE;
+  }
+  return count;
+}
+
+/**
+ * The solutions with θ₁ given, for a target whose wrist centre lies on axis 1 (every θ₁ is one: a family): the elbow
+ * and wrist branches at each of `samples` values of θ₁ spread over [lo, hi] (kinematic values), branches out of range
+ * left out as in orthoParallelKinInto. Returns the count (at most kinSol.length / 6), −1 (DEGENERATE) when the wrist
+ * centre is off axis 1, the arm's lateral offset keeps it off, or a branch's wrist is singular too.
+ */
+export function orthoParallelFamilyInto(
+  ik: OrthoParallelIk,
+  T: ArrayLike<number>,
+  kinSol: Float64Array,
+  samples: number,
+  lo: number,
+  hi: number,
+  range: KeepContext | null = null,
+): number {
+  const u = targetInto(ik, T),
+    d2 = ik.d2;
+  const a = u[0]! * d2[0]! + u[1]! * d2[1]! + u[2]! * d2[2]! - ik.d1d2 * u[3]!,
+    b = u[0]! * ik.d1xd2[0]! + u[1]! * ik.d1xd2[1]! + u[2]! * ik.d1xd2[2]!;
+  if (Math.hypot(a, b) > ik.tiny || Math.abs(ik.h - ik.d1d2 * u[3]!) > ik.tiny) return DEGENERATE;
+  ik.stopped = false;
+  let count = 0;
+  for (let i = 0; i < samples && (count + 4) * 6 <= kinSol.length; i++) {
+    const t1 = samples === 1 ? 0.5 * (lo + hi) : lo + ((hi - lo) * i) / (samples - 1);
+    count = armBranchesInto(ik, kinSol, count, t1, Math.cos(t1), Math.sin(t1), range, null);
+    if (count < 0) return DEGENERATE;
+  }
+  return count;
+}
+
+/**
+ * The target's wrist centre relative to axis 1, u = P − p₁, into ik.u (u[3] = u·d₁), and H = R_target·K into the
+ * work buffer (shared by every branch); resets ik.check.
+ */
+function targetInto(ik: OrthoParallelIk, T: ArrayLike<number>): Float64Array {
   ik.check = false;
   const w = ik.work,
     wf = ik.wInFlange,
     d1 = ik.d1,
-    d2 = ik.d2,
-    K = ik.K;
-  // u = P − p₁ (P: the target's wrist centre).
-  const ux = T[0]! * wf[0]! + T[1]! * wf[1]! + T[2]! * wf[2]! + T[3]! - ik.p1[0]!,
-    uy = T[4]! * wf[0]! + T[5]! * wf[1]! + T[6]! * wf[2]! + T[7]! - ik.p1[1]!,
-    uz = T[8]! * wf[0]! + T[9]! * wf[1]! + T[10]! * wf[2]! + T[11]! - ik.p1[2]!;
-  const ud1 = ux * d1[0]! + uy * d1[1]! + uz * d1[2]!;
-  const a = ux * d2[0]! + uy * d2[1]! + uz * d2[2]! - ik.d1d2 * ud1,
-    b = ux * ik.d1xd2[0]! + uy * ik.d1xd2[1]! + uz * ik.d1xd2[2]!;
-  const n1 = sinusoidRoots(ik, w, W_T1, a, b, ik.h - ik.d1d2 * ud1, ik.tiny);
-  if (n1 < 0) return DEGENERATE;
-  // H = R_target·K, shared by every branch.
+    K = ik.K,
+    u = ik.u;
+  u[0] = T[0]! * wf[0]! + T[1]! * wf[1]! + T[2]! * wf[2]! + T[3]! - ik.p1[0]!;
+  u[1] = T[4]! * wf[0]! + T[5]! * wf[1]! + T[6]! * wf[2]! + T[7]! - ik.p1[1]!;
+  u[2] = T[8]! * wf[0]! + T[9]! * wf[1]! + T[10]! * wf[2]! + T[11]! - ik.p1[2]!;
+  u[3] = u[0]! * d1[0]! + u[1]! * d1[1]! + u[2]! * d1[2]!;
   for (let i = 0; i < 3; i++)
     for (let j = 0; j < 3; j++)
       w[W_H + i * 3 + j] = T[i * 4]! * K[j]! + T[i * 4 + 1]! * K[3 + j]! + T[i * 4 + 2]! * K[6 + j]!;
+  return u;
+}
+
+/**
+ * The elbow and wrist branches at θ₁ = t1 (cosine c1, sine s1), appended to kinSol from `count`; the new count or
+ * DEGENERATE. Sets ik.stopped when onBranch asks to stop.
+ */
+function armBranchesInto(
+  ik: OrthoParallelIk,
+  kinSol: Float64Array,
+  count: number,
+  t1: number,
+  c1: number,
+  s1: number,
+  range: KeepContext | null,
+  onBranch: ((from: number, count: number) => boolean) | null,
+): number {
+  const w = ik.work,
+    d1 = ik.d1,
+    u = ik.u;
+  const ux = u[0]!,
+    uy = u[1]!,
+    uz = u[2]!;
   const { lx, ly, vx, vy } = ik;
   const a3 = lx * vx + ly * vy,
     b3 = ly * vx - lx * vy,
     ll = lx * lx + ly * ly + vx * vx + vy * vy;
-  let count = 0;
-  for (let i1 = 0; i1 < n1; i1++) {
-    const t1 = w[W_T1 + i1]!,
-      c1 = w[W_T1 + 2 + i1]!,
-      s1 = w[W_T1 + 4 + i1]!;
-    // Q − p₁ = Rot(d₁, −θ₁)·u (Rodrigues), then q = Q − p₂ in the plane ⟂ d₂.
-    const kx = d1[1]! * uz - d1[2]! * uy,
-      ky = d1[2]! * ux - d1[0]! * uz,
-      kz = d1[0]! * uy - d1[1]! * ux;
-    const f = ud1 * (1 - c1);
-    const qx0 = ux * c1 - kx * s1 + d1[0]! * f - ik.p21[0]!,
-      qy0 = uy * c1 - ky * s1 + d1[1]! * f - ik.p21[1]!,
-      qz0 = uz * c1 - kz * s1 + d1[2]! * f - ik.p21[2]!;
-    const qx = qx0 * ik.e1[0]! + qy0 * ik.e1[1]! + qz0 * ik.e1[2]!,
-      qy = qx0 * ik.e2[0]! + qy0 * ik.e2[1]! + qz0 * ik.e2[2]!;
-    if (qx * qx + qy * qy < ik.tiny * ik.tiny) return DEGENERATE;
-    const n3 = sinusoidRoots(ik, w, W_B, a3, b3, 0.5 * (qx * qx + qy * qy - ll), ik.tiny * ik.tiny);
-    rotCsInto(w, W_R1, d1, c1, s1);
-    for (let i3 = 0; i3 < n3; i3++) {
-      const beta = w[W_B + i3]!,
-        cb = w[W_B + 2 + i3]!,
-        sb = w[W_B + 4 + i3]!;
-      const sx = lx + vx * cb - vy * sb,
-        sy = ly + vx * sb + vy * cb;
-      // θ₂ turns s onto q: its cosine and sine from the two products, then φ = θ₂ + β by the sum formulas.
-      const y2 = sx * qy - sy * qx,
-        x2 = sx * qx + sy * qy,
-        r2 = Math.sqrt(x2 * x2 + y2 * y2);
-      const c2 = x2 / r2,
-        s2 = y2 / r2;
-      const t2 = Math.atan2(y2, x2);
-      // A branch whose first three joints cannot be brought into their ranges loses both wrist solutions in the
-      // keep step (the same test on the same values): its wrist is not solved.
-      if (range && !armInRange(range, kinSol, count, t1, t2, ik.s3 * beta)) continue;
-      const from = count;
-      count = wristInto(ik, kinSol, count, t1, t2, ik.s3 * beta, c2 * cb - s2 * sb, s2 * cb + c2 * sb);
-      if (count < 0) return DEGENERATE;
-      if (onBranch && onBranch(from, count)) return count;
+  // Q − p₁ = Rot(d₁, −θ₁)·u (Rodrigues), then q = Q − p₂ in the plane ⟂ d₂.
+  const kx = d1[1]! * uz - d1[2]! * uy,
+    ky = d1[2]! * ux - d1[0]! * uz,
+    kz = d1[0]! * uy - d1[1]! * ux;
+  const f = u[3]! * (1 - c1);
+  const qx0 = ux * c1 - kx * s1 + d1[0]! * f - ik.p21[0]!,
+    qy0 = uy * c1 - ky * s1 + d1[1]! * f - ik.p21[1]!,
+    qz0 = uz * c1 - kz * s1 + d1[2]! * f - ik.p21[2]!;
+  const qx = qx0 * ik.e1[0]! + qy0 * ik.e1[1]! + qz0 * ik.e1[2]!,
+    qy = qx0 * ik.e2[0]! + qy0 * ik.e2[1]! + qz0 * ik.e2[2]!;
+  if (qx * qx + qy * qy < ik.tiny * ik.tiny) return DEGENERATE;
+  const n3 = sinusoidRoots(ik, w, W_B, a3, b3, 0.5 * (qx * qx + qy * qy - ll), ik.tiny * ik.tiny);
+  rotCsInto(w, W_R1, d1, c1, s1);
+  for (let i3 = 0; i3 < n3; i3++) {
+    const beta = w[W_B + i3]!,
+      cb = w[W_B + 2 + i3]!,
+      sb = w[W_B + 4 + i3]!;
+    const sx = lx + vx * cb - vy * sb,
+      sy = ly + vx * sb + vy * cb;
+    // θ₂ turns s onto q: its cosine and sine from the two products, then φ = θ₂ + β by the sum formulas.
+    const y2 = sx * qy - sy * qx,
+      x2 = sx * qx + sy * qy,
+      r2 = Math.sqrt(x2 * x2 + y2 * y2);
+    const c2 = x2 / r2,
+      s2 = y2 / r2;
+    const t2 = Math.atan2(y2, x2);
+    // A branch whose first three joints cannot be brought into their ranges loses both wrist solutions in the
+    // keep step (the same test on the same values): its wrist is not solved.
+    if (range && !armInRange(range, kinSol, count, t1, t2, ik.s3 * beta)) continue;
+    const from = count;
+    count = wristInto(ik, kinSol, count, t1, t2, ik.s3 * beta, c2 * cb - s2 * sb, s2 * cb + c2 * sb);
+    if (count < 0) return DEGENERATE;
+    if (onBranch && onBranch(from, count)) {
+      ik.stopped = true;
+      return count;
     }
   }
   return count;
@@ -393,7 +464,7 @@ function wristInto(
   const t4 = Math.atan2(m10, -m20),
     b5 = Math.atan2(sb, m00),
     t6 = Math.atan2(m01, m02);
-  for (let flip = 0; flip < 2 && count < 8; flip++) {
+  for (let flip = 0; flip < 2 && (count + 1) * 6 <= kinSol.length; flip++) {
     const o = count * 6;
     kinSol[o] = t1;
     kinSol[o + 1] = t2;

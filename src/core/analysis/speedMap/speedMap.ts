@@ -17,7 +17,7 @@ import type { Chain } from "../../kinematics/chain";
 import { discoverAndFlood } from "./discovery";
 import { retryEdges } from "./edgeRetry";
 import { mapOutput } from "./output";
-import { discoverAlongAxis, sweepJointSpace } from "./sweep";
+import { discoverAlongAxis, discoverFamilies, sweepJointSpace } from "./sweep";
 import { createMapRun, type SpeedMapWorkspace } from "./state";
 import type { ReferenceOrientation, SpeedMapOptions, ToolSpeedMap } from "./types";
 import { DEFAULT_SPEED_MAP } from "./types";
@@ -53,13 +53,15 @@ export function toolSpeedMap(
 ): ToolSpeedMap {
   const run = createMapRun(chain, orientation, options, workspace);
   discoverAndFlood(run);
-  // Islands the flood misses. A cell solved in closed form holds every solution already and is skipped there; the
-  // searches remain for the degenerate ones (a family of solutions: wrist centre on axis 1), whose members within
-  // the ranges may lie far from the neighbours' solutions (solvedInClosedForm).
-  if (run.options.jointSamples) discoverAlongAxis(run);
-  sweepJointSpace(run);
-  // Redundant arms: empty cells beside held ones, from the neighbours' solutions mirrored (edgeRetry.ts).
-  if (run.options.jointSamples) retryEdges(run);
+  // Islands the flood misses. A cell solved in closed form holds every solution already and is skipped there; a cell
+  // on a family of solutions (wrist centre on axis 1) gets the family's members in closed form (discoverFamilies);
+  // the random searches remain for what is left (solvedInClosedForm).
+  if (!discoverFamilies(run)) {
+    if (run.options.jointSamples) discoverAlongAxis(run);
+    sweepJointSpace(run);
+    // Redundant arms: empty cells beside held ones, from the neighbours' solutions mirrored (edgeRetry.ts).
+    if (run.options.jointSamples) retryEdges(run);
+  }
   // After every solution is in (flood and sweep): near-singular solutions moved onto their singular pose.
   refineNearSingular(run);
   return mapOutput(run);

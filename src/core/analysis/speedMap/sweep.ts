@@ -8,7 +8,9 @@
  * rarely land there). Deterministic: the samples come from the seeded generator. Test: sweep.test.ts (the issue's
  * reproductions, Monte Carlo coverage).
  */
-import { forwardInto } from "../../kinematics/forward";
+import { createScratch, forwardInto } from "../../kinematics/forward";
+import { keepSolutionsInto, type KeepContext } from "../../kinematics/closedFormKeep";
+import { orthoParallelFamilyInto } from "../../kinematics/orthoParallel";
 import { solveIkInto } from "../../kinematics/inverse";
 import { mulberry32 } from "../../math/random";
 import { flood } from "./continuation";
@@ -212,4 +214,47 @@ export function discoverAlongAxis(run: MapRun): void {
       }
     }
   }
+}
+
+/** Values of joint 1 tried on a family of solutions (discoverFamilies): every 10° over a full turn. */
+export const FAMILY_SAMPLES = 37;
+
+/**
+ * Closed form: the cells the closed form could not solve because they lie on a family of solutions (the wrist
+ * centre on axis 1, where every θ₁ is one; ortho-parallel chains only) are seeded with the family's members at
+ * FAMILY_SAMPLES values of θ₁ spread over joint 1's range, those within the ranges stored and flooded as the sweep's
+ * are. Returns true when it ran (the random searches then have nothing to find: the other degenerate cells are
+ * isolated nodes on a wrist-singular curve, entered by the continuation from their closed-form neighbours), false
+ * when it does not apply.
+ */
+export function discoverFamilies(run: MapRun): boolean {
+  const { chain, m, closed, closedCount } = run;
+  const op = closed?.orthoParallel;
+  if (!run.closedContinuation || !op || !closedCount || run.options.discoverEveryCell === false) return false;
+  const ctx: KeepContext = {
+    chain,
+    kinSol: new Float64Array(FAMILY_SAMPLES * 4 * 6),
+    q6: new Float64Array(6),
+    kin: createScratch(chain),
+  };
+  const kept = new Float64Array(FAMILY_SAMPLES * 4 * 6);
+  const lo = Math.max(chain.lowerSi[0]!, -Math.PI) + chain.couplingOffset[0]!,
+    hi = Math.min(chain.upperSi[0]!, Math.PI) + chain.couplingOffset[0]!;
+  for (let cell = 0; cell < run.cells; cell++) {
+    if (closedCount[cell]! >= 0) continue;
+    setTargetInto(run, run.closedTarget, cell);
+    const n = orthoParallelFamilyInto(op, run.closedTarget, ctx.kinSol, FAMILY_SAMPLES, lo, hi, ctx);
+    if (n < 0) continue;
+    const k = keepSolutionsInto(kept, 0, ctx, run.closedTarget, n, op.check, run.repairNearLimit);
+    for (let s = 0; s < k; s++) {
+      run.qTry.set(kept.subarray(s * m, s * m + m));
+      const slot = storeQ(run, cell, run.qTry);
+      if (slot >= 0) {
+        push(run, cell, slot);
+        pairTwin(run, cell, slot);
+        flood(run);
+      }
+    }
+  }
+  return true;
 }
