@@ -24,7 +24,9 @@ function compareMaps(a: SpeedMapJson, b: SpeedMapJson): string {
     dv = 0,
     dc = 0,
     det = 0,
-    branch = 0;
+    branch = 0,
+    worse = 0,
+    better = 0;
   for (let i = 0; i < a.guaranteedMmPerS.length; i++) {
     const ga = a.guaranteedMmPerS[i] ?? null,
       gb = b.guaranteedMmPerS[i] ?? null;
@@ -35,13 +37,18 @@ function compareMaps(a: SpeedMapJson, b: SpeedMapJson): string {
     const ca = a.inverseCondition[i],
       cb = b.inverseCondition[i];
     if (ca != null && cb != null) dc = Math.max(dc, Math.abs(ca - cb));
-    if (a.detSign[i] !== b.detSign[i]) det++;
+    if (a.detSign[i] !== b.detSign[i] && a.detSign[i] !== 0 && b.detSign[i] !== 0) det++;
+    // b's best branch against a's: lower guaranteed speed, or equal (0.1 mm/s) with a lower maximum speed.
+    const d = ga - gb,
+      dvMax = a.maxMmPerS[i]! - b.maxMmPerS[i]!;
+    if (d > 1 || (Math.abs(d) <= 0.1 && dvMax > 1)) worse++;
+    if (d < -1 || (Math.abs(d) <= 0.1 && dvMax < -1)) better++;
     if (a.branchNames[a.branch[i]!] !== b.branchNames[b.branch[i]!]) branch++;
   }
   return (
     `${a.orientation}: reachable ${a.reachableCells}/${b.reachableCells}, cells reached by one only ${reach}, ` +
     `max |Δ guaranteed| ${dg} mm/s, max |Δ max speed| ${dv} mm/s, max |Δ inverse condition| ${dc.toFixed(3)}, ` +
-    `det sign ≠ ${det}, branch ≠ ${branch}`
+    `det sign ≠ ${det} (both non-zero), branch ≠ ${branch}, best branch worse ${worse}, better ${better}`
   );
 }
 

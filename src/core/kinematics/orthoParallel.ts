@@ -71,6 +71,8 @@ export interface OrthoParallelIk {
   check: boolean;
   /** Set when onBranch stopped the solve. */
   stopped: boolean;
+  /** Set when skipSingularWrist left a branch out. */
+  partial: boolean;
   /** The target's wrist centre relative to axis 1 and its component along d₁. */
   readonly u: Float64Array;
   readonly work: Float64Array;
@@ -193,6 +195,7 @@ export function orthoParallelOf(chain: Chain, wInFlange: ArrayLike<number>): Ort
     tiny: 1e-9 * L,
     check: false,
     stopped: false,
+    partial: false,
     u: new Float64Array(4),
     work: new Float64Array(40),
   };
@@ -269,7 +272,8 @@ const W_T1 = 0,
  * kinSol; returns the count or −1 (DEGENERATE: wrist centre on axis 1 or 2, or axes 4 and 6 in line). Sets ik.check
  * when a solution should be confirmed by forward kinematics. With `range`, branches whose joints 1–3 are out of
  * their ranges are left out; `onBranch(from, count)` is called after each branch's wrist solutions and stops the
- * solve when it returns true. Allocates nothing.
+ * solve when it returns true; with `skipSingularWrist`, a branch whose wrist is singular (axes 4 and 6 in line: a
+ * family) is left out instead of making the whole pose DEGENERATE, and ik.partial is set. Allocates nothing.
  */
 export function orthoParallelKinInto(
   ik: OrthoParallelIk,
@@ -277,6 +281,7 @@ export function orthoParallelKinInto(
   kinSol: Float64Array,
   range: KeepContext | null = null,
   onBranch: ((from: number, count: number) => boolean) | null = null,
+  skipSingularWrist = false,
 ): number {
   const w = ik.work,
     d2 = ik.d2;
@@ -286,9 +291,21 @@ export function orthoParallelKinInto(
   const n1 = sinusoidRoots(ik, w, W_T1, a, b, ik.h - ik.d1d2 * u[3]!, ik.tiny);
   if (n1 < 0) return DEGENERATE;
   ik.stopped = false;
+  ik.partial = false;
   let count = 0;
   for (let i1 = 0; i1 < n1 && !ik.stopped; i1++) {
-    count = armBranchesInto(ik, kinSol, count, w[W_T1 + i1]!, w[W_T1 + 2 + i1]!, w[W_T1 + 4 + i1]!, range, onBranch);
+    const t1 = w[W_T1 + i1]!;
+    count = armBranchesInto(
+      ik,
+      kinSol,
+      count,
+      t1,
+      w[W_T1 + 2 + i1]!,
+      w[W_T1 + 4 + i1]!,
+      range,
+      onBranch,
+      skipSingularWrist,
+    );
     if (count < 0) return DEGENERATE;
   }
   return count;
@@ -358,6 +375,7 @@ function armBranchesInto(
   s1: number,
   range: KeepContext | null,
   onBranch: ((from: number, count: number) => boolean) | null,
+  skipSingularWrist = false,
 ): number {
   const w = ik.work,
     d1 = ik.d1,
@@ -399,8 +417,13 @@ function armBranchesInto(
     // keep step (the same test on the same values): its wrist is not solved.
     if (range && !armInRange(range, kinSol, count, t1, t2, ik.s3 * beta)) continue;
     const from = count;
-    count = wristInto(ik, kinSol, count, t1, t2, ik.s3 * beta, c2 * cb - s2 * sb, s2 * cb + c2 * sb);
-    if (count < 0) return DEGENERATE;
+    const next = wristInto(ik, kinSol, count, t1, t2, ik.s3 * beta, c2 * cb - s2 * sb, s2 * cb + c2 * sb);
+    if (next < 0) {
+      if (!skipSingularWrist) return DEGENERATE;
+      ik.partial = true;
+      continue;
+    }
+    count = next;
     if (onBranch && onBranch(from, count)) {
       ik.stopped = true;
       return count;

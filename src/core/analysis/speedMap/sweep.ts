@@ -10,7 +10,7 @@
  */
 import { createScratch, forwardInto } from "../../kinematics/forward";
 import { keepSolutionsInto, type KeepContext } from "../../kinematics/closedFormKeep";
-import { orthoParallelFamilyInto } from "../../kinematics/orthoParallel";
+import { orthoParallelFamilyInto, orthoParallelKinInto } from "../../kinematics/orthoParallel";
 import { solveIkInto } from "../../kinematics/inverse";
 import { mulberry32 } from "../../math/random";
 import { flood } from "./continuation";
@@ -223,9 +223,10 @@ export const FAMILY_SAMPLES = 37;
  * Closed form: the cells the closed form could not solve because they lie on a family of solutions (the wrist
  * centre on axis 1, where every θ₁ is one; ortho-parallel chains only) are seeded with the family's members at
  * FAMILY_SAMPLES values of θ₁ spread over joint 1's range, those within the ranges stored and flooded as the sweep's
- * are. Returns true when it ran (the random searches then have nothing to find: the other degenerate cells are
- * isolated nodes on a wrist-singular curve, entered by the continuation from their closed-form neighbours), false
- * when it does not apply.
+ * are. At the other degenerate cells (isolated nodes on a wrist-singular curve) the branches whose wrist is not
+ * singular are solved in closed form, the singular one entered by the continuation from the closed-form
+ * neighbours. Returns true when it ran (the random searches then have nothing to find), false when it does not
+ * apply.
  */
 export function discoverFamilies(run: MapRun): boolean {
   const { chain, m, closed, closedCount } = run;
@@ -243,7 +244,10 @@ export function discoverFamilies(run: MapRun): boolean {
   for (let cell = 0; cell < run.cells; cell++) {
     if (closedCount[cell]! >= 0) continue;
     setTargetInto(run, run.closedTarget, cell);
-    const n = orthoParallelFamilyInto(op, run.closedTarget, ctx.kinSol, FAMILY_SAMPLES, lo, hi, ctx);
+    let n = orthoParallelFamilyInto(op, run.closedTarget, ctx.kinSol, FAMILY_SAMPLES, lo, hi, ctx);
+    // Not on axis 1: a branch's wrist is singular there (a node on a wrist-singular curve); the other branches are
+    // solved in closed form here, the singular one reached by the continuation from the neighbours.
+    if (n < 0) n = orthoParallelKinInto(op, run.closedTarget, ctx.kinSol, ctx, null, true);
     if (n < 0) continue;
     const k = keepSolutionsInto(kept, 0, ctx, run.closedTarget, n, op.check, run.repairNearLimit);
     for (let s = 0; s < k; s++) {
