@@ -2,7 +2,8 @@
  * npm run bench: speed is measured here, never in unit tests. Reports medians (and ratios against a baseline
  * measured in the same run):
  * 1. the per-pose kernel (FK + Jacobian + singular values + both speed figures), ours vs ml-matrix objects;
- * 2. per-stage analysis times for every arm of the catalog, single-threaded;
+ * 2. per-stage analysis times for every arm of the catalog, single-threaded; for the ortho-parallel class, the full
+ *    analysis with closed-form speed maps against numeric ones (target ≤ 1 s each);
  * 3. the demo catalog's site build, arm-sheet page weight, and the side-by-side page of four arms: navigation
  *    start to drawn (compareInteractive.ts), in headless Chromium;
  * 4. a longer fuzz run (test/fuzz/longRun.ts): random valid arms through the whole analysis, property violations;
@@ -31,7 +32,8 @@ import {
   DEFAULT_SPEED_MAP,
 } from "../../src/core/analysis/speedMap/speedMap";
 import { payloadAtReach, payloadInputOf, loadDiagram } from "../../src/core/analysis/payload";
-import { analyseArm, MAX_OUTPUT_COLUMNS } from "../../src/core/analysis/analyseArm";
+import { analyseArm, DEFAULT_ANALYSIS, MAX_OUTPUT_COLUMNS } from "../../src/core/analysis/analyseArm";
+import { sphericalWristIk } from "../../src/core/kinematics/closedForm";
 import { gravityDirectionInBase } from "../../src/core/kinematics/statics";
 import { armFacts } from "../../src/catalog/analysis";
 import { runScaleBench, timedBuild } from "./scale";
@@ -150,6 +152,35 @@ for (const arm of chosen) {
     console.log(
       `six-axis arms, full analysis: median ${median(six.map((a) => a.ms)).toFixed(0)} ms, slowest ${Math.max(...six.map((a) => a.ms)).toFixed(0)} ms; target 2000 ms each${over.length ? `; over: ${over.map((a) => a.id).join(", ")}` : ", met by all"}`,
     );
+  }
+}
+
+// 2b. The ortho-parallel class (kinematics/orthoParallel.ts): full analysis with the speed maps in closed form (the
+// default) against the numeric maps (closedForm: false, the baseline), interleaved in this run; target ≤ 1000 ms each.
+{
+  const opw = chosen.filter((a) => sphericalWristIk(a.chain)?.orthoParallel);
+  if (opw.length > 0) {
+    console.log(`\northo-parallel arms, full analysis, medians of ${reps} runs (closed-form maps vs numeric maps):`);
+    const over: string[] = [];
+    for (const arm of opw) {
+      const facts = armFacts(arm);
+      const closed: number[] = [],
+        numeric: number[] = [];
+      const numericOptions = { ...DEFAULT_ANALYSIS, speedMap: { closedForm: false } };
+      analyseArm(arm.chain, facts);
+      analyseArm(arm.chain, facts, numericOptions);
+      for (let r = 0; r < reps; r++) {
+        closed.push(timeMs(() => analyseArm(arm.chain, facts)));
+        numeric.push(timeMs(() => analyseArm(arm.chain, facts, numericOptions)));
+      }
+      const mc = median(closed),
+        mn = median(numeric);
+      if (mc > 1000) over.push(arm.id);
+      console.log(
+        `${arm.id.padEnd(28)} ${mc.toFixed(0).padStart(6)} ms  numeric ${mn.toFixed(0).padStart(6)} ms  ratio ${(mc / mn).toFixed(2)}`,
+      );
+    }
+    console.log(`target 1000 ms each${over.length ? `; over: ${over.join(", ")}` : ", met by all"}`);
   }
 }
 
