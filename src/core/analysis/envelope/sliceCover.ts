@@ -52,6 +52,7 @@ export function addSlice(
   nb: number,
   mode: SliceMode,
   s: SliceScratch,
+  extra: readonly TriangleBatch[] = [],
 ): void {
   const np = na * nb;
   s.ensurePoints(np);
@@ -142,14 +143,37 @@ export function addSlice(
       !signed,
       signed ? { s, x: c0, y: c1, h: c2 } : null,
     );
-    return;
+    // the extra triangles on their own (the cover has the marks already, so the window sees them)
+    vmin = Infinity;
+    vmax = -Infinity;
   }
+  const sliceRows = vmin <= vmax;
+  for (const batch of extra) {
+    if (batch.count === 0) continue;
+    const [lo, hi] = triangleHeights(batch.tris, batch.count, signed);
+    if (lo < vmin) vmin = lo;
+    if (hi > vmax) vmax = hi;
+  }
+  if (!(vmin <= vmax)) return;
   s.count = 0;
-  // every crossing and mark of the slice lies on a row from ⌊(vmin − y0)/dy⌋ to ⌈(vmax − y0)/dy⌉ (a cut point off
-  // them by a rounding error is simply not set aside)
+  // every crossing and mark of the slice and the triangles lies on a row from ⌊(vmin − y0)/dy⌋ to
+  // ⌈(vmax − y0)/dy⌉ (a cut point off them by a rounding error is simply not set aside)
   s.openWindow(cover, Math.floor((vmin - cover.y0) / dy), Math.ceil((vmax - cover.y0) / dy));
-  scanEdges(s, cover, c0, c1, c2, na, nb, mode, clips);
+  if (sliceRows) scanEdges(s, cover, c0, c1, c2, na, nb, mode, clips);
+  for (const batch of extra) if (batch.count > 0) triangleEdges(s, cover, batch.tris, batch.count, signed);
   flush(s, cover);
+}
+
+/**
+ * Triangles filled in the same sweep as a slice (addSlice's `extra`): 9 numbers per triangle, as addTriangles takes
+ * them, in the slice's mode. One sweep instead of one per batch: each batch opened a window over much the same rows
+ * (about as many rows as the slice's own, for a few dozen triangles). The cover comes out the same: every part's
+ * winding number is ≥ 0 (each triangle counts +1 inside, and flush only moves crossings outward or within covered
+ * intervals), so the positive set of the sum is the union of the parts' positive sets.
+ */
+export interface TriangleBatch {
+  readonly tris: Float64Array;
+  readonly count: number;
 }
 
 /**
@@ -264,6 +288,14 @@ export function addTriangles(
 ): void {
   s.count = 0;
   // the window (see addSlice): the rows of the triangles' vertical extent
+  const [vmin, vmax] = triangleHeights(tris, count, signed);
+  s.openWindow(cover, Math.floor((vmin - cover.y0) / cover.dy), Math.ceil((vmax - cover.y0) / cover.dy));
+  triangleEdges(s, cover, tris, count, signed);
+  flush(s, cover);
+}
+
+/** Lowest and highest vertical coordinate (h in signed-radius mode, else y) of the triangles' corners. */
+function triangleHeights(tris: Float64Array, count: number, signed: boolean): [number, number] {
   let vmin = Infinity,
     vmax = -Infinity;
   for (let t = 0; t < count; t++) {
@@ -273,7 +305,11 @@ export function addTriangles(
       if (w > vmax) vmax = w;
     }
   }
-  s.openWindow(cover, Math.floor((vmin - cover.y0) / cover.dy), Math.ceil((vmax - cover.y0) / cover.dy));
+  return [vmin, vmax];
+}
+
+/** Records the outline of every triangle (each on its own, counter-clockwise) as crossings, for flush(). */
+function triangleEdges(s: SliceScratch, cover: RowCover, tris: Float64Array, count: number, signed: boolean): void {
   const x = TRI_X,
     y = TRI_Y,
     h = TRI_H,
@@ -305,7 +341,6 @@ export function addTriangles(
       segment(s, cover, uu, vv, 2, 0, m);
     }
   }
-  flush(s, cover);
 }
 
 const TRI_X = new Float64Array(3),
