@@ -92,12 +92,23 @@ export function addSlice(
   // clips: number of clipped triangles, listed in clipList in order
   let areaSum = 0,
     clips = 0;
+  // A cell's right column (ib + 1) is the next cell's left one: its coordinates are carried over in locals, not
+  // loaded again (the same numbers, so the same signs and areas).
   for (let ia = 0; ia < cellsA; ia++) {
+    const row = ia * nb;
+    let uL0 = u[row]!,
+      vL0 = v[row]!,
+      uL1 = u[row + nb]!,
+      vL1 = v[row + nb]!;
     for (let ib = 0; ib < cellsB; ib++) {
-      const p00 = ia * nb + ib,
+      const p00 = row + ib,
         p10 = p00 + nb,
         p01 = p00 + 1,
         p11 = p10 + 1;
+      const uR0 = u[p01]!,
+        vR0 = v[p01]!,
+        uR1 = u[p11]!,
+        vR1 = v[p11]!;
       const t = 2 * (ia * cellsB + ib);
       if (signed && !(side[p00] === side[p10] && side[p10] === side[p11] && side[p11] === side[p01])) {
         triangleSigns(s, t, c0, c1, c2, u, v, p00, p10, p11, signed);
@@ -108,14 +119,12 @@ export function addSlice(
         if (plain[t + 1] === 0) clipList[clips++] = t + 1;
       } else {
         // both triangles on one side of the axis (all of them but a few): triangleSigns' plain case, inline
-        const u00 = u[p00]!,
-          v00 = v[p00]!,
-          du10 = u[p10]! - u00,
-          dv10 = v[p10]! - v00;
-        const du11 = u[p11]! - u00,
-          dv11 = v[p11]! - v00,
-          du01 = u[p01]! - u00,
-          dv01 = v[p01]! - v00;
+        const du10 = uL1 - uL0,
+          dv10 = vL1 - vL0;
+        const du11 = uR1 - uL0,
+          dv11 = vR1 - vL0,
+          du01 = uR0 - uL0,
+          dv01 = vR0 - vL0;
         const a1 = du10 * dv11 - du11 * dv10,
           a2 = du11 * dv01 - du01 * dv11;
         plain[t] = a1 >= 0 ? 1 : -1;
@@ -123,6 +132,10 @@ export function addSlice(
         areaSum += Math.abs(a1);
         areaSum += Math.abs(a2);
       }
+      uL0 = uR0;
+      vL0 = vR0;
+      uL1 = uR1;
+      vL1 = vR1;
     }
   }
   areaSum /= 2;
