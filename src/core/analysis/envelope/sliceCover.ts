@@ -213,6 +213,9 @@ function scanEdges(
     sB = s.signB,
     plain = s.plain,
     clipList = s.clipList;
+  // An edge between two unclipped triangles of opposite orientation on one side of the axis (a fold) is a double
+  // segment, emitted here as gridEdge would (mf − mb) without calling it.
+  const side = s.side;
   // An edge between two unclipped triangles of the same orientation (most of the grid) adds nothing: skipped
   // without a call, in loops of their own over the edges inside the grid. Triangle indices: 2·(ia·cellsB + ib) for
   // T1 of cell (ia, ib), + 1 for T2; −1 outside the grid.
@@ -233,9 +236,14 @@ function scanEdges(
     const back0 = pb ? last : -1;
     if (!cancels(2 * cell0, back0)) gridEdge(s, cover, c0, c1, c2, u, v, p0, p0 + nb, 2 * cell0, back0, signed);
     for (let ib = 1; ib < cellsB; ib++) {
-      const f = 2 * (cell0 + ib);
-      if (plain[f] !== 0 && plain[f] === plain[f - 1]) continue;
-      gridEdge(s, cover, c0, c1, c2, u, v, p0 + ib, p0 + nb + ib, f, f - 1, signed);
+      const f = 2 * (cell0 + ib),
+        mf = plain[f]!,
+        mb = plain[f - 1]!;
+      if (mf !== 0 && mf === mb) continue;
+      const p = p0 + ib,
+        q = p + nb;
+      if (mf !== 0 && mb !== 0 && (!signed || side[p] === side[q])) segment(s, cover, u, v, p, q, mf - mb);
+      else gridEdge(s, cover, c0, c1, c2, u, v, p, q, f, f - 1, signed);
     }
     // ib = nb − 1: the last cell's T2 alone (with a periodic b, the seam drawn at ib = 0)
     if (!pb) gridEdge(s, cover, c0, c1, c2, u, v, p0 + cellsB, p0 + nb + cellsB, -1, last, signed);
@@ -252,9 +260,13 @@ function scanEdges(
         b0 = 2 * ia * cellsB + 1;
       for (let ib = 0; ib < cellsB; ib++) {
         const f = f0 + 2 * ib,
-          b = b0 + 2 * ib;
-        if (plain[f] !== 0 && plain[f] === plain[b]) continue;
-        gridEdge(s, cover, c0, c1, c2, u, v, p0 + ib, p0 + ib + 1, f, b, signed);
+          b = b0 + 2 * ib,
+          mf = plain[f]!,
+          mb = plain[b]!;
+        if (mf !== 0 && mf === mb) continue;
+        const p = p0 + ib;
+        if (mf !== 0 && mb !== 0 && (!signed || side[p] === side[p + 1])) segment(s, cover, u, v, p, p + 1, mf - mb);
+        else gridEdge(s, cover, c0, c1, c2, u, v, p, p + 1, f, b, signed);
       }
       continue;
     }
@@ -269,9 +281,14 @@ function scanEdges(
     const p0 = ia * nb,
       t0 = 2 * ia * cellsB;
     for (let ib = 0; ib < cellsB; ib++) {
-      const t = t0 + 2 * ib;
-      if (plain[t + 1] !== 0 && plain[t + 1] === plain[t]) continue;
-      gridEdge(s, cover, c0, c1, c2, u, v, p0 + ib, p0 + nb + ib + 1, t + 1, t, signed);
+      const t = t0 + 2 * ib,
+        mf = plain[t + 1]!,
+        mb = plain[t]!;
+      if (mf !== 0 && mf === mb) continue;
+      const p = p0 + ib,
+        q = p + nb + 1;
+      if (mf !== 0 && mb !== 0 && (!signed || side[p] === side[q])) segment(s, cover, u, v, p, q, mf - mb);
+      else gridEdge(s, cover, c0, c1, c2, u, v, p, q, t + 1, t, signed);
     }
   }
   for (let c = 0; c < clips; c++) {
