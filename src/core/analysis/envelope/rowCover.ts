@@ -12,6 +12,11 @@ export class RowCover {
   private firstRow = 0;
   private data: Float64Array[] = [];
   private size: number[] = [];
+  /** Bumped by every change of the rows: the cached symmetric radii below hold for the version they were taken at. */
+  private version = 1;
+  /** Per row: the version its symmetric radius was taken at, and that radius (see coversMirrored). */
+  private symVersion = new Float64Array(0);
+  private symRadius = new Float64Array(0);
 
   constructor(y0: number, dy: number) {
     if (!(dy > 0)) throw new RangeError(`invalid dy: ${dy}`);
@@ -87,12 +92,30 @@ export class RowCover {
     return lo < n && v[2 * lo]! <= a && v[2 * lo + 1]! >= b;
   }
 
-  /** True when every row from jLo to jHi holds both [a, b] and its mirror [−b, −a] inside one interval each. */
+  /**
+   * True when every row from jLo to jHi holds both [a, b] and its mirror [−b, −a] inside one interval each.
+   *
+   * For 0 ≤ a ≤ b a row passes at once when b ≤ its symmetric radius min(−L, R), [L, R] being its interval that holds
+   * 0 (then [L, R] holds [−b, b], so both); that radius is cached per row until the rows change (the envelope asks
+   * this many times over the same rows between two fills). Otherwise, the two searches decide.
+   */
   coversMirrored(jLo: number, jHi: number, a: number, b: number): boolean {
     const kLo = jLo - this.firstRow,
       kHi = jHi - this.firstRow;
     if (kLo < 0 || kHi >= this.data.length) return false;
+    const symmetric = a >= 0 && a <= b;
+    if (symmetric && this.symVersion.length !== this.data.length) {
+      this.symVersion = new Float64Array(this.data.length);
+      this.symRadius = new Float64Array(this.data.length);
+    }
     for (let k = kLo; k <= kHi; k++) {
+      if (symmetric) {
+        if (this.symVersion[k] !== this.version) {
+          this.symRadius[k] = this.symmetricRadius(k);
+          this.symVersion[k] = this.version;
+        }
+        if (b <= this.symRadius[k]!) continue;
+      }
       const v = this.data[k]!,
         n = this.size[k]! >> 1;
       if (n === 0 || v[0]! > -b || v[2 * n - 1]! < b) return false;
@@ -116,9 +139,24 @@ export class RowCover {
     return true;
   }
 
+  /** min(−L, R) for the interval [L, R] of row k that holds 0; −Infinity when none does. */
+  private symmetricRadius(k: number): number {
+    const v = this.data[k]!,
+      n = this.size[k]! >> 1;
+    let lo = 0,
+      hi = n;
+    while (lo < hi) {
+      const mid = (lo + hi) >> 1;
+      if (v[2 * mid + 1]! < 0) lo = mid + 1;
+      else hi = mid;
+    }
+    return lo < n && v[2 * lo]! <= 0 ? Math.min(-v[2 * lo]!, v[2 * lo + 1]!) : -Infinity;
+  }
+
   /** Adds [a, b] (a ≤ b) to row j, merging with the intervals it touches. */
   add(j: number, a: number, b: number): void {
     if (!(a <= b)) return;
+    this.version++;
     const k = this.ensureRow(j);
     let v = this.data[k]!;
     const len = this.size[k]!;
@@ -161,6 +199,7 @@ export class RowCover {
 
   /** Merges, in every row, intervals separated by a gap narrower than `widthMm` (a closing along the rows). */
   closeGaps(widthMm: number): void {
+    this.version++;
     for (let k = 0; k < this.data.length; k++) {
       const v = this.data[k]!,
         n = this.size[k]!;

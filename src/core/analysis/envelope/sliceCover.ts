@@ -52,6 +52,7 @@ export function addSlice(
   nb: number,
   mode: SliceMode,
   s: SliceScratch,
+  extra: readonly TriangleBatch[] = [],
 ): void {
   const np = na * nb;
   s.ensurePoints(np);
@@ -91,12 +92,23 @@ export function addSlice(
   // clips: number of clipped triangles, listed in clipList in order
   let areaSum = 0,
     clips = 0;
+  // A cell's right column (ib + 1) is the next cell's left one: its coordinates are carried over in locals, not
+  // loaded again (the same numbers, so the same signs and areas).
   for (let ia = 0; ia < cellsA; ia++) {
+    const row = ia * nb;
+    let uL0 = u[row]!,
+      vL0 = v[row]!,
+      uL1 = u[row + nb]!,
+      vL1 = v[row + nb]!;
     for (let ib = 0; ib < cellsB; ib++) {
-      const p00 = ia * nb + ib,
+      const p00 = row + ib,
         p10 = p00 + nb,
         p01 = p00 + 1,
         p11 = p10 + 1;
+      const uR0 = u[p01]!,
+        vR0 = v[p01]!,
+        uR1 = u[p11]!,
+        vR1 = v[p11]!;
       const t = 2 * (ia * cellsB + ib);
       if (signed && !(side[p00] === side[p10] && side[p10] === side[p11] && side[p11] === side[p01])) {
         triangleSigns(s, t, c0, c1, c2, u, v, p00, p10, p11, signed);
@@ -107,14 +119,12 @@ export function addSlice(
         if (plain[t + 1] === 0) clipList[clips++] = t + 1;
       } else {
         // both triangles on one side of the axis (all of them but a few): triangleSigns' plain case, inline
-        const u00 = u[p00]!,
-          v00 = v[p00]!,
-          du10 = u[p10]! - u00,
-          dv10 = v[p10]! - v00;
-        const du11 = u[p11]! - u00,
-          dv11 = v[p11]! - v00,
-          du01 = u[p01]! - u00,
-          dv01 = v[p01]! - v00;
+        const du10 = uL1 - uL0,
+          dv10 = vL1 - vL0;
+        const du11 = uR1 - uL0,
+          dv11 = vR1 - vL0,
+          du01 = uR0 - uL0,
+          dv01 = vR0 - vL0;
         const a1 = du10 * dv11 - du11 * dv10,
           a2 = du11 * dv01 - du01 * dv11;
         plain[t] = a1 >= 0 ? 1 : -1;
@@ -122,6 +132,10 @@ export function addSlice(
         areaSum += Math.abs(a1);
         areaSum += Math.abs(a2);
       }
+      uL0 = uR0;
+      vL0 = vR0;
+      uL1 = uR1;
+      vL1 = vR1;
     }
   }
   areaSum /= 2;
@@ -142,14 +156,37 @@ export function addSlice(
       !signed,
       signed ? { s, x: c0, y: c1, h: c2 } : null,
     );
-    return;
+    // the extra triangles on their own (the cover has the marks already, so the window sees them)
+    vmin = Infinity;
+    vmax = -Infinity;
   }
+  const sliceRows = vmin <= vmax;
+  for (const batch of extra) {
+    if (batch.count === 0) continue;
+    const [lo, hi] = triangleHeights(batch.tris, batch.count, signed);
+    if (lo < vmin) vmin = lo;
+    if (hi > vmax) vmax = hi;
+  }
+  if (!(vmin <= vmax)) return;
   s.count = 0;
-  // every crossing and mark of the slice lies on a row from ⌊(vmin − y0)/dy⌋ to ⌈(vmax − y0)/dy⌉ (a cut point off
-  // them by a rounding error is simply not set aside)
+  // every crossing and mark of the slice and the triangles lies on a row from ⌊(vmin − y0)/dy⌋ to
+  // ⌈(vmax − y0)/dy⌉ (a cut point off them by a rounding error is simply not set aside)
   s.openWindow(cover, Math.floor((vmin - cover.y0) / dy), Math.ceil((vmax - cover.y0) / dy));
-  scanEdges(s, cover, c0, c1, c2, na, nb, mode, clips);
+  if (sliceRows) scanEdges(s, cover, c0, c1, c2, na, nb, mode, clips);
+  for (const batch of extra) if (batch.count > 0) triangleEdges(s, cover, batch.tris, batch.count, signed);
   flush(s, cover);
+}
+
+/**
+ * Triangles filled in the same sweep as a slice (addSlice's `extra`): 9 numbers per triangle, as addTriangles takes
+ * them, in the slice's mode. One sweep instead of one per batch: each batch opened a window over much the same rows
+ * (about as many rows as the slice's own, for a few dozen triangles). The cover comes out the same: every part's
+ * winding number is ≥ 0 (each triangle counts +1 inside, and flush only moves crossings outward or within covered
+ * intervals), so the positive set of the sum is the union of the parts' positive sets.
+ */
+export interface TriangleBatch {
+  readonly tris: Float64Array;
+  readonly count: number;
 }
 
 /**
@@ -176,6 +213,9 @@ function scanEdges(
     sB = s.signB,
     plain = s.plain,
     clipList = s.clipList;
+  // An edge between two unclipped triangles of opposite orientation on one side of the axis (a fold) is a double
+  // segment, emitted here as gridEdge would (mf − mb) without calling it.
+  const side = s.side;
   // An edge between two unclipped triangles of the same orientation (most of the grid) adds nothing: skipped
   // without a call, in loops of their own over the edges inside the grid. Triangle indices: 2·(ia·cellsB + ib) for
   // T1 of cell (ia, ib), + 1 for T2; −1 outside the grid.
@@ -196,9 +236,14 @@ function scanEdges(
     const back0 = pb ? last : -1;
     if (!cancels(2 * cell0, back0)) gridEdge(s, cover, c0, c1, c2, u, v, p0, p0 + nb, 2 * cell0, back0, signed);
     for (let ib = 1; ib < cellsB; ib++) {
-      const f = 2 * (cell0 + ib);
-      if (plain[f] !== 0 && plain[f] === plain[f - 1]) continue;
-      gridEdge(s, cover, c0, c1, c2, u, v, p0 + ib, p0 + nb + ib, f, f - 1, signed);
+      const f = 2 * (cell0 + ib),
+        mf = plain[f]!,
+        mb = plain[f - 1]!;
+      if (mf !== 0 && mf === mb) continue;
+      const p = p0 + ib,
+        q = p + nb;
+      if (mf !== 0 && mb !== 0 && (!signed || side[p] === side[q])) segment(s, cover, u, v, p, q, mf - mb);
+      else gridEdge(s, cover, c0, c1, c2, u, v, p, q, f, f - 1, signed);
     }
     // ib = nb − 1: the last cell's T2 alone (with a periodic b, the seam drawn at ib = 0)
     if (!pb) gridEdge(s, cover, c0, c1, c2, u, v, p0 + cellsB, p0 + nb + cellsB, -1, last, signed);
@@ -215,9 +260,13 @@ function scanEdges(
         b0 = 2 * ia * cellsB + 1;
       for (let ib = 0; ib < cellsB; ib++) {
         const f = f0 + 2 * ib,
-          b = b0 + 2 * ib;
-        if (plain[f] !== 0 && plain[f] === plain[b]) continue;
-        gridEdge(s, cover, c0, c1, c2, u, v, p0 + ib, p0 + ib + 1, f, b, signed);
+          b = b0 + 2 * ib,
+          mf = plain[f]!,
+          mb = plain[b]!;
+        if (mf !== 0 && mf === mb) continue;
+        const p = p0 + ib;
+        if (mf !== 0 && mb !== 0 && (!signed || side[p] === side[p + 1])) segment(s, cover, u, v, p, p + 1, mf - mb);
+        else gridEdge(s, cover, c0, c1, c2, u, v, p, p + 1, f, b, signed);
       }
       continue;
     }
@@ -232,9 +281,14 @@ function scanEdges(
     const p0 = ia * nb,
       t0 = 2 * ia * cellsB;
     for (let ib = 0; ib < cellsB; ib++) {
-      const t = t0 + 2 * ib;
-      if (plain[t + 1] !== 0 && plain[t + 1] === plain[t]) continue;
-      gridEdge(s, cover, c0, c1, c2, u, v, p0 + ib, p0 + nb + ib + 1, t + 1, t, signed);
+      const t = t0 + 2 * ib,
+        mf = plain[t + 1]!,
+        mb = plain[t]!;
+      if (mf !== 0 && mf === mb) continue;
+      const p = p0 + ib,
+        q = p + nb + 1;
+      if (mf !== 0 && mb !== 0 && (!signed || side[p] === side[q])) segment(s, cover, u, v, p, q, mf - mb);
+      else gridEdge(s, cover, c0, c1, c2, u, v, p, q, t + 1, t, signed);
     }
   }
   for (let c = 0; c < clips; c++) {
@@ -264,6 +318,14 @@ export function addTriangles(
 ): void {
   s.count = 0;
   // the window (see addSlice): the rows of the triangles' vertical extent
+  const [vmin, vmax] = triangleHeights(tris, count, signed);
+  s.openWindow(cover, Math.floor((vmin - cover.y0) / cover.dy), Math.ceil((vmax - cover.y0) / cover.dy));
+  triangleEdges(s, cover, tris, count, signed);
+  flush(s, cover);
+}
+
+/** Lowest and highest vertical coordinate (h in signed-radius mode, else y) of the triangles' corners. */
+function triangleHeights(tris: Float64Array, count: number, signed: boolean): [number, number] {
   let vmin = Infinity,
     vmax = -Infinity;
   for (let t = 0; t < count; t++) {
@@ -273,7 +335,11 @@ export function addTriangles(
       if (w > vmax) vmax = w;
     }
   }
-  s.openWindow(cover, Math.floor((vmin - cover.y0) / cover.dy), Math.ceil((vmax - cover.y0) / cover.dy));
+  return [vmin, vmax];
+}
+
+/** Records the outline of every triangle (each on its own, counter-clockwise) as crossings, for flush(). */
+function triangleEdges(s: SliceScratch, cover: RowCover, tris: Float64Array, count: number, signed: boolean): void {
   const x = TRI_X,
     y = TRI_Y,
     h = TRI_H,
@@ -305,7 +371,6 @@ export function addTriangles(
       segment(s, cover, uu, vv, 2, 0, m);
     }
   }
-  flush(s, cover);
 }
 
 const TRI_X = new Float64Array(3),

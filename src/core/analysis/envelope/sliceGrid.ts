@@ -18,9 +18,14 @@ export interface SliceBuffers {
 /**
  * Calls `visit` once per combination of the secondary joints with the view coordinates (mm) of the point over the
  * primary grid. Staged plans evaluate p = Left(q_a) · Right(q_b) (see StagedGrid); otherwise every grid point runs
- * the full forward kinematics. The buffers are reused between calls.
+ * the full forward kinematics. The buffers are reused between calls. With `select`, only the combinations it
+ * accepts (given the sample index of every secondary) are evaluated and visited.
  */
-export function forEachSlice(plan: SamplingPlan, visit: (buffers: SliceBuffers, sliceIndex: number) => void): void {
+export function forEachSlice(
+  plan: SamplingPlan,
+  visit: (buffers: SliceBuffers, sliceIndex: number) => void,
+  select?: (counter: Int32Array) => boolean,
+): void {
   const { chain, point, view, a, b, secondaries } = plan;
   const na = a.values.length,
     nb = b.values.length;
@@ -38,6 +43,10 @@ export function forEachSlice(plan: SamplingPlan, visit: (buffers: SliceBuffers, 
   const out3 = new Float64Array(3);
 
   for (let slice = 0; ; slice++) {
+    if (select && !select(counter)) {
+      if (!nextCombination(counter, secondaries)) break;
+      continue;
+    }
     for (let s = 0; s < ns; s++) q[secondaries[s]!.driven] = secondaries[s]!.values[counter[s]!]!;
     if (staged) staged.fill(q, buffers);
     else {
@@ -73,16 +82,21 @@ export function forEachSlice(plan: SamplingPlan, visit: (buffers: SliceBuffers, 
       }
     }
     visit(buffers, slice);
-    // next combination of secondaries
-    let s = 0;
-    while (s < ns) {
-      counter[s] = counter[s]! + 1;
-      if (counter[s]! < secondaries[s]!.values.length) break;
-      counter[s] = 0;
-      s++;
-    }
-    if (s === ns) break;
+    if (!nextCombination(counter, secondaries)) break;
   }
+}
+
+/** Steps the counter to the next combination of secondaries (the first one fastest); false after the last one. */
+function nextCombination(counter: Int32Array, secondaries: SamplingPlan["secondaries"]): boolean {
+  const ns = secondaries.length;
+  let s = 0;
+  while (s < ns) {
+    counter[s] = counter[s]! + 1;
+    if (counter[s]! < secondaries[s]!.values.length) break;
+    counter[s] = 0;
+    s++;
+  }
+  return s < ns;
 }
 
 /**

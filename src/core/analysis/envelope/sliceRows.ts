@@ -91,12 +91,37 @@ export function segment(
   const rows = s.rows,
     xs = s.xs,
     ds = s.ds;
+  // A crossing inside one of its row's two lanes is credited to that interval here, as flush() would do with it:
+  // the interval holding x is the one flush() finds (the intervals are disjoint and do not touch), and a sum of
+  // multiplicities does not depend on the order it is added up in. Saves writing and re-reading most crossings.
+  const wlo = s.winLo,
+    wrows = s.winRows,
+    lo0 = s.laneLo0,
+    hi0 = s.laneHi0,
+    lo1 = s.laneLo1,
+    hi1 = s.laneHi1,
+    start = s.coverStart,
+    acc = s.acc;
   let c = s.count;
   for (let j = jFrom; j <= j1; j++) {
     let y = yb + j * dy + left;
     y = y < lo ? lo : y > hi ? hi : y;
+    const x = x0 + (y - y0) * slope,
+      r = j - wlo;
+    if (r >= 0 && r < wrows) {
+      if (lo0[r]! <= x && x <= hi0[r]!) {
+        const a = (start[r]! >> 1) + s.laneIdx0[r]!;
+        acc[a] = acc[a]! + d;
+        continue;
+      }
+      if (lo1[r]! <= x && x <= hi1[r]!) {
+        const a = (start[r]! >> 1) + s.laneIdx1[r]!;
+        acc[a] = acc[a]! + d;
+        continue;
+      }
+    }
     rows[c] = j;
-    xs[c] = x0 + (y - y0) * slope;
+    xs[c] = x;
     ds[c] = d;
     c++;
   }

@@ -111,16 +111,29 @@ export function accumulate(
   // the signed radius folds at x = 0: sweep between slices where x changes sign (axisSweep.ts)
   const axis = signedRadius && plan.secondaries.length > 0 ? new AxisSweep(plan) : null;
   const mode = { signedRadius, nodeSpacingMm: rowMm, periodicA: plan.a.periodic, periodicB: plan.b.periodic };
+  // Prefill: the side view's middle slice (every secondary at its middle sample) goes into the cover first. A slice
+  // adds the same set whatever the cover holds (flush), so the final cover, a union, does not change, and the
+  // middle slice's second fill in the full pass adds nothing new. But the slices come in counter order, from the
+  // secondaries' lower limits, whose images are often small: without the prefill the cover grows slowly, and most
+  // slices' outlines run outside it (crossings sorted one by one instead of summed per interval; AxisSweep fills
+  // quads the cover does not hold yet). Measured on the demo arms: side views up to a quarter faster (none more than
+  // 2 % slower); the plan view gained nothing, nor did more prefilled slices (quarter points, limits).
+  if (signedRadius && plan.secondaries.length > 0) {
+    const middle = plan.secondaries.map((g) => (g.values.length - 1) >> 1);
+    const isMiddle = (counter: Int32Array): boolean => middle.every((m, s) => counter[s] === m);
+    forEachSlice(plan, (buf) => addSlice(cover, buf.c0, buf.c1, buf.c2, na, nb, mode, scratch), isMiddle);
+  }
+  // The corner sweep of a slice and the axis quads found after the previous one are filled in the slice's own sweep
+  // (addSlice's `extra`; the same cover as one fill each). The axis quads wait a slice because they are found
+  // against the cover that holds their slice: so AxisSweep skips the same quads as when each part had its own fill.
+  const extra: (CornerSweep | AxisSweep)[] = [];
+  if (sweep) extra.push(sweep);
+  if (axis) extra.push(axis);
   forEachSlice(plan, (buf, slice) => {
     onSlice?.(buf);
-    addSlice(cover, buf.c0, buf.c1, buf.c2, na, nb, mode, scratch);
-    if (sweep) {
-      sweep.visit(buf, slice);
-      if (sweep.count > 0) addTriangles(cover, sweep.tris, sweep.count, signedRadius, scratch);
-    }
-    if (axis) {
-      axis.visit(buf, slice, cover);
-      if (axis.count > 0) addTriangles(cover, axis.tris, axis.count, true, scratch);
-    }
+    sweep?.visit(buf, slice);
+    addSlice(cover, buf.c0, buf.c1, buf.c2, na, nb, mode, scratch, extra);
+    axis?.visit(buf, slice, cover);
   });
+  if (axis && axis.count > 0) addTriangles(cover, axis.tris, axis.count, true, scratch);
 }

@@ -43,4 +43,32 @@ describe("RowCover.coversMirrored", () => {
       expect(cover.coversMirrored(jLo, jHi, a, b), `trial ${trial}`).toBe(expected);
     }
   });
+
+  it("answers as the rows stand when queries and additions alternate (per-row cache of the symmetric radius)", () => {
+    // intervals around 0 (the cached symmetric radius applies) and off it, queried again after every addition
+    const rand = mulberry32(23);
+    for (let trial = 0; trial < 50; trial++) {
+      const cover = new RowCover(0, 1);
+      const added = new Map<number, [number, number][]>();
+      for (let k = 0; k < 30; k++) {
+        const j = Math.floor(uniform(rand, 0, 5)),
+          s = uniform(rand, -60, 20),
+          e = s + uniform(rand, 0, 80);
+        cover.add(j, s, e);
+        (added.get(j) ?? added.set(j, []).get(j)!).push([s, e]);
+        for (let q = 0; q < 4; q++) {
+          const a = uniform(rand, 0, 30),
+            b = a + uniform(rand, 0, 30);
+          const jLo = Math.floor(uniform(rand, 0, 5)),
+            jHi = jLo + Math.floor(uniform(rand, 0, 2));
+          let expected = true;
+          for (let j = jLo; j <= jHi; j++) {
+            const rows = merged(added.get(j) ?? []);
+            if (!within(rows, a, b) || !within(rows, -b, -a)) expected = false;
+          }
+          expect(cover.coversMirrored(jLo, jHi, a, b), `trial ${trial}, addition ${k}`).toBe(expected);
+        }
+      }
+    }
+  });
 });
