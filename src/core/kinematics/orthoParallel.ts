@@ -59,6 +59,12 @@ export interface OrthoParallelIk {
   readonly vx: number;
   readonly vy: number;
   readonly s3: number;
+  /** p₃ − p₂ and w₀ − p₃ (3-D, for the joint rates of orthoParallelRates.ts); the wrist axes at the zero pose. */
+  readonly p32: Float64Array;
+  readonly wp3: Float64Array;
+  readonly d4: Float64Array;
+  readonly d5: Float64Array;
+  readonly d6: Float64Array;
   /** Wrist: basis E (columns d₄, d₅, d₄ × d₅, row-major 3×3), K = R₀ᵀ·E·Ry(γ), γ. */
   readonly E: Float64Array;
   readonly K: Float64Array;
@@ -188,6 +194,11 @@ export function orthoParallelOf(chain: Chain, wInFlange: ArrayLike<number>): Ort
     vx,
     vy,
     s3: dot3(d2, d3) > 0 ? 1 : -1,
+    p32: l,
+    wp3: v,
+    d4,
+    d5,
+    d6,
     E,
     K,
     gamma,

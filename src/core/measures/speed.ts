@@ -203,7 +203,14 @@ export function guaranteedLineSpeed(
   s: SpeedScratch,
 ): number {
   if (!lineRatesInto(j, m, s)) return 0;
-  const b = s.b;
+  return guaranteedFromRates(s.b, m, maxRate);
+}
+
+/**
+ * The guaranteed straight-line speed from B (m × 3, joint rates per unit tool velocity at constant orientation, as
+ * lineRatesInto writes it): minᵢ q̇maxᵢ / ‖Bᵢ‖ over the non-zero rows (0 when none).
+ */
+export function guaranteedFromRates(b: ArrayLike<number>, m: number, maxRate: ArrayLike<number>): number {
   // Math.hypot is several times slower than sqrt(x² + y² + z²), which is within a few ulp of it: a first pass with
   // the latter finds the rows that can hold the minimum (ratio within 1e-9 of the smallest), and only those get
   // hypot. The result is the same minimum, to the bit, as over every row. Rows whose squares could under- or
@@ -223,7 +230,7 @@ export function guaranteedLineSpeed(
 }
 
 /** minᵢ q̇maxᵢ / ‖Bᵢ‖ over the non-zero rows whose sqrt-norm ratio is at most `threshold` (0 when none). */
-function rowMinimum(b: Float64Array, m: number, maxRate: ArrayLike<number>, threshold: number): number {
+function rowMinimum(b: ArrayLike<number>, m: number, maxRate: ArrayLike<number>, threshold: number): number {
   let best = Infinity;
   for (let i = 0; i < m; i++) {
     const x = b[i * 3]!,

@@ -58,7 +58,7 @@ export function flood(run: MapRun): void {
       detVal[fromIdx] = -detVal[cell * K + partner]!;
     } else {
       tangentReady = verifyAndFigure(run, cell, slot, from);
-      poseReady = true;
+      poseReady = run.poseReady;
     }
     for (let d = 0; d < 4; d++) {
       const jx = ix + (d === 0 ? 1 : d === 1 ? -1 : 0),

@@ -22,6 +22,8 @@ import {
   type SphericalWristIk,
 } from "../../kinematics/closedForm";
 import { wristFlipOf, wristTwinInto, type WristFlip } from "../../kinematics/wristFlip";
+import type { OrthoParallelIk } from "../../kinematics/orthoParallel";
+import { createOrthoRatesScratch, type OrthoRatesScratch } from "../../kinematics/orthoParallelRates";
 import { mulberry32 } from "../../math/random";
 import type { Grid2 } from "../../geometry/grid";
 import { branchFrame, type BranchFrame } from "../../measures/branches";
@@ -126,6 +128,10 @@ export interface MapRun {
   readonly closedFirst: Int32Array;
   readonly closedCount: Int8Array | null;
   readonly closedTarget: Float64Array;
+  /** Decoupled joint rates of the ortho-parallel class (closed form only): the figures of exact solutions. */
+  readonly rates: { readonly ik: OrthoParallelIk; readonly scratch: OrthoRatesScratch } | null;
+  /** Whether run.seedPose holds the forward kinematics and Jacobian of the solution verifyAndFigure last took. */
+  poseReady: boolean;
   /** A solution just beyond a joint limit, solved numerically from the limit onto closedTarget (closedAt). */
   readonly repairNearLimit: (q: Float64Array) => boolean;
   /** 1 for revolute driven joints (values 2π apart are the same posture). */
@@ -252,6 +258,11 @@ export function createMapRun(
     closedFirst: ws.i32("closedFirst", closed ? cells : 0),
     closedCount: closed ? ws.i8("closedCount", cells).fill(-2) : null,
     closedTarget,
+    rates:
+      closed?.orthoParallel && closedMode === true && m === 6
+        ? { ik: closed.orthoParallel, scratch: createOrthoRatesScratch() }
+        : null,
+    poseReady: false,
     // A solution just beyond a joint limit is solved numerically from the limit with the verification tolerance:
     // the numeric path keeps the poses that solver reaches there (joint on its limit, pose error within tolerance).
     repairNearLimit: (q: Float64Array) => solveIkInto(q, chain, closedTarget, q, ik, verifyIk),

@@ -6,7 +6,8 @@
 import { ikSeedPoseInto, solveIkInto, taskErrorInto, withinIkTolerance } from "../../kinematics/inverse";
 import { wristTwinInto } from "../../kinematics/wristFlip";
 import { determinantInPlace } from "../../math/linsolve";
-import { guaranteedLineSpeed } from "../../measures/speed";
+import { guaranteedFromRates, guaranteedLineSpeed } from "../../measures/speed";
+import { orthoLineRatesInto } from "../../kinematics/orthoParallelRates";
 import { nearSingular, refineAlongNullMotion } from "./refine";
 import { taskMatrixInto } from "./taskMatrix";
 import { setTargetInto, solAt, type MapRun } from "./state";
@@ -33,15 +34,18 @@ function withinTolerance(run: MapRun, t: Float64Array, goal: Float64Array): bool
 /**
  * Figures of the solution (cell, slot) held in run.qSeed, which sits at pool offset `from`, after checking that it
  * reaches its cell's target (a trusted last step, CONTINUATION_IK) and correcting it (with its twin) if not.
- * Leaves its forward kinematics and Jacobian in run.seedPose. Returns whether run.tangentB holds the sheet's tangent
+ * Leaves its forward kinematics and Jacobian in run.seedPose (run.poseReady; not for an exact closed-form solution,
+ * whose figures come from the decoupled joint rates). Returns whether run.tangentB holds the sheet's tangent
  * B (the speed figure's by-product; none at a singular pose, where the figure is 0).
  */
 export function verifyAndFigure(run: MapRun, cell: number, slot: number, from: number): boolean {
   const { chain, qSeed, qFix, popTarget, K } = run;
   const fromIdx = cell * K + slot;
-  slotFigures(run, cell, slot, qSeed);
   // A closed-form cell holds exact solutions: nothing to check, and none sits off its singular pose (refine.ts).
   const exact = run.closedContinuation && run.closedCount![cell]! >= 0;
+  if (exact && run.rates) return closedFigures(run, fromIdx, qSeed, run.rates);
+  run.poseReady = true;
+  slotFigures(run, cell, slot, qSeed);
   // The check of a trusted last step (CONTINUATION_IK), from the forward kinematics just done.
   if (!exact) setTargetInto(run, popTarget, cell);
   if (
@@ -68,6 +72,24 @@ export function verifyAndFigure(run: MapRun, cell: number, slot: number, from: n
   // at a singular pose, where the figure is 0): the tangent of the solution sheet along the plane.
   if (run.usePredictor && run.guaranteedVal[fromIdx]! > 0) {
     run.tangentB.set(run.sp.b);
+    return true;
+  }
+  return false;
+}
+
+/**
+ * verifyAndFigure for an exact solution of the ortho-parallel class: the figures from the decoupled joint rates
+ * (kinematics/orthoParallelRates.ts: no forward kinematics, no 6 × 6 solve); run.seedPose is not set
+ * (run.poseReady false). Returns whether run.tangentB holds B.
+ */
+function closedFigures(run: MapRun, idx: number, q: Float64Array, rates: NonNullable<MapRun["rates"]>): boolean {
+  run.poseReady = false;
+  const ok = orthoLineRatesInto(rates.ik, run.chain, q, rates.scratch);
+  const g = ok ? guaranteedFromRates(rates.scratch.b, 6, run.chain.maxSpeedSi) : 0;
+  run.guaranteedVal[idx] = g;
+  run.detVal[idx] = rates.scratch.det / run.lengthCubed;
+  if (run.usePredictor && g > 0) {
+    run.tangentB.set(rates.scratch.b);
     return true;
   }
   return false;
