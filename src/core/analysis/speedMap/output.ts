@@ -17,7 +17,9 @@ interface BestScratch {
   readonly bestJ: Float64Array;
   readonly j: Float64Array;
   ready: boolean;
-  /** Guaranteed speed of the solution first chosen (a tie that switches the choice keeps it). */
+  /** The best solution's maximum tool speed, m/s, from b.bestJ (valid when `ready`). */
+  bestV: number;
+  /** The best solution's guaranteed speed, m/s. */
   bestG: number;
 }
 
@@ -71,13 +73,17 @@ function bestSlot(run: MapRun, cell: number, n: number, b: BestScratch): number 
     }
     if (g < bestG - FIGURE_TIE_M_PER_S) continue;
     // A tie. The best one's twin has the same maximum speed (see pairTwin); others are compared.
-    let better = 0;
+    let better = 0,
+      vNew = NaN;
     if (!(flip && twinSlot[cell * K + k] === best)) {
-      if (!b.ready) slotJacobianInto(run, b.bestJ, cell, best);
-      b.ready = true;
+      if (!b.ready) {
+        slotJacobianInto(run, b.bestJ, cell, best);
+        b.bestV = maxToolSpeed(b.bestJ, m, chain.maxSpeedSi, sp);
+        b.ready = true;
+      }
       slotJacobianInto(run, b.j, cell, k);
-      const vNew = maxToolSpeed(b.j, m, chain.maxSpeedSi, sp),
-        vOld = maxToolSpeed(b.bestJ, m, chain.maxSpeedSi, sp);
+      vNew = maxToolSpeed(b.j, m, chain.maxSpeedSi, sp);
+      const vOld = b.bestV;
       better = vNew > vOld + FIGURE_TIE_M_PER_S ? 1 : vNew < vOld - FIGURE_TIE_M_PER_S ? -1 : 0;
     }
     if (better === 0) {
@@ -87,8 +93,12 @@ function bestSlot(run: MapRun, cell: number, n: number, b: BestScratch): number 
       better = dNew !== dOld ? (dNew ? 1 : -1) : slotBranchCode(run, cell, k) < slotBranchCode(run, cell, best) ? 1 : 0;
     }
     if (better > 0) {
-      if (b.ready) b.bestJ.set(b.j);
-      b.ready = b.ready && !(flip && twinSlot[cell * K + k] === best);
+      const twin = flip && twinSlot[cell * K + k] === best;
+      if (b.ready && !twin) {
+        b.bestJ.set(b.j);
+        b.bestV = vNew;
+      }
+      b.ready = b.ready && !twin;
       best = k;
       bestG = g;
     }
@@ -113,7 +123,13 @@ export function mapOutput(run: MapRun): ToolSpeedMap {
   const sg = createSingularityScratch(m);
   const codes: number[] = [];
   const c = new Float64Array(3);
-  const b: BestScratch = { bestJ: new Float64Array(6 * m), j: new Float64Array(6 * m), ready: false, bestG: -1 };
+  const b: BestScratch = {
+    bestJ: new Float64Array(6 * m),
+    j: new Float64Array(6 * m),
+    ready: false,
+    bestV: NaN,
+    bestG: -1,
+  };
   let reachable = 0;
   for (let cell = 0; cell < cells; cell++) {
     const n = count[cell]!;
@@ -124,7 +140,8 @@ export function mapOutput(run: MapRun): ToolSpeedMap {
     const q = run.pool.subarray(off, off + m);
     const t = forwardInto(chain, q, kin);
     if (!b.ready) jacobianInto(b.bestJ, chain, kin, t[3]!, t[7]!, t[11]!);
-    const bestMax = maxToolSpeed(b.bestJ, m, chain.maxSpeedSi, run.sp);
+    // The figure from the same Jacobian when the tie comparison already computed it.
+    const bestMax = b.ready ? b.bestV : maxToolSpeed(b.bestJ, m, chain.maxSpeedSi, run.sp);
     guaranteed[cell] = b.bestG * 1000;
     maxSpeed[cell] = bestMax * 1000;
     const cx = cell % nx;
