@@ -32,7 +32,7 @@ import {
   DEFAULT_SPEED_MAP,
 } from "../../src/core/analysis/speedMap/speedMap";
 import { payloadAtReach, payloadInputOf, loadDiagram } from "../../src/core/analysis/payload";
-import { analyseArm, DEFAULT_ANALYSIS, MAX_OUTPUT_COLUMNS } from "../../src/core/analysis/analyseArm";
+import { analyseArm, MAX_OUTPUT_COLUMNS } from "../../src/core/analysis/analyseArm";
 import { sphericalWristIk } from "../../src/core/kinematics/closedForm";
 import { gravityDirectionInBase } from "../../src/core/kinematics/statics";
 import { armFacts } from "../../src/catalog/analysis";
@@ -40,6 +40,7 @@ import { runScaleBench, timedBuild } from "./scale";
 import { runRevisionBuildBench, runRevisionStageBench } from "./revisions";
 import { measureCompareInteractive } from "./compareInteractive";
 import { readdirSync, statSync } from "node:fs";
+import { spawnSync } from "node:child_process";
 import { join } from "node:path";
 import { runFuzz } from "../fuzz/longRun";
 import { median } from "./stats";
@@ -156,25 +157,23 @@ for (const arm of chosen) {
 }
 
 // 2b. The ortho-parallel class (kinematics/orthoParallel.ts): full analysis with the speed maps in closed form (the
-// default) against the numeric maps (closedForm: false, the baseline), interleaved in this run; target ≤ 1000 ms each.
+// default) against the numeric maps (closedForm: false, the baseline), interleaved in one fresh process per arm
+// (timeClosedForm.ts); target ≤ 1000 ms each.
 {
   const opw = chosen.filter((a) => sphericalWristIk(a.chain)?.orthoParallel);
   if (opw.length > 0) {
     console.log(`\northo-parallel arms, full analysis, medians of ${reps} runs (closed-form maps vs numeric maps):`);
     const over: string[] = [];
+    const tsx = join(process.cwd(), "node_modules/.bin/tsx");
     for (const arm of opw) {
-      const facts = armFacts(arm);
-      const closed: number[] = [],
-        numeric: number[] = [];
-      const numericOptions = { ...DEFAULT_ANALYSIS, speedMap: { closedForm: false } };
-      analyseArm(arm.chain, facts);
-      analyseArm(arm.chain, facts, numericOptions);
-      for (let r = 0; r < reps; r++) {
-        closed.push(timeMs(() => analyseArm(arm.chain, facts)));
-        numeric.push(timeMs(() => analyseArm(arm.chain, facts, numericOptions)));
-      }
-      const mc = median(closed),
-        mn = median(numeric);
+      const file = join(values.arms ?? "arms", `${arm.id}.json`);
+      const r = spawnSync(tsx, [join(process.cwd(), "test/bench/timeClosedForm.ts"), file, String(reps)], {
+        encoding: "utf8",
+      });
+      if (r.status !== 0) throw new Error(`${arm.id}: ${r.stderr}`);
+      const t = JSON.parse(r.stdout.trim().split("\n").pop()!) as { closed: number[]; numeric: number[] };
+      const mc = median(t.closed),
+        mn = median(t.numeric);
       if (mc > 1000) over.push(arm.id);
       console.log(
         `${arm.id.padEnd(28)} ${mc.toFixed(0).padStart(6)} ms  numeric ${mn.toFixed(0).padStart(6)} ms  ratio ${(mc / mn).toFixed(2)}`,

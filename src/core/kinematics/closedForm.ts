@@ -93,6 +93,34 @@ export interface SphericalWristIk {
   readonly kinSol: Float64Array;
   /** The ortho-parallel solver (orthoParallel.ts) where the chain is of that class: the same solutions, faster. */
   readonly orthoParallel: OrthoParallelIk | null;
+  /** State of a first-solution solve by the ortho-parallel solver, and its per-branch step (no closure per call). */
+  readonly firstOnly: FirstOnlyState;
+}
+
+interface FirstOnlyState {
+  out: Float64Array | null;
+  outOffset: number;
+  target: ArrayLike<number> | null;
+  repair: ((q: Float64Array) => boolean) | undefined;
+  kept: number;
+  readonly onBranch: (from: number, count: number) => boolean;
+}
+
+/** The per-branch keep step of a first-solution solve, bound to its solver once. */
+function firstOnlyState(ik: () => SphericalWristIk): FirstOnlyState {
+  const f: FirstOnlyState = {
+    out: null,
+    outOffset: 0,
+    target: null,
+    repair: undefined,
+    kept: 0,
+    onBranch: (from, count) => {
+      const s = ik();
+      f.kept = keepSolutionsInto(f.out!, f.outOffset, s, f.target!, count, s.orthoParallel!.check, f.repair, from, 1);
+      return f.kept > 0;
+    },
+  };
+  return f;
 }
 
 /** Set when a root was taken at (or rounded onto) a double root: its solutions are then checked by forward kinematics. */
@@ -228,8 +256,9 @@ export function sphericalWristIk(chain: Chain): SphericalWristIk | null {
   const e5raw = cross(b5, seedVec),
     e5n = norm(e5raw);
   const e5: Vec3 = [e5raw[0] / e5n, e5raw[1] / e5n, e5raw[2] / e5n];
-  return {
+  const solver: SphericalWristIk = {
     orthoParallel: orthoParallelOf(chain, wInFlange),
+    firstOnly: firstOnlyState(() => solver),
     chain,
     mode,
     r,
@@ -258,6 +287,7 @@ export function sphericalWristIk(chain: Chain): SphericalWristIk | null {
     kinSol: new Float64Array(MAX_CLOSED_FORM_SOLUTIONS * 6),
     q6: new Float64Array(6),
   };
+  return solver;
 }
 
 /**
@@ -317,15 +347,19 @@ export function solveSphericalWristInto(
   const T = baseFromFlangeTarget;
   const op = ik.orthoParallel;
   if (op) {
-    // firstOnly: each branch's pair is kept as it comes, and the first kept one ends the solve.
-    let kept = 0;
-    const first = firstOnly
-      ? (from: number, count: number) =>
-          (kept = keepSolutionsInto(out, outOffset, ik, T, count, op.check, repairNearLimit, from, 1)) > 0
-      : null;
-    const count = orthoParallelKinInto(op, T, ik.kinSol, ik, first);
+    // firstOnly: each branch's pair is kept as it comes (ik.first, made once per solver), and the first kept one
+    // ends the solve.
+    const f = ik.firstOnly;
+    f.out = out;
+    f.outOffset = outOffset;
+    f.target = T;
+    f.repair = repairNearLimit;
+    f.kept = 0;
+    const count = orthoParallelKinInto(op, T, ik.kinSol, ik, firstOnly ? f.onBranch : null);
+    f.target = null;
+    f.out = null;
     if (count < 0) return DEGENERATE;
-    return firstOnly ? kept : keepSolutionsInto(out, outOffset, ik, T, count, op.check, repairNearLimit);
+    return firstOnly ? f.kept : keepSolutionsInto(out, outOffset, ik, T, count, op.check, repairNearLimit);
   }
   nearTangent = false;
   wristNearSingular = false;

@@ -64,7 +64,8 @@ export function closedFormShares(
     for (let k = 0; k < N; k++) {
       let found = -1;
       for (let r = 0; r < rollsRad.length && found < 0; r++) {
-        target.set(frames.subarray((k * R + r) * 16, (k * R + r + 1) * 16));
+        const f0 = (k * R + r) * 16;
+        for (let i = 0; i < 16; i++) target[i] = frames[f0 + i]!;
         target[3] = px;
         target[7] = py;
         target[11] = pz;
@@ -93,7 +94,7 @@ export function closedFormShares(
       hits++;
       for (let i = 0; i < m; i++) last[i] = sol[i]!;
       haveLast = true;
-      if (solutions) solutions.set(sol.subarray(0, m), (node * N + k) * m);
+      if (solutions) for (let i = 0; i < m; i++) solutions[(node * N + k) * m + i] = sol[i]!;
     }
     out.hits[node] = hits;
   }

@@ -23,11 +23,19 @@ interface BestScratch {
   bestG: number;
 }
 
+/** The joints at pool offset `off`, copied into run.qFix (no view allocated per call). */
+function slotJoints(run: MapRun, off: number): Float64Array {
+  const q = run.qFix,
+    pool = run.pool;
+  for (let i = 0; i < run.m; i++) q[i] = pool[off + i]!;
+  return q;
+}
+
 /** Branch code of solution (cell, slot) (measures/branches.ts; forward kinematics into run.kin); 0 without a frame. */
 function slotBranchCode(run: MapRun, cell: number, slot: number): number {
   if (!run.frame) return 0;
   const off = solAt(run, cell * run.K + slot);
-  const t = forwardInto(run.chain, run.pool.subarray(off, off + run.m), run.kin);
+  const t = forwardInto(run.chain, slotJoints(run, off), run.kin);
   const c = run.branchCentre;
   if (!wristCentreInto(c, run.chain, run.kin)) {
     c[0] = t[3]!;
@@ -40,7 +48,7 @@ function slotBranchCode(run: MapRun, cell: number, slot: number): number {
 /** Jacobian of solution (cell, slot) into `out` (forward kinematics into run.kin). */
 function slotJacobianInto(run: MapRun, out: Float64Array, cell: number, slot: number): void {
   const off = solAt(run, cell * run.K + slot);
-  const t = forwardInto(run.chain, run.pool.subarray(off, off + run.m), run.kin);
+  const t = forwardInto(run.chain, slotJoints(run, off), run.kin);
   jacobianInto(out, run.chain, run.kin, t[3]!, t[7]!, t[11]!);
 }
 
@@ -137,7 +145,7 @@ export function mapOutput(run: MapRun): ToolSpeedMap {
     reachable++;
     const best = bestSlot(run, cell, n, b);
     const off = solAt(run, cell * K + best);
-    const q = run.pool.subarray(off, off + m);
+    const q = slotJoints(run, off);
     const t = forwardInto(chain, q, kin);
     if (!b.ready) jacobianInto(b.bestJ, chain, kin, t[3]!, t[7]!, t[11]!);
     // The figure from the same Jacobian when the tie comparison already computed it.
