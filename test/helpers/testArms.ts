@@ -468,3 +468,24 @@ export function cartesianGantry(accel: boolean): ArmKinematicsInput {
     flange: { xyzMm: [0, 0, 0], rpyDeg: [180, 0, 0] },
   };
 }
+
+/** A dimension-drawing arm (convention "dimensions"): the seven lengths, per-joint senses and zero offsets; ±360° ranges. */
+export function dimensionsArmInput(
+  dims: Record<"a1Mm" | "a2Mm" | "bMm" | "c1Mm" | "c2Mm" | "c3Mm" | "c4Mm", number>,
+  sign: readonly number[],
+  zeroOffsetDeg: readonly number[],
+  maxSpeedDegPerS: readonly number[] = [200, 200, 200, 200, 200, 200],
+): ArmKinematicsInput {
+  return {
+    convention: "dimensions",
+    dimensions: dims,
+    joints: sign.map((s, i) => ({
+      name: `J${i + 1}`,
+      kind: "revolute" as const,
+      rangeDeg: [-360, 360],
+      maxSpeedDegPerS: maxSpeedDegPerS[i]!,
+      sign: s,
+      zeroOffsetDeg: zeroOffsetDeg[i],
+    })),
+  };
+}

@@ -31,6 +31,7 @@ import type { Chain } from "./chain";
 import { createScratch, forwardInto } from "./forward";
 import { mulberry32 } from "../math/random";
 import { sameModuloTurns } from "../math/angles";
+import { rotCsInto } from "../math/mat3";
 import { drivenInRangeInto, type KeepContext } from "./closedFormKeep";
 
 /** Result of {@link orthoParallelKinInto} when the pose lies on a family of solutions. */
@@ -98,23 +99,6 @@ function mul4(a: ArrayLike<number>, b: ArrayLike<number>): Float64Array {
       o[i * 4 + j] = v;
     }
   return o;
-}
-
-/** Rodrigues: Rot(k, angle) (unit k) into out (row-major 3×3) from its cosine c and sine s. */
-function rotCsInto(out: Float64Array, o: number, k: ArrayLike<number>, c: number, s: number): void {
-  const x = k[0]!,
-    y = k[1]!,
-    z = k[2]!,
-    t = 1 - c;
-  out[o] = c + t * x * x;
-  out[o + 1] = t * x * y - s * z;
-  out[o + 2] = t * x * z + s * y;
-  out[o + 3] = t * x * y + s * z;
-  out[o + 4] = c + t * y * y;
-  out[o + 5] = t * y * z - s * x;
-  out[o + 6] = t * x * z - s * y;
-  out[o + 7] = t * y * z + s * x;
-  out[o + 8] = c + t * z * z;
 }
 
 /**

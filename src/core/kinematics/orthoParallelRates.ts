@@ -13,6 +13,7 @@
  */
 import type { Chain } from "./chain";
 import type { OrthoParallelIk } from "./orthoParallel";
+import { rotInto } from "../math/mat3";
 
 /** Pivot share below which A or C counts as singular (the 6 × 6 solve's LINE_RATES_REL_TOL, measures/speed.ts). */
 const SINGULAR_REL = 1e-13;
@@ -38,25 +39,6 @@ export function createOrthoRatesScratch(): OrthoRatesScratch {
     b: new Float64Array(18),
     det: NaN,
   };
-}
-
-/** Rodrigues Rot(k, angle) into r[o..o+9) (row-major). */
-function rotInto(r: Float64Array, o: number, k: ArrayLike<number>, angle: number): void {
-  const c = Math.cos(angle),
-    s = Math.sin(angle),
-    t = 1 - c,
-    x = k[0]!,
-    y = k[1]!,
-    z = k[2]!;
-  r[o] = c + t * x * x;
-  r[o + 1] = t * x * y - s * z;
-  r[o + 2] = t * x * z + s * y;
-  r[o + 3] = t * x * y + s * z;
-  r[o + 4] = c + t * y * y;
-  r[o + 5] = t * y * z - s * x;
-  r[o + 6] = t * x * z - s * y;
-  r[o + 7] = t * y * z + s * x;
-  r[o + 8] = c + t * z * z;
 }
 
 /** v[o..o+3) = R·x for R at r[ro..ro+9), x at xs[xo..xo+3) (o may equal xo only when xs ≠ v). */

@@ -38,9 +38,12 @@ export function transpose3(a: ArrayLike<number>): Float64Array {
 
 /** Writes the rotation by `angle` about unit `a` (Rodrigues) into out[o..o+8]. */
 export function rotInto(out: Float64Array, o: number, a: ArrayLike<number>, angle: number): void {
-  const c = Math.cos(angle),
-    s = Math.sin(angle),
-    v = 1 - c,
+  rotCsInto(out, o, a, Math.cos(angle), Math.sin(angle));
+}
+
+/** rotInto from the angle's cosine c and sine s (callers that have them without trigonometry). */
+export function rotCsInto(out: Float64Array, o: number, a: ArrayLike<number>, c: number, s: number): void {
+  const v = 1 - c,
     x = a[0]!,
     y = a[1]!,
     z = a[2]!;

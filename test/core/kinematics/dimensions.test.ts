@@ -47,7 +47,7 @@ import {
   sphericalWristIk,
 } from "../../../src/core/kinematics/closedForm";
 import { expectClose } from "../../helpers/expectClose";
-import { dhFrameReference, flat4, type DhRowSi } from "../../helpers/testArms";
+import { dhFrameReference, dimensionsArmInput, flat4, type DhRowSi } from "../../helpers/testArms";
 import { mulberry32, uniform } from "../../helpers/prng";
 
 const DEG = Math.PI / 180;
@@ -58,18 +58,7 @@ const SIGN = [1, -1, 1, -1, 1, -1] as const;
 const ZERO_OFFSET_DEG = [0, 10, 90, 0, -30, 180] as const;
 
 function dimensionsArm(sign: readonly number[], zeroOffsetDeg: readonly number[]): ArmKinematicsInput {
-  return {
-    convention: "dimensions",
-    dimensions: DIMS,
-    joints: sign.map((s, i) => ({
-      name: `J${i + 1}`,
-      kind: "revolute" as const,
-      rangeDeg: [-360, 360],
-      maxSpeedDegPerS: 200,
-      sign: s,
-      zeroOffsetDeg: zeroOffsetDeg[i],
-    })),
-  };
+  return dimensionsArmInput(DIMS, sign, zeroOffsetDeg);
 }
 
 /** θ = sign·q + zeroOffset (rad). */

@@ -11,27 +11,11 @@ import { compileChain, createScratch, forwardInto, type ArmKinematicsInput, type
 import { sphericalWristIk } from "../../../src/core/kinematics/closedForm";
 import { orthoParallelKinInto, orthoParallelOf } from "../../../src/core/kinematics/orthoParallel";
 import { mulberry32, uniform } from "../../helpers/prng";
+import { dimensionsArmInput } from "../../helpers/testArms";
 
 const DEG = Math.PI / 180;
 
-function dimensionsArm(
-  dims: Record<"a1Mm" | "a2Mm" | "bMm" | "c1Mm" | "c2Mm" | "c3Mm" | "c4Mm", number>,
-  sign: readonly number[],
-  zeroOffsetDeg: readonly number[],
-): ArmKinematicsInput {
-  return {
-    convention: "dimensions",
-    dimensions: dims,
-    joints: sign.map((s, i) => ({
-      name: `J${i + 1}`,
-      kind: "revolute" as const,
-      rangeDeg: [-360, 360],
-      maxSpeedDegPerS: 200,
-      sign: s,
-      zeroOffsetDeg: zeroOffsetDeg[i],
-    })),
-  } as ArmKinematicsInput;
-}
+const dimensionsArm = dimensionsArmInput;
 
 /** Largest joint difference modulo whole turns. */
 function turnDistance(a: ArrayLike<number>, ao: number, b: ArrayLike<number>): number {

@@ -11,7 +11,7 @@ import { sphericalWristIk } from "../../../src/core/kinematics/closedForm";
 import { createOrthoRatesScratch, orthoLineRatesInto } from "../../../src/core/kinematics/orthoParallelRates";
 import { guaranteedFromRates } from "../../../src/core/measures/speed";
 import { determinantInPlace } from "../../../src/core/math/linsolve";
-import { generic6rDh } from "../../helpers/testArms";
+import { dimensionsArmInput, generic6rDh } from "../../helpers/testArms";
 import { mulberry32, uniform } from "../../helpers/prng";
 
 /** 6 × 6 Jacobian (rows vx, vy, vz, ωx, ωy, ωz; flange origin) by central differences of the forward kinematics. */
@@ -39,26 +39,23 @@ function jacobianFd(chain: Chain, q: Float64Array): Float64Array {
 }
 
 function dimensionsArm(rnd: () => number): ArmKinematicsInput {
-  return {
-    convention: "dimensions",
-    dimensions: {
-      a1Mm: uniform(rnd, 0, 300),
-      a2Mm: uniform(rnd, -200, 200),
-      bMm: uniform(rnd, -150, 150),
-      c1Mm: uniform(rnd, 200, 800),
-      c2Mm: uniform(rnd, 300, 1200),
-      c3Mm: uniform(rnd, 300, 1400),
-      c4Mm: uniform(rnd, 50, 250),
-    },
-    joints: Array.from({ length: 6 }, (_, i) => ({
-      name: `J${i + 1}`,
-      kind: "revolute" as const,
-      rangeDeg: [-360, 360],
-      maxSpeedDegPerS: uniform(rnd, 100, 400),
-      sign: rnd() < 0.5 ? -1 : 1,
-      zeroOffsetDeg: Math.round(uniform(rnd, -180, 180)),
-    })),
-  } as ArmKinematicsInput;
+  const dims = {
+    a1Mm: uniform(rnd, 0, 300),
+    a2Mm: uniform(rnd, -200, 200),
+    bMm: uniform(rnd, -150, 150),
+    c1Mm: uniform(rnd, 200, 800),
+    c2Mm: uniform(rnd, 300, 1200),
+    c3Mm: uniform(rnd, 300, 1400),
+    c4Mm: uniform(rnd, 50, 250),
+  };
+  const sign = Array.from({ length: 6 }, () => (rnd() < 0.5 ? -1 : 1));
+  const offset = Array.from({ length: 6 }, () => Math.round(uniform(rnd, -180, 180)));
+  return dimensionsArmInput(
+    dims,
+    sign,
+    offset,
+    Array.from({ length: 6 }, () => uniform(rnd, 100, 400)),
+  );
 }
 
 describe("orthoLineRatesInto: joint rates at constant orientation from the decoupled Jacobian", () => {
