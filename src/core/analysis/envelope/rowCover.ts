@@ -4,6 +4,18 @@
  * Rows are created on demand. Used by the workspace envelope to accumulate unions of many polygons cheaply:
  * inserting an interval costs a binary search and a splice, independent of its length.
  */
+/** Index of the first of the n intervals in v (pairs start, end) whose end is ≥ x, searched from `from`; n when none. */
+function firstEndingAtOrAfter(v: ArrayLike<number>, n: number, x: number, from = 0): number {
+  let lo = from,
+    hi = n;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (v[2 * mid + 1]! < x) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
+
 export class RowCover {
   /** y of row 0 (mm). */
   readonly y0: number;
@@ -81,14 +93,7 @@ export class RowCover {
     if (k < 0 || k >= this.data.length) return false;
     const v = this.data[k]!,
       n = this.size[k]! >> 1;
-    // first interval whose end ≥ a
-    let lo = 0,
-      hi = n;
-    while (lo < hi) {
-      const mid = (lo + hi) >> 1;
-      if (v[2 * mid + 1]! < a) lo = mid + 1;
-      else hi = mid;
-    }
+    const lo = firstEndingAtOrAfter(v, n, a);
     return lo < n && v[2 * lo]! <= a && v[2 * lo + 1]! >= b;
   }
 
@@ -120,20 +125,9 @@ export class RowCover {
         n = this.size[k]! >> 1;
       if (n === 0 || v[0]! > -b || v[2 * n - 1]! < b) return false;
       // first interval whose end ≥ −b, then the first whose end ≥ a
-      let lo = 0,
-        hi = n;
-      while (lo < hi) {
-        const mid = (lo + hi) >> 1;
-        if (v[2 * mid + 1]! < -b) lo = mid + 1;
-        else hi = mid;
-      }
+      let lo = firstEndingAtOrAfter(v, n, -b);
       if (!(v[2 * lo]! <= -b && v[2 * lo + 1]! >= -a)) return false;
-      hi = n;
-      while (lo < hi) {
-        const mid = (lo + hi) >> 1;
-        if (v[2 * mid + 1]! < a) lo = mid + 1;
-        else hi = mid;
-      }
+      lo = firstEndingAtOrAfter(v, n, a, lo);
       if (!(lo < n && v[2 * lo]! <= a && v[2 * lo + 1]! >= b)) return false;
     }
     return true;
@@ -143,13 +137,7 @@ export class RowCover {
   private symmetricRadius(k: number): number {
     const v = this.data[k]!,
       n = this.size[k]! >> 1;
-    let lo = 0,
-      hi = n;
-    while (lo < hi) {
-      const mid = (lo + hi) >> 1;
-      if (v[2 * mid + 1]! < 0) lo = mid + 1;
-      else hi = mid;
-    }
+    const lo = firstEndingAtOrAfter(v, n, 0);
     return lo < n && v[2 * lo]! <= 0 ? Math.min(-v[2 * lo]!, v[2 * lo + 1]!) : -Infinity;
   }
 
@@ -161,13 +149,7 @@ export class RowCover {
     let v = this.data[k]!;
     const len = this.size[k]!;
     const n = len >> 1;
-    let lo = 0,
-      hi = n;
-    while (lo < hi) {
-      const mid = (lo + hi) >> 1;
-      if (v[2 * mid + 1]! < a) lo = mid + 1;
-      else hi = mid;
-    }
+    const lo = firstEndingAtOrAfter(v, n, a);
     // intervals lo … last-1 overlap [a, b]
     let last = lo;
     let s = a,
