@@ -80,6 +80,9 @@ export interface OrthoParallelIk {
   stopped: boolean;
   /** Set when skipSingularWrist left a branch out. */
   partial: boolean;
+  /** The target being solved, and whether H = R_target·K is in the work buffer for it. */
+  target: ArrayLike<number> | null;
+  hReady: boolean;
   /** The target's wrist centre relative to axis 1 and its component along d₁. */
   readonly u: Float64Array;
   readonly work: Float64Array;
@@ -191,6 +194,8 @@ export function orthoParallelOf(chain: Chain, wInFlange: ArrayLike<number>): Ort
     check: false,
     stopped: false,
     partial: false,
+    target: null,
+    hReady: false,
     u: new Float64Array(4),
     work: new Float64Array(40),
   };
@@ -337,24 +342,32 @@ export function orthoParallelFamilyInto(
 }
 
 /**
- * The target's wrist centre relative to axis 1, u = P − p₁, into ik.u (u[3] = u·d₁), and H = R_target·K into the
- * work buffer (shared by every branch); resets ik.check.
+ * The target's wrist centre relative to axis 1, u = P − p₁, into ik.u (u[3] = u·d₁); H = R_target·K (shared by every
+ * branch) is left to hInto, for targets whose position is reached at all; resets ik.check.
  */
 function targetInto(ik: OrthoParallelIk, T: ArrayLike<number>): Float64Array {
   ik.check = false;
-  const w = ik.work,
-    wf = ik.wInFlange,
+  const wf = ik.wInFlange,
     d1 = ik.d1,
-    K = ik.K,
     u = ik.u;
   u[0] = T[0]! * wf[0]! + T[1]! * wf[1]! + T[2]! * wf[2]! + T[3]! - ik.p1[0]!;
   u[1] = T[4]! * wf[0]! + T[5]! * wf[1]! + T[6]! * wf[2]! + T[7]! - ik.p1[1]!;
   u[2] = T[8]! * wf[0]! + T[9]! * wf[1]! + T[10]! * wf[2]! + T[11]! - ik.p1[2]!;
   u[3] = u[0]! * d1[0]! + u[1]! * d1[1]! + u[2]! * d1[2]!;
+  ik.target = T;
+  ik.hReady = false;
+  return u;
+}
+
+/** H = R_target·K into the work buffer, once per target, when a branch first needs its wrist. */
+function hInto(ik: OrthoParallelIk): void {
+  const w = ik.work,
+    K = ik.K,
+    T = ik.target!;
   for (let i = 0; i < 3; i++)
     for (let j = 0; j < 3; j++)
       w[W_H + i * 3 + j] = T[i * 4]! * K[j]! + T[i * 4 + 1]! * K[3 + j]! + T[i * 4 + 2]! * K[6 + j]!;
-  return u;
+  ik.hReady = true;
 }
 
 /**
@@ -394,6 +407,7 @@ function armBranchesInto(
     qy = qx0 * ik.e2[0]! + qy0 * ik.e2[1]! + qz0 * ik.e2[2]!;
   if (qx * qx + qy * qy < ik.tiny * ik.tiny) return DEGENERATE;
   const n3 = sinusoidRoots(ik, w, W_B, a3, b3, 0.5 * (qx * qx + qy * qy - ll), ik.tiny * ik.tiny);
+  if (n3 <= 0) return count;
   rotCsInto(w, W_R1, d1, c1, s1);
   for (let i3 = 0; i3 < n3; i3++) {
     const beta = w[W_B + i3]!,
@@ -452,6 +466,7 @@ function wristInto(
   const w = ik.work,
     E = ik.E;
   // G = Rot(d₁,θ₁)·Rot(d₂,φ)·E row by row; the wrist's M = Gᵀ·H needs entries (0,0), (1,0), (2,0), (0,1), (0,2).
+  if (!ik.hReady) hInto(ik);
   rotCsInto(w, W_R2, ik.d2, cphi, sphi);
   let m00 = 0,
     m10 = 0,
