@@ -96,15 +96,10 @@ const E3 = 0, // p₃' − p₁ before R₁: R₂(p₃ − p₂) + (p₂ − p�
   OC = 63;
 
 /**
- * B and det J at driven joint values q (rad) into s.b, s.det; false at a singular pose (A or C without a pivot above
- * SINGULAR_REL of its scale: B is then not written, det is 0). Allocates nothing.
+ * The joint axes and points at driven joint values q into s.v: A's columns, the axes w₁…w₆, and the cross products
+ * of A's and C's columns (A⁻¹ and C⁻¹ rows times their determinants). Returns det A; det C is v[W4]·v[K23].
  */
-export function orthoLineRatesInto(
-  ik: OrthoParallelIk,
-  chain: Chain,
-  q: ArrayLike<number>,
-  s: OrthoRatesScratch,
-): boolean {
+function decoupledInto(ik: OrthoParallelIk, chain: Chain, q: ArrayLike<number>, s: OrthoRatesScratch): number {
   const th = s.th,
     g = chain.couplingGain,
     off = chain.couplingOffset,
@@ -157,7 +152,28 @@ export function orthoLineRatesInto(
   crossAt(v, K23, W5, W6);
   crossAt(v, K31, W6, W4);
   crossAt(v, K12, W4, W5);
-  const detA = dotAt(v, A1, C23),
+  return dotAt(v, A1, C23);
+}
+
+/** det J (flange rows v, ω; driven joints) at q from the decoupled form: det A·det C. Allocates nothing. */
+export function orthoDet(ik: OrthoParallelIk, chain: Chain, q: ArrayLike<number>, s: OrthoRatesScratch): number {
+  const detA = decoupledInto(ik, chain, q, s);
+  return detA * dotAt(s.v, W4, K23);
+}
+
+/**
+ * B and det J at driven joint values q (rad) into s.b, s.det; false at a singular pose (A or C without a pivot above
+ * SINGULAR_REL of its scale: B is then not written, det is 0). Allocates nothing.
+ */
+export function orthoLineRatesInto(
+  ik: OrthoParallelIk,
+  chain: Chain,
+  q: ArrayLike<number>,
+  s: OrthoRatesScratch,
+): boolean {
+  const v = s.v,
+    g = chain.couplingGain;
+  const detA = decoupledInto(ik, chain, q, s),
     detC = dotAt(v, W4, K23);
   const scaleA = Math.max(Math.sqrt(dotAt(v, A1, A1)), Math.sqrt(dotAt(v, A2, A2)), Math.sqrt(dotAt(v, A3, A3)));
   if (!(Math.abs(detA) > SINGULAR_REL * scaleA * scaleA * scaleA) || !(Math.abs(detC) > SINGULAR_REL)) {

@@ -16,6 +16,8 @@ import {
   type SingularityKind,
 } from "../../measures/singularity";
 import { solAt, type MapRun } from "./state";
+import { sphericalWristIk } from "../../kinematics/closedForm";
+import { createOrthoRatesScratch, orthoDet } from "../../kinematics/orthoParallelRates";
 import type { SheetData } from "./types";
 import { taskMatrixInto } from "./taskMatrix";
 
@@ -56,7 +58,17 @@ export function createCrossingNullMotion(
     jacobianInto(j, chain, kin, f[3]!, f[7]!, f[11]!);
     taskMatrixInto(task, j, m, lengthM, f);
   };
+  // The ortho-parallel class: det J from the decoupled form (kinematics/orthoParallelRates.ts), without forward
+  // kinematics or a 6 × 6 elimination; divided by L³ it is the task matrix's determinant (its linear rows are J's
+  // over L), so the search visits the same points.
+  const opw = m === 6 ? (sphericalWristIk(chain)?.orthoParallel ?? null) : null;
+  const rates = opw ? createOrthoRatesScratch() : null;
+  const lengthCubed = lengthM * lengthM * lengthM;
   const detAt = (qa: ArrayLike<number>, qb: ArrayLike<number>, t: number) => {
+    if (opw) {
+      for (let i = 0; i < m; i++) q[i] = qa[i]! + t * (qb[i]! - qa[i]!);
+      return orthoDet(opw, chain, q, rates!) / lengthCubed;
+    }
     taskAt(qa, qb, t);
     work.set(task);
     return determinantInPlace(work, m);
