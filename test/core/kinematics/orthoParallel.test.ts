@@ -11,7 +11,14 @@ import { compileChain, createScratch, forwardInto, type ArmKinematicsInput, type
 import { sphericalWristIk } from "../../../src/core/kinematics/closedForm";
 import { orthoParallelKinInto, orthoParallelOf } from "../../../src/core/kinematics/orthoParallel";
 import { mulberry32, uniform } from "../../helpers/prng";
-import { dimensionsArmInput } from "../../helpers/testArms";
+import {
+  dimensionsArmInput,
+  generic6rDh,
+  generic6rFramesFromDh,
+  generic6rFramesUrdfStyle,
+  generic6rMdh,
+  Q_STAR,
+} from "../../helpers/testArms";
 
 const DEG = Math.PI / 180;
 
@@ -137,6 +144,18 @@ describe("orthoParallel: the closed form of the dimension-drawing class", () => 
         expect(nearest, `arm ${arm}, pose ${t}`).toBeLessThan(1e-9);
         expect(maxPoseError(chain, sol, count, target)).toBeLessThan(1e-9);
       }
+    }
+  });
+
+  it("finds the class whatever the arm file's convention: the CHECKS §0 6R as dh, mdh, frames and URDF-style frames", () => {
+    const q = Float64Array.from(Q_STAR);
+    for (const input of [generic6rDh(), generic6rMdh(), generic6rFramesFromDh(), generic6rFramesUrdfStyle()]) {
+      const chain = compileChain(input);
+      expect(sphericalWristIk(chain)?.orthoParallel).toBeTruthy();
+      const { count, sol, target } = solveBack(chain, q);
+      const nearest = Math.min(...Array.from({ length: count }, (_, s) => turnDistance(sol, s * 6, q)));
+      expect(nearest).toBeLessThan(1e-9);
+      expect(maxPoseError(chain, sol, count, target)).toBeLessThan(1e-9);
     }
   });
 
