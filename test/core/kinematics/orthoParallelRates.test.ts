@@ -60,11 +60,22 @@ function dimensionsArm(rnd: () => number): ArmKinematicsInput {
 
 describe("orthoLineRatesInto: joint rates at constant orientation from the decoupled Jacobian", () => {
   const rnd = mulberry32(31);
+  // The CHECKS §0 6R with joint 3 read from the horizontal (q₃_kin = q₃ − q₂: a coupling on a driven joint).
+  const coupledInput = generic6rDh();
+  const coupled = compileChain({
+    ...coupledInput,
+    joints: coupledInput.joints.map((j, i) =>
+      i === 2 ? { ...j, coupling: { terms: [{ joint: "j2", gain: -1 }] } } : j,
+    ),
+  });
   const chains: Chain[] = [
     compileChain(generic6rDh()),
+    coupled,
     ...Array.from({ length: 8 }, () => compileChain(dimensionsArm(rnd))),
   ];
   it("J·B = [I; 0] and det J against the finite-difference Jacobian, at random poses", () => {
+    // The coupling is there: joint 3's kinematic value follows joint 2.
+    expect(coupled.couplingGain[2 * 6 + 1]).toBe(-1);
     let checked = 0;
     for (const chain of chains) {
       const op = sphericalWristIk(chain)?.orthoParallel;
