@@ -359,7 +359,10 @@ export function solveSphericalWristInto(
     f.target = null;
     f.out = null;
     if (count < 0) return DEGENERATE;
-    return firstOnly ? f.kept : keepSolutionsInto(out, outOffset, ik, T, count, op.check, repairNearLimit);
+    // Away from double roots and the wrist-singular pose (op.check) its roots lie ≥ 3e-5 rad apart: distinct.
+    return firstOnly
+      ? f.kept
+      : keepSolutionsInto(out, outOffset, ik, T, count, op.check, repairNearLimit, 0, Infinity, !op.check);
   }
   nearTangent = false;
   wristNearSingular = false;

@@ -18,7 +18,7 @@ export interface KeepContext {
 /**
  * Driven values of kinematic solutions `from`..`count` − 1 in ctx.kinSol, inside the ranges, checked by forward
  * kinematics when `check`, without repeats, written to out from `outOffset`; returns how many were kept (at most
- * `limit`).
+ * `limit`). `distinct`: the solver guarantees its solutions differ by more than the repeat tolerance (1e-6 rad).
  */
 export function keepSolutionsInto(
   out: Float64Array,
@@ -30,6 +30,7 @@ export function keepSolutionsInto(
   repairNearLimit: ((q: Float64Array) => boolean) | undefined,
   from = 0,
   limit = Infinity,
+  distinct = false,
 ): number {
   let kept = 0;
   const q = ctx.q6;
@@ -37,8 +38,9 @@ export function keepSolutionsInto(
     if (!drivenInRangeInto(q, ctx.chain, ctx.kinSol, s)) continue;
     if (clampedOntoLimit ? !reachesTarget(ctx, q, T) && !repairNearLimit?.(q) : check && !reachesTarget(ctx, q, T))
       continue;
-    // Distinct modulo whole turns (double roots at the edge of reach come out twice).
-    if (isRepeat(out, outOffset, kept, q)) continue;
+    // Distinct modulo whole turns (double roots at the edge of reach come out twice); a solver that vouches for
+    // distinct solutions (`distinct`) is taken at its word unless a value was put onto a limit.
+    if ((!distinct || clampedOntoLimit) && isRepeat(out, outOffset, kept, q)) continue;
     const o = outOffset + kept * 6;
     for (let i = 0; i < 6; i++) out[o + i] = q[i]!;
     kept++;
@@ -60,12 +62,14 @@ export function drivenInRangeInto(q: Float64Array, chain: Chain, kinSol: Float64
     lo = chain.lowerSi,
     hi = chain.upperSi;
   let inRange = true;
+  const coupled = couplesDrivenJoints(chain);
   for (let i = 0; i < joints; i++) {
     let v = kinSol[s * 6 + i]! - off[i]!;
-    for (let j = 0; j < i; j++) {
-      const gij = g[i * 6 + j]!;
-      if (gij !== 0) v -= gij * q[j]!;
-    }
+    if (coupled)
+      for (let j = 0; j < i; j++) {
+        const gij = g[i * 6 + j]!;
+        if (gij !== 0) v -= gij * q[j]!;
+      }
     q[i] = v;
   }
   clampedOntoLimit = false;
@@ -81,6 +85,26 @@ export function drivenInRangeInto(q: Float64Array, chain: Chain, kinSol: Float64
     else q[i] = v;
   }
   return inRange;
+}
+
+/** Chains whose coupling matrix G has an entry below its diagonal (a joint read against another), by chain. */
+const coupledChains = new WeakMap<Chain, boolean>();
+let lastChain: Chain | null = null,
+  lastCoupled = false;
+
+/** Whether G (6 × 6, unit lower triangular here) has an off-diagonal entry; remembered per chain. */
+function couplesDrivenJoints(chain: Chain): boolean {
+  if (chain === lastChain) return lastCoupled;
+  let c = coupledChains.get(chain);
+  if (c === undefined) {
+    const g = chain.couplingGain;
+    c = false;
+    for (let i = 0; i < 6; i++) for (let j = 0; j < i; j++) if (g[i * 6 + j] !== 0) c = true;
+    coupledChains.set(chain, c);
+  }
+  lastChain = chain;
+  lastCoupled = c;
+  return c;
 }
 
 /** Whether the flange at driven values q lies on target T (position to 1 µm, rotation entries to 1e-5). */

@@ -15,6 +15,7 @@ import {
   push,
   setTargetInto,
   solAt,
+  storeClosed,
   storeQ,
   union,
   unionTwins,
@@ -72,8 +73,10 @@ export function flood(run: MapRun): void {
       for (let k = 0; k < held; k++) if (find(run, next * K + k) === root) mine = true;
       if (mine) continue;
       const nClosed = run.closedContinuation ? closedAt(run, next) : -1;
+      let closedIdx = -1;
       if (nClosed >= 0) {
-        if (!nearestClosedInto(run, qTry, next, nClosed, qSeed)) continue;
+        closedIdx = nearestClosedInto(run, qTry, next, nClosed, qSeed);
+        if (closedIdx < 0) continue;
       } else {
         setTargetInto(run, run.target, next);
         // First-order predictor q + B·Δp: where the solver's first (damped) step from q would go, without
@@ -95,7 +98,7 @@ export function flood(run: MapRun): void {
       let jump = 0;
       for (let i = 0; i < m; i++) jump = Math.max(jump, Math.abs(qTry[i]! - qSeed[i]!));
       const continuous = jump < MAX_CONTINUATION_JUMP_RAD;
-      const s2 = storeQ(run, next, qTry);
+      const s2 = closedIdx >= 0 ? storeClosed(run, next, closedIdx, qTry) : storeQ(run, next, qTry);
       if (s2 >= 0) {
         if (continuous) union(run, fromIdx, next * K + s2);
         push(run, next, s2);

@@ -5,7 +5,7 @@
 import { solveIkInto } from "../../kinematics/inverse";
 import { mulberry32 } from "../../math/random";
 import { flood } from "./continuation";
-import { closedAt, pairTwin, push, setTargetInto, storeQ, type MapRun } from "./state";
+import { closedAt, pairTwin, push, setTargetInto, storeClosed, storeQ, type MapRun } from "./state";
 
 /** Stores every closed-form solution of a cell not held yet and floods from it; false when not available there. */
 function discoverClosed(run: MapRun, cell: number): boolean {
@@ -15,7 +15,7 @@ function discoverClosed(run: MapRun, cell: number): boolean {
   for (let k = 0; k < n; k++) {
     const off = (run.closedFirst[cell]! + k) * m;
     for (let i = 0; i < m; i++) qTry[i] = run.closedSol![off + i]!;
-    const slot = storeQ(run, cell, qTry);
+    const slot = storeClosed(run, cell, k, qTry);
     if (slot >= 0) {
       push(run, cell, slot);
       pairTwin(run, cell, slot);

@@ -126,6 +126,8 @@ export interface MapRun {
   closedSol: Float64Array | null;
   closedPooled: number;
   readonly closedFirst: Int32Array;
+  /** closedSlot[cell·8 + k]: the slot closed-form solution k of the cell is stored in, −1 before (storeClosed). */
+  readonly closedSlot: Int8Array;
   readonly closedCount: Int8Array | null;
   readonly closedTarget: Float64Array;
   /** Decoupled joint rates of the ortho-parallel class (closed form only): the figures of exact solutions. */
@@ -256,6 +258,7 @@ export function createMapRun(
     closedSol: closed ? ws.f64("closedSol", Math.max(cells, 1024) * m) : null,
     closedPooled: 0,
     closedFirst: ws.i32("closedFirst", closed ? cells : 0),
+    closedSlot: ws.i8("closedSlot", closed ? cells * MAX_CLOSED_FORM_SOLUTIONS : 0).fill(-1),
     closedCount: closed ? ws.i8("closedCount", cells).fill(-2) : null,
     closedTarget,
     rates:
@@ -427,14 +430,11 @@ export function solvedInClosedForm(run: MapRun, cell: number): boolean {
   return run.closedContinuation && run.options.discoverEveryCell !== false && run.closedCount![cell]! >= 0;
 }
 
-/** The closed-form solution at `cell` nearest to `seed` (largest joint difference, revolute joints by whole turns) into `out`. */
-export function nearestClosedInto(
-  run: MapRun,
-  out: Float64Array,
-  cell: number,
-  n: number,
-  seed: Float64Array,
-): boolean {
+/**
+ * The closed-form solution at `cell` nearest to `seed` (largest joint difference, revolute joints by whole turns) into
+ * `out`; returns its index among the cell's closed-form solutions, −1 when there is none.
+ */
+export function nearestClosedInto(run: MapRun, out: Float64Array, cell: number, n: number, seed: Float64Array): number {
   const { m, wraps, chain } = run;
   let bestJump = Infinity,
     best = -1;
@@ -457,12 +457,29 @@ export function nearestClosedInto(
       best = k;
     }
   }
-  if (best < 0) return false;
+  if (best < 0) return -1;
   const off = (run.closedFirst[cell]! + best) * m;
   for (let i = 0; i < m; i++) {
     const v = sols[off + i]!,
       s = seed[i]!;
     out[i] = Math.abs(v - s) <= Math.PI || !wraps[i] ? v : wrapNear(v, s, chain.lowerSi[i]!, chain.upperSi[i]!);
   }
-  return true;
+  return best;
+}
+
+/**
+ * storeQ for closed-form solution `k` of `cell` (in q): the slot it was stored in before is remembered
+ * (run.closedSlot), so a second arrival costs no comparison; returns as storeQ does (the slot, or −1 with
+ * run.lastEqual set).
+ */
+export function storeClosed(run: MapRun, cell: number, k: number, q: Float64Array): number {
+  const at = cell * MAX_CLOSED_FORM_SOLUTIONS + k;
+  const known = run.closedSlot[at]!;
+  if (known >= 0) {
+    run.lastEqual = known;
+    return -1;
+  }
+  const slot = storeQ(run, cell, q);
+  run.closedSlot[at] = slot >= 0 ? slot : run.lastEqual;
+  return slot;
 }
