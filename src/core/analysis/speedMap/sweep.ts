@@ -6,7 +6,8 @@
  * nearest its flange is not full, inverse kinematics from it snaps it to that cell, and a solution on a new sheet
  * floods it (continuation.ts). Before the sweep, discoverAlongAxis seeds the columns at r ≤ 0 directly (samples
  * rarely land there). Deterministic: the samples come from the seeded generator. Test: sweep.test.ts (the issue's
- * reproductions, Monte Carlo coverage).
+ * reproductions, Monte Carlo coverage). Maps solved in closed form (ortho-parallel class) skip both: discoverFamilies
+ * solves the cells the closed form leaves (a family of solutions on axis 1) directly.
  */
 import { createScratch, forwardInto } from "../../kinematics/forward";
 import { keepSolutionsInto, type KeepContext } from "../../kinematics/closedFormKeep";
@@ -216,7 +217,7 @@ export function discoverAlongAxis(run: MapRun): void {
   }
 }
 
-/** Values of joint 1 tried on a family of solutions (discoverFamilies): every 10° over a full turn. */
+/** Values of joint 1 tried on a family of solutions (discoverFamilies), spread over its range: 10° apart over a turn. */
 export const FAMILY_SAMPLES = 37;
 
 /**
