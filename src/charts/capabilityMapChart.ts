@@ -9,7 +9,7 @@ import { dilateGrid, gridBands, polygonsPath, presentRegion, type GridData, type
 import { legendRows, legendSvg, stepScaleSvg, type LegendItem } from "./legend";
 import { mappedBox, mappedRect, MIN_MAP_WIDTH_PX, sideMapLayout, SPEED_MAP_WIDTH_PX } from "./speedMapChart";
 import { CAPABILITY_BANDS, capabilityBandClass } from "./theme";
-import { el, fmt, label, svgRoot, type ChartResult } from "./svg";
+import { axis1LineSvg, el, label, svgRoot, type ChartResult } from "./svg";
 
 export interface CapabilityMapChartInput {
   readonly id: string;
@@ -110,10 +110,7 @@ export function capabilityMapChart(input: CapabilityMapChartInput): ChartResult 
       parts.push(el("path", { class: "tool-down-outline", d, "fill-rule": "evenodd", "clip-path": `url(#${clipId})` }));
   }
   if (axisShown) {
-    const ax = x(0);
-    parts.push(
-      el("line", { class: "axis1", x1: fmt(ax), x2: fmt(ax), y1: fmt(area.top), y2: fmt(area.top + area.height) }),
-    );
+    parts.push(axis1LineSvg(x(0), area));
   }
   parts.push(mappedRect(box, x, y, "mapped-area"));
 

@@ -6,7 +6,7 @@ import { axisBottomSvg, axisLeftSvg } from "./axes";
 import { polygonsExtent, polygonsPath, type PointData, type PolygonData } from "./geometry";
 import { DEFAULT_MARGINS, equalScale } from "./layout";
 import { legendRows, legendSvg, type LegendItem } from "./legend";
-import { el, fmt, label, svgRoot, textEl, type ChartResult } from "./svg";
+import { axis1LineSvg, el, fmt, label, svgRoot, textEl, type ChartResult } from "./svg";
 
 export type EnvelopeLayoutKind = "revolute-base" | "prismatic-base" | "base-frame";
 
@@ -105,9 +105,7 @@ export function envelopeChart(input: EnvelopeChartInput): ChartResult {
   }
   if (side && revolute) {
     const ax = x(0);
-    parts.push(
-      el("line", { class: "axis1", x1: fmt(ax), x2: fmt(ax), y1: fmt(area.top), y2: fmt(area.top + area.height) }),
-    );
+    parts.push(axis1LineSvg(ax, area));
     parts.push(textEl("axis 1", { class: "mark-label", x: fmt(ax + 4), y: fmt(area.top + 12) }));
     if (x0 < -0.05 * (x1 - x0)) {
       parts.push(

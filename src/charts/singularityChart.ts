@@ -16,7 +16,7 @@ import type { EnvelopeLayoutKind } from "./envelopeChart";
 import { MIN_MAP_WIDTH_PX, mappedBox, mappedRect, sideMapLayout } from "./speedMapChart";
 import { legendRows, legendSvg, type LegendItem } from "./legend";
 import { LOCUS_KINDS, LOCUS_LABEL, NEAR_SINGULAR_INVERSE_CONDITION, locusClass, type LocusKind } from "./theme";
-import { el, fmt, label, svgRoot, textEl, type ChartResult } from "./svg";
+import { axis1LineSvg, el, fmt, label, svgRoot, textEl, type ChartResult } from "./svg";
 
 export interface LocusData {
   readonly kind: string;
@@ -140,10 +140,7 @@ export function singularityChart(input: SingularityChartInput): ChartResult {
       }),
     );
   if (showAxis1) {
-    const ax = x(0);
-    parts.push(
-      el("line", { class: "axis1", x1: fmt(ax), x2: fmt(ax), y1: fmt(area.top), y2: fmt(area.top + area.height) }),
-    );
+    parts.push(axis1LineSvg(x(0), area));
   }
   for (const k of kinds) {
     const d = polylinesPath(byKind.get(k)!, x, y);

@@ -10,7 +10,7 @@ import type { ScaleLinear } from "d3-scale";
 import { legendRows, legendSvg, stepScaleSvg, type LegendItem } from "./legend";
 import type { EnvelopeLayoutKind } from "./envelopeChart";
 import { SPEED_BANDS_M_PER_S, speedBandClass } from "./theme";
-import { el, fmt, label, svgRoot, type ChartResult } from "./svg";
+import { axis1LineSvg, el, fmt, label, svgRoot, type ChartResult } from "./svg";
 
 export interface SpeedMapChartInput {
   readonly id: string;
@@ -165,10 +165,7 @@ export function speedMapChart(input: SpeedMapChartInput): ChartResult {
     if (d) parts.push(el("path", { class: "env-outline", d, "fill-rule": "evenodd", "clip-path": `url(#${clipId})` }));
   }
   if (revolute && box.x0 <= 0 && box.x1 >= 0) {
-    const ax = x(0);
-    parts.push(
-      el("line", { class: "axis1", x1: fmt(ax), x2: fmt(ax), y1: fmt(area.top), y2: fmt(area.top + area.height) }),
-    );
+    parts.push(axis1LineSvg(x(0), area));
   }
   parts.push(mappedRect(box, x, y, "mapped-area"));
 

@@ -127,3 +127,8 @@ export function label(value: number, digits = 0): string {
   const text = value.toLocaleString("en", { maximumFractionDigits: digits, minimumFractionDigits: 0 });
   return text === "-0" ? "0" : text.replace(/^-/, "\u2212");
 }
+
+/** The line of axis 1 at x = xPx across the plot area (the side views draw it where r = 0). */
+export function axis1LineSvg(xPx: number, area: { readonly top: number; readonly height: number }): string {
+  return el("line", { class: "axis1", x1: fmt(xPx), x2: fmt(xPx), y1: fmt(area.top), y2: fmt(area.top + area.height) });
+}

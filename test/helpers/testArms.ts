@@ -17,6 +17,7 @@
  */
 import * as math from "mathjs";
 import type { ArmKinematicsInput, JointInput } from "../../src/core";
+import { uniform } from "./prng";
 
 /** Standard-DH row in SI (m, rad). */
 export interface DhRowSi {
@@ -488,4 +489,25 @@ export function dimensionsArmInput(
       zeroOffsetDeg: zeroOffsetDeg[i],
     })),
   };
+}
+
+/**
+ * A dimension-drawing arm with random lengths (mm: a1 0–300, a2 ±200, b ±150, c1 200–800, c2 300–1 200,
+ * c3 300–1 400, c4 50–250), random joint senses and whole-degree zero offsets (±180°), drawn from `rnd` in that
+ * order; joint speeds 200°/s, or drawn after the rest from 100–400°/s with `randomSpeeds`.
+ */
+export function randomDimensionsArm(rnd: () => number, randomSpeeds = false): ArmKinematicsInput {
+  const dims = {
+    a1Mm: uniform(rnd, 0, 300),
+    a2Mm: uniform(rnd, -200, 200),
+    bMm: uniform(rnd, -150, 150),
+    c1Mm: uniform(rnd, 200, 800),
+    c2Mm: uniform(rnd, 300, 1200),
+    c3Mm: uniform(rnd, 300, 1400),
+    c4Mm: uniform(rnd, 50, 250),
+  };
+  const sign = Array.from({ length: 6 }, () => (rnd() < 0.5 ? -1 : 1));
+  const offset = Array.from({ length: 6 }, () => Math.round(uniform(rnd, -180, 180)));
+  const speeds = randomSpeeds ? Array.from({ length: 6 }, () => uniform(rnd, 100, 400)) : undefined;
+  return dimensionsArmInput(dims, sign, offset, speeds);
 }

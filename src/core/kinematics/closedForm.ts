@@ -44,7 +44,7 @@ import {
   type Vec3,
 } from "../math/mat3";
 export { wrapNear } from "../math/angles";
-import { drivenInRangeInto, keepSolutionsInto } from "./closedFormKeep";
+import { couplesDrivenJoints, drivenInRangeInto, keepSolutionsInto } from "./closedFormKeep";
 export { RANGE_MARGIN_RAD } from "./closedFormKeep";
 import { orthoParallelKinInto, orthoParallelOf, type OrthoParallelIk } from "./orthoParallel";
 
@@ -91,6 +91,8 @@ export interface SphericalWristIk {
   /** Work buffers. */
   readonly work: Float64Array;
   readonly kinSol: Float64Array;
+  /** Whether a driven joint is read against another (closedFormKeep.ts couplesDrivenJoints). */
+  readonly coupled: boolean;
   /** The ortho-parallel solver (orthoParallel.ts) where the chain is of that class: the same solutions, faster. */
   readonly orthoParallel: OrthoParallelIk | null;
   /** State of a first-solution solve by the ortho-parallel solver, and its per-branch step (no closure per call). */
@@ -257,6 +259,7 @@ export function sphericalWristIk(chain: Chain): SphericalWristIk | null {
     e5n = norm(e5raw);
   const e5: Vec3 = [e5raw[0] / e5n, e5raw[1] / e5n, e5raw[2] / e5n];
   const solver: SphericalWristIk = {
+    coupled: couplesDrivenJoints(chain),
     orthoParallel: orthoParallelOf(chain, wInFlange),
     firstOnly: firstOnlyState(() => solver),
     chain,
@@ -648,7 +651,7 @@ function branchInRange(ik: SphericalWristIk, s: number, q0: number, q1: number, 
   ik.kinSol[s * 6] = q0;
   ik.kinSol[s * 6 + 1] = q1;
   ik.kinSol[s * 6 + 2] = q2;
-  return drivenInRangeInto(ik.q6, ik.chain, ik.kinSol, s, 3);
+  return drivenInRangeInto(ik.q6, ik.chain, ik.kinSol, s, 3, ik.coupled);
 }
 
 /** h(q0) of the general reduction from the coefficients in ik.k2 and w[W_K..]; writes cos q2, sin q2 (unnormalised) to w[W_CS], w[W_CS + 1]. */

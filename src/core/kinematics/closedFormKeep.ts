@@ -13,6 +13,8 @@ export interface KeepContext {
   readonly kinSol: Float64Array;
   readonly q6: Float64Array;
   readonly kin: KinematicsScratch;
+  /** couplesDrivenJoints(chain), found once. */
+  readonly coupled: boolean;
 }
 
 /**
@@ -35,7 +37,7 @@ export function keepSolutionsInto(
   let kept = 0;
   const q = ctx.q6;
   for (let s = from; s < count && kept < limit; s++) {
-    if (!drivenInRangeInto(q, ctx.chain, ctx.kinSol, s)) continue;
+    if (!drivenInRangeInto(q, ctx.chain, ctx.kinSol, s, 6, ctx.coupled)) continue;
     if (clampedOntoLimit ? !reachesTarget(ctx, q, T) && !repairNearLimit?.(q) : check && !reachesTarget(ctx, q, T))
       continue;
     // Distinct modulo whole turns (double roots at the edge of reach come out twice); a solver that vouches for
@@ -54,15 +56,22 @@ let clampedOntoLimit = false;
 
 /**
  * Driven values q_d = G⁻¹·(q_kin − offset) (G unit lower triangular, integer) of kinematic solution `s` into q, taken
- * into the ranges by whole turns (or onto a limit); false when a joint cannot be brought inside its range.
+ * into the ranges by whole turns (or onto a limit); false when a joint cannot be brought inside its range. `coupled`
+ * false (couplesDrivenJoints) skips the terms below G's diagonal, all zero then.
  */
-export function drivenInRangeInto(q: Float64Array, chain: Chain, kinSol: Float64Array, s: number, joints = 6): boolean {
+export function drivenInRangeInto(
+  q: Float64Array,
+  chain: Chain,
+  kinSol: Float64Array,
+  s: number,
+  joints = 6,
+  coupled = true,
+): boolean {
   const g = chain.couplingGain,
     off = chain.couplingOffset,
     lo = chain.lowerSi,
     hi = chain.upperSi;
   let inRange = true;
-  const coupled = couplesDrivenJoints(chain);
   for (let i = 0; i < joints; i++) {
     let v = kinSol[s * 6 + i]! - off[i]!;
     if (coupled)
@@ -87,24 +96,11 @@ export function drivenInRangeInto(q: Float64Array, chain: Chain, kinSol: Float64
   return inRange;
 }
 
-/** Chains whose coupling matrix G has an entry below its diagonal (a joint read against another), by chain. */
-const coupledChains = new WeakMap<Chain, boolean>();
-let lastChain: Chain | null = null,
-  lastCoupled = false;
-
-/** Whether G (6 × 6, unit lower triangular here) has an off-diagonal entry; remembered per chain. */
-function couplesDrivenJoints(chain: Chain): boolean {
-  if (chain === lastChain) return lastCoupled;
-  let c = coupledChains.get(chain);
-  if (c === undefined) {
-    const g = chain.couplingGain;
-    c = false;
-    for (let i = 0; i < 6; i++) for (let j = 0; j < i; j++) if (g[i * 6 + j] !== 0) c = true;
-    coupledChains.set(chain, c);
-  }
-  lastChain = chain;
-  lastCoupled = c;
-  return c;
+/** Whether G (6 × 6, unit lower triangular here) has an entry below its diagonal (a joint read against another). */
+export function couplesDrivenJoints(chain: Chain): boolean {
+  const g = chain.couplingGain;
+  for (let i = 0; i < 6; i++) for (let j = 0; j < i; j++) if (g[i * 6 + j] !== 0) return true;
+  return false;
 }
 
 /** Whether the flange at driven values q lies on target T (position to 1 µm, rotation entries to 1e-5). */

@@ -31,7 +31,8 @@ import type { Chain } from "./chain";
 import { createScratch, forwardInto } from "./forward";
 import { mulberry32 } from "../math/random";
 import { sameModuloTurns } from "../math/angles";
-import { rotCsInto } from "../math/mat3";
+import { cross, dot, rotCsInto } from "../math/mat3";
+import { mul4Into } from "../math/mat4";
 import { drivenInRangeInto, type KeepContext } from "./closedFormKeep";
 
 /** Result of {@link orthoParallelKinInto} when the pose lies on a family of solutions. */
@@ -88,21 +89,8 @@ export interface OrthoParallelIk {
   readonly work: Float64Array;
 }
 
-const dot3 = (a: ArrayLike<number>, b: ArrayLike<number>) => a[0]! * b[0]! + a[1]! * b[1]! + a[2]! * b[2]!;
-function cross3(a: ArrayLike<number>, b: ArrayLike<number>): Float64Array {
-  return Float64Array.of(a[1]! * b[2]! - a[2]! * b[1]!, a[2]! * b[0]! - a[0]! * b[2]!, a[0]! * b[1]! - a[1]! * b[0]!);
-}
-/** Row-major 4×4 product a·b. */
-function mul4(a: ArrayLike<number>, b: ArrayLike<number>): Float64Array {
-  const o = new Float64Array(16);
-  for (let i = 0; i < 4; i++)
-    for (let j = 0; j < 4; j++) {
-      let v = 0;
-      for (let k = 0; k < 4; k++) v += a[i * 4 + k]! * b[k * 4 + j]!;
-      o[i * 4 + j] = v;
-    }
-  return o;
-}
+const dot3 = dot;
+const cross3 = (a: ArrayLike<number>, b: ArrayLike<number>): Float64Array => Float64Array.from(cross(a, b));
 
 /**
  * Sets the solver up from the chain's axes at the kinematic zero, or returns null when the chain is not of the class
@@ -112,7 +100,8 @@ export function orthoParallelOf(chain: Chain, wInFlange: ArrayLike<number>): Ort
   if (chain.jointCount !== 6 || chain.drivenCount !== 6) return null;
   // Frames the motions act in at the kinematic zero: W₁ = F₀, Wᵢ₊₁ = Wᵢ·Fᵢ; T₀ = W₆·F₆.
   const frames: Float64Array[] = [chain.fixed.slice(0, 16)];
-  for (let i = 1; i <= 6; i++) frames.push(mul4(frames[i - 1]!, chain.fixed.subarray(16 * i, 16 * i + 16)));
+  for (let i = 1; i <= 6; i++)
+    frames.push(mul4Into(new Float64Array(16), frames[i - 1]!, chain.fixed.subarray(16 * i, 16 * i + 16)));
   const dir = (i: number) => {
     const f = frames[i]!,
       a = chain.axisLocal.subarray(3 * i, 3 * i + 3);
@@ -446,7 +435,7 @@ function armInRange(range: KeepContext, kinSol: Float64Array, s: number, t1: num
   kinSol[s * 6] = t1;
   kinSol[s * 6 + 1] = t2;
   kinSol[s * 6 + 2] = t3;
-  return drivenInRangeInto(range.q6, range.chain, kinSol, s, 3);
+  return drivenInRangeInto(range.q6, range.chain, kinSol, s, 3, range.coupled);
 }
 
 /**

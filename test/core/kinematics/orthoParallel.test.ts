@@ -13,6 +13,7 @@ import { orthoParallelKinInto, orthoParallelOf } from "../../../src/core/kinemat
 import { mulberry32, uniform } from "../../helpers/prng";
 import {
   dimensionsArmInput,
+  randomDimensionsArm,
   generic6rDh,
   generic6rFramesFromDh,
   generic6rFramesUrdfStyle,
@@ -90,18 +91,7 @@ describe("orthoParallel: the closed form of the dimension-drawing class", () => 
   it("round-trips random poses of dimension-drawing arms with random lengths, senses and zero offsets", () => {
     const rnd = mulberry32(1414);
     for (let arm = 0; arm < 20; arm++) {
-      const dims = {
-        a1Mm: uniform(rnd, 0, 300),
-        a2Mm: uniform(rnd, -200, 200),
-        bMm: uniform(rnd, -150, 150),
-        c1Mm: uniform(rnd, 200, 800),
-        c2Mm: uniform(rnd, 300, 1200),
-        c3Mm: uniform(rnd, 300, 1400),
-        c4Mm: uniform(rnd, 50, 250),
-      };
-      const sign = Array.from({ length: 6 }, () => (rnd() < 0.5 ? -1 : 1));
-      const offset = Array.from({ length: 6 }, () => Math.round(uniform(rnd, -180, 180)));
-      const chain = compileChain(dimensionsArm(dims, sign, offset));
+      const chain = compileChain(randomDimensionsArm(rnd));
       for (let t = 0; t < 20; t++) {
         const q = Float64Array.from({ length: 6 }, () => uniform(rnd, -Math.PI, Math.PI));
         const { count, sol, target } = solveBack(chain, q);

@@ -6,12 +6,12 @@
  * dimension-drawing arms with random lengths, senses and zero offsets.
  */
 import { describe, expect, it } from "vitest";
-import { compileChain, createScratch, forwardInto, type ArmKinematicsInput, type Chain } from "../../../src/core";
+import { compileChain, createScratch, forwardInto, type Chain } from "../../../src/core";
 import { sphericalWristIk } from "../../../src/core/kinematics/closedForm";
 import { createOrthoRatesScratch, orthoLineRatesInto } from "../../../src/core/kinematics/orthoParallelRates";
 import { guaranteedFromRates } from "../../../src/core/measures/speed";
 import { determinantInPlace } from "../../../src/core/math/linsolve";
-import { dimensionsArmInput, generic6rDh } from "../../helpers/testArms";
+import { generic6rDh, randomDimensionsArm } from "../../helpers/testArms";
 import { mulberry32, uniform } from "../../helpers/prng";
 
 /** 6 × 6 Jacobian (rows vx, vy, vz, ωx, ωy, ωz; flange origin) by central differences of the forward kinematics. */
@@ -38,26 +38,6 @@ function jacobianFd(chain: Chain, q: Float64Array): Float64Array {
   return j;
 }
 
-function dimensionsArm(rnd: () => number): ArmKinematicsInput {
-  const dims = {
-    a1Mm: uniform(rnd, 0, 300),
-    a2Mm: uniform(rnd, -200, 200),
-    bMm: uniform(rnd, -150, 150),
-    c1Mm: uniform(rnd, 200, 800),
-    c2Mm: uniform(rnd, 300, 1200),
-    c3Mm: uniform(rnd, 300, 1400),
-    c4Mm: uniform(rnd, 50, 250),
-  };
-  const sign = Array.from({ length: 6 }, () => (rnd() < 0.5 ? -1 : 1));
-  const offset = Array.from({ length: 6 }, () => Math.round(uniform(rnd, -180, 180)));
-  return dimensionsArmInput(
-    dims,
-    sign,
-    offset,
-    Array.from({ length: 6 }, () => uniform(rnd, 100, 400)),
-  );
-}
-
 describe("orthoLineRatesInto: joint rates at constant orientation from the decoupled Jacobian", () => {
   const rnd = mulberry32(31);
   // The CHECKS §0 6R with joint 3 read from the horizontal (q₃_kin = q₃ − q₂: a coupling on a driven joint).
@@ -71,7 +51,7 @@ describe("orthoLineRatesInto: joint rates at constant orientation from the decou
   const chains: Chain[] = [
     compileChain(generic6rDh()),
     coupled,
-    ...Array.from({ length: 8 }, () => compileChain(dimensionsArm(rnd))),
+    ...Array.from({ length: 8 }, () => compileChain(randomDimensionsArm(rnd, true))),
   ];
   it("J·B = [I; 0] and det J against the finite-difference Jacobian, at random poses", () => {
     // The coupling is there: joint 3's kinematic value follows joint 2.

@@ -10,7 +10,7 @@
  * solves the cells the closed form leaves (a family of solutions on axis 1) directly.
  */
 import { createScratch, forwardInto } from "../../kinematics/forward";
-import { keepSolutionsInto, type KeepContext } from "../../kinematics/closedFormKeep";
+import { couplesDrivenJoints, keepSolutionsInto, type KeepContext } from "../../kinematics/closedFormKeep";
 import { orthoParallelFamilyInto, orthoParallelKinInto } from "../../kinematics/orthoParallel";
 import { solveIkInto } from "../../kinematics/inverse";
 import { mulberry32 } from "../../math/random";
@@ -238,6 +238,7 @@ export function discoverFamilies(run: MapRun): boolean {
     kinSol: new Float64Array(FAMILY_SAMPLES * 4 * 6),
     q6: new Float64Array(6),
     kin: createScratch(chain),
+    coupled: couplesDrivenJoints(chain),
   };
   const kept = new Float64Array(FAMILY_SAMPLES * 4 * 6);
   const lo = Math.max(chain.lowerSi[0]!, -Math.PI) + chain.couplingOffset[0]!,
